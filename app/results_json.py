@@ -1,0 +1,71 @@
+"""Results as plain JSON-ready data: every key carries its unit as a suffix.
+
+The core's results are SI with the unit in each field name; this edge turns them into nested dicts.
+Speeds leave the core in rad/s and are shown in rpm here, as engineers read them (``*_rad_per_s``
+becomes ``*_rpm``). Array fields (curve tables, chart data) are left out; ``pmdc-sizer curves`` writes
+those.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+import numpy as np
+
+from core.evaluate import CaseResult, Results
+from core.units import from_si
+
+_SPEED_SUFFIX = "_rad_per_s"
+
+
+def _plain(value):
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        out = {}
+        for f in dataclasses.fields(value):
+            item = getattr(value, f.name)
+            if isinstance(item, np.ndarray) or f.name in ("curve", "curves"):
+                continue
+            key, item = _rename(f.name, item)
+            out[key] = _plain(item)
+        return out
+    if isinstance(value, (list, tuple)):
+        return [_plain(v) for v in value]
+    if isinstance(value, dict):
+        return {k: _plain(v) for k, v in value.items()}
+    if isinstance(value, (np.floating, float)):
+        number = float(value)
+        return number if math.isfinite(number) else None
+    if isinstance(value, (np.integer,)):
+        return int(value)
+    if isinstance(value, np.bool_):
+        return bool(value)
+    return value
+
+
+def _rename(name: str, value):
+    if name.endswith(_SPEED_SUFFIX):
+        return name[: -len(_SPEED_SUFFIX)] + "_rpm", from_si(value, "rpm")
+    if name == "speed_torque_gradient_rad_per_s_per_N_m":
+        return "speed_torque_gradient_rpm_per_N_m", from_si(value, "rpm")
+    return name, value
+
+
+def case_json(case: CaseResult) -> dict:
+    return _plain(case)
+
+
+def results_json(results: Results) -> dict:
+    """The evaluation as one JSON object (see README: "Reading the JSON")."""
+    data = _plain(results)
+    nominal = data.pop("nominal")
+    cold = data.pop("cold")
+    hot = data.pop("hot")
+    data["performance"] = nominal
+    data["cases"] = {"cold": cold, "nominal": nominal, "hot": hot}
+    data["checks"] = [
+        {"key": c.key, "title": c.title, "status": c.status, "message": c.message, "advice": c.advice}
+        for c in results.checks
+    ]
+    data["warnings"] = results.warnings
+    return data

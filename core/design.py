@@ -1,0 +1,174 @@
+"""A design in SI, with its materials resolved: what the chain computes on.
+
+:func:`design_from_project` is the one place where the file's engineering units become SI.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from . import library
+from .conductors import Wire, wire
+from .geometry import Geometry
+from .magnets import MagnetGrade
+from .project import Project
+from .steel import Steel
+from .units import to_si
+
+#: IEC 60085 thermal classes: the class is the limiting temperature in °C.
+INSULATION_CLASS_LIMIT_C = {
+    "105 (A)": 105.0, "120 (E)": 120.0, "130 (B)": 130.0, "155 (F)": 155.0,
+    "180 (H)": 180.0, "200 (N)": 200.0, "220 (R)": 220.0,
+}
+
+
+@dataclass(frozen=True)
+class WindingData:
+    kind: str  #: "lap" or "wave"
+    multiplicity: int
+    commutator_segments: int
+    turns_per_coil: int
+    wire: Wire
+    insulation_class: str
+    insulation_limit_C: float  #: IEC 60085 class temperature [°C]
+    end_turn_factor: float
+
+
+@dataclass(frozen=True)
+class LossData:
+    friction_torque: float  #: [N·m]
+    viscous_coeff: float  #: [N·m·s/rad]
+    iron_loss_build_factor: float  #: [1]
+
+
+@dataclass(frozen=True)
+class ThermalData:
+    winding_to_housing: float  #: [K/W]
+    housing_to_ambient: float | None  #: [K/W], None to estimate from the surface
+    convection_coeff: float  #: [W/(m²·K)]
+    time_constant: float  #: [s]
+    duty: str  #: "S1" or "S2"
+    duty_time: float  #: [s]
+
+
+@dataclass(frozen=True)
+class Prices:
+    currency: str
+    magnet: float  #: per kg
+    copper: float
+    housing_steel: float
+    lamination: float
+
+
+@dataclass(frozen=True)
+class Design:
+    """One motor design, SI throughout (temperatures in °C)."""
+
+    project: Project  #: the file-unit source of this design
+    supply_voltage: float  #: [V]
+    brush_drop: float  #: [V]
+    current_limit: float | None  #: [A]
+    load_torque: float  #: rated shaft torque [N·m]
+    load_speed: float  #: required speed at the rated torque [rad/s]
+    ambient_min_C: float
+    ambient_nominal_C: float
+    ambient_max_C: float
+    geometry: Geometry
+    magnet: MagnetGrade
+    housing_steel: Steel
+    lamination_steel: Steel
+    winding: WindingData
+    losses: LossData
+    thermal: ThermalData
+    extra_inertia: float  #: [kg·m²]
+    prices: Prices
+
+    @property
+    def name(self) -> str:
+        return self.project.project.name
+
+
+def magnet_grade_of(project: Project) -> MagnetGrade:
+    if project.magnets.custom_grade is not None:
+        try:
+            return library.grade_from_spec(project.magnets.custom_grade, custom=True)
+        except ValueError as error:
+            from .project import ProjectError
+
+            raise ProjectError(f"magnets.custom_grade: {error}", key="magnets.custom_grade.squareness") from None
+    return library.magnet_grade(project.magnets.grade)
+
+
+def design_from_project(project: Project) -> Design:
+    """Resolve materials and convert every quantity to SI. Raises ``ProjectError`` naming the key."""
+    from .project import ProjectError
+
+    p = project
+    try:
+        winding_wire = wire(p.winding.wire, p.winding.enamel_grade)
+    except ValueError as error:
+        raise ProjectError(f"winding.wire: {error}", key="winding.wire") from None
+    geometry = Geometry(
+        poles=p.motor.poles,
+        magnet_thickness=to_si(p.magnets.thickness_mm, "mm"),
+        magnet_arc=to_si(p.magnets.arc_deg, "deg"),
+        magnet_length=to_si(p.magnets.length_mm, "mm"),
+        airgap=to_si(p.airgap.length_mm, "mm"),
+        housing_wall=to_si(p.housing.wall_mm, "mm"),
+        housing_length=to_si(p.housing.length_mm, "mm"),
+        armature_radius=to_si(p.armature.outer_diameter_mm, "mm") / 2.0,
+        stack_length=to_si(p.armature.stack_length_mm, "mm"),
+        stacking_factor=p.armature.stacking_factor,
+        slots=p.armature.slots,
+        slot_opening=to_si(p.armature.slot_opening_mm, "mm"),
+        tooth_width=to_si(p.armature.tooth_width_mm, "mm"),
+        slot_depth=to_si(p.armature.slot_depth_mm, "mm"),
+        shaft_radius=to_si(p.armature.shaft_diameter_mm, "mm") / 2.0,
+    )
+    w = p.winding
+    return Design(
+        project=p,
+        supply_voltage=p.supply.voltage_V,
+        brush_drop=p.supply.brush_drop_V,
+        current_limit=p.supply.current_limit_A,
+        load_torque=to_si(p.load.torque_mNm, "mN·m"),
+        load_speed=to_si(p.load.speed_rpm, "rpm"),
+        ambient_min_C=p.temperatures.ambient_min_C,
+        ambient_nominal_C=p.temperatures.ambient_nominal_C,
+        ambient_max_C=p.temperatures.ambient_max_C,
+        geometry=geometry,
+        magnet=magnet_grade_of(p),
+        housing_steel=library.steel(p.housing.steel, "housing", "housing.steel"),
+        lamination_steel=library.steel(p.armature.steel, "lamination", "armature.steel"),
+        winding=WindingData(
+            kind=w.type,
+            multiplicity=w.multiplicity,
+            commutator_segments=w.commutator_segments,
+            turns_per_coil=w.turns_per_coil,
+            wire=winding_wire,
+            insulation_class=w.insulation_class,
+            insulation_limit_C=INSULATION_CLASS_LIMIT_C[w.insulation_class],
+            end_turn_factor=w.end_turn_factor,
+        ),
+        losses=LossData(
+            friction_torque=to_si(p.losses.friction_torque_mNm, "mN·m"),
+            viscous_coeff=to_si(p.losses.viscous_mNm_per_krpm, "mN·m/krpm"),
+            iron_loss_build_factor=p.losses.iron_loss_build_factor,
+        ),
+        thermal=ThermalData(
+            winding_to_housing=p.thermal.winding_to_housing_K_per_W,
+            housing_to_ambient=p.thermal.housing_to_ambient_K_per_W,
+            convection_coeff=p.thermal.convection_W_per_m2K,
+            time_constant=to_si(p.thermal.thermal_time_constant_min, "min"),
+            duty=p.thermal.duty,
+            duty_time=to_si(p.thermal.duty_minutes, "min"),
+        ),
+        extra_inertia=to_si(p.rotor.extra_inertia_gcm2, "g·cm2"),
+        prices=Prices(
+            currency=p.prices.currency,
+            magnet=p.prices.magnet_per_kg,
+            copper=p.prices.copper_per_kg,
+            housing_steel=p.prices.housing_steel_per_kg,
+            lamination=p.prices.lamination_per_kg,
+        ),
+    )

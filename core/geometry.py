@@ -1,0 +1,106 @@
+"""Cross-section and lengths of a radial-arc-magnet DC motor, in SI.
+
+Radially from the shaft outwards: shaft, armature core (back iron), slots and teeth, air gap, arc
+magnets glued to the housing bore, housing wall. The armature diameter, gap, magnet thickness and wall
+fix the housing: D_housing = D_armature + 2·(gap + magnet + wall).
+
+Fields may be floats or numpy arrays of the same shape (a sweep); every derived property broadcasts.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class Geometry:
+    poles: int | np.ndarray  #: number of magnet poles [1]
+    magnet_thickness: float | np.ndarray  #: radial [m]
+    magnet_arc: float | np.ndarray  #: mechanical arc of one magnet [rad]
+    magnet_length: float | np.ndarray  #: axial [m]
+    airgap: float | np.ndarray  #: radial clearance armature to magnet [m]
+    housing_wall: float | np.ndarray  #: [m]
+    housing_length: float | np.ndarray  #: axial [m]
+    armature_radius: float | np.ndarray  #: outer radius of the lamination stack [m]
+    stack_length: float | np.ndarray  #: axial [m]
+    stacking_factor: float | np.ndarray  #: steel fraction of the stack [1]
+    slots: int | np.ndarray  #: [1]
+    slot_opening: float | np.ndarray  #: [m]
+    tooth_width: float | np.ndarray  #: parallel-sided [m]
+    slot_depth: float | np.ndarray  #: radial, from the armature surface [m]
+    shaft_radius: float | np.ndarray  #: [m]
+
+    # --- radii
+    @property
+    def magnet_inner_radius(self):
+        return self.armature_radius + self.airgap
+
+    @property
+    def housing_inner_radius(self):
+        return self.magnet_inner_radius + self.magnet_thickness
+
+    @property
+    def housing_outer_radius(self):
+        return self.housing_inner_radius + self.housing_wall
+
+    @property
+    def slot_bottom_radius(self):
+        return self.armature_radius - self.slot_depth
+
+    @property
+    def core_depth(self):
+        """Radial depth of the armature back iron between slot bottoms and shaft [m]."""
+        return self.slot_bottom_radius - self.shaft_radius
+
+    # --- angles and pitches
+    @property
+    def pole_pitch_angle(self):
+        return 2.0 * np.pi / self.poles
+
+    @property
+    def magnet_embrace(self):
+        """Magnet arc as a fraction of the pole pitch [1]."""
+        return self.magnet_arc / self.pole_pitch_angle
+
+    @property
+    def slot_pitch(self):
+        """Slot pitch at the armature surface [m]."""
+        return 2.0 * np.pi * self.armature_radius / self.slots
+
+    @property
+    def overhang(self):
+        """Axial overhang of the magnet beyond the stack at each end [m]."""
+        return (self.magnet_length - self.stack_length) / 2.0
+
+    # --- areas
+    @property
+    def slot_area(self):
+        """Cross-section of one slot between parallel-sided teeth, tooth tips ignored [m²]."""
+        outer, inner = self.armature_radius, self.slot_bottom_radius
+        return np.pi * (outer**2 - inner**2) / self.slots - self.tooth_width * self.slot_depth
+
+    @property
+    def magnet_volume(self):
+        """Volume of all magnets [m³]."""
+        ro, ri = self.housing_inner_radius, self.magnet_inner_radius
+        return self.poles * 0.5 * self.magnet_arc * (ro**2 - ri**2) * self.magnet_length
+
+    @property
+    def housing_volume(self):
+        return np.pi * (self.housing_outer_radius**2 - self.housing_inner_radius**2) * self.housing_length
+
+    @property
+    def lamination_volume(self):
+        """Steel volume of the stack: disc less shaft bore and slots, times stacking factor [m³]."""
+        area = np.pi * (self.armature_radius**2 - self.shaft_radius**2) - self.slots * self.slot_area
+        return area * self.stack_length * self.stacking_factor
+
+    @property
+    def teeth_volume(self):
+        return self.slots * self.tooth_width * self.slot_depth * self.stack_length * self.stacking_factor
+
+    @property
+    def core_volume(self):
+        return np.pi * (self.slot_bottom_radius**2 - self.shaft_radius**2) * self.stack_length * self.stacking_factor

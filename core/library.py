@@ -1,0 +1,180 @@
+"""The material library: built-in magnet grades and steels, plus the user's own.
+
+Built-in data live in ``core/data/*.toml``. A user's own grades and steels are TOML files of the same
+form in the user library folder: ``$PMDC_SIZER_LIBRARY`` if set, else the platform's user data folder
+(``platformdirs.user_data_dir("pmdc-sizer")/library``). Each file holds ``[[grade]]`` and/or
+``[[steel]]`` tables; every entry is validated by the same schema as an inline custom grade in a
+project file, and a user entry with a built-in's name replaces it (so a certified curve can stand in for
+the typical one).
+"""
+
+from __future__ import annotations
+
+import os
+import tomllib
+from functools import lru_cache
+from importlib import resources
+from pathlib import Path
+from typing import Literal
+
+from pydantic import BaseModel, ConfigDict, Field, ValidationError
+
+from .magnets import MagnetGrade
+from .project import CustomGrade, ProjectError, _format_validation_error
+from .steel import Steel
+from .units import to_si
+
+
+class SteelSpec(BaseModel):
+    model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
+
+    name: str = Field(..., min_length=1)
+    kind: Literal["housing", "lamination"]
+    field_strength_A_per_m: list[float] = Field(..., min_length=3)
+    flux_density_T: list[float] = Field(..., min_length=3)
+    density_kg_per_m3: float = Field(..., ge=1000.0, le=10000.0)
+    hysteresis_coeff: float = Field(0.0, ge=0.0)
+    hysteresis_exponent: float = Field(2.0, ge=1.0, le=3.0)
+    eddy_coeff: float = Field(0.0, ge=0.0)
+    excess_coeff: float = Field(0.0, ge=0.0)
+    recommended_max_flux_density_T: float = Field(1.6, gt=0.0, le=2.5)
+    source: str = ""
+
+
+def grade_from_spec(spec: CustomGrade, custom: bool = False) -> MagnetGrade:
+    """A :class:`MagnetGrade` in SI from the file-unit schema."""
+    grade = MagnetGrade(
+        name=spec.name,
+        family=spec.family,
+        remanence=spec.remanence_T,
+        coercivity_hcb=to_si(spec.coercivity_HcB_kA_per_m, "kA/m"),
+        coercivity_hcj=to_si(spec.coercivity_HcJ_kA_per_m, "kA/m"),
+        energy_product=to_si(spec.energy_product_kJ_per_m3, "kJ/m3"),
+        recoil_permeability=spec.recoil_permeability,
+        squareness=spec.squareness,
+        remanence_temp_coeff=to_si(spec.remanence_temp_coeff_pct_per_K, "%/K"),
+        coercivity_temp_coeff=to_si(spec.coercivity_temp_coeff_pct_per_K, "%/K"),
+        max_working_temperature_C=spec.max_working_temperature_C,
+        density=spec.density_kg_per_m3,
+        source=spec.source,
+        custom=custom,
+    )
+    grade.knee_width_ratio  # fails early, with the grade's name, if the curve cannot be built
+    return grade
+
+
+def steel_from_spec(spec: SteelSpec) -> Steel:
+    return Steel(
+        name=spec.name,
+        kind=spec.kind,
+        field_strength=tuple(spec.field_strength_A_per_m),
+        flux_density=tuple(spec.flux_density_T),
+        density=spec.density_kg_per_m3,
+        hysteresis_coeff=spec.hysteresis_coeff,
+        hysteresis_exponent=spec.hysteresis_exponent,
+        eddy_coeff=spec.eddy_coeff,
+        excess_coeff=spec.excess_coeff,
+        recommended_max_flux_density=spec.recommended_max_flux_density_T,
+        source=spec.source,
+    )
+
+
+def user_library_folder() -> Path:
+    override = os.environ.get("PMDC_SIZER_LIBRARY")
+    if override:
+        return Path(override)
+    import platformdirs
+
+    return Path(platformdirs.user_data_dir("pmdc-sizer", appauthor=False)) / "library"
+
+
+def _entries(data: dict, source: str):
+    unknown = set(data) - {"grade", "steel"}
+    if unknown:
+        raise ProjectError(f"{source}: unknown table {sorted(unknown)[0]!r} (a library file holds [[grade]] and [[steel]])")
+    for index, entry in enumerate(data.get("grade", [])):
+        try:
+            yield "grade", grade_from_spec(CustomGrade.model_validate(entry), custom=source != "built-in")
+        except ValidationError as error:
+            message = _format_validation_error(error)
+            raise ProjectError(f"{source}: grade[{index}].{message}") from None
+        except ValueError as error:
+            raise ProjectError(f"{source}: grade[{index}]: {error}") from None
+    for index, entry in enumerate(data.get("steel", [])):
+        try:
+            yield "steel", steel_from_spec(SteelSpec.model_validate(entry))
+        except ValidationError as error:
+            raise ProjectError(f"{source}: steel[{index}].{_format_validation_error(error)}") from None
+        except ValueError as error:
+            raise ProjectError(f"{source}: steel[{index}]: {error}") from None
+
+
+def _read_toml(text: str, source: str) -> dict:
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise ProjectError(f"{source}: not a valid TOML file ({error})") from None
+
+
+@lru_cache(maxsize=1)
+def _builtin() -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
+    grades: dict[str, MagnetGrade] = {}
+    steels: dict[str, Steel] = {}
+    data_folder = resources.files("core") / "data"
+    for filename in ("magnets.toml", "steels.toml"):
+        data = _read_toml((data_folder / filename).read_text(encoding="utf-8"), "built-in")
+        for kind, item in _entries(data, "built-in"):
+            (grades if kind == "grade" else steels)[item.name] = item
+    return grades, steels
+
+
+def _user(folder: Path) -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
+    grades: dict[str, MagnetGrade] = {}
+    steels: dict[str, Steel] = {}
+    if folder.is_dir():
+        for path in sorted(folder.glob("*.toml")):
+            data = _read_toml(path.read_text(encoding="utf-8"), str(path))
+            for kind, item in _entries(data, str(path)):
+                (grades if kind == "grade" else steels)[item.name] = item
+    return grades, steels
+
+
+@lru_cache(maxsize=8)
+def _library(folder: str) -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
+    grades, steels = dict(_builtin()[0]), dict(_builtin()[1])
+    user_grades, user_steels = _user(Path(folder))
+    grades.update(user_grades)
+    steels.update(user_steels)
+    return grades, steels
+
+
+def magnet_grades() -> dict[str, MagnetGrade]:
+    """Every grade by name: built-in first, the user's own after (replacing a built-in of the same name)."""
+    return _library(str(user_library_folder()))[0]
+
+
+def steels() -> dict[str, Steel]:
+    return _library(str(user_library_folder()))[1]
+
+
+def reload() -> None:
+    """Forget cached user-library contents (after the user adds a file)."""
+    _library.cache_clear()
+
+
+def magnet_grade(name: str, key: str = "magnets.grade") -> MagnetGrade:
+    grades = magnet_grades()
+    if name not in grades:
+        raise ProjectError(f"{key} = {name!r}: not in the magnet library (`pmdc-sizer grades` lists them)", key=key)
+    return grades[name]
+
+
+def steel(name: str, kind: str, key: str) -> Steel:
+    library = steels()
+    if name not in library:
+        names = ", ".join(sorted(s for s, v in library.items() if v.kind == kind))
+        raise ProjectError(f"{key} = {name!r}: not in the steel library ({kind} steels: {names})", key=key)
+    item = library[name]
+    if item.kind != kind:
+        raise ProjectError(f"{key} = {name!r}: is a {item.kind} steel, not a {kind} steel", key=key)
+    return item

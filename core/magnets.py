@@ -1,0 +1,206 @@
+"""Permanent-magnet grades and their demagnetization curves at any temperature.
+
+Model
+-----
+The intrinsic (polarization) curve in the second quadrant is a straight recoil line with a knee that
+drops it to zero at H = -HcJ:
+
+    J(H) = Jr(H) - A · (exp((u - HcJ)/h) - exp(-HcJ/h)) / (1 - exp(-HcJ/h)),   u = -H,
+    Jr(H) = Br + μ0 (μrec - 1) H,      A = Jr(-HcJ),
+
+so that J(0) = Br, J(-HcJ) = 0 and the slope at small fields is the recoil slope. The knee width ``h``
+is fixed once per grade so that J(-Hk) = 0.9 Br at the reference temperature, with Hk = squareness · HcJ
+(the 0.9 Br definition of Hk is the industry's, from memory of IEC 60404-5 and MMPA 0100-00); ``h/HcJ``
+is then held constant, so the knee keeps its shape as HcJ moves with temperature. The normal curve is
+B(H) = μ0 H + J(H).
+
+Temperature: Br(T) = Br20 (1 + α (T - 20 °C)) and HcJ(T) = HcJ20 (1 + β (T - 20 °C)), the reversible
+coefficients as suppliers state them (IEC 60404-8-1 gives them per grade family). Hard ferrite has
+β > 0, so its knee moves toward the operating region when cold; NdFeB has β < 0 and loses its knee
+margin when hot.
+
+The knee field reported for the demagnetization checks is -Hk(T) = -squareness · HcJ(T).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from functools import cached_property
+
+import numpy as np
+from scipy.optimize import brentq
+
+from .solvers import find_root
+from .units import MU_0
+
+REFERENCE_TEMPERATURE_C = 20.0
+
+FAMILIES = (
+    "sintered NdFeB",
+    "bonded NdFeB",
+    "SmCo 1:5",
+    "SmCo 2:17",
+    "hard ferrite, isotropic",
+    "hard ferrite, anisotropic",
+    "AlNiCo",
+)
+
+_MAX_EXPONENT = 50.0  # keeps exp() finite far past the knee, where the curve is never used
+
+
+@dataclass(frozen=True)
+class MagnetGrade:
+    """A magnet grade's typical properties at 20 °C, in SI units."""
+
+    name: str
+    family: str
+    remanence: float  #: Br [T]
+    coercivity_hcb: float  #: HcB, normal coercivity [A/m], positive
+    coercivity_hcj: float  #: HcJ, intrinsic coercivity [A/m], positive
+    energy_product: float  #: (BH)max [J/m³]
+    recoil_permeability: float  #: μrec, relative [1]
+    squareness: float  #: Hk/HcJ [1]
+    remanence_temp_coeff: float  #: α of Br [1/K], reversible
+    coercivity_temp_coeff: float  #: β of HcJ [1/K], reversible
+    max_working_temperature_C: float  #: supplier's maximum working temperature [°C]
+    density: float  #: [kg/m³]
+    source: str = ""
+    custom: bool = field(default=False, compare=False)
+
+    @cached_property
+    def knee_width_ratio(self) -> float:
+        """h/HcJ of the knee term, fixed so that J(-Hk) = 0.9 Br at 20 °C."""
+        br, hcj, hk = self.remanence, self.coercivity_hcj, self.squareness * self.coercivity_hcj
+        recoil_slope = MU_0 * (self.recoil_permeability - 1.0)
+        j_recoil_at_hk = br - recoil_slope * hk
+        if j_recoil_at_hk <= 0.9 * br:
+            raise ValueError(
+                f"magnet grade {self.name!r}: squareness {self.squareness:g} is too low for its recoil "
+                f"permeability {self.recoil_permeability:g}; the recoil line alone falls below 0.9·Br "
+                "before Hk (raise squareness or lower recoil_permeability)"
+            )
+        amplitude = br - recoil_slope * hcj
+
+        def miss(ratio: float) -> float:
+            return float(_knee_drop(hk, hcj, amplitude, ratio * hcj)) - (j_recoil_at_hk - 0.9 * br)
+
+        return brentq(miss, 1e-4, 10.0, xtol=1e-14)
+
+
+def remanence_at(grade: MagnetGrade, temperature_C):
+    """Br at temperature [T], reversible coefficient (IEC 60404-8-1 states it per grade family)."""
+    return grade.remanence * (1.0 + grade.remanence_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C))
+
+
+def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C):
+    """HcJ at temperature [A/m], positive."""
+    return grade.coercivity_hcj * (
+        1.0 + grade.coercivity_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C)
+    )
+
+
+def knee_field_at(grade: MagnetGrade, temperature_C):
+    """The knee, -Hk = -squareness·HcJ(T) [A/m] (negative): fields below it demagnetize irreversibly."""
+    return -grade.squareness * intrinsic_coercivity_at(grade, temperature_C)
+
+
+def _knee_drop(demag_field, hcj, amplitude, width):
+    """The knee term of the intrinsic curve at demagnetizing field ``demag_field`` = -H >= 0."""
+    exponent = np.minimum((demag_field - hcj) / width, _MAX_EXPONENT)
+    offset = np.exp(-hcj / width)
+    return amplitude * (np.exp(exponent) - offset) / (1.0 - offset)
+
+
+@dataclass(frozen=True)
+class CurveAtTemperature:
+    """The constants of the curve model at one temperature (arrays broadcast), for repeated lookups."""
+
+    remanence: np.ndarray  #: Br(T) [T]
+    coercivity_hcj: np.ndarray  #: HcJ(T) [A/m]
+    recoil_slope: float  #: μ0·(μrec - 1) [T·m/A]
+    amplitude: np.ndarray  #: A = Jr(-HcJ) [T]
+    width: np.ndarray  #: knee width h [A/m]
+
+    def polarization(self, field_strength):
+        """J(H) [T]; floored at -Br far beyond -HcJ, where the model is no longer used."""
+        j = (self.remanence + self.recoil_slope * field_strength
+             - _knee_drop(-field_strength, self.coercivity_hcj, self.amplitude, self.width))
+        return np.maximum(j, -self.remanence)
+
+    def flux_density(self, field_strength):
+        """Normal curve B(H) = μ0·H + J(H) [T]."""
+        return MU_0 * field_strength + self.polarization(field_strength)
+
+
+def curve_at(grade: MagnetGrade, temperature_C) -> CurveAtTemperature:
+    br = remanence_at(grade, temperature_C)
+    hcj = intrinsic_coercivity_at(grade, temperature_C)
+    recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
+    return CurveAtTemperature(br, hcj, recoil_slope, br - recoil_slope * hcj, grade.knee_width_ratio * hcj)
+
+
+def polarization(grade: MagnetGrade, field_strength, temperature_C):
+    """Intrinsic curve J(H) [T] at field ``field_strength`` [A/m] and temperature [°C]."""
+    return curve_at(grade, temperature_C).polarization(field_strength)
+
+
+def flux_density(grade: MagnetGrade, field_strength, temperature_C):
+    """Normal curve B(H) = μ0·H + J(H) [T]."""
+    return curve_at(grade, temperature_C).flux_density(field_strength)
+
+
+def normal_coercivity_at(grade: MagnetGrade, temperature_C):
+    """HcB of the model at temperature [A/m], positive: where the normal curve crosses B = 0."""
+    temperature_C = np.asarray(temperature_C, dtype=float)
+    hcj = intrinsic_coercivity_at(grade, temperature_C)
+    result = find_root(lambda h: flux_density(grade, h, temperature_C), -hcj, np.zeros_like(hcj))
+    return -result.root
+
+
+def energy_product_of_curve(grade: MagnetGrade, temperature_C, samples: int = 4001) -> float:
+    """(BH)max of the model's normal curve [J/m³], by dense sampling of -B·H."""
+    hcb = float(normal_coercivity_at(grade, temperature_C))
+    h = np.linspace(-hcb, 0.0, samples)
+    return float(np.max(-h * flux_density(grade, h, temperature_C)))
+
+
+def linear_energy_product(remanence, recoil_permeability):
+    """(BH)max of a straight normal curve, Br²/(4·μ0·μrec) [J/m³].
+
+    References
+    ----------
+    .. [1] P. Campbell, "Permanent Magnet Materials and their Application", Cambridge University
+       Press, 1994, ch. 2 (maximum of -B·H on a straight line from Br to HcB = Br/(μ0·μrec)).
+    """
+    return remanence**2 / (4.0 * MU_0 * recoil_permeability)
+
+
+@dataclass(frozen=True)
+class DemagnetizationCurves:
+    """Plot data of one grade at one temperature (SI)."""
+
+    temperature_C: float
+    field_strength: np.ndarray  #: H [A/m]
+    flux_density: np.ndarray  #: normal curve B [T]
+    polarization: np.ndarray  #: intrinsic curve J [T]
+    knee_field: float  #: -Hk [A/m]
+    knee_flux_density: float  #: B at the knee [T]
+    remanence: float  #: Br [T]
+    coercivity_hcj: float  #: HcJ [A/m]
+
+
+def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: int = 300) -> DemagnetizationCurves:
+    """Second-quadrant normal and intrinsic curves from H = -1.1·HcJ to 0, for charts."""
+    hcj = float(intrinsic_coercivity_at(grade, temperature_C))
+    h = np.linspace(-1.1 * hcj, 0.0, samples)
+    knee = float(knee_field_at(grade, temperature_C))
+    return DemagnetizationCurves(
+        temperature_C=float(temperature_C),
+        field_strength=h,
+        flux_density=flux_density(grade, h, temperature_C),
+        polarization=polarization(grade, h, temperature_C),
+        knee_field=knee,
+        knee_flux_density=float(flux_density(grade, knee, temperature_C)),
+        remanence=float(remanence_at(grade, temperature_C)),
+        coercivity_hcj=hcj,
+    )

@@ -1,0 +1,187 @@
+"""Steady-state performance at the supply voltage, from no load to stall.
+
+Circuit: V = Vb + R·I + K·ω (constant brush drop Vb). Torque balance: K·I = T + T_loss(ω) with
+
+    T_loss(ω) = Tf + Th + (Bv + Be)·ω + Bx·√ω
+
+where Tf is friction, Bv viscous drag, and Th, Be, Bx are the hysteresis, eddy and excess parts of the
+armature's iron loss written as torques (P_iron = Th·ω + Be·ω² + Bx·ω^1.5, see :func:`iron_loss_terms`).
+Substituting I gives a quadratic in s = √ω with a closed-form root, so speed at any torque needs no
+iteration:
+
+    (K²/R + Bv + Be)·s² + Bx·s - (K·(V - Vb)/R - Tf - Th - T) = 0.
+
+Losses are summed per IEC 60034-2-1 (efficiency by summation of losses): input V·I equals output T·ω
+plus copper, brush, friction, viscous and iron losses, exactly.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class IronLossTerms:
+    """Armature iron loss P = hysteresis·ω + eddy·ω² + excess·ω^1.5 [W], ω in rad/s."""
+
+    hysteresis: float | np.ndarray  #: [N·m]
+    eddy: float | np.ndarray  #: [N·m·s/rad]
+    excess: float | np.ndarray  #: [N·m·(s/rad)^0.5]
+
+    def power(self, speed):
+        return self.hysteresis * speed + self.eddy * speed**2 + self.excess * speed**1.5
+
+
+def iron_loss_terms(steel, poles, parts, build_factor) -> IronLossTerms:
+    """Iron-loss coefficients of the armature from the steel's loss-separation law.
+
+    ``parts`` is a sequence of (mass [kg], peak flux density [T]) for teeth and core. The armature
+    iron sees a magnetic frequency f = (p/2)·ω/(2π) as it turns past the p poles.
+    """
+    hz_per_rad_s = poles / (4.0 * np.pi)
+    hysteresis = eddy = excess = 0.0
+    for mass, flux_density in parts:
+        b = np.abs(flux_density)
+        hysteresis = hysteresis + mass * steel.hysteresis_coeff * b**steel.hysteresis_exponent * hz_per_rad_s
+        eddy = eddy + mass * steel.eddy_coeff * b**2 * hz_per_rad_s**2
+        excess = excess + mass * steel.excess_coeff * b**1.5 * hz_per_rad_s**1.5
+    return IronLossTerms(build_factor * hysteresis, build_factor * eddy, build_factor * excess)
+
+
+@dataclass(frozen=True)
+class MotorModel:
+    """What the steady state needs at one temperature case (SI)."""
+
+    voltage: float  #: [V]
+    brush_drop: float  #: [V]
+    resistance: float  #: terminal resistance at this case's winding temperature [Ω]
+    constant: float  #: Ke = Kt [V·s/rad]
+    friction_torque: float  #: [N·m]
+    viscous_coeff: float  #: [N·m·s/rad]
+    iron: IronLossTerms
+
+
+def speed_at_torque(model: MotorModel, torque):
+    """Speed [rad/s] at shaft torque [N·m]: the closed-form root above; 0 at and beyond stall."""
+    m = model
+    quadratic = m.constant**2 / m.resistance + m.viscous_coeff + m.iron.eddy
+    available = m.constant * (m.voltage - m.brush_drop) / m.resistance - m.friction_torque - m.iron.hysteresis - torque
+    linear = m.iron.excess
+    root_s = (-linear + np.sqrt(linear**2 + 4.0 * quadratic * np.maximum(available, 0.0))) / (2.0 * quadratic)
+    return root_s**2
+
+
+def loss_torque(model: MotorModel, speed):
+    m = model
+    return m.friction_torque + m.iron.hysteresis + (m.viscous_coeff + m.iron.eddy) * speed + m.iron.excess * np.sqrt(speed)
+
+
+def stall_current(model: MotorModel):
+    """(V - Vb)/R [A]."""
+    return (model.voltage - model.brush_drop) / model.resistance
+
+
+def stall_torque(model: MotorModel):
+    """Shaft torque at zero speed [N·m]: K·I_stall less friction and hysteresis drag (never below 0)."""
+    return np.maximum(model.constant * stall_current(model) - model.friction_torque - model.iron.hysteresis, 0.0)
+
+
+@dataclass(frozen=True)
+class OperatingPoints:
+    """Steady state at each given shaft torque (SI arrays)."""
+
+    torque: np.ndarray  #: shaft torque [N·m]
+    speed: np.ndarray  #: [rad/s]
+    current: np.ndarray  #: [A]
+    input_power: np.ndarray  #: V·I [W]
+    output_power: np.ndarray  #: T·ω [W]
+    copper_loss: np.ndarray  #: I²·R [W]
+    brush_loss: np.ndarray  #: Vb·I [W]
+    friction_loss: np.ndarray  #: Tf·ω [W]
+    viscous_loss: np.ndarray  #: Bv·ω² [W]
+    iron_loss: np.ndarray  #: [W]
+    efficiency: np.ndarray  #: output/input [1]
+
+    @property
+    def total_loss(self):
+        return self.copper_loss + self.brush_loss + self.friction_loss + self.viscous_loss + self.iron_loss
+
+
+def operating_points(model: MotorModel, torque) -> OperatingPoints:
+    """Everything at the given shaft torques (from no load to stall)."""
+    m = model
+    torque = np.asarray(torque, dtype=float)
+    speed = speed_at_torque(m, torque)
+    current = (m.voltage - m.brush_drop - m.constant * speed) / m.resistance
+    input_power = m.voltage * current
+    output_power = torque * speed
+    with np.errstate(divide="ignore", invalid="ignore"):
+        efficiency = np.where(input_power > 0.0, output_power / input_power, 0.0)
+    return OperatingPoints(
+        torque=torque,
+        speed=speed,
+        current=current,
+        input_power=input_power,
+        output_power=output_power,
+        copper_loss=current**2 * m.resistance,
+        brush_loss=m.brush_drop * current,
+        friction_loss=m.friction_torque * speed,
+        viscous_loss=m.viscous_coeff * speed**2,
+        iron_loss=m.iron.power(speed),
+        efficiency=efficiency,
+    )
+
+
+def _refined_maximum(model: MotorModel, stall: float, values_of, samples: int = 200, rounds: int = 2):
+    """Torque of the maximum of ``values_of(points)`` by a grid search refined around the best cell."""
+    low, high = 0.0, stall
+    best = 0.0
+    for _ in range(rounds + 1):
+        torque = np.linspace(low, high, samples)
+        values = values_of(operating_points(model, torque))
+        index = int(np.argmax(values))
+        best = float(torque[index])
+        step = (high - low) / (samples - 1)
+        low, high = max(best - step, 0.0), min(best + step, stall)
+    return best
+
+
+@dataclass(frozen=True)
+class SpeedTorqueCurve:
+    """A whole speed-torque characteristic at one temperature case, with its named points."""
+
+    curve: OperatingPoints  #: from no load (first) to stall (last), evenly spaced in torque
+    no_load: OperatingPoints  #: T = 0
+    stall: OperatingPoints  #: ω = 0
+    max_efficiency: OperatingPoints
+    max_power: OperatingPoints
+    rated: OperatingPoints  #: at the load torque (at stall if the load is beyond it)
+    rated_reached: bool  #: False when the load torque is at or beyond stall
+    speed_torque_gradient: float  #: no-load speed over stall torque [rad/s per N·m], positive
+
+
+def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 200) -> SpeedTorqueCurve:
+    """The characteristic from no load to stall and its named points."""
+    stall = float(stall_torque(model))
+    curve = operating_points(model, np.linspace(0.0, stall, samples))
+    no_load = operating_points(model, 0.0)
+    if stall > 0.0:
+        eta_torque = _refined_maximum(model, stall, lambda p: p.efficiency)
+        power_torque = _refined_maximum(model, stall, lambda p: p.output_power)
+        gradient = float(no_load.speed) / stall
+    else:
+        eta_torque = power_torque = 0.0
+        gradient = float("inf")
+    rated_reached = rated_torque < stall
+    return SpeedTorqueCurve(
+        curve=curve,
+        no_load=no_load,
+        stall=operating_points(model, stall),
+        max_efficiency=operating_points(model, eta_torque),
+        max_power=operating_points(model, power_torque),
+        rated=operating_points(model, min(rated_torque, stall)),
+        rated_reached=bool(rated_reached),
+        speed_torque_gradient=gradient,
+    )
