@@ -14,7 +14,7 @@ is the no-load field plus ΔH (common practice: the no-load operating point stan
 Rotor removed: the magnets face the open bore. The per-pole circuit keeps the housing and the magnet
 and replaces gap, teeth and core by an air path half the chord between adjacent pole centres,
 R·sin(π/p), across the magnet's inner face (our estimate, no source; for two poles it is the bore
-radius).
+radius). The leakage paths between the magnets' edges and to the housing are kept as with the rotor in.
 
 A case passes when its field stays above the knee at its temperature: margin = H - H_knee > 0.
 """
@@ -45,7 +45,7 @@ def rotor_removed_circuit(geometry: Geometry, circuit: PoleCircuit) -> PoleCircu
         circuit,
         gap_area=face_area,
         effective_gap=open_path + zero,
-        leakage_permeance=zero,  # the open path already is the leakage path
+        # the leakage paths between magnet edges and to the housing stay as they are
         tooth_path=zero,
         core_path=zero,
     )

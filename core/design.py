@@ -68,6 +68,7 @@ class Design:
     supply_voltage: float  #: [V]
     brush_drop: float  #: [V]
     current_limit: float | None  #: [A]
+    reversing: bool  #: the application plugs the motor at speed
     load_torque: float  #: rated shaft torque [N·m]
     load_speed: float  #: required speed at the rated torque [rad/s]
     ambient_min_C: float
@@ -131,6 +132,7 @@ def design_from_project(project: Project) -> Design:
         supply_voltage=p.supply.voltage_V,
         brush_drop=p.supply.brush_drop_V,
         current_limit=p.supply.current_limit_A,
+        reversing=p.supply.reversing,
         load_torque=to_si(p.load.torque_mNm, "mN·m"),
         load_speed=to_si(p.load.speed_rpm, "rpm"),
         ambient_min_C=p.temperatures.ambient_min_C,

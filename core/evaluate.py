@@ -38,6 +38,7 @@ from .magnets import (
     flux_density,
     intrinsic_coercivity_at,
     knee_field_at,
+    model_temperature_range_C,
     normal_coercivity_at,
     remanence_at,
 )
@@ -358,10 +359,15 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     # 1-3. Magnetic circuit: one vectorised solve over a temperature grid for the thermal iteration,
     # with the cold and nominal cases exactly on it.
     circuit = mc.pole_circuit(g, grade.recoil_permeability)
+    model_low_C, model_high_C = model_temperature_range_C(grade)
+    if not (model_low_C < d.ambient_min_C and d.ambient_max_C < model_high_C):
+        raise mc.MagneticCircuitError(
+            f"the ambient range {d.ambient_min_C:g} to {d.ambient_max_C:g} °C is outside the range where "
+            f"{grade.name}'s temperature coefficients hold ({model_low_C:.0f} to {model_high_C:.0f} °C)")
+    grid_top = min(max(d.ambient_max_C + 250.0, grade.max_working_temperature_C + 50.0), model_high_C)
     grid = np.concatenate((
         [d.ambient_min_C, d.ambient_nominal_C],
-        np.linspace(d.ambient_min_C, max(d.ambient_max_C + 250.0, grade.max_working_temperature_C + 50.0),
-                    _GRID_POINTS),
+        np.linspace(d.ambient_min_C, grid_top, _GRID_POINTS),
     ))
     grid_point = mc.solve(grade, grid, circuit, d.housing_steel, d.lamination_steel)
     mc.require_converged(grid_point)
@@ -441,6 +447,11 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         name: np.concatenate((np.broadcast_to(getattr(circuit, name), (3,)), np.broadcast_to(getattr(open_circuit, name), (2,))))
         for name in vars(circuit)
     })
+    if magnet_C >= model_high_C:
+        # The hot magnet would be past the point where its coefficients mean anything: the thermal
+        # result already fails; evaluate the hot case at the edge of the model instead of crashing.
+        magnet_C = model_high_C
+        converged = False
     case_temperatures = np.array([d.ambient_min_C, d.ambient_nominal_C, magnet_C, d.ambient_min_C, d.ambient_max_C])
     exact = mc.solve(grade, case_temperatures, stacked, d.housing_steel, d.lamination_steel)
     mc.require_converged(exact, "the magnetic circuit (cold, nominal, hot or rotor removed)")
@@ -515,8 +526,16 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         stall_i = float(stall_current(model))
         back_emf = model.constant * case.no_load_speed_rad_per_s
         reversal_i = (d.supply_voltage + back_emf - d.brush_drop) / model.resistance
-        add_case(f"stall, {label}", "stall", case.magnet_temperature_C, stall_i, no_load_field)
-        add_case(f"reversal at no-load speed, {label}", "reversal", case.magnet_temperature_C, reversal_i, no_load_field)
+        limited = ""
+        if d.current_limit is not None:
+            # The drive holds the current at its limit whatever the load asks for.
+            limited = " (drive-limited)" if min(stall_i, reversal_i) > d.current_limit else ""
+            stall_i, reversal_i = min(stall_i, d.current_limit), min(reversal_i, d.current_limit)
+        add_case(f"stall, {label}" + (" (drive-limited)" if limited and stall_i == d.current_limit else ""),
+                 "stall", case.magnet_temperature_C, stall_i, no_load_field)
+        if d.reversing:
+            add_case(f"reversal at no-load speed, {label}" + (" (drive-limited)" if d.current_limit is not None and reversal_i == d.current_limit else ""),
+                     "reversal", case.magnet_temperature_C, reversal_i, no_load_field)
         if d.current_limit is not None:
             add_case(f"drive current limit, {label}", "current limit", case.magnet_temperature_C, d.current_limit, no_load_field)
     add_case("rotor removed, cold", "rotor removed", d.ambient_min_C, 0.0, float(exact.magnet_field[3]))

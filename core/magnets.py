@@ -99,6 +99,18 @@ def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C):
     )
 
 
+def model_temperature_range_C(grade: MagnetGrade) -> tuple[float, float]:
+    """Temperatures between which the linear reversible coefficients keep Br and HcJ above a quarter of
+    their 20 °C values; beyond them the model says nothing useful (our bound)."""
+    low, high = -273.0, 1000.0
+    for coefficient in (grade.remanence_temp_coeff, grade.coercivity_temp_coeff):
+        if coefficient < 0.0:
+            high = min(high, REFERENCE_TEMPERATURE_C - 0.75 / coefficient)
+        elif coefficient > 0.0:
+            low = max(low, REFERENCE_TEMPERATURE_C - 0.75 / coefficient)
+    return low, high
+
+
 def knee_field_at(grade: MagnetGrade, temperature_C):
     """The knee, -Hk = -squareness·HcJ(T) [A/m] (negative): fields below it demagnetize irreversibly."""
     return -grade.squareness * intrinsic_coercivity_at(grade, temperature_C)

@@ -66,6 +66,7 @@ class Supply(_Section):
     voltage_V: float = quantity(12.0, "V", 1.0, 600.0, "DC supply voltage at the motor terminals.")
     brush_drop_V: float = quantity(1.0, "V", 0.0, 10.0, "Total voltage drop across both brushes at rated current.")
     current_limit_A: Optional[float] = quantity(None, "A", 0.01, 5000.0, "Current limit of the drive, if it has one; leave out for a plain supply.")
+    reversing: bool = Field(True, description="Whether the application reverses the motor at speed (plugging); if so the reversal current is checked.", json_schema_extra={"unit": ""})
 
 
 class Load(_Section):
