@@ -193,7 +193,7 @@ def solve(
     area_ratio = c.magnet_area / c.gap_area
     linear_guess = -curve.remanence * c.effective_gap * area_ratio / (
         MU_0 * (c.magnet_thickness + grade.recoil_permeability * c.effective_gap * area_ratio))
-    result = find_root(residual, lower, upper, xtol=1e-6, rtol=1e-10, first_guess=linear_guess)
+    result = find_root(residual, lower, upper, xtol=1e-6, rtol=1e-9, first_guess=linear_guess)
     field = result.root
     magnet_mmf, magnet_flux, housing_mmf, gap_flux, gap_b, gap_mmf, tooth_b, tooth_mmf, core_b, core_mmf = parts(field)
     bm = magnet_flux / c.magnet_area

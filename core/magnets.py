@@ -133,10 +133,18 @@ class CurveAtTemperature:
     amplitude: np.ndarray  #: A = Jr(-HcJ) [T]
     width: np.ndarray  #: knee width h [A/m]
 
+    @cached_property
+    def _knee_constants(self):
+        # the knee term rewritten as scale·exp(u/h - HcJ/h) - scale·exp(-HcJ/h), constants hoisted
+        offset = np.exp(-self.coercivity_hcj / self.width)
+        scale = self.amplitude / (1.0 - offset)
+        return 1.0 / self.width, self.coercivity_hcj / self.width, scale, scale * offset
+
     def polarization(self, field_strength):
         """J(H) [T]; floored at -Br far beyond -HcJ, where the model is no longer used."""
-        j = (self.remanence + self.recoil_slope * field_strength
-             - _knee_drop(-field_strength, self.coercivity_hcj, self.amplitude, self.width))
+        inverse_width, hcj_over_width, scale, shift = self._knee_constants
+        exponent = np.minimum(-field_strength * inverse_width - hcj_over_width, _MAX_EXPONENT)
+        j = self.remanence + self.recoil_slope * field_strength - (scale * np.exp(exponent) - shift)
         return np.maximum(j, -self.remanence)
 
     def flux_density(self, field_strength):

@@ -85,12 +85,14 @@ def find_root(
             xm = np.where(np.abs(fa) < np.abs(fb), a, b)
             tol = 2.0 * rtol * np.abs(xm) + xtol
             tlim = tol / np.abs(b - a)
-            done = done | (tlim > 0.5) | (fa == 0) | (fb == 0)
+            done = done | (tlim > 0.5) | (fa == 0)  # fb was fa once, and checked then
             xi = (a - b) / (c - b)
             phi = (fa - fb) / (fc - fb)
             t = fa / (fb - fa) * fc / (fb - fc) + (c - a) / (b - a) * fa / (fc - fa) * fb / (fc - fb)
-            t = np.where((phi * phi < xi) & ((1.0 - phi) ** 2 < 1.0 - xi) & np.isfinite(t), t, 0.5)
-            tlim = np.where(tlim < 0.5, tlim, 0.5)
+            # Where the interpolation is unsafe, bisect. (A NaN or infinite t only arises where phi is
+            # infinite, NaN or 1, and then the comparisons are False.)
+            t = np.where((phi * phi < xi) & ((1.0 - phi) ** 2 < 1.0 - xi), t, 0.5)
+            tlim = np.minimum(tlim, 0.5)
             t = np.clip(t, tlim, 1.0 - tlim)
     root = np.where(np.abs(fa) < np.abs(fb), a, b)
     root = np.where(fa == 0, a, np.where(fb == 0, b, root))

@@ -64,6 +64,17 @@ class Steel:
         dense_b = np.linspace(0.0, b[-1], _DENSE_POINTS)
         return dense_b, spline(dense_b)
 
+    @cached_property
+    def _uniform_lookup(self) -> tuple[float, np.ndarray, np.ndarray, float, float]:
+        """The dense table as (1/ΔB, H at each node, slope of each cell, last B, last H) for an O(1)
+        lookup: the grid is uniform in B, so the cell index is a multiplication, not a search."""
+        dense_b, dense_h = self._dense_table
+        step = dense_b[1] - dense_b[0]
+        slopes = np.diff(dense_h) / step
+        # one extra cell continuing the last slope keeps index arithmetic simple at B = B_last
+        slopes = np.append(slopes, slopes[-1])
+        return 1.0 / step, dense_h, slopes, float(dense_b[-1]), float(dense_h[-1])
+
     @property
     def saturation_flux_density(self) -> float:
         """The last B data point [T]; beyond it the curve has the slope of free space."""
@@ -71,10 +82,13 @@ class Steel:
 
     def field_for(self, flux_density):
         """H(B) [A/m] for flux density [T]; odd, monotone, μ0 slope beyond the data."""
-        dense_b, dense_h = self._dense_table
+        inverse_step, nodes, slopes, last_b, last_h = self._uniform_lookup
         b = np.abs(flux_density)
-        # np.interp holds the last value beyond the data; add the free-space part on top.
-        h = np.interp(b, dense_b, dense_h) + np.maximum(b - dense_b[-1], 0.0) / MU_0
+        within = np.minimum(b, last_b) * inverse_step
+        cell = within.astype(np.intp)
+        h = nodes[cell] + (within - cell) * (slopes[cell] / inverse_step)
+        # beyond the data: the slope of free space
+        h = h + np.maximum(b - last_b, 0.0) / MU_0
         return np.copysign(h, flux_density)
 
     def flux_density_for(self, field_strength):
