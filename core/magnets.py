@@ -25,7 +25,7 @@ The knee field reported for the demagnetization checks is -Hk(T) = -squareness Â
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from functools import cached_property
+from functools import cached_property, lru_cache
 
 import numpy as np
 from scipy.optimize import brentq
@@ -171,7 +171,17 @@ def flux_density(grade: MagnetGrade, field_strength, temperature_C):
 
 def normal_coercivity_at(grade: MagnetGrade, temperature_C):
     """HcB of the model at temperature [A/m], positive: where the normal curve crosses B = 0."""
-    temperature_C = np.asarray(temperature_C, dtype=float)
+    if np.ndim(temperature_C) == 0:
+        return _normal_coercivity_cached(grade, float(temperature_C))
+    return _normal_coercivity(grade, np.asarray(temperature_C, dtype=float))
+
+
+@lru_cache(maxsize=256)
+def _normal_coercivity_cached(grade: MagnetGrade, temperature_C: float) -> float:
+    return float(_normal_coercivity(grade, np.asarray(temperature_C)))
+
+
+def _normal_coercivity(grade: MagnetGrade, temperature_C):
     hcj = intrinsic_coercivity_at(grade, temperature_C)
     result = find_root(lambda h: flux_density(grade, h, temperature_C), -hcj, np.zeros_like(hcj))
     return -result.root

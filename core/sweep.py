@@ -1,0 +1,53 @@
+"""What-if sweeps of the magnetic circuit without a Python loop over the physics.
+
+Each swept value is validated like a file (so a sweep never computes a motor whose parts do not fit),
+the resulting cross-sections are stacked into one :class:`~core.geometry.Geometry` of arrays, and the
+circuit is solved once for all of them::
+
+    from core import project, sweep
+    design = project.load("demo_projects/appliance_ferrite_12v.toml")
+    points = sweep.magnetics_sweep(design, "magnets.thickness_mm", [4, 5, 6, 7, 8])
+    points.airgap_flux_density   # one value per thickness [T]
+
+Only keys that change the cross-section or the temperature are meaningful here; a change of grade or
+steel is refused, since one solve takes one grade and one pair of steels.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from typing import Sequence
+
+import numpy as np
+
+from . import magnetic_circuit as mc
+from .design import design_from_project
+from .geometry import Geometry
+from .project import Project, ProjectError, with_values
+
+
+def stack_geometries(geometries: Sequence[Geometry]) -> Geometry:
+    """One Geometry whose every field is an array, element i from ``geometries[i]``."""
+    return Geometry(**{
+        f.name: np.array([getattr(g, f.name) for g in geometries]) for f in dataclasses.fields(Geometry)
+    })
+
+
+def magnetics_sweep(project: Project, key: str, values, temperature_C=None) -> mc.MagneticOperatingPoint:
+    """The no-load operating point for each value of ``key`` (one vectorised solve).
+
+    ``temperature_C`` defaults to the project's nominal ambient; it may be an array of the same length.
+    """
+    base = design_from_project(project)
+    designs = [design_from_project(with_values(project, {key: value})) for value in values]
+    for design in designs:
+        if (design.magnet != base.magnet or design.housing_steel.name != base.housing_steel.name
+                or design.lamination_steel.name != base.lamination_steel.name):
+            raise ProjectError(f"{key}: a sweep keeps one grade and one pair of steels; sweep one design per grade",
+                               key=key)
+    geometry = stack_geometries([d.geometry for d in designs])
+    temperature = base.ambient_nominal_C if temperature_C is None else np.asarray(temperature_C, dtype=float)
+    circuit = mc.pole_circuit(geometry, base.magnet.recoil_permeability)
+    point = mc.solve(base.magnet, temperature, circuit, base.housing_steel, base.lamination_steel)
+    mc.require_converged(point, f"the magnetic circuit in the sweep of {key}")
+    return point
