@@ -72,8 +72,9 @@ def find_root(
         for iterations in range(1, max_iterations + 1):
             if done.all():
                 break
-            # Elements already done keep iterating inside their collapsed bracket: cheaper than
-            # masking every update, and harmless, since the bracket can only shrink.
+            # Elements already done step by t = 0, which re-evaluates their best end and leaves a, b
+            # and the root exactly as they are: an element's answer does not depend on its batch.
+            t = np.where(done, 0.0, t)
             xt = a + t * (b - a)
             ft = residual(xt)
             same = (ft > 0.0) == (fa > 0.0)
