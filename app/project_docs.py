@@ -29,7 +29,9 @@ Rules:
   `ambient_min_C ≤ ambient_nominal_C ≤ ambient_max_C`, and exactly one of `magnets.grade` and
   `[magnets.custom_grade]`.
 * `format_version` newer than this program reads is refused with a message to update.
-* Optional keys (marked *optional*) may be left out; the tool then does what the description says.
+* Every key marked *required* must be written; a file that leaves one out is refused, so no design
+  quantity is ever silently defaulted. Keys marked *may be left out* are truly optional (the tool then
+  does what the description says); a few others show the value they take when left out.
 * The housing diameter is not an input: it follows from the armature diameter, air gap, magnet
   thickness and wall (`D = D_armature + 2·(gap + magnet + wall)`).
 
@@ -37,7 +39,7 @@ A user's own magnet grades and steels can also live in TOML files in the user li
 (`$PMDC_SIZER_LIBRARY`, or the platform's user data folder + `/pmdc-sizer/library`) as `[[grade]]`
 tables with the keys of `magnets.custom_grade` below, and `[[steel]]` tables as in `core/data/steels.toml`.
 
-| key | unit | allowed | default | meaning |
+| key | unit | allowed | if left out | meaning |
 |---|---|---|---|---|
 """
 
@@ -61,8 +63,13 @@ def project_file_markdown() -> str:
             allowed = "text"
         else:
             allowed = spec.kind
-        default = "*optional*" if spec.optional and spec.default is None else (
-            "*required*" if spec.default is None else f"`{spec.default!r}`" if isinstance(spec.default, str) else _cell(spec.default))
+        if spec.optional and spec.default is None:
+            default = "*may be left out*"
+        elif spec.required_in_file:
+            default = "*required*"
+        else:
+            shown = f"`{spec.default!r}`" if isinstance(spec.default, str) else _cell(spec.default)
+            default = f"{shown} if left out"
         rows.append(f"| `{spec.path}` | {spec.unit} | {allowed} | {default} | {spec.description} |")
     return _INTRO + "\n".join(rows) + "\n"
 

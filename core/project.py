@@ -194,6 +194,15 @@ class Project(_Section):
 
 SECTIONS = tuple(name for name in Project.model_fields if name != "format_version")
 
+#: Keys a file may leave out; they then take the schema's default. Every other key must be written:
+#: a design quantity that is silently defaulted is a design quantity nobody chose.
+MAY_BE_LEFT_OUT = frozenset({
+    "project.description", "project.revision", "project.notes",
+    "supply.reversing", "winding.multiplicity", "winding.end_turn_factor",
+    "losses.iron_loss_build_factor", "thermal.duty_minutes", "rotor.extra_inertia_gcm2",
+    "magnets.grade",  # or magnets.custom_grade: exactly one of them, checked below
+})
+
 
 # --------------------------------------------------------------------------------------------------
 # The schema as a flat list of keys, for the GUI editor, the docs table and --set.
@@ -209,7 +218,8 @@ class KeySpec:
     description: str
     kind: str  #: "float", "int", "str", "choice" or "bool"
     choices: tuple = ()
-    optional: bool = False
+    optional: bool = False  #: the value may be absent (None): the tool then does what the description says
+    required_in_file: bool = True  #: a file that leaves the key out is refused
 
 
 def _spec_of(path: str, info) -> KeySpec:
@@ -232,8 +242,11 @@ def _spec_of(path: str, info) -> KeySpec:
     else:
         kind, choices = {float: "float", int: "int", str: "str", bool: "bool"}[annotation], ()
     default = None if info.is_required() else info.default
+    required_in_file = not optional and path not in MAY_BE_LEFT_OUT and ".custom_grade." not in path
+    if ".custom_grade." in path:
+        required_in_file = info.is_required()
     return KeySpec(path, extra.get("unit", ""), minimum, maximum, default, info.description or "", kind,
-                   choices, optional)
+                   choices, optional, required_in_file)
 
 
 def key_specs() -> Iterator[KeySpec]:
@@ -371,6 +384,15 @@ def validate(data: dict) -> Project:
         project = Project.model_validate(data)
     except ValidationError as error:
         raise _format_validation_error(error) from None
+    for spec in key_specs():
+        if spec.required_in_file and ".custom_grade." not in spec.path and spec.path != "format_version":
+            section, name = spec.path.split(".")
+            if name not in data.get(section, {}):
+                raise ProjectError(f"{spec.path}: required key is missing ({spec.description.rstrip('.')})",
+                                   key=spec.path)
+    if "format_version" not in data:
+        raise ProjectError("format_version: required key is missing (write format_version = "
+                           f"{FORMAT_VERSION} at the top of the file)", key="format_version")
     _check_fit(project)
     return project
 
