@@ -45,6 +45,10 @@ def summary_text(r: Results) -> str:
     row("Inductance (estimate)", q(c.inductance_H_estimate, "mH", 2))
     row("Mechanical time constant", q(c.mechanical_time_constant_s, "ms"))
 
+    if r.sizing is not None:
+        row("Electric loading, TRV (rated)", q(r.sizing.electric_loading_A_per_m, "kA/m"),
+            q(r.sizing.torque_per_rotor_volume_N_m_per_m3, "kN·m/m3"))
+
     section("Performance")
     row("", *(f"{case.name} {temperature(case.winding_temperature_C)}" for case in r.cases))
     row("No-load speed", *(q(case.no_load_speed_rad_per_s, "rpm") for case in r.cases))

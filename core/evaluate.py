@@ -47,6 +47,7 @@ from .performance import (
     MotorModel,
     OperatingPoints,
     iron_loss_terms,
+    loss_torque,
     operating_points,
     speed_torque_curve,
     stall_current,
@@ -262,6 +263,17 @@ class GeometryResult:
 
 
 @dataclass(frozen=True)
+class SizingResult:
+    """The classic sizing figures of the armature at the rated point, nominal case."""
+
+    electric_loading_A_per_m: float  #: ampere-conductors per metre of armature circumference
+    magnetic_loading_T: float  #: mean gap flux density over the whole circumference
+    rotor_volume_m3: float  #: π/4·D²·L
+    torque_per_rotor_volume_N_m_per_m3: float  #: rated torque over rotor volume (TRV)
+    airgap_shear_stress_Pa: float  #: TRV/2
+
+
+@dataclass(frozen=True)
 class MagnetChartCase:
     """Plot data of the magnet operating chart for one temperature."""
 
@@ -295,6 +307,7 @@ class Results:
     cost: CostResult
     checks: tuple  #: of core.checks.Check
     magnet_chart: tuple[MagnetChartCase, ...] = field(repr=False)
+    sizing: SizingResult | None = None
 
     @property
     def cases(self) -> tuple[CaseResult, CaseResult, CaseResult]:
@@ -617,6 +630,16 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         )
         for name, index in (("cold", 0), ("nominal", 1), ("hot", 2))
     )
+    rotor_volume = float(np.pi * g.armature_radius**2 * g.stack_length)
+    electric_loading = conductors * (nominal.rated.current_A / paths) / (2.0 * np.pi * float(g.armature_radius))
+    torque_density = (nominal.rated.torque_N_m + float(loss_torque(nominal_model, nominal.rated.speed_rad_per_s))) / rotor_volume
+    sizing = SizingResult(
+        electric_loading_A_per_m=float(electric_loading),
+        magnetic_loading_T=float(g.poles * exact.flux_per_pole[1] / (2.0 * np.pi * g.armature_radius * g.stack_length)),
+        rotor_volume_m3=rotor_volume,
+        torque_per_rotor_volume_N_m_per_m3=float(torque_density),
+        airgap_shear_stress_Pa=float(torque_density / 2.0),
+    )
     results = Results(
         name=d.name, supply_voltage_V=d.supply_voltage, brush_drop_V=d.brush_drop,
         load_torque_N_m=d.load_torque, load_speed_rad_per_s=d.load_speed,
@@ -631,6 +654,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
                         housing=cost.housing, lamination=cost.lamination, total=cost.total),
         checks=(),
         magnet_chart=chart,
+        sizing=sizing,
     )
     from dataclasses import replace
 

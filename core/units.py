@@ -82,6 +82,10 @@ _TO_SI: dict[str, float] = {
     "s": 1.0,
     "ms": 1e-3,
     "min": 60.0,
+    # sizing
+    "kN·m/m3": 1e3,
+    "Pa": 1.0,
+    "kPa": 1e3,
     # thermal
     "K/W": 1.0,
     "W/(m2·K)": 1.0,
