@@ -1,0 +1,543 @@
+"""Two designs side by side, and design B re-fitted to one of design A's figures.
+
+A comparison is the difference of every number two evaluations share, B − A, absolute and as a
+fraction of A. A re-fit changes one of B's inputs until B meets A's figure:
+
+    ke             same Ke (= Kt)           by B's magnets.thickness_mm
+    no-load-speed  same no-load speed       by B's winding.turns_per_coil (whole turns)
+    stall-torque   same stall torque        by B's armature.stack_length_mm (magnets and housing follow)
+
+all in the nominal case. Each re-fit is a bracketed root solve (core.solvers.find_root) over the
+input's schema limits, narrowed to what the rest of the design allows: a value the project validator
+refuses (the envelope, a part that no longer fits) or that the chain cannot evaluate closes the bracket
+there, and the result says which limit it met. A target outside the bracket is reported, not forced:
+the result then holds B at the nearest limit and a sentence saying what B would need.
+
+Usage::
+
+    from core import compare, evaluate, project
+    a = project.load("demo_projects/appliance_ferrite_12v.toml")
+    b = compare.with_grade(a, "N42")
+    fit = compare.refit("ke", evaluate.evaluate(a), b)
+    fit.value_after, fit.message
+
+SI throughout, like the results; the parameter values are in the project file's units (mm, turns).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, fields, is_dataclass
+from typing import Any, Callable, Iterator
+
+import numpy as np
+
+from .checks import FAIL, SLOT_FILL_GROSS_FAIL
+from .evaluate import Results, evaluate
+from .magnetic_circuit import MagneticCircuitError
+from .project import Project, ProjectError, get_value, key_spec, with_values
+from .solvers import find_root
+from .units import from_si
+
+# ----------------------------------------------------------------------------------------------
+# Differences
+
+
+@dataclass(frozen=True)
+class FigureDifference:
+    """One number both designs have, and how B differs from A."""
+
+    key: str  #: dotted path into the results, e.g. "constants.ke_V_s_per_rad" (the unit is in the name)
+    a: float
+    b: float
+    difference: float  #: B − A, in the unit of the key
+    fraction: float | None  #: (B − A)/|A|; None where A is zero or the key is a temperature in °C
+
+    @property
+    def percent(self) -> float | None:
+        return None if self.fraction is None else 100.0 * self.fraction
+
+
+#: The figures an engineer reads first when choosing between two designs: (key, title, display unit).
+KEY_FIGURES: tuple[tuple[str, str, str], ...] = (
+    ("magnet.remanence_T", "Br at nominal ambient", "T"),
+    ("magnet.coercivity_HcJ_A_per_m", "HcJ at nominal ambient", "kA/m"),
+    ("magnets.thickness_mm", "Magnet thickness", "mm"),
+    ("magnetics.permeance_coefficient", "Permeance coefficient", "1"),
+    ("magnetics.magnet_flux_density_T", "Magnet operating point Bm", "T"),
+    ("magnetics.airgap_flux_density_T", "Air-gap flux density", "T"),
+    ("magnetics.flux_per_pole_Wb", "Flux per pole", "mWb"),
+    ("constants.ke_V_s_per_rad", "Ke = Kt", "V·s/rad"),
+    ("constants.terminal_resistance_ohm", "Terminal resistance", "ohm"),
+    ("nominal.no_load_speed_rad_per_s", "No-load speed", "rpm"),
+    ("nominal.no_load_current_A", "No-load current", "A"),
+    ("nominal.stall_torque_N_m", "Stall torque", "mN·m"),
+    ("nominal.stall_current_A", "Stall current", "A"),
+    ("nominal.rated.speed_rad_per_s", "Speed at rated torque", "rpm"),
+    ("hot.rated.speed_rad_per_s", "Speed at rated torque, hot", "rpm"),
+    ("nominal.rated.current_A", "Current at rated torque", "A"),
+    ("nominal.max_efficiency", "Maximum efficiency", "%"),
+    ("nominal.max_output_power_W", "Maximum output power", "W"),
+    ("demagnetization.worst_margin_A_per_m", "Worst margin to the knee", "kA/m"),
+    ("thermal.winding_temperature_C", "Winding temperature, hot", "°C"),
+    ("mass.magnet_kg", "Magnet mass", "g"),
+    ("mass.total_kg", "Active mass", "g"),
+    ("cost.magnet", "Magnet material cost", ""),
+    ("cost.total", "Material cost", ""),
+)
+
+
+def _is_number(value) -> bool:
+    return (isinstance(value, (int, float, np.integer, np.floating)) and not isinstance(value, (bool, np.bool_))
+            and math.isfinite(float(value)))
+
+
+def _children(value) -> dict | None:
+    """The named parts of a dataclass or mapping; plot arrays are not figures and are left out."""
+    if is_dataclass(value) and not isinstance(value, type):
+        return {f.name: getattr(value, f.name) for f in fields(value)
+                if f.name not in ("curve", "curves") and not isinstance(getattr(value, f.name), np.ndarray)}
+    if isinstance(value, dict):
+        return value
+    return None
+
+
+def _name_of(item):
+    children = _children(item)
+    return None if children is None else children.get("name")
+
+
+_SKIP = object()
+
+
+def _pair(a, b, key: str, leaf: Callable[[str, Any, Any], Any]):
+    """``leaf`` applied to every number A and B share, in A's nesting; lists of named items are
+    matched by name (two designs need not have the same demagnetization cases), others by position."""
+    if _is_number(a) and _is_number(b):
+        return leaf(key, a, b)
+    children_a, children_b = _children(a), _children(b)
+    if children_a is not None and children_b is not None:
+        out = {}
+        for name, value in children_a.items():
+            if name in children_b:
+                paired = _pair(value, children_b[name], name, leaf)
+                if paired is not _SKIP:
+                    out[name] = paired
+        return out or _SKIP
+    if isinstance(a, (list, tuple)) and isinstance(b, (list, tuple)):
+        names_a = [_name_of(item) for item in a]
+        if all(isinstance(n, str) for n in names_a):
+            by_name = {_name_of(item): item for item in b}
+            out = []
+            for name, item in zip(names_a, a):
+                if name in by_name:
+                    paired = _pair(item, by_name[name], key, leaf)
+                    if paired is not _SKIP:
+                        out.append({"name": name, **paired})
+            return out or _SKIP
+        if len(a) == len(b):
+            out = [p for p in (_pair(x, y, key, leaf) for x, y in zip(a, b)) if p is not _SKIP]
+            return out or _SKIP
+    return _SKIP
+
+
+def _fraction(key: str, a, b) -> float | None:
+    # °C is an offset scale: a per cent of it means nothing.
+    if key.endswith("_C") or float(a) == 0.0:
+        return None
+    return (float(b) - float(a)) / abs(float(a))
+
+
+def nested_difference(a, b, relative: bool = False):
+    """B − A (or (B − A)/|A| when ``relative``) for every number two nested structures share.
+
+    ``a`` and ``b`` are results dataclasses or their JSON dicts; the answer keeps their nesting and
+    keys, holds numbers only (plus the ``name`` of matched list items) and leaves out what is not a
+    number on both sides.
+    """
+    def leaf(key, x, y):
+        if relative:
+            value = _fraction(key, x, y)
+            return _SKIP if value is None else value
+        return y - x
+
+    result = _pair(a, b, "", leaf)
+    return {} if result is _SKIP else result
+
+
+def _flatten(nested, prefix: str = "") -> Iterator[tuple[str, Any]]:
+    if isinstance(nested, dict):
+        for name, value in nested.items():
+            if name == "name" and prefix.endswith("]"):
+                continue
+            yield from _flatten(value, f"{prefix}.{name}" if prefix else name)
+    elif isinstance(nested, list):
+        for index, item in enumerate(nested):
+            label = item.get("name", index) if isinstance(item, dict) else index
+            yield from _flatten(item, f"{prefix}[{label}]")
+    else:
+        yield prefix, nested
+
+
+def difference(a: Results, b: Results) -> tuple[FigureDifference, ...]:
+    """Every number the two results share, flattened to dotted keys, with B − A."""
+    pairs = _pair(a, b, "", lambda key, x, y: (key, x, y))
+    if pairs is _SKIP:
+        return ()
+    return tuple(
+        FigureDifference(key=path, a=x, b=y, difference=y - x, fraction=_fraction(leaf_key, x, y))
+        for path, (leaf_key, x, y) in _flatten(pairs)
+    )
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """Two evaluated designs and every difference between them."""
+
+    a: Results = field(repr=False)
+    b: Results = field(repr=False)
+    figures: tuple[FigureDifference, ...]
+    magnet_thickness_mm: tuple[float, float]  #: A's and B's, from their projects (an input, shown beside the results)
+
+    def figure(self, key: str) -> FigureDifference:
+        for item in self.figures:
+            if item.key == key:
+                return item
+        raise KeyError(key)
+
+    def key_figures(self) -> tuple[tuple[str, str, FigureDifference], ...]:
+        """(title, display unit, difference) for each of :data:`KEY_FIGURES`."""
+        out = []
+        for key, title, unit in KEY_FIGURES:
+            if key == "magnets.thickness_mm":
+                a_mm, b_mm = self.magnet_thickness_mm
+                # The thickness is an input in mm; the display unit "mm" turns SI metres into mm.
+                a_m, b_m = a_mm / from_si(1.0, "mm"), b_mm / from_si(1.0, "mm")
+                item = FigureDifference(key, a_m, b_m, b_m - a_m, _fraction(key, a_m, b_m))
+            else:
+                item = self.figure(key)
+            out.append((title, unit, item))
+        return tuple(out)
+
+
+def compare(project_a: Project, project_b: Project, results_a: Results | None = None,
+            results_b: Results | None = None) -> Comparison:
+    """Evaluate both designs (unless their results are given) and difference them."""
+    results_a = evaluate(project_a) if results_a is None else results_a
+    results_b = evaluate(project_b) if results_b is None else results_b
+    return Comparison(a=results_a, b=results_b, figures=difference(results_a, results_b),
+                      magnet_thickness_mm=(project_a.magnets.thickness_mm, project_b.magnets.thickness_mm))
+
+
+def with_grade(project: Project, grade_name: str) -> Project:
+    """The same design with a library magnet grade (an inline custom grade is dropped)."""
+    from .library import magnet_grade
+
+    magnet_grade(grade_name)  # an unknown name is a ProjectError naming magnets.grade
+    return with_values(project, {"magnets.custom_grade": None, "magnets.grade": grade_name})
+
+
+# ----------------------------------------------------------------------------------------------
+# Re-fits
+
+
+@dataclass(frozen=True)
+class RefitTarget:
+    """One of A's figures that B can be re-fitted to, and the input of B that moves it."""
+
+    name: str  #: "ke", "no-load-speed" or "stall-torque"
+    title: str  #: e.g. "Ke"
+    figure_key: str  #: where the figure is in the results
+    figure_unit: str  #: unit for messages
+    parameter: str  #: the project key that changes
+    parameter_title: str
+    need_more: str  #: what B needs when the figure asks for more than the upper limit gives, e.g. "a magnet thicker than"
+    need_less: str
+    integer: bool = False
+
+
+TARGETS: dict[str, RefitTarget] = {
+    target.name: target for target in (
+        RefitTarget("ke", "Ke", "constants.ke_V_s_per_rad", "V·s/rad", "magnets.thickness_mm",
+                    "magnet thickness", "a magnet thicker than", "a magnet thinner than"),
+        RefitTarget("no-load-speed", "no-load speed", "nominal.no_load_speed_rad_per_s", "rpm",
+                    "winding.turns_per_coil", "turns per coil", "more turns per coil than",
+                    "fewer turns per coil than", integer=True),
+        RefitTarget("stall-torque", "stall torque", "nominal.stall_torque_N_m", "mN·m",
+                    "armature.stack_length_mm", "stack length", "a stack longer than", "a stack shorter than"),
+    )
+}
+
+
+@dataclass(frozen=True)
+class ParameterChange:
+    key: str  #: project key
+    before: float  #: in the project file's unit
+    after: float
+    reason: str = ""
+
+
+@dataclass(frozen=True)
+class Refit:
+    """B re-fitted to one of A's figures (or brought as close as its limits allow)."""
+
+    target: str  #: key of :data:`TARGETS`
+    title: str
+    figure_unit: str  #: unit the figure is shown in (the values below are SI)
+    target_value: float  #: A's figure [SI]
+    figure_before: float  #: B's figure before the re-fit [SI]
+    figure_after: float  #: B's figure after it [SI]
+    target_error_fraction: float  #: (after − target)/target
+    parameter: str  #: project key that changed
+    parameter_unit: str  #: "mm" or "" for turns
+    value_before: float  #: in the file's unit
+    value_after: float
+    search_range: tuple[float, float]  #: the bracket searched, after narrowing to what fits
+    range_limits: tuple[str, str]  #: what sets each end of the bracket
+    reached: bool  #: the target lies inside the bracket (for whole turns: the nearest whole number was taken)
+    message: str  #: one paragraph for people: what changed, or what B would need
+    changes: tuple[ParameterChange, ...]  #: every key that changed, the parameter first
+    notes: tuple[str, ...]
+    new_failures: tuple[str, ...]  #: checks that fail after the re-fit but did not before
+    magnet_mass_difference_kg: float  #: B after − A
+    magnet_cost_difference: float  #: B after − A, in ``currency``
+    material_cost_difference: float  #: B after − A, all materials
+    currency: str
+    evaluations: int  #: chain evaluations the re-fit took
+    project: Project = field(repr=False, compare=False)  #: B after the re-fit
+    results: Results = field(repr=False, compare=False)
+
+
+class _Unusable(Exception):
+    """A parameter value that the project validator refuses or the chain cannot evaluate."""
+
+
+def _lookup(results: Results, key: str) -> float:
+    node: Any = results
+    for part in key.split("."):
+        node = getattr(node, part)
+    return float(node)
+
+
+def _show(value_si: float, unit: str) -> str:
+    return f"{from_si(value_si, unit):.4g} {unit}"
+
+
+def _show_parameter(value: float, target: RefitTarget, unit: str) -> str:
+    if target.integer:
+        return f"{int(value)}"
+    return f"{value:.4g} {unit}"
+
+
+class _Trial:
+    """B with the parameter at a value: validated and evaluated once, then remembered."""
+
+    def __init__(self, project_b: Project, target: RefitTarget, results_b: Results):
+        self.project_b = project_b
+        self.target = target
+        self.cache: dict[float, tuple[Project, Results]] = {}
+        self.evaluations = 0
+        if target.name == "stall-torque":
+            # The axial build stays as it is apart from the stack: the magnets keep their overhang and
+            # the housing its room for commutator, brushes and bearings.
+            self.overhang_mm = project_b.magnets.length_mm - project_b.armature.stack_length_mm
+            self.end_room_mm = project_b.housing.length_mm - project_b.magnets.length_mm
+
+    def changes(self, value: float) -> dict[str, Any]:
+        if self.target.integer:
+            return {self.target.parameter: int(value)}
+        value = float(value)
+        if self.target.name == "stall-torque":
+            magnet = value + self.overhang_mm
+            return {"armature.stack_length_mm": value, "magnets.length_mm": magnet,
+                    "housing.length_mm": magnet + self.end_room_mm}
+        return {self.target.parameter: value}
+
+    def project(self, value: float) -> Project:
+        try:
+            return with_values(self.project_b, self.changes(value))
+        except ProjectError as error:
+            raise _Unusable(str(error)) from None
+
+    def results(self, value: float) -> tuple[Project, Results]:
+        value = float(value)
+        if value not in self.cache:
+            design = self.project(value)
+            self.evaluations += 1
+            try:
+                self.cache[value] = (design, evaluate(design, curve_points=40))
+            except (MagneticCircuitError, ProjectError) as error:
+                raise _Unusable(str(error)) from None
+        return self.cache[value]
+
+    def figure(self, value: float) -> float:
+        return _lookup(self.results(value)[1], self.target.figure_key)
+
+
+def _usable_end(usable: Callable[[float], bool], inside: float, outside: float, integer: bool) -> tuple[float, float]:
+    """The last usable value from ``inside`` (usable) toward ``outside`` (not), by bisection, and the
+    first unusable one found beyond it."""
+    span = abs(outside - inside)
+    while abs(outside - inside) > (1 if integer else 1e-5 * span):
+        middle = (inside + outside) // 2 if integer else 0.5 * (inside + outside)
+        if middle in (inside, outside):
+            break
+        if usable(middle):
+            inside = middle
+        else:
+            outside = middle
+    return inside, outside
+
+
+def _bracket_end(trial: _Trial, start: float, limit: float, schema_reason: str) -> tuple[float, str]:
+    """The end of the searchable range on one side of B's value, and what sets it."""
+    integer = trial.target.integer
+
+    def first_problem(check: Callable[[float], Any], value: float) -> str:
+        try:
+            check(value)
+            return ""
+        except _Unusable as error:
+            return str(error)
+
+    problem = first_problem(trial.project, limit)
+    end = limit
+    reason = schema_reason
+    if problem:
+        end, outside = _usable_end(lambda v: not first_problem(trial.project, v), start, limit, integer)
+        if not integer:
+            # Step out to a round number so the validator's message reads like a person wrote it.
+            outside = math.ceil(outside * 1e3) / 1e3 if limit > start else math.floor(outside * 1e3) / 1e3
+        reason = first_problem(trial.project, outside) or problem
+    problem = first_problem(trial.results, end)
+    if problem:
+        end, outside = _usable_end(lambda v: not first_problem(trial.results, v), start, end, integer)
+        reason = f"beyond it the chain cannot evaluate B: {first_problem(trial.results, outside) or problem}"
+    return end, reason
+
+
+def _new_failures(before: Results, after: Results) -> tuple[str, ...]:
+    failed_before = {c.key for c in before.checks if c.status == FAIL}
+    return tuple(c.sentence for c in after.checks if c.status == FAIL and c.key not in failed_before)
+
+
+def refit(target_name: str, results_a: Results, project_b: Project, results_b: Results | None = None) -> Refit:
+    """Change B's input named by ``target_name`` (a key of :data:`TARGETS`) until B meets A's figure.
+
+    Never raises for a target out of reach: the result's ``reached`` is False, B is left at the
+    nearest limit, and ``message`` says what B would need and why it cannot have it.
+    """
+    if target_name not in TARGETS:
+        raise ValueError(f"re-fit target {target_name!r}: choose one of {', '.join(TARGETS)}")
+    target = TARGETS[target_name]
+    results_b = evaluate(project_b) if results_b is None else results_b
+    trial = _Trial(project_b, target, results_b)
+    spec = key_spec(target.parameter)
+    unit = spec.unit
+    start = get_value(project_b, target.parameter)
+    trial.cache[float(start)] = (project_b, results_b)
+    goal = _lookup(results_a, target.figure_key)
+
+    low_reason = f"the lower limit of {target.parameter} in the project schema"
+    high_reason = f"the upper limit of {target.parameter} in the project schema"
+    high_limit = spec.maximum
+    notes: list[str] = []
+    if target.integer:
+        # More turns of the same wire must still fit the slot: the gross fill grows with the turns.
+        fill = results_b.winding.slot_fill_gross
+        fitting = math.floor(start * SLOT_FILL_GROSS_FAIL / fill) if fill > 0 else spec.maximum
+        if fitting < high_limit:
+            high_limit = max(fitting, spec.minimum)
+            high_reason = (f"more turns of {results_b.winding.wire} would not fit the slot: the gross fill "
+                           f"would pass {100 * SLOT_FILL_GROSS_FAIL:.0f} %")
+    low, low_reason = _bracket_end(trial, start, spec.minimum, low_reason)
+    high, high_reason = _bracket_end(trial, start, high_limit, high_reason)
+
+    figure_low, figure_high = trial.figure(low), trial.figure(high)
+    rising = figure_high >= figure_low
+    reached = min(figure_low, figure_high) <= goal <= max(figure_low, figure_high)
+    shown_goal = _show(goal, target.figure_unit)
+    if not reached:
+        wants_more = goal > max(figure_low, figure_high)
+        at_high = wants_more == rising
+        value = high if at_high else low
+        reason = high_reason if at_high else low_reason
+        need = target.need_more if at_high else target.need_less
+        message = (f"Out of reach: B needs {need} {_show_parameter(value, target, unit)} ({reason}) to reach A's "
+                   f"{target.title} of {shown_goal}; at {_show_parameter(value, target, unit)} its "
+                   f"{target.title} is {_show(trial.figure(value), target.figure_unit)}.")
+    elif target.integer:
+        value, message, note = _whole_turns(trial, low, high, goal, shown_goal)
+        notes.append(note)
+    else:
+        solution = find_root(lambda x: np.vectorize(trial.figure)(x) - goal, low, high,
+                             xtol=1e-6 * (high - low), rtol=1e-9, max_iterations=40)
+        value = float(solution.root)
+        message = ""
+
+    design, _ = trial.results(value)
+    final = evaluate(design)
+    after = _lookup(final, target.figure_key)
+    error = (after - goal) / goal
+    if reached and not target.integer:
+        message = (f"B's {target.parameter_title} goes from {_show_parameter(start, target, unit)} to "
+                   f"{_show_parameter(value, target, unit)} to give A's {target.title} of {shown_goal} "
+                   f"(off by {100.0 * error:+.2g} %).")
+
+    changes = []
+    for key, new in trial.changes(value).items():
+        old = get_value(project_b, key)
+        if new != old:
+            why = "" if key == target.parameter else "follows the stack, keeping B's overhang and end room"
+            changes.append(ParameterChange(key, old, new, why))
+    if target.name == "stall-torque" and len(changes) > 1:
+        notes.append("The magnets and the housing tube change length with the stack, so that the magnets "
+                     f"keep B's overhang of {trial.overhang_mm:.3g} mm and the housing its "
+                     f"{trial.end_room_mm:.3g} mm beyond the magnets.")
+    return Refit(
+        target=target.name, title=target.title, figure_unit=target.figure_unit,
+        target_value=goal, figure_before=_lookup(results_b, target.figure_key), figure_after=after,
+        target_error_fraction=error, parameter=target.parameter, parameter_unit=unit,
+        value_before=start, value_after=value, search_range=(low, high), range_limits=(low_reason, high_reason),
+        reached=reached, message=message, changes=tuple(changes), notes=tuple(notes),
+        new_failures=_new_failures(results_b, final),
+        magnet_mass_difference_kg=final.mass.magnet_kg - results_a.mass.magnet_kg,
+        magnet_cost_difference=final.cost.magnet - results_a.cost.magnet,
+        material_cost_difference=final.cost.total - results_a.cost.total,
+        currency=final.cost.currency, evaluations=trial.evaluations + 1, project=design, results=final,
+    )
+
+
+def _whole_turns(trial: _Trial, low: int, high: int, goal: float, shown_goal: str):
+    """The whole number of turns whose figure is closest to ``goal`` (which lies between the ends)."""
+    start = get_value(trial.project_b, trial.target.parameter)
+    figure_start = trial.figure(start)
+
+    def below(n):  # True where the figure is on the low side of the goal
+        return trial.figure(n) < goal
+
+    # Bisection on whole numbers, opened at the estimate that the speed falls as 1/turns (E = Ke·ω).
+    a, b = low, high
+    guess = int(round(start * figure_start / goal))
+    lower_side = below(a)
+    for candidate in (guess, guess + 1, guess - 1):
+        if a < candidate < b:
+            if below(candidate) == lower_side:
+                a = candidate
+            else:
+                b = candidate
+    while b - a > 1:
+        middle = (a + b) // 2
+        if below(middle) == lower_side:
+            a = middle
+        else:
+            b = middle
+    errors = {n: (trial.figure(n) - goal) / goal for n in (a, b)}
+    best = min(errors, key=lambda n: abs(errors[n]))
+    other = b if best == a else a
+    unit = trial.target.figure_unit
+    message = (f"B's turns per coil go from {start} to {best}: its {trial.target.title} is "
+               f"{_show(trial.figure(best), unit)} against A's {shown_goal} ({100.0 * errors[best]:+.2g} %).")
+    note = (f"Turns are whole numbers: {other} turns would give {_show(trial.figure(other), unit)} "
+            f"({100.0 * errors[other]:+.2g} %), so {best} is the closer.")
+    return best, message, note
