@@ -482,7 +482,7 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
     if reached and not target.integer:
         message = (f"B's {target.parameter_title} goes from {_show_parameter(start, target, unit)} to "
                    f"{_show_parameter(value, target, unit)} to give A's {target.title} of {shown_goal} "
-                   f"(off by {100.0 * error:+.2g} %).")
+                   + ("(within 0.01 %)." if abs(error) < 1e-4 else f"(off by {100.0 * error:+.2g} %)."))
 
     changes = []
     for key, new in trial.changes(value).items():

@@ -1,0 +1,132 @@
+"""``pmdc-sizer compare``: two designs side by side, or one design with another magnet grade.
+
+    pmdc-sizer compare A.toml B.toml [--refit TARGET] [--json]
+    pmdc-sizer compare FILE --grade-b NAME [--refit ke|no-load-speed|stall-torque] [--json]
+
+Exit status as for every subcommand: 0, 2 for a bad file, key or grade (one line on stderr), and 1 when
+a re-fit target is out of reach (the comparison and the re-fit's findings are still printed).
+"""
+
+from __future__ import annotations
+
+import json
+
+from core import compare
+from core.units import from_si
+
+from .cli import EXIT_NO_SOLUTION, CommandError, evaluate_project, load_project
+from .compare_text import check_lines, figure_rows, refit_lines, table_lines
+from .results_json import results_json
+
+
+def register(subparsers) -> None:
+    p = subparsers.add_parser(
+        "compare", help="compare two designs, or a design with another magnet grade; optionally re-fit B to A",
+        description="Design A against design B: every figure B − A, each side's checks, and optionally B "
+                    "re-fitted to one of A's figures (Ke by magnet thickness, no-load speed by turns per "
+                    "coil, stall torque by stack length).")
+    p.add_argument("file_a", metavar="A.toml", help="design A, the reference")
+    p.add_argument("file_b", metavar="B.toml", nargs="?", help="design B (or give --grade-b instead)")
+    p.add_argument("--grade-b", metavar="NAME", help="B is A with this library magnet grade (see `pmdc-sizer grades`)")
+    p.add_argument("--refit", choices=tuple(compare.TARGETS),
+                   help="change B until it meets A's Ke (magnet thickness), no-load speed (turns per coil) or "
+                        "stall torque (stack length)")
+    p.add_argument("--json", action="store_true",
+                   help="one JSON object: a, b, difference (B − A), relative_difference and refit")
+    p.set_defaults(handler=cmd_compare)
+
+
+def _design_b(args, design_a):
+    if (args.file_b is None) == (args.grade_b is None):
+        raise CommandError("compare: give design B either as a second project file or as --grade-b NAME (one of them)")
+    if args.grade_b is not None:
+        return compare.with_grade(design_a, args.grade_b)
+    return load_project(args.file_b)
+
+
+def refit_json(fit: compare.Refit, results_a) -> dict:
+    """The re-fit as plain data; figures in ``figure_unit`` (speeds in rpm, as in the evaluate JSON)."""
+    unit = "N·m" if fit.figure_unit == "mN·m" else fit.figure_unit  # torques in N·m, as in the evaluate JSON
+
+    def figure(value):
+        return from_si(value, unit)
+
+    after = results_json(fit.results)
+    return {
+        "target": fit.target,
+        "title": fit.title,
+        "figure_unit": unit,
+        "target_value": figure(fit.target_value),
+        "figure_before": figure(fit.figure_before),
+        "figure_after": figure(fit.figure_after),
+        "target_error_fraction": fit.target_error_fraction,
+        "reached": fit.reached,
+        "parameter": fit.parameter,
+        "parameter_unit": fit.parameter_unit,
+        "value_before": fit.value_before,
+        "value_after": fit.value_after,
+        "whole_numbers": compare.TARGETS[fit.target].integer,
+        "search_range": list(fit.search_range),
+        "range_limits": list(fit.range_limits),
+        "changes": [{"key": c.key, "before": c.before, "after": c.after, "reason": c.reason} for c in fit.changes],
+        "message": fit.message,
+        "notes": list(fit.notes),
+        "new_failures": list(fit.new_failures),
+        "magnet_mass_difference_kg": fit.magnet_mass_difference_kg,
+        "magnet_cost_difference": fit.magnet_cost_difference,
+        "material_cost_difference": fit.material_cost_difference,
+        "currency": fit.currency,
+        "evaluations": fit.evaluations,
+        "b_after": after,
+        "difference_after": compare.nested_difference(results_json(results_a), after),
+    }
+
+
+def cmd_compare(args) -> int:
+    import sys
+
+    design_a = load_project(args.file_a)
+    design_b = _design_b(args, design_a)
+    results_a, results_b = evaluate_project(design_a), evaluate_project(design_b)
+    comparison = compare.compare(design_a, design_b, results_a, results_b)
+    fit = compare.refit(args.refit, results_a, design_b, results_b) if args.refit else None
+
+    if args.json:
+        json_a, json_b = results_json(results_a), results_json(results_b)
+        out = {
+            "a": json_a,
+            "b": json_b,
+            "difference": compare.nested_difference(json_a, json_b),
+            "relative_difference": compare.nested_difference(json_a, json_b, relative=True),
+        }
+        if fit is not None:
+            out["refit"] = refit_json(fit, results_a)
+        print(json.dumps(out, indent=2, ensure_ascii=False))
+    else:
+        print("\n".join(compare_text(args, design_a, design_b, comparison, fit)))
+    if fit is not None and not fit.reached:
+        print(f"pmdc-sizer: re-fit: {fit.message}", file=sys.stderr)
+        return EXIT_NO_SOLUTION
+    return 0
+
+
+def _label(design, results) -> str:
+    return f"{design.project.name}, {results.magnet.name} ({results.magnet.family}), {design.magnets.thickness_mm:g} mm arcs"
+
+
+def compare_text(args, design_a, design_b, comparison, fit) -> list[str]:
+    a, b = comparison.a, comparison.b
+    lines = [f"A: {_label(design_a, a)}",
+             f"B: {_label(design_b, b)}" + (f"  (A with {args.grade_b})" if args.grade_b else ""),
+             "Nominal case unless marked; B − A and B vs A = (B − A)/|A|.", ""]
+    lines += table_lines(figure_rows(comparison))
+    for side, results in (("A", a), ("B", b)):
+        lines += ["", f"Checks of {side}:"] + [f"  {line}" for line in check_lines(results)]
+    if fit is not None:
+        lines += ["", f"Re-fit of B to A's {fit.title}:"] + refit_lines(fit)
+        after = compare.compare(design_a, fit.project, a, fit.results)
+        lines += ["", "A against re-fitted B:"] + table_lines(figure_rows(after), "A", "B re-fit")
+        lines += ["", "Checks of re-fitted B:"] + [f"  {line}" for line in check_lines(fit.results)]
+    lines += ["", "Estimates to be confirmed by test. Strong magnets pinch and shatter; handle them under your "
+                  "site's rules and defer to local codes and licensed practice."]
+    return lines

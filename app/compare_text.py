@@ -1,0 +1,111 @@
+"""A comparison for people: the key-figure rows, each side's checks and the re-fit in words.
+
+The terminal (``pmdc-sizer compare``) and the desktop comparison view show the same rows, so both read
+them from here.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from core.compare import Comparison, Refit
+from core.units import from_si
+
+from .formatting import significant
+
+
+@dataclass(frozen=True)
+class FigureRow:
+    title: str  #: with its unit, e.g. "Stall torque [mN·m]"
+    a: str
+    b: str
+    difference: str  #: B − A in the row's unit ("pt" for per-cent figures)
+    percent: str  #: (B − A)/|A|, or "–" where it means nothing
+
+
+def _shown(value_si: float, unit: str) -> float:
+    return value_si if unit in ("", "1") else from_si(value_si, unit)
+
+
+def _signed(value: float, digits: int = 3) -> str:
+    text = significant(value, digits)
+    return text if text.startswith(("-", "–")) or text == "0" else "+" + text
+
+
+def _difference(difference: float, scale: float) -> str:
+    """B − A to the last figure A and B are shown with: what is below it is solver noise."""
+    if scale > 0:
+        difference = round(difference, 3 - math.floor(math.log10(scale)))
+    return "0" if difference == 0 else _signed(difference)
+
+
+def _percent(fraction: float | None, a: float, b: float) -> str:
+    # A per cent across a change of sign (a margin that turns negative) would only mislead.
+    if fraction is None or a * b < 0:
+        return "–"
+    return "0 %" if abs(fraction) < 5e-5 else f"{_signed(100.0 * fraction, 2)} %"
+
+
+def figure_rows(comparison: Comparison) -> tuple[FigureRow, ...]:
+    """One row per key figure, in engineering units, 4 significant figures for A and B."""
+    currency = comparison.a.cost.currency
+    rows = []
+    for title, unit, item in comparison.key_figures():
+        label = f"{title} [{currency if item.key.startswith('cost.') else unit or '1'}]"
+        a, b = _shown(item.a, unit), _shown(item.b, unit)
+        difference = _difference(b - a, max(abs(a), abs(b)))
+        rows.append(FigureRow(
+            title=label,
+            a=significant(a, 4),
+            b=significant(b, 4),
+            difference=difference + (" pt" if unit == "%" and difference != "0" else ""),
+            percent=_percent(item.fraction, item.a, item.b),
+        ))
+    return tuple(rows)
+
+
+def table_lines(rows: tuple[FigureRow, ...], heading_a: str = "A", heading_b: str = "B") -> list[str]:
+    width = max(len(r.title) for r in rows) + 2
+    lines = [f"{'':<{width}}{heading_a:>12}{heading_b:>12}{'B − A':>12}{'B vs A':>10}"]
+    lines.append("-" * len(lines[0]))
+    lines += [f"{r.title:<{width}}{r.a:>12}{r.b:>12}{r.difference:>12}{r.percent:>10}" for r in rows]
+    return lines
+
+
+_STATUS = {"pass": "ok", "warning": "WARN", "fail": "FAIL"}
+
+
+def check_lines(results) -> list[str]:
+    """Every check that did not pass, worst first; one line saying so when all pass."""
+    order = {"fail": 0, "warning": 1, "pass": 2}
+    open_checks = sorted((c for c in results.checks if c.status != "pass"), key=lambda c: order[c.status])
+    passed = sum(1 for c in results.checks if c.status == "pass")
+    if not open_checks:
+        return [f"all {passed} checks pass"]
+    return [f"{_STATUS[c.status]:<4}  {c.sentence}" for c in open_checks] + [f"({passed} other checks pass)"]
+
+
+def _parameter(value, unit: str) -> str:
+    return f"{value}" if not unit else f"{significant(float(value), 4)} {unit}"
+
+
+def refit_lines(fit: Refit) -> list[str]:
+    """The re-fit in sentences: what changed, how close it came, and what it costs against A."""
+    from core.project import key_spec
+
+    lines = [fit.message]
+    for change in fit.changes:
+        unit = key_spec(change.key).unit
+        why = f" ({change.reason})" if change.reason else ""
+        lines.append(f"  {change.key}: {_parameter(change.before, unit)} → {_parameter(change.after, unit)}{why}")
+    lines += [f"  {note}" for note in fit.notes]
+    lines.append(f"  {fit.title}: A {significant(from_si(fit.target_value, fit.figure_unit), 4)}, B before "
+                 f"{significant(from_si(fit.figure_before, fit.figure_unit), 4)}, B after "
+                 f"{significant(from_si(fit.figure_after, fit.figure_unit), 4)} {fit.figure_unit} "
+                 f"(target error {_percent(fit.target_error_fraction, 1.0, 1.0)})")
+    lines.append(f"  Against A, re-fitted B has {_signed(from_si(fit.magnet_mass_difference_kg, 'g'))} g of magnet, "
+                 f"{_signed(fit.magnet_cost_difference)} {fit.currency} of magnet material and "
+                 f"{_signed(fit.material_cost_difference)} {fit.currency} of all materials.")
+    lines += [f"  Now fails: {sentence}" for sentence in fit.new_failures]
+    return lines
