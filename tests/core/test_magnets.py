@@ -1,0 +1,204 @@
+"""Magnet grades and the demagnetization-curve model at temperature."""
+
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+import pytest
+from numpy.testing import assert_allclose
+
+from core import library
+from core import magnets as mg
+from core.units import MU_0, to_si
+
+GRADES = library.magnet_grades()
+
+# A grade whose knee lies far beyond HcB: its normal curve is the straight recoil line to machine
+# precision over the whole second quadrant (the knee term underflows to 0 there).
+LINEAR = mg.MagnetGrade(
+    name="linear test grade", family="SmCo 2:17", remanence=1.0, coercivity_hcb=758e3,
+    coercivity_hcj=1.5e6, energy_product=190e3, recoil_permeability=1.05, squareness=0.98,
+    remanence_temp_coeff=0.0, coercivity_temp_coeff=0.0, max_working_temperature_C=300.0, density=8300.0,
+)
+
+
+def test_linear_energy_product_closed_form():
+    # Source: Campbell 1994, ch. 2 (from memory): on B = Br + μ0·μrec·H the product -B·H peaks at
+    # H = -HcB/2 with (BH)max = Br²/(4·μ0·μrec).
+    assert_allclose(mg.linear_energy_product(1.0, 1.05), 1.0 / (4.0 * MU_0 * 1.05), rtol=1e-15)
+    assert_allclose(mg.linear_energy_product(1.0, 1.0), 198.9437e3, rtol=1e-6)  # 1 T, μrec = 1: 198.94 kJ/m³
+
+
+@pytest.mark.parametrize("recoil", [1.0, 1.03, 1.05])
+@pytest.mark.parametrize("remanence", [0.4, 1.0, 1.3])
+def test_energy_product_of_a_linear_curve(remanence, recoil):
+    # Source: Campbell 1994, ch. 2 (from memory), against the model's own sampled (BH)max. The sampling
+    # grid of 4001 points contains H = -HcB/2 up to the root finder's 1e-12 on HcB: 1e-9 is ample.
+    # HcJ 1.6·HcB keeps the knee ~100 knee widths beyond HcB and the recoil line above 0.9·Br to Hk
+    hcj = 1.6 * remanence / (MU_0 * recoil)
+    grade = dataclasses.replace(LINEAR, remanence=remanence, recoil_permeability=recoil, coercivity_hcj=hcj)
+    assert_allclose(mg.energy_product_of_curve(grade, 20.0), mg.linear_energy_product(remanence, recoil), rtol=1e-9)
+    assert_allclose(mg.normal_coercivity_at(grade, 20.0), remanence / (MU_0 * recoil), rtol=1e-9)
+
+
+# Published ranges at 20 °C, from memory of the grade tables of IEC 60404-8-1, MMPA Standard
+# No. 0100-00, SJ/T 10410 (ferrite Y classes) and makers' catalogues: (Br min, Br max) in T,
+# (HcJ min, HcJ max) in kA/m. Minimum HcJ of the sintered NdFeB coercivity classes: none 955,
+# M 1114, H 1353, SH 1592, UH 1990, EH 2388 (the trade's 12, 14, 17, 20, 25, 30 kOe).
+PUBLISHED_RANGES = {
+    "N35": ((1.17, 1.22), (955.0, 1300.0)),
+    "N42": ((1.28, 1.32), (955.0, 1300.0)),
+    "N52": ((1.42, 1.48), (876.0, 1100.0)),
+    "N42M": ((1.28, 1.32), (1114.0, 1400.0)),
+    "N42H": ((1.28, 1.32), (1353.0, 1700.0)),
+    "N42SH": ((1.28, 1.32), (1592.0, 2000.0)),
+    "N38UH": ((1.22, 1.26), (1990.0, 2400.0)),
+    "N35EH": ((1.17, 1.22), (2388.0, 2800.0)),
+    "SmCo5 20": ((0.85, 0.95), (1200.0, 2400.0)),
+    "Sm2Co17 26": ((1.00, 1.08), (1400.0, 2400.0)),
+    "Y25": ((0.36, 0.40), (150.0, 210.0)),
+    "Y30": ((0.37, 0.40), (180.0, 220.0)),
+    "Y30BH": ((0.38, 0.40), (230.0, 250.0)),
+    "Y40": ((0.44, 0.46), (330.0, 360.0)),
+    "AlNiCo 5": ((1.20, 1.30), (48.0, 56.0)),
+}
+
+
+@pytest.mark.parametrize("name", sorted(PUBLISHED_RANGES))
+def test_library_grade_inside_published_ranges(name):
+    # Source: IEC 60404-8-1 / MMPA 0100-00 / SJ/T 10410 class ranges (from memory), see the table above.
+    (br_low, br_high), (hcj_low, hcj_high) = PUBLISHED_RANGES[name]
+    grade = GRADES[name]
+    assert br_low <= grade.remanence <= br_high
+    assert to_si(hcj_low, "kA/m") <= grade.coercivity_hcj <= to_si(hcj_high, "kA/m")
+
+
+def test_every_family_is_in_the_library():
+    assert {g.family for g in GRADES.values()} == set(mg.FAMILIES)
+
+
+@pytest.mark.parametrize("name", sorted(GRADES))
+def test_grade_data_are_consistent(name):
+    grade = GRADES[name]
+    assert grade.source, "every entry carries a source note"
+    assert 0.0 < grade.coercivity_hcb <= grade.coercivity_hcj
+    # (BH)max can never exceed the ideal straight line through Br with μrec = 1 (Campbell 1994, ch. 2)
+    assert grade.energy_product < mg.linear_energy_product(grade.remanence, 1.0)
+    expected_sign = 1.0 if grade.family.startswith("hard ferrite") else -1.0
+    if grade.family != "AlNiCo":  # AlNiCo's HcJ hardly moves with temperature
+        assert np.sign(grade.coercivity_temp_coeff) == expected_sign
+    assert grade.remanence_temp_coeff < 0.0
+
+
+@pytest.mark.parametrize("name", sorted(GRADES))
+def test_model_hcb_close_to_the_tabulated_value(name):
+    # The curve model is set by Br, μrec, HcJ and squareness only; HcB then follows. Within 10 % of the
+    # table is what a typical-values library can promise (the tables' own class ranges are ±5 %).
+    grade = GRADES[name]
+    assert_allclose(mg.normal_coercivity_at(grade, 20.0), grade.coercivity_hcb, rtol=0.10)
+
+
+_ENERGY_XFAIL = {
+    "AlNiCo 8": "model (BH)max 55 kJ/m³ against the tabulated 42 (+31 %): the knee model cannot give "
+                "AlNiCo 8's rounded curve with recoil permeability 2 (squareness is bounded below by the "
+                "recoil line, see MagnetGrade.knee_width_ratio); reported to the lead",
+}
+
+
+@pytest.mark.parametrize(
+    "name",
+    [pytest.param(n, marks=pytest.mark.xfail(strict=True, reason=_ENERGY_XFAIL[n])) if n in _ENERGY_XFAIL else n
+     for n in sorted(GRADES)],
+)
+def test_model_energy_product_close_to_the_tabulated_value(name):
+    # (BH)max is a product of two read-offs and sensitive to the knee's shape: 15 % (the brief's bound).
+    grade = GRADES[name]
+    assert_allclose(mg.energy_product_of_curve(grade, 20.0), grade.energy_product, rtol=0.15)
+
+
+@pytest.mark.parametrize("name", sorted(GRADES))
+def test_curve_model_passes_through_its_defining_points(name):
+    grade = GRADES[name]
+    hcj, hk = grade.coercivity_hcj, grade.squareness * grade.coercivity_hcj
+    assert_allclose(mg.polarization(grade, 0.0, 20.0), grade.remanence, rtol=1e-14)
+    assert_allclose(mg.polarization(grade, -hcj, 20.0), 0.0, atol=1e-12)
+    # Hk is the field at which J = 0.9·Br (IEC 60404-5 usage, from memory)
+    assert_allclose(mg.polarization(grade, -hk, 20.0), 0.9 * grade.remanence, rtol=1e-9)
+    # near H = 0 the normal curve has the recoil slope μ0·μrec; the knee term only steepens it, and for
+    # square grades (Hk/HcJ ≥ 0.7) by less than 1 %
+    step = 1e-3 * hcj
+    slope = (mg.flux_density(grade, 0.0, 20.0) - mg.flux_density(grade, -step, 20.0)) / step
+    assert slope >= MU_0 * grade.recoil_permeability * (1.0 - 1e-9)
+    if grade.squareness >= 0.7:
+        assert_allclose(slope, MU_0 * grade.recoil_permeability, rtol=1e-2)
+    h = np.linspace(-1.1 * hcj, 0.0, 500)
+    assert np.all(np.diff(mg.flux_density(grade, h, 20.0)) > 0.0)
+    assert np.all(np.diff(mg.polarization(grade, h, 20.0)) >= 0.0)
+    assert_allclose(mg.flux_density(grade, h, 20.0), MU_0 * h + mg.polarization(grade, h, 20.0), rtol=1e-14, atol=1e-15)
+
+
+def test_reversible_temperature_coefficients():
+    grade = GRADES["N42SH"]
+    assert_allclose(mg.remanence_at(grade, 120.0), grade.remanence * (1.0 + 100.0 * grade.remanence_temp_coeff), rtol=1e-14)
+    assert_allclose(mg.intrinsic_coercivity_at(grade, -20.0), grade.coercivity_hcj * (1.0 - 40.0 * grade.coercivity_temp_coeff), rtol=1e-14)
+    assert mg.remanence_at(grade, 20.0) == grade.remanence
+    temperatures = np.array([-40.0, 20.0, 150.0])
+    assert mg.remanence_at(grade, temperatures).shape == (3,)
+
+
+@pytest.mark.parametrize("name", [n for n, g in GRADES.items() if g.family.startswith("hard ferrite")])
+def test_ferrite_knee_moves_toward_the_operating_region_when_cold(name):
+    # Common practice (and IEC 60404-8-1's positive HcJ coefficient for ferrite): ferrite magnets
+    # demagnetize when cold.
+    grade = GRADES[name]
+    knees = [float(mg.knee_field_at(grade, t)) for t in (-40.0, 20.0, 100.0)]
+    assert knees[0] > knees[1] > knees[2]  # less negative = closer to the operating region
+    # the whole curve's knee moves: where the cold curve has collapsed (J = 0 at -HcJ cold), the hot
+    # one still holds more than half its Br
+    field = -float(mg.intrinsic_coercivity_at(grade, -40.0))
+    assert_allclose(mg.polarization(grade, field, -40.0), 0.0, atol=1e-12)
+    assert mg.polarization(grade, field, 100.0) > 0.5 * mg.remanence_at(grade, 100.0)
+
+
+@pytest.mark.parametrize("name", [n for n, g in GRADES.items() if "NdFeB" in g.family])
+def test_ndfeb_knee_moves_toward_the_operating_region_when_hot(name):
+    grade = GRADES[name]
+    knees = [float(mg.knee_field_at(grade, t)) for t in (-40.0, 20.0, 100.0)]
+    assert knees[0] < knees[1] < knees[2]
+    field = -float(mg.intrinsic_coercivity_at(grade, 100.0))
+    assert_allclose(mg.polarization(grade, field, 100.0), 0.0, atol=1e-12)
+    assert mg.polarization(grade, field, -40.0) > 0.5 * mg.remanence_at(grade, -40.0)
+
+
+def test_knee_field_is_squareness_times_hcj():
+    grade = GRADES["Y30"]
+    assert_allclose(mg.knee_field_at(grade, 60.0), -grade.squareness * mg.intrinsic_coercivity_at(grade, 60.0), rtol=1e-15)
+
+
+def test_model_temperature_range():
+    low, high = mg.model_temperature_range_C(GRADES["N42SH"])
+    beta = GRADES["N42SH"].coercivity_temp_coeff
+    assert_allclose(high, 20.0 - 0.75 / beta)
+    assert low == -273.0  # NdFeB's coefficients are both negative: nothing bounds it from below
+    low, high = mg.model_temperature_range_C(GRADES["Y30"])
+    assert low > -273.0
+    # at the edge HcJ has fallen to a quarter of its 20 °C value
+    assert_allclose(mg.intrinsic_coercivity_at(GRADES["Y30"], low), 0.25 * GRADES["Y30"].coercivity_hcj, rtol=1e-12)
+
+
+def test_squareness_too_low_for_the_recoil_line_is_refused():
+    grade = dataclasses.replace(LINEAR, recoil_permeability=1.3, squareness=0.9)
+    with pytest.raises(ValueError, match="squareness"):
+        grade.knee_width_ratio
+
+
+def test_demagnetization_curves_for_charts():
+    grade = GRADES["Y30BH"]
+    curves = mg.demagnetization_curves(grade, -20.0, samples=120)
+    assert curves.field_strength.shape == curves.flux_density.shape == curves.polarization.shape == (120,)
+    assert curves.field_strength[0] == pytest.approx(-1.1 * curves.coercivity_hcj)
+    assert curves.field_strength[-1] == 0.0
+    assert curves.remanence == pytest.approx(float(mg.remanence_at(grade, -20.0)))
+    assert curves.knee_field == pytest.approx(float(mg.knee_field_at(grade, -20.0)))
+    assert curves.knee_flux_density == pytest.approx(float(mg.flux_density(grade, curves.knee_field, -20.0)))
