@@ -165,16 +165,17 @@ def nested_difference(a, b, relative: bool = False):
     return {} if result is _SKIP else result
 
 
-def _flatten(nested, prefix: str = "") -> Iterator[tuple[str, Any]]:
+def flatten(nested, prefix: str = "") -> Iterator[tuple[str, Any]]:
+    """(dotted key, value) for every leaf of a :func:`nested_difference`; list items by name."""
     if isinstance(nested, dict):
         for name, value in nested.items():
             if name == "name" and prefix.endswith("]"):
                 continue
-            yield from _flatten(value, f"{prefix}.{name}" if prefix else name)
+            yield from flatten(value, f"{prefix}.{name}" if prefix else name)
     elif isinstance(nested, list):
         for index, item in enumerate(nested):
             label = item.get("name", index) if isinstance(item, dict) else index
-            yield from _flatten(item, f"{prefix}[{label}]")
+            yield from flatten(item, f"{prefix}[{label}]")
     else:
         yield prefix, nested
 
@@ -186,7 +187,7 @@ def difference(a: Results, b: Results) -> tuple[FigureDifference, ...]:
         return ()
     return tuple(
         FigureDifference(key=path, a=x, b=y, difference=y - x, fraction=_fraction(leaf_key, x, y))
-        for path, (leaf_key, x, y) in _flatten(pairs)
+        for path, (leaf_key, x, y) in flatten(pairs)
     )
 
 

@@ -7,6 +7,7 @@ import json
 import pytest
 
 from app.cli import main
+from core import compare
 from tests.conftest import DEMO_FOLDER
 
 FERRITE = str(DEMO_FOLDER / "appliance_ferrite_12v.toml")
@@ -20,15 +21,7 @@ def run(capsys, *argv):
 
 
 def leaves(node):
-    if isinstance(node, dict):
-        for key, value in node.items():
-            if key != "name":
-                yield from leaves(value)
-    elif isinstance(node, list):
-        for item in node:
-            yield from leaves(item)
-    else:
-        yield node
+    return [value for _, value in compare.flatten(node)]
 
 
 def test_two_files_as_json_hold_a_b_and_their_difference(capsys):

@@ -69,18 +69,7 @@ def test_nested_difference_of_json_keeps_the_keys_and_holds_numbers_only(ferrite
     data = results_json(results)
     nested = compare.nested_difference(data, data)
 
-    def leaves(node):
-        if isinstance(node, dict):
-            for key, value in node.items():
-                if key != "name":
-                    yield from leaves(value)
-        elif isinstance(node, list):
-            for item in node:
-                yield from leaves(item)
-        else:
-            yield node
-
-    values = list(leaves(nested))
+    values = [value for _, value in compare.flatten(nested)]
     assert values and all(isinstance(v, (int, float)) and v == 0 for v in values)
     assert nested["constants"].keys() <= data["constants"].keys()
     assert "no_load_speed_rpm" in nested["performance"]
