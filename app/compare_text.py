@@ -86,8 +86,9 @@ def check_lines(results) -> list[str]:
     return [f"{_STATUS[c.status]:<4}  {c.sentence}" for c in open_checks] + [f"({passed} other checks pass)"]
 
 
-def _parameter(value, unit: str) -> str:
-    return f"{value}" if not unit else f"{significant(float(value), 4)} {unit}"
+def parameter_text(value, unit: str) -> str:
+    """An input value as the file holds it: whole turns as whole numbers, lengths to 4 figures."""
+    return f"{value}" if not unit else f"{float(value):.4g} {unit}"
 
 
 def refit_lines(fit: Refit) -> list[str]:
@@ -98,7 +99,7 @@ def refit_lines(fit: Refit) -> list[str]:
     for change in fit.changes:
         unit = key_spec(change.key).unit
         why = f" ({change.reason})" if change.reason else ""
-        lines.append(f"  {change.key}: {_parameter(change.before, unit)} → {_parameter(change.after, unit)}{why}")
+        lines.append(f"  {change.key}: {parameter_text(change.before, unit)} → {parameter_text(change.after, unit)}{why}")
     lines += [f"  {note}" for note in fit.notes]
     lines.append(f"  {fit.title}: A {significant(from_si(fit.target_value, fit.figure_unit), 4)}, B before "
                  f"{significant(from_si(fit.figure_before, fit.figure_unit), 4)}, B after "

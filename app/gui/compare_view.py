@@ -1,0 +1,564 @@
+"""The comparison page: the current design (A, live) against a second design (B).
+
+B is one of: the current design with another magnet grade (it follows every edit of A), a pinned copy
+of the current design as it was when pinned, or a second project file. The page shows the key figures
+of both with B − A, each side's checks, both magnet operating charts, and the speed-torque curves of A
+and B on the same axes. Three buttons re-fit B to one of A's figures (Ke by magnet thickness, no-load
+speed by turns per coil, stall torque by stack length); a re-fit runs off the GUI thread and leaves B
+pinned at its re-fitted design.
+
+The page computes nothing: ``core.compare`` differences and re-fits, ``core.evaluate`` evaluates.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal
+from PySide6.QtGui import QBrush, QColor
+from PySide6.QtWidgets import (
+    QComboBox,
+    QFileDialog,
+    QGroupBox,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QPushButton,
+    QSplitter,
+    QTabWidget,
+    QTableWidget,
+    QTableWidgetItem,
+    QTextBrowser,
+    QVBoxLayout,
+    QWidget,
+)
+
+from app.compare_text import figure_rows, parameter_text, refit_lines
+from app.formatting import significant
+from core import compare, library
+from core import project as project_file
+from core.magnetic_circuit import MagneticCircuitError
+from core.project import ProjectError
+from core.units import from_si
+
+from .evaluation import Evaluator
+from .magnet_chart import MagnetChart
+from .performance_chart import QUANTITIES
+from .style import STATUS_COLOURS, STATUS_MARKS, STATUS_WORDS
+
+#: A is drawn solid in slate, B dashed in teal: told apart by colour and by line, also in grey print.
+SIDE_STYLES = {
+    "A": {"colour": "#334155", "style": Qt.PenStyle.SolidLine, "symbol": "o"},
+    "B": {"colour": "#0d9488", "style": Qt.PenStyle.DashLine, "symbol": "s"},
+}
+REQUIRED_COLOUR = "#b91c1c"
+NO_GRADE = "— choose a grade —"
+REFIT_BUTTONS = (
+    ("ke", "Same Ke as A\nby B's magnet thickness"),
+    ("no-load-speed", "Same no-load speed as A\nby B's turns per coil"),
+    ("stall-torque", "Same stall torque as A\nby B's stack length"),
+)
+
+
+class _RefitSignals(QObject):
+    done = Signal(int, object, str)  # generation, Refit or None, error message
+
+
+class _RefitJob(QRunnable):
+    def __init__(self, generation, target, results_a, project_b, results_b, signals):
+        super().__init__()
+        self.arguments = (target, results_a, project_b, results_b)
+        self.generation, self.signals = generation, signals
+        self.setAutoDelete(True)
+
+    def run(self) -> None:
+        try:
+            fit = compare.refit(*self.arguments)
+        except (ProjectError, MagneticCircuitError, ValueError, ArithmeticError) as error:
+            self.signals.done.emit(self.generation, None, str(error))
+            return
+        except Exception as error:  # noqa: BLE001 - a failed re-fit must not take the window down
+            self.signals.done.emit(self.generation, None, f"re-fit failed: {error!r}")
+            return
+        self.signals.done.emit(self.generation, fit, "")
+
+
+class CompareView(QWidget):
+    """The comparison page. ``main_window`` provides ``current_project``, ``current_results`` and the
+    signal ``results_ready(project, results)``."""
+
+    page_title = "A against B"
+    comparison_updated = Signal(object)  #: the new core.compare.Comparison
+    refit_finished = Signal(object)  #: core.compare.Refit, or None when it failed
+
+    def __init__(self, main_window):
+        super().__init__()
+        self.setObjectName("compare_view")
+        self.main_window = main_window
+        self.project_a = self.results_a = None
+        self.project_b = self.results_b = None
+        self.b_mode = ""  # "grade", "pinned", "file" or "refit"
+        self.b_source = ""  # words for the B line
+        self.comparison: compare.Comparison | None = None
+        self.last_refit: compare.Refit | None = None
+        self._refit_generation = 0
+        self._refit_running = False
+        self._refit_for_a = None
+        self.status_text = ""
+
+        self.evaluator_b = Evaluator(self)
+        self.evaluator_b.finished.connect(self._on_b_evaluated)
+        self.evaluator_b.failed.connect(self._on_b_failed)
+        self._refit_pool = QThreadPool(self)
+        self._refit_pool.setMaxThreadCount(1)
+        self._refit_signals = _RefitSignals(self)
+        self._refit_signals.done.connect(self._on_refit_done)
+
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(6, 6, 6, 6)
+        top = QHBoxLayout()
+        top.addWidget(self._build_choice_bar(), 3)
+        top.addWidget(self._build_refit_bar(), 2)
+        layout.addLayout(top)
+        self.side_labels = QLabel()
+        self.side_labels.setObjectName("side_labels")
+        self.side_labels.setTextFormat(Qt.TextFormat.RichText)
+        self.side_labels.setWordWrap(True)
+        layout.addWidget(self.side_labels)
+        splitter = QSplitter(Qt.Orientation.Horizontal)
+        layout.addWidget(splitter, 1)
+        splitter.addWidget(self._build_numbers_panel())
+        self.tabs = QTabWidget()
+        self.tabs.setObjectName("compare_tabs")
+        self.tabs.addTab(self._build_curves(), "Speed-torque curves, A and B")
+        self.tabs.addTab(self._build_magnet_charts(), "Magnet working points, A and B")
+        splitter.addWidget(self.tabs)
+        splitter.setStretchFactor(0, 2)
+        splitter.setStretchFactor(1, 3)
+        splitter.setSizes([560, 840])
+
+        if hasattr(main_window, "results_ready"):
+            main_window.results_ready.connect(self.set_design_a)
+        if getattr(main_window, "current_results", None) is not None:
+            self.set_design_a(main_window.current_project, main_window.current_results)
+        else:
+            self._show_sides()
+
+    # ------------------------------------------------------------------------------------------
+    # Building
+
+    def _build_choice_bar(self) -> QWidget:
+        bar = QGroupBox("Design B")
+        row = QHBoxLayout(bar)
+        row.addWidget(QLabel("A with the grade"))
+        self.grade_combo = QComboBox()
+        self.grade_combo.setObjectName("grade_b_combo")
+        self.grade_combo.addItem(NO_GRADE)
+        for grade in library.magnet_grades().values():
+            self.grade_combo.addItem(grade.name)
+            self.grade_combo.setItemData(self.grade_combo.count() - 1, grade.family, Qt.ItemDataRole.ToolTipRole)
+        self.grade_combo.setToolTip("B follows every edit of A, with this magnet grade instead of A's.")
+        self.grade_combo.currentTextChanged.connect(self._on_grade_chosen)
+        row.addWidget(self.grade_combo)
+        row.addWidget(QLabel("or"))
+        self.pin_button = QPushButton("Pin the current design as B")
+        self.pin_button.setObjectName("pin_button")
+        self.pin_button.setToolTip("B keeps the design as it is now; go on editing A and watch the difference.")
+        self.pin_button.clicked.connect(self.pin_current_as_b)
+        row.addWidget(self.pin_button)
+        self.open_button = QPushButton("Open a project file as B…")
+        self.open_button.setObjectName("open_b_button")
+        self.open_button.clicked.connect(self._choose_b_file)
+        row.addWidget(self.open_button)
+        row.addStretch(1)
+        return bar
+
+    def _build_numbers_panel(self) -> QWidget:
+        panel = QWidget()
+        column = QVBoxLayout(panel)
+        column.setContentsMargins(0, 0, 0, 0)
+        self.figures_table = QTableWidget(0, 5)
+        self.figures_table.setObjectName("figures_table")
+        self.figures_table.setHorizontalHeaderLabels(["Nominal case unless marked", "A", "B", "B − A", "B vs A"])
+        self._tidy_table(self.figures_table)
+        column.addWidget(self.figures_table, 3)
+
+        self.checks_table = QTableWidget(0, 3)
+        self.checks_table.setObjectName("checks_table")
+        self.checks_table.setHorizontalHeaderLabels(["Check", "A", "B"])
+        self._tidy_table(self.checks_table)
+        column.addWidget(self.checks_table, 2)
+
+        self.refit_report = QTextBrowser()
+        self.refit_report.setObjectName("refit_report")
+        self.refit_report.setPlaceholderText(
+            "No re-fit yet. A re-fit changes one input of B until B meets A's figure; it takes a few dozen "
+            "evaluations, well under a second.")
+        column.addWidget(self.refit_report, 1)
+        return panel
+
+    def _build_refit_bar(self) -> QWidget:
+        box = QGroupBox("Re-fit B to A (B is then pinned at the re-fitted design)")
+        row = QHBoxLayout(box)
+        self.refit_buttons: dict[str, QPushButton] = {}
+        for target, label in REFIT_BUTTONS:
+            button = QPushButton(label)
+            button.setObjectName(f"refit_{target}")
+            button.clicked.connect(lambda _checked=False, t=target: self.start_refit(t))
+            row.addWidget(button)
+            self.refit_buttons[target] = button
+        return box
+
+    @staticmethod
+    def _tidy_table(table: QTableWidget) -> None:
+        table.verticalHeader().hide()
+        table.verticalHeader().setDefaultSectionSize(21)
+        table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
+        table.setSelectionMode(QTableWidget.SelectionMode.NoSelection)
+        header = table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)
+
+    def _build_curves(self) -> QWidget:
+        page = QWidget()
+        column = QVBoxLayout(page)
+        column.setContentsMargins(0, 0, 0, 0)
+        row = QHBoxLayout()
+        row.addWidget(QLabel("Temperature case"))
+        self.case_combo = QComboBox()
+        self.case_combo.setObjectName("curve_case_combo")
+        self.case_combo.addItems(["nominal", "cold", "hot"])
+        self.case_combo.currentTextChanged.connect(lambda _text: self._draw_curves())
+        row.addWidget(self.case_combo)
+        self.curve_note = QLabel()
+        row.addWidget(self.curve_note, 1)
+        column.addLayout(row)
+        # The key sits above the plots rather than on them, so it never hides a curve.
+        self.curve_key = QLabel()
+        self.curve_key.setObjectName("curve_key")
+        self.curve_key.setTextFormat(Qt.TextFormat.RichText)
+        self.curve_key.setStyleSheet("padding: 2px 4px;")
+        column.addWidget(self.curve_key)
+        self.curves_canvas = pg.GraphicsLayoutWidget()
+        self.curves_canvas.setObjectName("compare_curves")
+        self.curves_canvas.setBackground("w")
+        column.addWidget(self.curves_canvas, 1)
+        self.curve_plots, self.curve_items, self.rated_marks = {}, {}, {}
+        first = None
+        for index, (attribute, title, unit) in enumerate(QUANTITIES):
+            plot = self.curves_canvas.addPlot(row=index // 2, col=index % 2)
+            plot.showGrid(x=True, y=True, alpha=0.25)
+            plot.setLabel("left", title, units=unit)
+            plot.setLabel("bottom", "Shaft torque", units="mN·m")
+            plot.setMenuEnabled(False)
+            for axis in ("left", "bottom"):
+                plot.getAxis(axis).enableAutoSIPrefix(False)
+                plot.getAxis(axis).setTextPen("k")
+                plot.getAxis(axis).setPen("k")
+            if first is None:
+                first = plot
+            else:
+                plot.setXLink(first)
+            for side, style in SIDE_STYLES.items():
+                pen = pg.mkPen(style["colour"], width=2.4, style=style["style"])
+                self.curve_items[(attribute, side)] = plot.plot(pen=pen)
+                # A's mark is the larger, so that B's, at the same rated torque, still lets it show.
+                self.rated_marks[(attribute, side)] = plot.plot(
+                    pen=None, symbol=style["symbol"], symbolSize=13 if side == "A" else 8,
+                    symbolBrush=style["colour"], symbolPen=pg.mkPen("w", width=1))
+            self.curve_plots[attribute] = plot
+        self.required_mark = self.curve_plots["speed_rad_per_s"].plot(
+            pen=None, symbol="+", symbolSize=22, symbolPen=pg.mkPen(REQUIRED_COLOUR, width=2.5))
+        return page
+
+    def _build_magnet_charts(self) -> QWidget:
+        page = QWidget()
+        row = QHBoxLayout(page)
+        row.setContentsMargins(0, 0, 0, 0)
+        self.magnet_charts, self.magnet_titles = {}, {}
+        for side in ("A", "B"):
+            box = QWidget()
+            column = QVBoxLayout(box)
+            column.setContentsMargins(0, 0, 0, 0)
+            title = QLabel()
+            title.setObjectName(f"magnet_title_{side}")
+            title.setStyleSheet(f"font-weight: bold; color: {SIDE_STYLES[side]['colour']}; padding: 2px;")
+            column.addWidget(title)
+            chart = MagnetChart()
+            chart.setObjectName(f"magnet_chart_{side}")
+            column.addWidget(chart, 1)
+            self.magnet_charts[side], self.magnet_titles[side] = chart, title
+            row.addWidget(box, 1)
+        return page
+
+    # ------------------------------------------------------------------------------------------
+    # Design A, live
+
+    def set_design_a(self, project, results) -> None:
+        """A was evaluated (the main window's ``results_ready``): follow it."""
+        self.project_a, self.results_a = project, results
+        if self.b_mode == "grade":
+            self._request_b_with_grade()
+        self._update()
+
+    # ------------------------------------------------------------------------------------------
+    # Choosing B
+
+    def _on_grade_chosen(self, name: str) -> None:
+        if name and name != NO_GRADE:
+            self.use_grade_for_b(name)
+
+    def use_grade_for_b(self, grade_name: str) -> None:
+        """B = A with ``grade_name``, following A from now on."""
+        if self.grade_combo.currentText() != grade_name:
+            self.grade_combo.blockSignals(True)
+            self.grade_combo.setCurrentText(grade_name)
+            self.grade_combo.blockSignals(False)
+        self.b_mode, self.b_source = "grade", f"A with {grade_name}, following A"
+        self.project_b = self.results_b = None
+        self._request_b_with_grade()
+        self._update()
+
+    def _request_b_with_grade(self) -> None:
+        if self.project_a is None:
+            return
+        try:
+            design_b = compare.with_grade(self.project_a, self.grade_combo.currentText())
+        except ProjectError as error:
+            self._on_b_failed(None, str(error))
+            return
+        self.evaluator_b.request(design_b)
+
+    def pin_current_as_b(self) -> None:
+        """B = the current design as it is now; it stays so while A is edited."""
+        if self.project_a is None:
+            return
+        self._reset_grade_combo()
+        self.b_mode, self.b_source = "pinned", f"A as it was when pinned ({self.results_a.magnet.name})"
+        self.project_b, self.results_b = self.project_a, self.results_a
+        self._update()
+
+    def _choose_b_file(self) -> None:
+        path, _filter = QFileDialog.getOpenFileName(self, "Open a project file as B", "", "pmdc-sizer projects (*.toml)")
+        if path:
+            self.load_b_file(path)
+
+    def load_b_file(self, path) -> bool:
+        """B = the design in ``path``. A bad file leaves B as it was and says why."""
+        try:
+            design_b = project_file.load(path)
+        except ProjectError as error:
+            self._set_status(f"B not changed: {error}", "fail")
+            return False
+        self._reset_grade_combo()
+        self.b_mode, self.b_source = "file", f"file {Path(path).name}"
+        self.project_b = self.results_b = None
+        self.evaluator_b.request(design_b)
+        self._update()
+        return True
+
+    def _reset_grade_combo(self) -> None:
+        self.grade_combo.blockSignals(True)
+        self.grade_combo.setCurrentText(NO_GRADE)
+        self.grade_combo.blockSignals(False)
+
+    def _on_b_evaluated(self, project, results) -> None:
+        if self.b_mode not in ("grade", "file"):
+            return  # B was pinned or re-fitted meanwhile
+        if self.b_mode == "grade" and project.magnets.grade != self.grade_combo.currentText():
+            return  # an earlier choice of grade, overtaken
+        self.status_text = ""
+        self.project_b, self.results_b = project, results
+        self._update()
+
+    def _on_b_failed(self, _project, message: str) -> None:
+        self.project_b = self.results_b = None
+        self._update()
+        self._set_status(f"B has no solution: {message}", "fail")
+
+    # ------------------------------------------------------------------------------------------
+    # Re-fits
+
+    def start_refit(self, target: str) -> bool:
+        """Re-fit B to A's figure ``target`` (a key of core.compare.TARGETS) off the GUI thread."""
+        if self._refit_running or self.results_a is None or self.results_b is None:
+            return False
+        self._refit_generation += 1
+        self._refit_running = True
+        self._refit_for_a = self.project_a
+        for button in self.refit_buttons.values():
+            button.setEnabled(False)
+        self.refit_report.setPlainText(f"Re-fitting B to A's {compare.TARGETS[target].title}…")
+        self._refit_pool.start(_RefitJob(self._refit_generation, target, self.results_a, self.project_b,
+                                         self.results_b, self._refit_signals))
+        return True
+
+    def _on_refit_done(self, generation: int, fit, message: str) -> None:
+        self._refit_running = False
+        for button in self.refit_buttons.values():
+            button.setEnabled(True)
+        if generation != self._refit_generation:
+            return
+        if fit is None:
+            self.refit_report.setPlainText(f"The re-fit failed: {message}")
+            self.refit_finished.emit(None)
+            return
+        self.last_refit = fit
+        # B becomes the re-fitted design, pinned: it no longer follows A's edits.
+        self._reset_grade_combo()
+        self.b_mode = "refit"
+        self.b_source = (f"re-fitted to A's {fit.title} ({'reached' if fit.reached else 'out of reach'}): "
+                         f"{compare.TARGETS[fit.target].parameter_title} {parameter_text(fit.value_before, fit.parameter_unit)}"
+                         f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
+        self.project_b, self.results_b = fit.project, fit.results
+        self._show_refit(fit)
+        self._update()
+        self.refit_finished.emit(fit)
+
+    def _show_refit(self, fit) -> None:
+        colour = STATUS_COLOURS["pass" if fit.reached else "fail"]
+        lines = refit_lines(fit)
+        head = "Reached" if fit.reached else "Out of reach"
+        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(lines[0])}</p><ul>"]
+        html += [f"<li>{_escape(line.strip())}</li>" for line in lines[1:]]
+        html.append(f"</ul><p style='color:#666'>{fit.evaluations} evaluations.</p>")
+        if self.project_a is not self._refit_for_a:
+            html.append("<p><b>A changed while B was re-fitted; re-fit again to match the new A.</b></p>")
+        self.refit_report.setHtml("".join(html))
+
+    # ------------------------------------------------------------------------------------------
+    # Showing
+
+    def _set_status(self, text: str, status: str = "pass") -> None:
+        self.status_text = f"<br><span style='color:{STATUS_COLOURS[status]}'>{_escape(text)}</span>" if text else ""
+        self._show_sides()
+
+    def _side_text(self, side: str, results, source: str) -> str:
+        style = SIDE_STYLES[side]
+        mark = "━━" if side == "A" else "╍╍"
+        if results is None:
+            return f"<span style='color:{style['colour']}'><b>{mark} {side}</b></span>: {_escape(source)}"
+        m = results.magnet
+        return (f"<span style='color:{style['colour']}'><b>{mark} {side}</b></span>: {_escape(results.name)} · "
+                f"<b>{_escape(m.name)}</b> ({_escape(m.family)}) · {_escape(source)}")
+
+    def _show_sides(self) -> None:
+        a_text = self._side_text("A", self.results_a, "the current design, live" if self.results_a is not None
+                                 else "no evaluated design yet")
+        if not self.b_mode:
+            b_source = "choose a grade, pin the current design, or open a project file"
+        elif self.results_b is None:
+            b_source = f"{self.b_source} (evaluating…)"
+        else:
+            b_source = self.b_source
+        self.side_labels.setText(a_text + "<br>" + self._side_text("B", self.results_b, b_source) + self.status_text)
+
+    def _update(self) -> None:
+        self._show_sides()
+        ready = self.results_a is not None and self.results_b is not None
+        for button in self.refit_buttons.values():
+            button.setEnabled(ready and not self._refit_running)
+        if self.last_refit is not None and self.b_mode == "refit" and self.project_a is not self._refit_for_a:
+            self._show_refit(self.last_refit)
+        if not ready:
+            self.comparison = None
+            self.figures_table.setRowCount(0)
+            self.checks_table.setRowCount(0)
+            self._draw_curves()
+            if self.results_a is not None:
+                self._draw_magnets()
+            return
+        self.comparison = compare.compare(self.project_a, self.project_b, self.results_a, self.results_b)
+        self._fill_figures()
+        self._fill_checks()
+        self._draw_curves()
+        self._draw_magnets()
+        self.comparison_updated.emit(self.comparison)
+
+    def _fill_figures(self) -> None:
+        rows = figure_rows(self.comparison)
+        self.figures_table.setRowCount(len(rows))
+        for index, row in enumerate(rows):
+            for column, text in enumerate((row.title, row.a, row.b, row.difference, row.percent)):
+                cell = QTableWidgetItem(text)
+                if column:
+                    cell.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+                if column == 1:
+                    cell.setForeground(QBrush(QColor(SIDE_STYLES["A"]["colour"])))
+                if column == 2:
+                    cell.setForeground(QBrush(QColor(SIDE_STYLES["B"]["colour"])))
+                self.figures_table.setItem(index, column, cell)
+
+    def _fill_checks(self) -> None:
+        by_key_a = {c.key: c for c in self.results_a.checks}
+        by_key_b = {c.key: c for c in self.results_b.checks}
+        keys = list(by_key_a) + [k for k in by_key_b if k not in by_key_a]
+        self.checks_table.setRowCount(len(keys))
+        for index, key in enumerate(keys):
+            titled = by_key_a.get(key) or by_key_b[key]
+            self.checks_table.setItem(index, 0, QTableWidgetItem(titled.title))
+            for column, check in ((1, by_key_a.get(key)), (2, by_key_b.get(key))):
+                if check is None:
+                    cell = QTableWidgetItem("–")
+                    cell.setToolTip("this side has no such check")
+                else:
+                    cell = QTableWidgetItem(f"{STATUS_MARKS[check.status]} {STATUS_WORDS[check.status]}")
+                    cell.setForeground(QBrush(QColor(STATUS_COLOURS[check.status])))
+                    cell.setToolTip(check.sentence)
+                self.checks_table.setItem(index, column, cell)
+        self.checks_table.setToolTip("Point at a result to read the reason and what to change.")
+        self.checks_table.setFixedHeight(self.checks_table.horizontalHeader().height() + 21 * len(keys) + 4)
+
+    def _draw_curves(self) -> None:
+        case_name = self.case_combo.currentText()
+        highest_stall = 0.0
+        keys = []
+        for side, results in (("A", self.results_a), ("B", self.results_b)):
+            case = getattr(results, case_name) if results is not None else None
+            for attribute, _title, unit in QUANTITIES:
+                curve, mark = self.curve_items[(attribute, side)], self.rated_marks[(attribute, side)]
+                if case is None:
+                    curve.setData([], [])
+                    mark.setData([], [])
+                    continue
+                torque = from_si(case.curve.torque_N_m, "mN·m")
+                curve.setData(torque, from_si(np.asarray(getattr(case.curve, attribute)), unit))
+                if case.rated_reached:
+                    mark.setData([from_si(case.rated.torque_N_m, "mN·m")],
+                                 [from_si(getattr(case.rated, attribute), unit)])
+                else:
+                    mark.setData([], [])
+            if case is not None:
+                highest_stall = max(highest_stall, from_si(case.stall_torque_N_m, "mN·m"))
+                colour, line, mark = SIDE_STYLES[side]["colour"], ("━━━" if side == "A" else "╍╍╍"), \
+                    ("●" if side == "A" else "■")
+                keys.append(f"<span style='color:{colour}'><b>{line} {side}</b>: {_escape(results.magnet.name)}, "
+                            f"winding {case.winding_temperature_C:.0f} °C, magnet {case.magnet_temperature_C:.0f} °C; "
+                            f"{mark} rated point</span>")
+        if self.results_a is not None:
+            self.required_mark.setData([from_si(self.results_a.load_torque_N_m, "mN·m")],
+                                       [from_si(self.results_a.load_speed_rad_per_s, "rpm")])
+            self.curve_note.setText(f"{case_name} case")
+            keys.append(f"<span style='color:{REQUIRED_COLOUR}'><b>✚</b> required: rated torque at this speed or faster</span>")
+        self.curve_key.setText("&nbsp;&nbsp;&nbsp;".join(keys))
+        if highest_stall > 0:
+            for plot in self.curve_plots.values():
+                plot.setXRange(0.0, highest_stall * 1.02, padding=0.0)
+                plot.enableAutoRange(axis="y")
+
+    def _draw_magnets(self) -> None:
+        for side, results, design in (("A", self.results_a, self.project_a), ("B", self.results_b, self.project_b)):
+            chart, title = self.magnet_charts[side], self.magnet_titles[side]
+            if results is None:
+                chart.clear()
+                title.setText(f"{side}: –")
+                continue
+            chart.show_results(results)
+            title.setText(f"{side}: {results.magnet.name}, {design.magnets.thickness_mm:g} mm arcs, "
+                          f"Pc {significant(results.magnetics.permeance_coefficient, 3)} at no load")
+
+
+def _escape(text: str) -> str:
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")

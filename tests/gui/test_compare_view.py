@@ -1,0 +1,133 @@
+"""The comparison page, driven through its own methods and buttons, offscreen."""
+
+from __future__ import annotations
+
+import pytest
+from PySide6.QtCore import QObject, Qt, Signal
+
+from core import compare, evaluate, project
+from tests.conftest import DEMO_FOLDER
+
+pytest.importorskip("pyqtgraph")
+
+from app.gui.compare_view import CompareView  # noqa: E402
+
+FERRITE = DEMO_FOLDER / "appliance_ferrite_12v.toml"
+
+
+class StandInWindow(QObject):
+    """What the page needs of the main window: the current design and its results, and the signal."""
+
+    results_ready = Signal(object, object)
+
+    def __init__(self, path):
+        super().__init__()
+        self.current_project = project.load(path)
+        self.current_results = evaluate.evaluate(self.current_project)
+
+    def edit(self, changes):
+        self.current_project = project.with_values(self.current_project, changes)
+        self.current_results = evaluate.evaluate(self.current_project)
+        self.results_ready.emit(self.current_project, self.current_results)
+
+
+@pytest.fixture
+def page(qtbot):
+    window = StandInWindow(FERRITE)
+    view = CompareView(window)
+    qtbot.addWidget(view)
+    view.resize(1500, 950)
+    view.show()
+    yield window, view
+    view.evaluator_b.wait()
+    view._refit_pool.waitForDone(5000)
+
+
+def cell(table, row, column):
+    return table.item(row, column).text()
+
+
+def row_of(table, title):
+    for row in range(table.rowCount()):
+        if cell(table, row, 0).startswith(title):
+            return row
+    raise AssertionError(f"no row {title!r}")
+
+
+def test_pinned_copy_of_a_shows_no_difference_then_follows_edits_of_a(page, qtbot):
+    window, view = page
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.pin_button.click()
+    table = view.figures_table
+    assert table.rowCount() == len(compare.KEY_FIGURES)
+    assert all(cell(table, row, 3) == "0" for row in range(table.rowCount()))
+    # Editing A moves A only: the pinned B stays at 6 mm.
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        window.edit({"magnets.thickness_mm": 7.0})
+    row = row_of(table, "Magnet thickness")
+    assert (cell(table, row, 1), cell(table, row, 2), cell(table, row, 3)) == ("7.000", "6.000", "-1.00")
+    assert cell(table, row_of(table, "Ke = Kt"), 4).startswith("-")
+
+
+def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page, qtbot):
+    window, view = page
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.grade_combo.setCurrentText("N42")
+    assert view.results_b.magnet.name == "N42"
+    table = view.figures_table
+    assert float(cell(table, row_of(table, "Br at nominal ambient"), 2)) > 3 * float(cell(table, row_of(table, "Br at nominal ambient"), 1))
+    # Each side's checks: the ferrite demo passes, N42 in its frame fails demagnetization when hot.
+    checks = view.checks_table
+    demag = row_of(checks, "Demagnetization")
+    assert "OK" in cell(checks, demag, 1) and "Fails" in cell(checks, demag, 2)
+    assert "knee" in checks.item(demag, 2).toolTip()
+    # Both sides drawn: speed-torque curves overlaid, both magnet charts.
+    for side in ("A", "B"):
+        x, y = view.curve_items[("speed_rad_per_s", side)].getData()
+        assert len(x) > 10 and y[0] > y[-1]
+        assert view.magnet_titles[side].text().startswith(f"{side}: ")
+    assert "N42" in view.curve_key.text() and "Y30BH" in view.curve_key.text()
+    # B follows A's edits with its own grade.
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000, check_params_cb=lambda c: c.b.magnet.name == "N42"
+                          and view.project_b.magnets.thickness_mm == 5.0):
+        window.edit({"magnets.thickness_mm": 5.0})
+
+
+def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot):
+    window, view = page
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.use_grade_for_b("Y25")
+    with qtbot.waitSignal(view.refit_finished, timeout=10000) as blocker:
+        qtbot.mouseClick(view.refit_buttons["stall-torque"], Qt.MouseButton.LeftButton)
+        assert not view.refit_buttons["ke"].isEnabled()  # one re-fit at a time
+    fit = blocker.args[0]
+    assert fit.reached and abs(fit.target_error_fraction) < 5e-3
+    assert view.b_mode == "refit" and view.project_b is fit.project
+    report = view.refit_report.toPlainText()
+    assert "Reached" in report and "armature.stack_length_mm" in report and "magnets.length_mm" in report
+    table = view.figures_table
+    assert cell(table, row_of(table, "Stall torque"), 3) == "0"
+    assert all(button.isEnabled() for button in view.refit_buttons.values())
+
+
+def test_out_of_reach_refit_says_why(page, qtbot):
+    window, view = page
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.use_grade_for_b("N42")
+    with qtbot.waitSignal(view.refit_finished, timeout=10000) as blocker:
+        view.start_refit("ke")
+    assert not blocker.args[0].reached
+    assert "Out of reach" in view.refit_report.toPlainText() and "thinner than 0.5 mm" in view.refit_report.toPlainText()
+    assert "out of reach" in view.side_labels.text()
+
+
+def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
+    window, view = page
+    broken = tmp_path / "broken.toml"
+    broken.write_text("format_version = 1\n[magnets]\nthickness_mm = -3\n", encoding="utf-8")
+    assert not view.load_b_file(broken)
+    assert "B not changed" in view.side_labels.text() and view.results_b is None
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        assert view.load_b_file(DEMO_FOLDER / "mobility_ndfeb_24v.toml")
+    assert view.results_b.magnet.name == "N42SH" and "mobility_ndfeb_24v.toml" in view.side_labels.text()
+    assert not view.grab().isNull()
