@@ -1,0 +1,95 @@
+"""Winding and magnet temperatures: the two-node network, S2 short-time rise, IEC 60085 classes."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from numpy.testing import assert_allclose
+
+from core import project as pf
+from core import thermal
+from core.design import INSULATION_CLASS_LIMIT_C, design_from_project
+from core.evaluate import evaluate
+
+
+def test_zero_losses_give_ambient():
+    t = thermal.steady_temperatures(35.0, 0.0, 0.0, 2.0, 3.0)
+    assert (t.housing_C, t.winding_C, t.magnet_C) == (35.0, 35.0, 35.0)
+
+
+def test_two_node_network_by_hand():
+    # 12 W in total, 10 W of it in the rotor: housing 25 + 12·3 = 61 °C, winding 61 + 10·2 = 81 °C.
+    t = thermal.steady_temperatures(25.0, 10.0, 12.0, 2.0, 3.0)
+    assert_allclose([t.housing_C, t.winding_C, t.magnet_C], [61.0, 81.0, 61.0], rtol=1e-15)
+    losses = np.linspace(0.0, 50.0, 11)
+    rising = thermal.steady_temperatures(25.0, losses, losses, 2.0, 3.0).winding_C
+    assert np.all(np.diff(rising) > 0.0)
+
+
+def test_convection_resistance_from_the_housing_surface(ferrite_demo):
+    g = design_from_project(pf.load(ferrite_demo)).geometry
+    r = g.housing_outer_radius
+    area = 2.0 * math.pi * r * g.housing_length + 2.0 * math.pi * r**2
+    assert_allclose(thermal.housing_surface_area(g), area, rtol=1e-14)
+    assert_allclose(thermal.housing_to_ambient_resistance(g, 20.0), 1.0 / (20.0 * area), rtol=1e-14)
+
+
+def test_short_time_rise_iec_60034_1_s2():
+    # One time constant: 1 - 1/e of the steady rise; long runs reach it (IEC 60034-1 S2 with a
+    # first-order thermal model).
+    assert_allclose(thermal.short_time_rise(80.0, 600.0, 600.0), 80.0 * (1.0 - math.exp(-1.0)), rtol=1e-15)
+    assert thermal.short_time_rise(80.0, 0.0, 600.0) == 0.0
+    assert_allclose(thermal.short_time_rise(80.0, 1e6, 600.0), 80.0, rtol=1e-12)
+
+
+def test_iec_60085_class_limits():
+    # Source: IEC 60085 (thermal classes: the class number is the limiting temperature in °C, with the
+    # letters A, E, B, F, H, N, R of the older designations).
+    assert INSULATION_CLASS_LIMIT_C == {
+        "105 (A)": 105.0, "120 (E)": 120.0, "130 (B)": 130.0, "155 (F)": 155.0,
+        "180 (H)": 180.0, "200 (N)": 200.0, "220 (R)": 220.0,
+    }
+    choices = pf.key_spec("winding.insulation_class").choices
+    assert set(choices) == set(INSULATION_CLASS_LIMIT_C)
+
+
+def test_winding_temperature_rises_with_load(ferrite_demo):
+    project = pf.load(ferrite_demo)
+    temperatures = []
+    for torque in (5.0, 20.0, 35.0, 50.0):
+        r = evaluate(pf.with_values(project, {"load.torque_mNm": torque}))
+        assert r.thermal.converged
+        temperatures.append(r.thermal.winding_temperature_C)
+        assert r.thermal.ambient_C < r.thermal.magnet_temperature_C < r.thermal.winding_temperature_C
+    assert np.all(np.diff(temperatures) > 0.0)
+
+
+def test_thermal_class_check_follows_the_class(ferrite_demo):
+    project = pf.with_values(pf.load(ferrite_demo), {"load.torque_mNm": 45.0})  # about 129 °C
+    base = evaluate(project)
+    winding_C = base.thermal.winding_temperature_C
+    # a class below the winding temperature fails, one above passes
+    below = next(c for c, limit in sorted(INSULATION_CLASS_LIMIT_C.items(), key=lambda kv: -kv[1]) if limit < winding_C)
+    above = next(c for c, limit in sorted(INSULATION_CLASS_LIMIT_C.items(), key=lambda kv: kv[1]) if limit > winding_C)
+    assert not evaluate(pf.with_values(project, {"winding.insulation_class": below})).thermal.ok
+    assert evaluate(pf.with_values(project, {"winding.insulation_class": above})).thermal.ok
+
+
+def test_s2_duty_runs_cooler_than_s1(ferrite_demo):
+    project = pf.load(ferrite_demo)
+    s1 = evaluate(project).thermal
+    s2 = evaluate(pf.with_values(project, {"thermal.duty": "S2", "thermal.duty_minutes": 5.0})).thermal
+    assert s2.winding_temperature_C < s1.winding_temperature_C
+    assert s2.ambient_C < s2.winding_temperature_C <= s2.steady_winding_temperature_C
+
+
+@pytest.mark.parametrize("resistance", [0.5, 5.0])
+def test_given_housing_resistance_is_used(ferrite_demo, resistance):
+    r = evaluate(pf.with_values(pf.load(ferrite_demo), {"thermal.housing_to_ambient_K_per_W": resistance})).thermal
+    assert r.housing_to_ambient_K_per_W == resistance
+    # the network's steady state at the converged losses
+    assert_allclose(r.housing_temperature_C, r.ambient_C + r.losses_W * resistance, rtol=1e-9)
+    assert_allclose(r.winding_temperature_C, r.housing_temperature_C + r.rotor_losses_W * r.winding_to_housing_K_per_W,
+                    rtol=1e-6)
