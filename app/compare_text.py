@@ -50,6 +50,8 @@ def _percent(fraction: float | None, a: float, b: float) -> str:
 def figure_rows(comparison: Comparison) -> tuple[FigureRow, ...]:
     """One row per key figure, in engineering units, 4 significant figures for A and B."""
     currency = comparison.a.cost.currency
+    if comparison.b.cost.currency != currency:
+        currency = f"A {currency}, B {comparison.b.cost.currency}"
     rows = []
     for title, unit, item in comparison.key_figures():
         label = f"{title} [{currency if item.key.startswith('cost.') else unit or '1'}]"

@@ -475,6 +475,8 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
                              xtol=1e-6 * (high - low), rtol=1e-9, max_iterations=40)
         value = float(solution.root)
         message = ""
+        if not bool(solution.converged):
+            notes.append(f"The solve stopped after {solution.iterations} iterations before meeting its tolerance.")
 
     design, _ = trial.results(value)
     final = evaluate(design)
@@ -491,6 +493,9 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
         if new != old:
             why = "" if key == target.parameter else "follows the stack, keeping B's overhang and end room"
             changes.append(ParameterChange(key, old, new, why))
+    if results_a.cost.currency != final.cost.currency:
+        notes.append(f"A's prices are in {results_a.cost.currency} and B's in {final.cost.currency}: the cost "
+                     "differences mix currencies and mean nothing until the prices agree.")
     if target.name == "stall-torque" and len(changes) > 1:
         notes.append("The magnets and the housing tube change length with the stack, so that the magnets "
                      f"keep B's overhang of {trial.overhang_mm:.3g} mm and the housing its "

@@ -16,7 +16,7 @@ from pathlib import Path
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal
+from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, QTimer, Signal
 from PySide6.QtGui import QBrush, QColor
 from PySide6.QtWidgets import (
     QComboBox,
@@ -139,12 +139,20 @@ class CompareView(QWidget):
         splitter.setStretchFactor(1, 3)
         splitter.setSizes([560, 840])
 
+        # Updates are coalesced (many edits of A in one turn of the event loop draw once) and wait
+        # while the page is hidden; only the chart tab in view is drawn.
+        self._update_timer = QTimer(self)
+        self._update_timer.setSingleShot(True)
+        self._update_timer.setInterval(0)
+        self._update_timer.timeout.connect(self._update_if_shown)
+        self._stale = False
+        self.tabs.currentChanged.connect(lambda _index: self._draw_charts())
+
         if hasattr(main_window, "results_ready"):
             main_window.results_ready.connect(self.set_design_a)
         if getattr(main_window, "current_results", None) is not None:
             self.set_design_a(main_window.current_project, main_window.current_results)
-        else:
-            self._show_sides()
+        self._show_sides()
 
     # ------------------------------------------------------------------------------------------
     # Building
@@ -177,6 +185,7 @@ class CompareView(QWidget):
 
     def _build_numbers_panel(self) -> QWidget:
         panel = QWidget()
+        panel.setMinimumWidth(540)  # the figure titles and five columns, unclipped
         column = QVBoxLayout(panel)
         column.setContentsMargins(0, 0, 0, 0)
         self.figures_table = QTableWidget(0, 5)
@@ -301,7 +310,7 @@ class CompareView(QWidget):
         self.project_a, self.results_a = project, results
         if self.b_mode == "grade":
             self._request_b_with_grade()
-        self._update()
+        self._update_later()
 
     # ------------------------------------------------------------------------------------------
     # Choosing B
@@ -316,10 +325,11 @@ class CompareView(QWidget):
             self.grade_combo.blockSignals(True)
             self.grade_combo.setCurrentText(grade_name)
             self.grade_combo.blockSignals(False)
+        self.status_text = ""
         self.b_mode, self.b_source = "grade", f"A with {grade_name}, following A"
         self.project_b = self.results_b = None
         self._request_b_with_grade()
-        self._update()
+        self._update_later()
 
     def _request_b_with_grade(self) -> None:
         if self.project_a is None:
@@ -336,9 +346,10 @@ class CompareView(QWidget):
         if self.project_a is None:
             return
         self._reset_grade_combo()
+        self.status_text = ""
         self.b_mode, self.b_source = "pinned", f"A as it was when pinned ({self.results_a.magnet.name})"
         self.project_b, self.results_b = self.project_a, self.results_a
-        self._update()
+        self._update_later()
 
     def _choose_b_file(self) -> None:
         path, _filter = QFileDialog.getOpenFileName(self, "Open a project file as B", "", "pmdc-sizer projects (*.toml)")
@@ -353,10 +364,11 @@ class CompareView(QWidget):
             self._set_status(f"B not changed: {error}", "fail")
             return False
         self._reset_grade_combo()
+        self.status_text = ""
         self.b_mode, self.b_source = "file", f"file {Path(path).name}"
         self.project_b = self.results_b = None
         self.evaluator_b.request(design_b)
-        self._update()
+        self._update_later()
         return True
 
     def _reset_grade_combo(self) -> None:
@@ -371,11 +383,11 @@ class CompareView(QWidget):
             return  # an earlier choice of grade, overtaken
         self.status_text = ""
         self.project_b, self.results_b = project, results
-        self._update()
+        self._update_later()
 
     def _on_b_failed(self, _project, message: str) -> None:
         self.project_b = self.results_b = None
-        self._update()
+        self._update_later()
         self._set_status(f"B has no solution: {message}", "fail")
 
     # ------------------------------------------------------------------------------------------
@@ -414,7 +426,7 @@ class CompareView(QWidget):
                          f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
         self.project_b, self.results_b = fit.project, fit.results
         self._show_refit(fit)
-        self._update()
+        self._update_later()
         self.refit_finished.emit(fit)
 
     def _show_refit(self, fit) -> None:
@@ -455,7 +467,22 @@ class CompareView(QWidget):
             b_source = self.b_source
         self.side_labels.setText(a_text + "<br>" + self._side_text("B", self.results_b, b_source) + self.status_text)
 
+    def _update_later(self) -> None:
+        self._show_sides()
+        self._stale = True
+        self._update_timer.start()
+
+    def _update_if_shown(self) -> None:
+        if self.isVisible():
+            self._update()
+
+    def showEvent(self, event) -> None:  # noqa: N802 - Qt's name
+        super().showEvent(event)
+        if self._stale:
+            self._update()
+
     def _update(self) -> None:
+        self._stale = False
         self._show_sides()
         ready = self.results_a is not None and self.results_b is not None
         for button in self.refit_buttons.values():
@@ -466,30 +493,41 @@ class CompareView(QWidget):
             self.comparison = None
             self.figures_table.setRowCount(0)
             self.checks_table.setRowCount(0)
-            self._draw_curves()
-            if self.results_a is not None:
-                self._draw_magnets()
+            self._draw_charts()
             return
         self.comparison = compare.compare(self.project_a, self.project_b, self.results_a, self.results_b)
         self._fill_figures()
         self._fill_checks()
-        self._draw_curves()
-        self._draw_magnets()
+        self._draw_charts()
         self.comparison_updated.emit(self.comparison)
+
+    def _draw_charts(self) -> None:
+        if self.tabs.currentIndex() == 0:
+            self._draw_curves()
+        else:
+            self._draw_magnets()
 
     def _fill_figures(self) -> None:
         rows = figure_rows(self.comparison)
-        self.figures_table.setRowCount(len(rows))
+        table = self.figures_table
+        if table.rowCount() != len(rows):
+            table.setRowCount(len(rows))
+            for index in range(len(rows)):
+                for column in range(5):
+                    cell = QTableWidgetItem()
+                    if column:
+                        cell.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+                    if column in (1, 2):
+                        cell.setForeground(QBrush(QColor(SIDE_STYLES["A" if column == 1 else "B"]["colour"])))
+                    table.setItem(index, column, cell)
+        # Sizing the columns to their contents once, after all the texts, not after each of them.
+        header = table.horizontalHeader()
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
         for index, row in enumerate(rows):
             for column, text in enumerate((row.title, row.a, row.b, row.difference, row.percent)):
-                cell = QTableWidgetItem(text)
-                if column:
-                    cell.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
-                if column == 1:
-                    cell.setForeground(QBrush(QColor(SIDE_STYLES["A"]["colour"])))
-                if column == 2:
-                    cell.setForeground(QBrush(QColor(SIDE_STYLES["B"]["colour"])))
-                self.figures_table.setItem(index, column, cell)
+                table.item(index, column).setText(text)
+        header.setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)
 
     def _fill_checks(self) -> None:
         by_key_a = {c.key: c for c in self.results_a.checks}

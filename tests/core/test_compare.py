@@ -161,3 +161,40 @@ def test_unknown_target_is_refused(ferrite):
     design, results_a = ferrite
     with pytest.raises(ValueError, match="ke, no-load-speed, stall-torque"):
         compare.refit("power", results_a, design)
+
+
+def test_turns_refit_scales_ke_as_the_textbook_relation_says(ferrite):
+    # Source: textbook DC-machine relation E = K·Φ·ω with K = p·Z/(2π·a); Z = 2·segments·turns, and
+    # the no-load flux does not depend on the turns, so Ke goes exactly as the turns per coil.
+    design, results_a = ferrite
+    design_b = compare.with_grade(design, "N42")
+    results_b = evaluate.evaluate(design_b)
+    fit = compare.refit("no-load-speed", results_a, design_b, results_b)
+    assert fit.results.magnetics.flux_per_pole_Wb == pytest.approx(results_b.magnetics.flux_per_pole_Wb, rel=1e-9)
+    assert_allclose(fit.results.constants.ke_V_s_per_rad / results_b.constants.ke_V_s_per_rad,
+                    fit.value_after / fit.value_before, rtol=1e-9)
+
+
+def test_thickness_refit_agrees_with_scipy_brentq(ferrite):
+    # Source: scipy.optimize.brentq as an independent bracketed root finder on the same residual.
+    from scipy.optimize import brentq
+
+    design, _ = ferrite
+    design_a = project.with_values(design, {"magnets.thickness_mm": 10.0})
+    results_a = evaluate.evaluate(design_a)
+    design_b = compare.with_grade(design_a, "N42")
+    fit = compare.refit("ke", results_a, design_b)
+
+    def residual(thickness_mm):
+        trial = project.with_values(design_b, {"magnets.thickness_mm": thickness_mm})
+        return evaluate.evaluate(trial).constants.ke_V_s_per_rad - results_a.constants.ke_V_s_per_rad
+
+    reference = brentq(residual, 0.5, 40.0, xtol=1e-7)
+    assert fit.value_after == pytest.approx(reference, abs=1e-4)  # 0.1 µm: far below any magnet tolerance
+
+
+def test_cost_differences_across_currencies_are_flagged(ferrite):
+    design, results_a = ferrite
+    dollars = project.with_values(compare.with_grade(design, "Y25"), {"prices.currency": "USD"})
+    fit = compare.refit("stall-torque", results_a, dollars)
+    assert any("mix currencies" in note for note in fit.notes)

@@ -85,7 +85,11 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
     for side in ("A", "B"):
         x, y = view.curve_items[("speed_rad_per_s", side)].getData()
         assert len(x) > 10 and y[0] > y[-1]
-        assert view.magnet_titles[side].text().startswith(f"{side}: ")
+    view.tabs.setCurrentIndex(1)  # the magnet charts are drawn when their tab is in view
+    for side, grade in (("A", "Y30BH"), ("B", "N42")):
+        assert view.magnet_titles[side].text().startswith(f"{side}: {grade}, 6 mm arcs")
+        normal, _ = view.magnet_charts[side].normal_curves["nominal"].getData()
+        assert len(normal) > 10
     assert "N42" in view.curve_key.text() and "Y30BH" in view.curve_key.text()
     # B follows A's edits with its own grade.
     with qtbot.waitSignal(view.comparison_updated, timeout=5000, check_params_cb=lambda c: c.b.magnet.name == "N42"
@@ -119,6 +123,17 @@ def test_out_of_reach_refit_says_why(page, qtbot):
     assert not blocker.args[0].reached
     assert "Out of reach" in view.refit_report.toPlainText() and "thinner than 0.5 mm" in view.refit_report.toPlainText()
     assert "out of reach" in view.side_labels.text()
+
+
+def test_a_hidden_page_waits_and_catches_up_when_shown(page, qtbot):
+    window, view = page
+    view.hide()
+    view.pin_current_as_b()
+    qtbot.wait(20)
+    assert view.comparison is None  # nothing drawn for a page nobody sees
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.show()
+    assert view.comparison is not None
 
 
 def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
