@@ -7,6 +7,7 @@ computation has no solution.
 from __future__ import annotations
 
 import argparse
+import contextlib
 import csv
 import io
 import json
@@ -44,8 +45,13 @@ def evaluate_project(project):
     return evaluate(project)
 
 
-def write_text_atomically(path: str | os.PathLike, text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file in the same folder; no partial file is left."""
+@contextlib.contextmanager
+def atomic_output(path: str | os.PathLike):
+    """A temporary path beside ``path`` to write into, renamed over ``path`` only if the block succeeds.
+
+    Nothing is left behind on failure. The file gets the usual permissions (0666 less the umask), not
+    the private 0600 of a temporary file, since exports are meant to be handed on.
+    """
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.is_dir():
@@ -54,13 +60,24 @@ def write_text_atomically(path: str | os.PathLike, text: str) -> None:
         handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
     except OSError as error:
         raise CommandError(f"{path}: cannot write here ({error.strerror or error})") from None
+    os.close(handle)
     try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
-            stream.write(text)
+        yield temporary
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(temporary, 0o666 & ~umask)
         os.replace(temporary, path)
     except OSError as error:
-        Path(temporary).unlink(missing_ok=True)
         raise CommandError(f"{path}: cannot write the file ({error.strerror or error})") from None
+    finally:
+        Path(temporary).unlink(missing_ok=True)
+
+
+def write_text_atomically(path: str | os.PathLike, text: str) -> None:
+    """Write ``text`` to ``path`` through a temporary file in the same folder; no partial file is left."""
+    with atomic_output(path) as temporary:
+        with open(temporary, "w", encoding="utf-8", newline="") as stream:
+            stream.write(text)
 
 
 # --------------------------------------------------------------------------------------------

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 
-from core.units import from_si
+from core.units import factor, from_si
 
 
 def significant(value: float, digits: int = 3) -> str:
@@ -18,18 +18,31 @@ def significant(value: float, digits: int = 3) -> str:
     if value == 0:
         return "0"
     magnitude = math.floor(math.log10(abs(value)))
-    decimals = max(digits - 1 - magnitude, 0)
+    decimals = digits - 1 - magnitude
     rounded = round(value, decimals)
-    if decimals == 0:
+    if rounded != 0 and math.floor(math.log10(abs(rounded))) > magnitude:
+        decimals -= 1  # 9.996 rounds up to 10.0: one decimal fewer keeps the count of figures
+        rounded = round(value, decimals)
+    if decimals <= 0:
+        # Past the decimal point the figures beyond ``digits`` become zeros: 23389 → "23400".
         return f"{rounded:.0f}"
     return f"{rounded:.{decimals}f}"
+
+
+#: How a unit key of core.units is printed for people, where the key is spelt in plain ASCII.
+UNIT_LABELS = {"ohm": "Ω", "mohm": "mΩ", "mm2": "mm²", "m2": "m²", "A/mm2": "A/mm²", "g·cm2": "g·cm²",
+               "kg·m2": "kg·m²", "kJ/m3": "kJ/m³", "kg/m3": "kg/m³", "W/(m2·K)": "W/(m²·K)", "uWb": "µWb"}
+
+
+def unit_label(unit: str) -> str:
+    return UNIT_LABELS.get(unit, unit)
 
 
 def quantity(value_si: float, unit: str, digits: int = 3) -> str:
     """An SI value shown in ``unit`` with its unit, e.g. ``quantity(0.0123, "mN·m")`` → "12.3 mN·m"."""
     shown = from_si(value_si, unit) if unit not in ("", "1") else value_si
     text = significant(shown, digits)
-    return f"{text} {unit}" if unit not in ("", "1") else text
+    return f"{text} {unit_label(unit)}" if unit not in ("", "1") else text
 
 
 def percent(fraction: float, digits: int = 3) -> str:
@@ -38,3 +51,13 @@ def percent(fraction: float, digits: int = 3) -> str:
 
 def temperature(value_C: float) -> str:
     return f"{value_C:.0f} °C"
+
+
+def ratio(value_si: float, numerator_unit: str, denominator_unit: str, digits: int = 3) -> str:
+    """A ratio of two quantities in engineering units, e.g. a speed-torque gradient in rpm/mN·m."""
+    shown = from_si(value_si, numerator_unit) * factor(denominator_unit)
+    return f"{significant(shown, digits)} {unit_label(numerator_unit)}/{unit_label(denominator_unit)}"
+
+
+def money(amount: float, currency: str, digits: int = 3) -> str:
+    return f"{significant(amount, digits)} {currency}"

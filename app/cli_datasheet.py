@@ -1,0 +1,36 @@
+"""``pmdc-sizer datasheet``: the design datasheet as PDF or HTML, and optionally its charts."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from .cli import CommandError, evaluate_project, load_project
+
+
+def cmd_datasheet(args) -> int:
+    from . import datasheet
+
+    datasheet.format_of(args.output)  # an unknown extension fails before any work
+    if args.charts is not None and not Path(args.charts).is_dir():
+        raise CommandError(f"{args.charts}: the chart folder does not exist")
+    project = load_project(args.file, args.set)
+    results = evaluate_project(project)
+    kind = datasheet.export(project, results, args.output)
+    print(f"wrote the {kind} datasheet to {args.output}")
+    if args.charts is not None:
+        for path in datasheet.write_charts(results, args.charts, Path(args.output).stem):
+            print(f"wrote {path}")
+    return 0
+
+
+def register(subparsers) -> None:
+    p = subparsers.add_parser(
+        "datasheet", help="write the design datasheet as PDF or HTML",
+        description="Evaluate a project and write its datasheet; the format follows the file name (.pdf or .html).")
+    p.add_argument("file", help="project file (.toml)")
+    p.add_argument("-o", "--output", required=True, metavar="OUT.pdf|OUT.html", help="the datasheet file to write")
+    p.add_argument("--charts", metavar="DIR",
+                   help="also write the performance and magnet charts as PNG and SVG into this folder")
+    p.add_argument("--set", action="append", default=[], metavar="KEY=VALUE",
+                   help="override a key for this run, e.g. --set magnets.thickness_mm=4.5 (repeatable)")
+    p.set_defaults(handler=cmd_datasheet)

@@ -1,0 +1,113 @@
+"""The design datasheet: PDF and HTML for the customer, test and purchasing; charts as PNG and SVG.
+
+    from app import datasheet
+    datasheet.export(project, results, "motor.pdf")          # or .html
+    datasheet.write_charts(results, "charts/", "motor")      # motor_performance.png/.svg, motor_magnet.png/.svg
+
+Every file is written atomically: to a temporary file in the same folder, then renamed over the
+target, so a failure leaves no partial file. Errors are :class:`app.cli.CommandError` with one line.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import os
+from pathlib import Path
+
+from core.evaluate import Results
+from core.project import Project
+
+from ..cli import CommandError, atomic_output, write_text_atomically
+
+FORMATS = {".pdf": "PDF", ".html": "HTML", ".htm": "HTML"}
+
+
+def ensure_qt() -> None:
+    """A Qt application for fonts and painting; offscreen when there is no display (command line).
+
+    A full QApplication rather than a QGuiApplication, so that widgets (the GUI, its tests) can still
+    come later in the same process.
+    """
+    from PySide6.QtWidgets import QApplication
+
+    if QApplication.instance() is None:
+        if not os.environ.get("DISPLAY") and not os.environ.get("WAYLAND_DISPLAY"):
+            os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+        ensure_qt.application = QApplication(["pmdc-sizer"])  # kept alive for the life of the process
+
+
+def format_of(path: str | os.PathLike) -> str:
+    suffix = Path(path).suffix.lower()
+    if suffix not in FORMATS:
+        raise CommandError(f"{path}: unknown datasheet format {suffix or '(no extension)'!r}; "
+                           "use a file name ending in .pdf or .html")
+    return FORMATS[suffix]
+
+
+def build(project: Project, results: Results, issued: _dt.date | None = None):
+    from .content import build as build_content
+
+    return build_content(project, results, issued)
+
+
+def html_text(project: Project, results: Results, issued: _dt.date | None = None) -> str:
+    ensure_qt()
+    from .document import browser_html
+
+    return browser_html(build(project, results, issued), results)
+
+
+def export(project: Project, results: Results, path: str | os.PathLike, issued: _dt.date | None = None) -> str:
+    """Write the datasheet to ``path`` as PDF or HTML (from the extension); returns the format."""
+    kind = format_of(path)
+    ensure_qt()
+    if kind == "HTML":
+        write_text_atomically(path, html_text(project, results, issued))
+        return kind
+    from .document import write_pdf_file
+
+    sheet = build(project, results, issued)
+    with atomic_output(path) as temporary:
+        write_pdf_file(sheet, results, temporary)
+    return kind
+
+
+def preview_pages(project: Project, results: Results, dots_per_inch: float = 96.0, issued: _dt.date | None = None):
+    """The PDF's pages as images, for the preview."""
+    ensure_qt()
+    from .document import PagedDatasheet
+
+    paged = PagedDatasheet(build(project, results, issued), results)
+    return [paged.page_image(i, dots_per_inch) for i in range(paged.page_count)]
+
+
+def write_chart(results: Results, name: str, path: str | os.PathLike) -> None:
+    """One chart ("performance" or "magnet") as PNG or SVG, from the extension."""
+    ensure_qt()
+    from . import charts
+
+    suffix = Path(path).suffix.lower()
+    if suffix == ".svg":
+        write_text_atomically(path, charts.chart_svg(name, results, f"{results.name}: {name} chart"))
+    elif suffix == ".png":
+        data = charts.chart_png(name, results)
+        with atomic_output(path) as temporary:
+            Path(temporary).write_bytes(data)
+    else:
+        raise CommandError(f"{path}: unknown chart format {suffix or '(no extension)'!r}; use .png or .svg")
+
+
+def write_charts(results: Results, folder: str | os.PathLike, stem: str) -> list[Path]:
+    """Both charts as PNG and SVG into ``folder``: ``{stem}_performance.png`` and so on."""
+    from .charts import CHART_NAMES
+
+    folder = Path(folder)
+    if not folder.is_dir():
+        raise CommandError(f"{folder}: the chart folder does not exist")
+    written = []
+    for name in CHART_NAMES:
+        for suffix in (".png", ".svg"):
+            target = folder / f"{stem}_{name}{suffix}"
+            write_chart(results, name, target)
+            written.append(target)
+    return written

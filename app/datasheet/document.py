@@ -1,0 +1,355 @@
+"""Lay the datasheet out: a self-contained HTML file for browsers, and A4 pages for PDF and the preview.
+
+The pages are a QTextDocument (Qt's rich-text subset of HTML) split into A4 pages, with a running
+header and footer painted on each; the same routine paints PDF pages (QPdfWriter) and preview images
+(QImage), so the preview shows what the PDF will hold.
+"""
+
+from __future__ import annotations
+
+import html
+import re
+
+from PySide6.QtCore import QMarginsF, QPointF, QRectF, QSizeF, QUrl, Qt
+from PySide6.QtGui import QColor, QImage, QPageLayout, QPageSize, QPainter, QPdfWriter, QPen, QTextDocument
+
+from core.evaluate import Results
+
+from . import charts
+from .content import Chart, Columns, Datasheet, Paragraph, Table
+
+PAGE_MARGINS_MM = (17.0, 16.0, 17.0, 17.0)  #: left, top, right, bottom
+HEADER_MM = 7.0  #: band above the body for the running header
+FOOTER_MM = 8.0  #: band below the body for the footer
+BODY_FONT_PT = 8.6
+ACCENT = "#24476b"
+STATUS_COLOURS = {"pass": "#1e7b34", "warning": "#9a6200", "fail": "#c0001a", "worst": "#24476b"}
+ROW_SHADES = {"fail": "#fbe3e6", "warning": "#fff3d6", "worst": "#e4edf7"}
+
+_e = html.escape
+
+
+# ----------------------------------------------------------------------------------------------
+# HTML for browsers
+
+
+BROWSER_CSS = """
+@page { size: A4; margin: 16mm 17mm 17mm 17mm; }
+* { box-sizing: border-box; }
+body { font-family: "DejaVu Sans", "Segoe UI", Helvetica, Arial, sans-serif; font-size: 10pt; color: #1b1f24;
+       max-width: 190mm; margin: 0 auto; padding: 8mm 0; line-height: 1.35; }
+header.sheet { border-bottom: 3px solid ACCENT; padding-bottom: 4mm; margin-bottom: 4mm; }
+header.sheet .kind { color: ACCENT; font-size: 9pt; letter-spacing: 0.04em; text-transform: uppercase; }
+header.sheet h1 { font-size: 18pt; margin: 1mm 0 2mm 0; }
+header.sheet p.description { margin: 0 0 3mm 0; }
+dl.identity { display: grid; grid-template-columns: repeat(3, auto 1fr); gap: 1mm 3mm; margin: 0; font-size: 9pt; }
+dl.identity dt { color: #5b6470; } dl.identity dd { margin: 0; font-weight: 600; }
+section.headline { display: grid; grid-template-columns: repeat(4, 1fr); gap: 2mm; margin: 0 0 5mm 0; }
+section.headline div { border: 1px solid #c9d3de; border-top: 3px solid ACCENT; padding: 2mm 3mm; }
+section.headline span { display: block; color: #5b6470; font-size: 8.5pt; }
+section.headline b { font-size: 12pt; }
+h2 { font-size: 12.5pt; color: ACCENT; border-bottom: 1px solid #c9d3de; padding-bottom: 1mm; margin: 6mm 0 2mm 0; }
+table { border-collapse: collapse; width: 100%; margin: 2mm 0; font-size: 9pt; }
+th { background: ACCENT; color: white; text-align: left; padding: 1.2mm 2mm; font-weight: 600; }
+td { padding: 1mm 2mm; border-bottom: 1px solid #e3e7ec; vertical-align: top; }
+td.num, th.num { text-align: right; white-space: nowrap; }
+tr.group td { background: #eef2f6; font-weight: 700; color: ACCENT; }
+tr.fail td { background: #fbe3e6; } tr.warning td { background: #fff3d6; } tr.worst td { background: #e4edf7; }
+tr.fail td.status, p.fail { color: #c0001a; font-weight: 700; }
+tr.warning td.status { color: #9a6200; font-weight: 700; } tr.pass td.status { color: #1e7b34; font-weight: 700; }
+p.caption, p.note { color: #5b6470; font-size: 8.5pt; margin: 1mm 0 3mm 0; }
+p.strong { font-weight: 700; }
+p.caution { border-left: 3px solid #c0001a; padding-left: 3mm; margin: 1.5mm 0; }
+figure { margin: 3mm 0; } figure svg { width: 100%; height: auto; display: block; }
+figcaption { color: #5b6470; font-size: 8.5pt; }
+footer.sheet { margin-top: 8mm; border-top: 1px solid #c9d3de; padding-top: 2mm; color: #5b6470; font-size: 8pt; }
+.pagebreak { break-before: page; }
+h3 { font-size: 10pt; margin: 3mm 0 1mm 0; color: #1b1f24; }
+div.columns { display: grid; grid-template-columns: 1fr 1fr; gap: 6mm; }
+dl.identity { grid-template-columns: repeat(4, auto 1fr); }
+section.headline { grid-template-columns: repeat(5, 1fr); }
+@media print { body { padding: 0; } h2 { break-after: avoid; } tr, figure { break-inside: avoid; } }
+""".replace("ACCENT", ACCENT)
+
+
+def _strip_xml_prolog(svg: str) -> str:
+    """An SVG document made fit to sit inside HTML: no XML declaration or DOCTYPE."""
+    svg = re.sub(r"<\?xml[^>]*\?>", "", svg)
+    svg = re.sub(r"<!DOCTYPE[^>]*>", "", svg, flags=re.IGNORECASE)
+    return svg.strip()
+
+
+def _browser_table(table: Table) -> str:
+    columns = len(table.header)
+    out = [f'<h3>{_e(table.title)}</h3>'] if table.title else []
+    out.append(f'<table id="{table.key}">' if table.key else "<table>")
+    if any(table.header):
+        out.append("<thead><tr>" + "".join(
+            f'<th class="{"num" if i >= table.numeric_from else ""}">{_e(h)}</th>' for i, h in enumerate(table.header))
+            + "</tr></thead>")
+    out.append("<tbody>")
+    for row in table.rows:
+        if row.kind == "group":
+            out.append(f'<tr class="group"><td colspan="{columns}">{_e(row.cells[0])}</td></tr>')
+            continue
+        cells = []
+        for i, cell in enumerate(row.cells):
+            classes = []
+            if i >= table.numeric_from:
+                classes.append("num")
+            if i == 0 and table.numeric_from == 99:
+                classes.append("status")
+            cells.append(f'<td class="{" ".join(classes)}">{_e(cell)}</td>')
+        out.append(f'<tr class="{row.kind}">' + "".join(cells) + "</tr>")
+    out.append("</tbody></table>")
+    if table.caption:
+        out.append(f'<p class="caption">{_e(table.caption)}</p>')
+    return "\n".join(out)
+
+
+def _browser_block(block, svgs: dict[str, str]) -> str:
+    if isinstance(block, Table):
+        return _browser_table(block)
+    if isinstance(block, Chart):
+        return f'<figure id="chart-{block.name}">{svgs[block.name]}<figcaption>{_e(block.caption)}</figcaption></figure>'
+    if isinstance(block, Columns):
+        halves = ("\n".join(_browser_block(b, svgs) for b in side) for side in (block.left, block.right))
+        return '<div class="columns">' + "".join(f"<div>{half}</div>" for half in halves) + "</div>"
+    if isinstance(block, Paragraph):
+        return f'<p class="{block.kind}">{_e(block.text)}</p>'
+    raise TypeError(f"unknown datasheet block {block!r}")
+
+
+def browser_html(sheet: Datasheet, results: Results) -> str:
+    """The datasheet as one self-contained HTML file (well-formed XHTML syntax; charts as inline SVG)."""
+    svgs = {name: _strip_xml_prolog(charts.chart_svg(name, results, f"{sheet.title}: {name} chart"))
+            for name in charts.CHART_NAMES}
+    identity = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in sheet.identity)
+    headline = "".join(f"<div><span>{_e(k)}</span><b>{_e(v)}</b></div>" for k, v in sheet.headline)
+    body = []
+    for section in sheet.sections:
+        css = ' class="pagebreak"' if section.new_page else ""
+        blocks = "\n".join(_browser_block(b, svgs) for b in section.blocks)
+        body.append(f'<section id="{section.key}"{css}><h2>{_e(section.title)}</h2>\n{blocks}</section>')
+    return (
+        "<!DOCTYPE html>\n"
+        '<html xmlns="http://www.w3.org/1999/xhtml" lang="en"><head><meta charset="utf-8"/>'
+        f"<title>{_e(sheet.title)}, revision {_e(sheet.revision)}</title>"
+        '<meta name="generator" content="pmdc-sizer"/>'
+        f"<style>{BROWSER_CSS}</style></head><body>\n"
+        f'<header class="sheet"><div class="kind">{_e(sheet.subtitle)}</div><h1>{_e(sheet.title)}</h1>'
+        + (f'<p class="description">{_e(sheet.description)}</p>' if sheet.description else "")
+        + f'<dl class="identity">{identity}</dl></header>\n'
+        f'<section class="headline" id="headline">{headline}</section>\n'
+        + "\n".join(body)
+        + f'\n<footer class="sheet">{_e(sheet.title)}, revision {_e(sheet.revision)}, issued {_e(sheet.issued)}. '
+        "Made with pmdc-sizer. Engineering estimates: confirm by test.</footer>\n</body></html>\n"
+    )
+
+
+# ----------------------------------------------------------------------------------------------
+# Qt rich text for the paged document
+
+
+def _qt_table(table: Table, px_per_mm: float) -> str:
+    columns = len(table.header)
+    widths = table.widths or (1,) * columns
+    total = sum(widths)
+    pad = f"{0.7 * px_per_mm:.0f}"
+    out = []
+    if table.title:
+        out.append(f'<p style="font-weight: 700; font-size: {BODY_FONT_PT + 0.8}pt; margin-top: 6pt; margin-bottom: 2pt;">'
+                   f"{_e(table.title)}</p>")
+    out.append(f'<table width="100%" cellspacing="0" cellpadding="{pad}" style="border-collapse: collapse;">')
+    if any(table.header):
+        out.append("<thead><tr>" + "".join(
+            f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" align="{"right" if i >= table.numeric_from else "left"}">'
+            f'<span style="color: white; font-weight: 600;">{_e(h)}</span></th>'
+            for i, (h, w) in enumerate(zip(table.header, widths))) + "</tr></thead>")
+    shade = False
+    for index, row in enumerate(table.rows):
+        if row.kind == "group":
+            out.append(f'<tr><td colspan="{columns}" bgcolor="#e6ecf2"><b><span style="color: {ACCENT};">'
+                       f"{_e(row.cells[0])}</span></b></td></tr>")
+            shade = False
+            continue
+        background = ROW_SHADES.get(row.kind) or ("#f4f6f9" if shade else "#ffffff")
+        shade = not shade
+        cells = []
+        for i, cell in enumerate(row.cells):
+            width = f' width="{100 * widths[i] / total:.0f}%"' if index == 0 and not any(table.header) else ""
+            numeric = i >= table.numeric_from
+            align = "right" if numeric else "left"
+            text = _e(cell)
+            if i == 0 and table.numeric_from == 99 and row.kind in STATUS_COLOURS:
+                text = f'<b><span style="color: {STATUS_COLOURS[row.kind]};">{text}</span></b>'
+            elif row.kind == "fail" and i == len(row.cells) - 1:
+                text = f'<b><span style="color: {STATUS_COLOURS["fail"]};">{text}</span></b>'
+            nowrap = ' style="white-space: nowrap;"' if numeric and any(table.header) else ""
+            cells.append(f'<td{width} align="{align}" bgcolor="{background}"{nowrap}>{text}</td>')
+        out.append("<tr>" + "".join(cells) + "</tr>")
+    out.append("</table>")
+    if table.caption:
+        out.append(f'<p style="color: #5b6470; font-size: {BODY_FONT_PT - 0.8}pt; margin-top: 1pt;">{_e(table.caption)}</p>')
+    return "".join(out)
+
+
+def _qt_block(block, body_width_px: float, px_per_mm: float) -> str:
+    if isinstance(block, Table):
+        return _qt_table(block, px_per_mm)
+    if isinstance(block, Columns):
+        halves = ["".join(_qt_block(b, body_width_px / 2, px_per_mm) for b in side) for side in (block.left, block.right)]
+        return ('<table width="100%" cellspacing="0" cellpadding="0"><tr>'
+                f'<td width="48%" valign="top">{halves[0]}</td><td width="4%"></td>'
+                f'<td width="48%" valign="top">{halves[1]}</td></tr></table>')
+    if isinstance(block, Chart):
+        return (f'<p align="center" style="margin-top: 4pt; margin-bottom: 0;"><img src="chart:{block.name}" '
+                f'width="{body_width_px:.0f}"/></p>'
+                f'<p style="color: #5b6470; font-size: {BODY_FONT_PT - 0.8}pt; margin-top: 0;">{_e(block.caption)}</p>')
+    if isinstance(block, Paragraph):
+        style = {
+            "note": f"color: #5b6470; font-size: {BODY_FONT_PT - 0.6}pt;",
+            "strong": "font-weight: 700;",
+            "fail": "font-weight: 700; color: #c0001a;",
+        }.get(block.kind, "")
+        prefix = '<span style="color: #c0001a; font-weight: 700;">⚠ </span>' if block.kind == "caution" else ""
+        return f'<p style="{style} margin-top: 3pt; margin-bottom: 3pt;">{prefix}{_e(block.text)}</p>'
+    raise TypeError(f"unknown datasheet block {block!r}")
+
+
+def qt_html(sheet: Datasheet, body_width_px: float, px_per_mm: float) -> str:
+    def grid(items, per_row, cell):
+        rows = []
+        for start in range(0, len(items), per_row):
+            rows.append("<tr>" + "".join(cell(k, v) for k, v in items[start:start + per_row]) + "</tr>")
+        return "".join(rows)
+
+    identity = grid(list(sheet.identity), 4, lambda k, v: (
+        f'<td width="9%"><span style="color: #5b6470;">{_e(k)}</span></td><td width="16%"><b>{_e(v)}</b></td>'))
+    headline = grid(list(sheet.headline), 5, lambda k, v: (
+        f'<td width="20%" bgcolor="#eef2f6"><span style="color: #5b6470; font-size: {BODY_FONT_PT - 0.6}pt;">'
+        f'{_e(k)}</span><br/><span style="font-size: {BODY_FONT_PT + 2.6}pt; font-weight: 700;">{_e(v)}</span></td>'))
+    parts = [
+        f'<p style="color: {ACCENT}; font-size: {BODY_FONT_PT - 0.4}pt; margin: 0;">{_e(sheet.subtitle.upper())}</p>',
+        f'<h1 style="font-size: {BODY_FONT_PT + 8}pt; margin-top: 2pt; margin-bottom: 4pt;">{_e(sheet.title)}</h1>',
+    ]
+    if sheet.description:
+        parts.append(f'<p style="margin-top: 0; margin-bottom: 6pt;">{_e(sheet.description)}</p>')
+    parts.append(f'<table width="100%" cellspacing="0" cellpadding="{0.4 * px_per_mm:.0f}">{identity}</table>')
+    parts.append(f'<table width="100%" cellspacing="{1.2 * px_per_mm:.0f}" cellpadding="{1.2 * px_per_mm:.0f}" '
+                 f'style="margin-top: 6pt;">{headline}</table>')
+    for section in sheet.sections:
+        page_break = "page-break-before: always; " if section.new_page else ""
+        parts.append(f'<h2 style="{page_break}font-size: {BODY_FONT_PT + 3}pt; color: {ACCENT}; margin-top: 10pt; '
+                     f'margin-bottom: 3pt;">{_e(section.title)}</h2>')
+        parts.extend(_qt_block(b, body_width_px, px_per_mm) for b in section.blocks)
+    return "".join(parts)
+
+
+# ----------------------------------------------------------------------------------------------
+# Pages
+
+
+PDF_DPI = 300  #: the one resolution the pages are laid out at, so the preview breaks pages as the PDF does
+
+
+class PagedDatasheet:
+    """The datasheet laid out once on A4 pages, painted on a PDF writer or as page images."""
+
+    def __init__(self, sheet: Datasheet, results: Results):
+        self.sheet = sheet
+        self.dpi = dots_per_inch = PDF_DPI
+        mm = dots_per_inch / 25.4
+        left, top, right, bottom = PAGE_MARGINS_MM
+        self.page_size = QSizeF(210.0 * mm, 297.0 * mm)
+        self.body = QRectF(left * mm, (top + HEADER_MM) * mm, (210.0 - left - right) * mm,
+                           (297.0 - top - bottom - HEADER_MM - FOOTER_MM) * mm)
+        self.mm = mm
+        self.document = QTextDocument()
+        self.document.setDocumentMargin(0)
+        # Point sizes are resolved against the device resolution through this pixel size.
+        self.document.setDefaultFont(charts.plain_font(BODY_FONT_PT / 72.0 * dots_per_inch))
+        self.document.setDefaultStyleSheet(
+            f"body {{ color: #1b1f24; }} td {{ padding: 2px; }} h1, h2 {{ font-family: '{charts.FONT_FAMILY}'; }}")
+        chart_width = self.body.width()
+        for name in charts.CHART_NAMES:
+            image = charts.chart_image(name, results, width_px=max(1200, int(chart_width * 1.25)))
+            self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl(f"chart:{name}"), image)
+        self.document.setHtml(self._with_pixel_sizes(qt_html(sheet, chart_width, mm)))
+        self.document.setPageSize(QSizeF(self.body.width(), self.body.height()))
+
+    def _with_pixel_sizes(self, text: str) -> str:
+        """Qt resolves pt against the screen, not the page: give every size in device pixels."""
+        return re.sub(r"(\d+(?:\.\d+)?)pt", lambda m: f"{float(m.group(1)) / 72.0 * self.dpi:.0f}px", text)
+
+    @property
+    def page_count(self) -> int:
+        return self.document.pageCount()
+
+    def paint_page(self, painter: QPainter, index: int) -> None:
+        mm = self.mm
+        body = self.body
+        painter.save()
+        painter.fillRect(QRectF(0, 0, self.page_size.width(), self.page_size.height()), QColor("white"))
+        # Running header and footer.
+        painter.setFont(charts.plain_font(7.2 / 72.0 * self.dpi))
+        painter.setPen(QColor("#5b6470"))
+        header = QRectF(body.left(), PAGE_MARGINS_MM[1] * mm, body.width(), HEADER_MM * mm - 2.5 * mm)
+        painter.drawText(header, Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignBottom,
+                         f"{self.sheet.title}  ·  revision {self.sheet.revision}")
+        painter.drawText(header, Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignBottom, "Motor design datasheet")
+        painter.setPen(QPen(QColor(ACCENT), 0.35 * mm))
+        rule = header.bottom() + 1.2 * mm
+        painter.drawLine(QPointF(header.left(), rule), QPointF(header.right(), rule))
+        footer = QRectF(body.left(), body.bottom() + 2.5 * mm, body.width(), FOOTER_MM * mm - 2.5 * mm)
+        painter.setPen(QColor("#c9d3de"))
+        painter.drawLine(footer.topLeft(), footer.topRight())
+        painter.setPen(QColor("#5b6470"))
+        painter.drawText(footer, Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter,
+                         f"Issued {self.sheet.issued}. Engineering estimates: confirm by test. "
+                         "Follow local codes and licensed practice.")
+        painter.drawText(footer, Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter,
+                         f"page {index + 1} of {self.page_count}")
+        # The body: the document's slice for this page.
+        height = self.document.pageSize().height()
+        painter.translate(body.left(), body.top() - index * height)
+        self.document.drawContents(painter, QRectF(0, index * height, body.width(), height))
+        painter.restore()
+
+    def page_image(self, index: int, dots_per_inch: float) -> QImage:
+        scale = dots_per_inch / self.dpi
+        image = QImage(round(self.page_size.width() * scale), round(self.page_size.height() * scale),
+                       QImage.Format.Format_RGB32)
+        image.setDotsPerMeterX(round(dots_per_inch / 0.0254))
+        image.setDotsPerMeterY(round(dots_per_inch / 0.0254))
+        image.fill(QColor("white"))
+        painter = QPainter(image)
+        painter.setRenderHint(QPainter.RenderHint.Antialiasing)
+        painter.setRenderHint(QPainter.RenderHint.TextAntialiasing)
+        painter.setRenderHint(QPainter.RenderHint.SmoothPixmapTransform)
+        painter.scale(scale, scale)
+        self.paint_page(painter, index)
+        painter.end()
+        return image
+
+
+def write_pdf_file(sheet: Datasheet, results: Results, path: str) -> int:
+    """Write the PDF to ``path`` (the caller makes it atomic); returns the number of pages."""
+    writer = QPdfWriter(path)
+    writer.setResolution(PDF_DPI)
+    writer.setPageLayout(QPageLayout(QPageSize(QPageSize.PageSizeId.A4), QPageLayout.Orientation.Portrait,
+                                     QMarginsF(0, 0, 0, 0), QPageLayout.Unit.Millimeter))
+    writer.setTitle(f"{sheet.title}, revision {sheet.revision}")
+    writer.setCreator("pmdc-sizer")
+    paged = PagedDatasheet(sheet, results)
+    painter = QPainter()
+    if not painter.begin(writer):
+        raise OSError(f"{path}: the PDF writer could not open the file")
+    painter.setRenderHint(QPainter.RenderHint.Antialiasing)
+    painter.setRenderHint(QPainter.RenderHint.SmoothPixmapTransform)
+    for index in range(paged.page_count):
+        if index:
+            writer.newPage()
+        paged.paint_page(painter, index)
+    painter.end()
+    return paged.page_count

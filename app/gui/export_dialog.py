@@ -1,0 +1,173 @@
+"""The export dialog: a page-by-page preview of the datasheet and buttons that save each format.
+
+The preview pages are painted by the same routine as the PDF, so what is shown is what is saved.
+Saving never blocks on a message box: the outcome (the path written, or the reason it failed) is
+shown in the dialog's status line.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+from pathlib import Path
+
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QPixmap
+from PySide6.QtWidgets import (
+    QDialog,
+    QFileDialog,
+    QHBoxLayout,
+    QLabel,
+    QMessageBox,
+    QPushButton,
+    QScrollArea,
+    QVBoxLayout,
+    QWidget,
+)
+
+from app import datasheet
+from app.cli import CommandError, curves_csv, write_text_atomically
+
+PREVIEW_DPI = 80.0
+
+#: What each save button writes: (button text, dialog title, file filter, default suffix).
+TARGETS = {
+    "pdf": ("Save PDF…", "Save the datasheet as PDF", "PDF document (*.pdf)", ".pdf"),
+    "html": ("Save HTML…", "Save the datasheet as HTML", "Web page, self-contained (*.html *.htm)", ".html"),
+    "csv": ("Save curves CSV…", "Save the speed-torque curves as CSV", "Comma-separated values (*.csv)", ".csv"),
+    "performance": ("Save performance chart…", "Save the performance chart",
+                    "PNG image (*.png);;SVG drawing (*.svg)", ".png"),
+    "magnet": ("Save magnet chart…", "Save the magnet operating chart",
+               "PNG image (*.png);;SVG drawing (*.svg)", ".png"),
+}
+_SUFFIXES = {"pdf": (".pdf",), "html": (".html", ".htm"), "csv": (".csv",),
+             "performance": (".png", ".svg"), "magnet": (".png", ".svg")}
+
+
+def _safe_stem(text: str) -> str:
+    keep = "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in text.strip())
+    return "_".join(part for part in keep.split("_") if part)[:60] or "datasheet"
+
+
+class ExportDialog(QDialog):
+    """Preview of the datasheet of one evaluated design, with a save button per format."""
+
+    def __init__(self, project, results, path_hint=None, parent: QWidget | None = None, issued: _dt.date | None = None):
+        super().__init__(parent)
+        self.project = project
+        self.results = results
+        self.issued = issued or _dt.date.today()
+        self.path_hint = Path(path_hint) if path_hint else None
+        self.last_saved: Path | None = None
+        self.setWindowTitle(f"Export datasheet: {project.project.name}")
+        self.setObjectName("export_dialog")
+        self.resize(980, 860)
+
+        self.pages_box = QWidget()
+        pages_layout = QVBoxLayout(self.pages_box)
+        pages_layout.setSpacing(14)
+        pages_layout.setContentsMargins(14, 14, 14, 14)
+        self.page_labels: list[QLabel] = []
+        for index, image in enumerate(datasheet.preview_pages(project, results, PREVIEW_DPI, self.issued)):
+            label = QLabel()
+            label.setObjectName(f"preview_page_{index + 1}")
+            label.setPixmap(QPixmap.fromImage(image))
+            label.setStyleSheet("background: white; border: 1px solid #9aa4b1;")
+            label.setAlignment(Qt.AlignmentFlag.AlignCenter)
+            pages_layout.addWidget(label, 0, Qt.AlignmentFlag.AlignHCenter)
+            self.page_labels.append(label)
+        self.pages_box.setStyleSheet("background: #d5dae1;")
+        self.preview = QScrollArea()
+        self.preview.setWidget(self.pages_box)
+        self.preview.setWidgetResizable(True)
+        self.preview.setMinimumWidth(720)
+
+        side = QVBoxLayout()
+        heading = QLabel(f"<b>{len(self.page_labels)} A4 pages</b><br/>Revision {project.project.revision}, "
+                         f"issued {self.issued.isoformat()}")
+        heading.setObjectName("export_heading")
+        heading.setWordWrap(True)
+        side.addWidget(heading)
+        self.buttons: dict[str, QPushButton] = {}
+        for key, (text, *_rest) in TARGETS.items():
+            button = QPushButton(text)
+            button.setObjectName(f"save_{key}")
+            button.clicked.connect(lambda _checked=False, key=key: self.save(key))
+            side.addWidget(button)
+            self.buttons[key] = button
+        side.addSpacing(12)
+        self.status = QLabel("Choose a format to save.")
+        self.status.setObjectName("export_status")
+        self.status.setWordWrap(True)
+        self.status.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        side.addWidget(self.status)
+        side.addStretch(1)
+        note = QLabel("Figures are engineering estimates: confirm by test. The sheet carries the cautions and "
+                      "defers to local codes and licensed practice.")
+        note.setWordWrap(True)
+        note.setStyleSheet("color: #5b6470;")
+        side.addWidget(note)
+        close = QPushButton("Close")
+        close.setObjectName("close")
+        close.clicked.connect(self.accept)
+        side.addWidget(close)
+
+        layout = QHBoxLayout(self)
+        layout.addWidget(self.preview, 1)
+        side_box = QWidget()
+        side_box.setLayout(side)
+        side_box.setFixedWidth(230)
+        layout.addWidget(side_box)
+
+    # ------------------------------------------------------------------ saving
+    def suggested_path(self, key: str) -> str:
+        folder = self.path_hint.parent if self.path_hint else Path.home()
+        stem = self.path_hint.stem if self.path_hint else _safe_stem(self.project.project.name)
+        name = {"csv": f"{stem}_curves", "performance": f"{stem}_performance", "magnet": f"{stem}_magnet"}.get(key, stem)
+        return str(folder / f"{name}{TARGETS[key][3]}")
+
+    def _ask_path(self, key: str) -> Path | None:
+        _text, title, file_filter, default_suffix = TARGETS[key]
+        chosen, selected_filter = QFileDialog.getSaveFileName(self, title, self.suggested_path(key), file_filter)
+        if not chosen:
+            return None
+        path = Path(chosen)
+        if path.suffix.lower() not in _SUFFIXES[key]:
+            suffix = ".svg" if "svg" in (selected_filter or "").lower() and key in ("performance", "magnet") else default_suffix
+            path = path.with_name(path.name + suffix)
+        return path
+
+    def save(self, key: str) -> Path | None:
+        """Ask for a file name and write that format; returns the path written, or None."""
+        path = self._ask_path(key)
+        if path is None:
+            return None
+        try:
+            self.write(key, path)
+        except CommandError as error:
+            self.status.setText(f'<span style="color: #c0001a;"><b>Not saved.</b> {error}</span>')
+            return None
+        self.last_saved = path
+        self.status.setText(f'<span style="color: #1e7b34;"><b>Saved</b></span> {path}')
+        return path
+
+    def write(self, key: str, path: Path) -> None:
+        if key in ("pdf", "html"):
+            datasheet.export(self.project, self.results, path, self.issued)
+        elif key == "csv":
+            write_text_atomically(path, curves_csv(self.results))
+        else:
+            datasheet.write_chart(self.results, key, path)
+
+
+def open_export_dialog(parent, project, results, path_hint=None):
+    """Open the export dialog for the current design (window-modal, not blocking); returns it."""
+    if project is None or results is None:
+        QMessageBox.information(parent, "Export datasheet",
+                                "There is nothing to export yet: the design has no results. "
+                                "Correct the inputs the checks panel names, then export again.")
+        return None
+    dialog = ExportDialog(project, results, path_hint, parent)
+    dialog.setAttribute(Qt.WidgetAttribute.WA_DeleteOnClose)
+    dialog.setWindowModality(Qt.WindowModality.WindowModal)
+    dialog.show()
+    return dialog
