@@ -164,6 +164,43 @@ def draw_marker(painter: QPainter, centre: QPointF, shape: str, colour: QColor, 
     painter.restore()
 
 
+def _clip_segment(p: QPointF, q: QPointF, box: QRectF) -> tuple[QPointF, QPointF] | None:
+    """The part of segment p–q inside ``box`` (Liang–Barsky line clipping), or None."""
+    dx, dy = q.x() - p.x(), q.y() - p.y()
+    t0, t1 = 0.0, 1.0
+    for edge_p, edge_q in ((-dx, p.x() - box.left()), (dx, box.right() - p.x()),
+                           (-dy, p.y() - box.top()), (dy, box.bottom() - p.y())):
+        if edge_p == 0:
+            if edge_q < 0:
+                return None
+            continue
+        t = edge_q / edge_p
+        if edge_p < 0:
+            t0 = max(t0, t)
+        else:
+            t1 = min(t1, t)
+        if t0 > t1:
+            return None
+    return QPointF(p.x() + t0 * dx, p.y() + t0 * dy), QPointF(p.x() + t1 * dx, p.y() + t1 * dy)
+
+
+def clipped_path(points: list[QPointF], box: QRectF) -> QPainterPath:
+    """A polyline cut to ``box`` in our own code, since not every paint device (SVG) honours a clip."""
+    path = QPainterPath()
+    last_end: QPointF | None = None
+    for p, q in zip(points, points[1:]):
+        piece = _clip_segment(p, q, box)
+        if piece is None:
+            last_end = None
+            continue
+        start, end = piece
+        if last_end is None or (start - last_end).manhattanLength() > 1e-6:
+            path.moveTo(start)
+        path.lineTo(end)
+        last_end = end
+    return path
+
+
 def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
     """One panel: title, grid, axes with tick labels and a unit label each, clipped curves and markers."""
     title_font, label_font, tick_font = _font(18, bold=True), _font(15), _font(14)
@@ -217,21 +254,15 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
     painter.drawText(QRectF(-plot.height() / 2, -10, plot.height(), 22), Qt.AlignmentFlag.AlignHCenter, panel.left_label)
     painter.restore()
 
-    # Curves and markers, clipped to the plot.
-    painter.save()
-    painter.setClipRect(plot.adjusted(-1, -1, 1, 1))
+    # Curves cut to the plot, then markers inside it.
+    painter.setBrush(Qt.BrushStyle.NoBrush)
     for s in panel.series:
         finite = np.isfinite(s.x) & np.isfinite(s.y)
         points = [to_point(float(x), float(y)) for x, y in zip(s.x[finite], s.y[finite])]
         if len(points) < 2:
             continue
-        path = QPainterPath(points[0])
-        for p in points[1:]:
-            path.lineTo(p)
         painter.setPen(_pen(s.colour, s.width, s.dash))
-        painter.setBrush(Qt.BrushStyle.NoBrush)
-        painter.drawPath(path)
-    painter.restore()
+        painter.drawPath(clipped_path(points, plot))
     painter.setFont(_font(13, bold=True))
     placed: list[QRectF] = []
     for m in panel.markers:

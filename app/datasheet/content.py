@@ -57,7 +57,11 @@ class Table:
     header: tuple[str, ...]
     rows: tuple[Row, ...]
     widths: tuple[int, ...] = ()  #: relative column widths
-    numeric_from: int = 1  #: columns from this index on are right-aligned numbers
+    numeric_from: int = 1  #: columns from this index on are right-aligned numbers ...
+    numeric_until: int = 99  #: ... up to (not including) this one
+
+    def is_numeric(self, column: int) -> bool:
+        return self.numeric_from <= column < self.numeric_until
     caption: str = ""
     title: str = ""  #: a small heading above the table
     key: str = ""  #: stable identifier (HTML id, tests)
@@ -217,7 +221,7 @@ def demagnetization_table(results: Results) -> Table:
             q(case.margin_A_per_m, "kA/m"), "safe" if case.ok else "DEMAGNETIZES",
         ), kind))
     return Table(("No.", "Case", "Magnet", "Current", "Tip field", "Knee", "Margin", "Status"), tuple(rows),
-                 widths=(5, 28, 9, 9, 12, 13, 13, 11), numeric_from=2, key="demagnetization",
+                 widths=(5, 25, 9, 9, 12, 12, 12, 16), numeric_from=2, numeric_until=7, key="demagnetization",
                  caption="Margin is the field at the magnet's most exposed tip minus the knee field; positive is safe. "
                          "The numbers mark the cases on the magnet chart.")
 

@@ -85,7 +85,7 @@ def _browser_table(table: Table) -> str:
     out.append(f'<table id="{table.key}">' if table.key else "<table>")
     if any(table.header):
         out.append("<thead><tr>" + "".join(
-            f'<th class="{"num" if i >= table.numeric_from else ""}">{_e(h)}</th>' for i, h in enumerate(table.header))
+            f'<th class="{"num" if table.is_numeric(i) else ""}">{_e(h)}</th>' for i, h in enumerate(table.header))
             + "</tr></thead>")
     out.append("<tbody>")
     for row in table.rows:
@@ -95,7 +95,7 @@ def _browser_table(table: Table) -> str:
         cells = []
         for i, cell in enumerate(row.cells):
             classes = []
-            if i >= table.numeric_from:
+            if table.is_numeric(i):
                 classes.append("num")
             if i == 0 and table.numeric_from == 99:
                 classes.append("status")
@@ -155,7 +155,7 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
     columns = len(table.header)
     widths = table.widths or (1,) * columns
     total = sum(widths)
-    pad = f"{0.7 * px_per_mm:.0f}"
+    pad = f"{0.42 * px_per_mm:.0f}"
     out = []
     if table.title:
         out.append(f'<p style="font-weight: 700; font-size: {BODY_FONT_PT + 0.8}pt; margin-top: 6pt; margin-bottom: 2pt;">'
@@ -163,7 +163,7 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
     out.append(f'<table width="100%" cellspacing="0" cellpadding="{pad}" style="border-collapse: collapse;">')
     if any(table.header):
         out.append("<thead><tr>" + "".join(
-            f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" align="{"right" if i >= table.numeric_from else "left"}">'
+            f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" align="{"right" if table.is_numeric(i) else "left"}">'
             f'<span style="color: white; font-weight: 600;">{_e(h)}</span></th>'
             for i, (h, w) in enumerate(zip(table.header, widths))) + "</tr></thead>")
     shade = False
@@ -178,12 +178,12 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
         cells = []
         for i, cell in enumerate(row.cells):
             width = f' width="{100 * widths[i] / total:.0f}%"' if index == 0 and not any(table.header) else ""
-            numeric = i >= table.numeric_from
+            numeric = table.is_numeric(i)
             align = "right" if numeric else "left"
             text = _e(cell)
             if i == 0 and table.numeric_from == 99 and row.kind in STATUS_COLOURS:
                 text = f'<b><span style="color: {STATUS_COLOURS[row.kind]};">{text}</span></b>'
-            elif row.kind == "fail" and i == len(row.cells) - 1:
+            elif row.kind == "fail" and i == len(row.cells) - 1 and table.numeric_from != 99:
                 text = f'<b><span style="color: {STATUS_COLOURS["fail"]};">{text}</span></b>'
             nowrap = ' style="white-space: nowrap;"' if numeric and any(table.header) else ""
             cells.append(f'<td{width} align="{align}" bgcolor="{background}"{nowrap}>{text}</td>')
@@ -270,7 +270,7 @@ class PagedDatasheet:
         # Point sizes are resolved against the device resolution through this pixel size.
         self.document.setDefaultFont(charts.plain_font(BODY_FONT_PT / 72.0 * dots_per_inch))
         self.document.setDefaultStyleSheet(
-            f"body {{ color: #1b1f24; }} td {{ padding: 2px; }} h1, h2 {{ font-family: '{charts.FONT_FAMILY}'; }}")
+            f"body {{ color: #1b1f24; }} h1, h2 {{ font-family: '{charts.FONT_FAMILY}'; }}")
         chart_width = self.body.width()
         for name in charts.CHART_NAMES:
             image = charts.chart_image(name, results, width_px=max(1200, int(chart_width * 1.25)))

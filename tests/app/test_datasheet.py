@@ -319,3 +319,16 @@ def test_cli_curves_csv_still_works(ferrite_demo, tmp_path):
     assert main(["curves", str(ferrite_demo), "--csv", "-o", str(target)]) == 0
     header = io.StringIO(target.read_text(encoding="utf-8")).readline()
     assert header.startswith("case,winding_temperature_C")
+
+
+def test_curves_are_cut_to_the_plot_in_our_own_code():
+    # SVG ignores a painter's clip, so the charts cut their polylines themselves.
+    from PySide6.QtCore import QPointF, QRectF
+
+    from app.datasheet.charts import clipped_path
+
+    box = QRectF(0, 0, 10, 10)
+    path = clipped_path([QPointF(-5, 5), QPointF(5, 5), QPointF(15, 5), QPointF(15, 20)], box)
+    bounds = path.boundingRect()
+    assert (bounds.left(), bounds.right(), bounds.top(), bounds.bottom()) == pytest.approx((0, 10, 5, 5))
+    assert clipped_path([QPointF(20, 20), QPointF(30, 30)], box).isEmpty()
