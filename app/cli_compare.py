@@ -105,7 +105,7 @@ def cmd_compare(args) -> int:
     else:
         print("\n".join(compare_text(args, design_a, design_b, comparison, fit)))
     if fit is not None and not fit.reached:
-        print(f"pmdc-sizer: re-fit: {fit.message}", file=sys.stderr)
+        print(f"pmdc-sizer: re-fit out of reach: {fit.message}", file=sys.stderr)
         return EXIT_NO_SOLUTION
     return 0
 

@@ -97,7 +97,7 @@ def refit_lines(fit: Refit) -> list[str]:
     """The re-fit in sentences: what changed, how close it came, and what it costs against A."""
     from core.project import key_spec
 
-    lines = [fit.message]
+    lines = [fit.message if fit.reached else f"Out of reach: {fit.message}"]
     for change in fit.changes:
         unit = key_spec(change.key).unit
         why = f" ({change.reason})" if change.reason else ""

@@ -59,12 +59,13 @@ class FigureDifference:
 
 
 #: The figures an engineer reads first when choosing between two designs: (key, title, display unit).
+#: Nominal case unless the title says otherwise.
 KEY_FIGURES: tuple[tuple[str, str, str], ...] = (
-    ("magnet.remanence_T", "Br at nominal ambient", "T"),
-    ("magnet.coercivity_HcJ_A_per_m", "HcJ at nominal ambient", "kA/m"),
+    ("magnet.remanence_T", "Br", "T"),
+    ("magnet.coercivity_HcJ_A_per_m", "HcJ", "kA/m"),
     ("magnets.thickness_mm", "Magnet thickness", "mm"),
     ("magnetics.permeance_coefficient", "Permeance coefficient", "1"),
-    ("magnetics.magnet_flux_density_T", "Magnet operating point Bm", "T"),
+    ("magnetics.magnet_flux_density_T", "Operating point Bm", "T"),
     ("magnetics.airgap_flux_density_T", "Air-gap flux density", "T"),
     ("magnetics.flux_per_pole_Wb", "Flux per pole", "mWb"),
     ("constants.ke_V_s_per_rad", "Ke = Kt", "V·s/rad"),
@@ -73,13 +74,13 @@ KEY_FIGURES: tuple[tuple[str, str, str], ...] = (
     ("nominal.no_load_current_A", "No-load current", "A"),
     ("nominal.stall_torque_N_m", "Stall torque", "mN·m"),
     ("nominal.stall_current_A", "Stall current", "A"),
-    ("nominal.rated.speed_rad_per_s", "Speed at rated torque", "rpm"),
-    ("hot.rated.speed_rad_per_s", "Speed at rated torque, hot", "rpm"),
-    ("nominal.rated.current_A", "Current at rated torque", "A"),
+    ("nominal.rated.speed_rad_per_s", "Rated-torque speed", "rpm"),
+    ("hot.rated.speed_rad_per_s", "Rated-torque speed, hot", "rpm"),
+    ("nominal.rated.current_A", "Rated-torque current", "A"),
     ("nominal.max_efficiency", "Maximum efficiency", "%"),
     ("nominal.max_output_power_W", "Maximum output power", "W"),
-    ("demagnetization.worst_margin_A_per_m", "Worst margin to the knee", "kA/m"),
-    ("thermal.winding_temperature_C", "Winding temperature, hot", "°C"),
+    ("demagnetization.worst_margin_A_per_m", "Least margin to the knee", "kA/m"),
+    ("thermal.winding_temperature_C", "Winding temp., hot", "°C"),
     ("mass.magnet_kg", "Magnet mass", "g"),
     ("mass.total_kg", "Active mass", "g"),
     ("cost.magnet", "Magnet material cost", ""),
@@ -464,7 +465,7 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
         value = high if at_high else low
         reason = high_reason if at_high else low_reason
         need = target.need_more if at_high else target.need_less
-        message = (f"Out of reach: B needs {need} {_show_parameter(value, target, unit)} ({reason}) to reach A's "
+        message = (f"B needs {need} {_show_parameter(value, target, unit)} ({reason}) to reach A's "
                    f"{target.title} of {shown_goal}; at {_show_parameter(value, target, unit)} its "
                    f"{target.title} is {_show(trial.figure(value), target.figure_unit)}.")
     elif target.integer:

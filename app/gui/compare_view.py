@@ -56,9 +56,11 @@ SIDE_STYLES = {
 REQUIRED_COLOUR = "#b91c1c"
 NO_GRADE = "— choose a grade —"
 REFIT_BUTTONS = (
-    ("ke", "Same Ke as A\nby B's magnet thickness"),
-    ("no-load-speed", "Same no-load speed as A\nby B's turns per coil"),
-    ("stall-torque", "Same stall torque as A\nby B's stack length"),
+    ("ke", "Ke\nby magnet thickness", "Change B's magnet thickness until its Ke equals A's."),
+    ("no-load-speed", "No-load speed\nby turns per coil",
+     "Change B's turns per coil (whole turns) until its no-load speed is as close to A's as whole turns allow."),
+    ("stall-torque", "Stall torque\nby stack length",
+     "Change B's stack length until its stall torque equals A's; magnets and housing keep their overhang."),
 )
 
 
@@ -118,10 +120,7 @@ class CompareView(QWidget):
 
         layout = QVBoxLayout(self)
         layout.setContentsMargins(6, 6, 6, 6)
-        top = QHBoxLayout()
-        top.addWidget(self._build_choice_bar(), 3)
-        top.addWidget(self._build_refit_bar(), 2)
-        layout.addLayout(top)
+        layout.addWidget(self._build_choice_bar())
         self.side_labels = QLabel()
         self.side_labels.setObjectName("side_labels")
         self.side_labels.setTextFormat(Qt.TextFormat.RichText)
@@ -132,12 +131,12 @@ class CompareView(QWidget):
         splitter.addWidget(self._build_numbers_panel())
         self.tabs = QTabWidget()
         self.tabs.setObjectName("compare_tabs")
-        self.tabs.addTab(self._build_curves(), "Speed-torque curves, A and B")
-        self.tabs.addTab(self._build_magnet_charts(), "Magnet working points, A and B")
+        self.tabs.addTab(self._build_curves(), "Speed-torque, A and B")
+        self.tabs.addTab(self._build_magnet_charts(), "Magnets, A and B")
         splitter.addWidget(self.tabs)
         splitter.setStretchFactor(0, 2)
         splitter.setStretchFactor(1, 3)
-        splitter.setSizes([560, 840])
+        splitter.setSizes([480, 920])
 
         # Updates are coalesced (many edits of A in one turn of the event loop draw once) and wait
         # while the page is hidden; only the chart tab in view is drawn.
@@ -185,7 +184,7 @@ class CompareView(QWidget):
 
     def _build_numbers_panel(self) -> QWidget:
         panel = QWidget()
-        panel.setMinimumWidth(540)  # the figure titles and five columns, unclipped
+        panel.setMinimumWidth(440)  # the figure titles and five columns, unclipped
         column = QVBoxLayout(panel)
         column.setContentsMargins(0, 0, 0, 0)
         self.figures_table = QTableWidget(0, 5)
@@ -200,6 +199,7 @@ class CompareView(QWidget):
         self._tidy_table(self.checks_table)
         column.addWidget(self.checks_table, 2)
 
+        column.addWidget(self._build_refit_bar())
         self.refit_report = QTextBrowser()
         self.refit_report.setObjectName("refit_report")
         self.refit_report.setPlaceholderText(
@@ -209,11 +209,13 @@ class CompareView(QWidget):
         return panel
 
     def _build_refit_bar(self) -> QWidget:
-        box = QGroupBox("Re-fit B to A (B is then pinned at the re-fitted design)")
+        box = QGroupBox("Re-fit B to A's figure (B is then pinned at the re-fitted design)")
+        box.setToolTip("Each re-fit changes one input of B; what else follows is listed in the report below.")
         row = QHBoxLayout(box)
         self.refit_buttons: dict[str, QPushButton] = {}
-        for target, label in REFIT_BUTTONS:
+        for target, label, tip in REFIT_BUTTONS:
             button = QPushButton(label)
+            button.setToolTip(tip)
             button.setObjectName(f"refit_{target}")
             button.clicked.connect(lambda _checked=False, t=target: self.start_refit(t))
             row.addWidget(button)
@@ -249,6 +251,7 @@ class CompareView(QWidget):
         self.curve_key.setObjectName("curve_key")
         self.curve_key.setTextFormat(Qt.TextFormat.RichText)
         self.curve_key.setStyleSheet("padding: 2px 4px;")
+        self.curve_key.setWordWrap(True)
         column.addWidget(self.curve_key)
         self.curves_canvas = pg.GraphicsLayoutWidget()
         self.curves_canvas.setObjectName("compare_curves")
@@ -426,14 +429,16 @@ class CompareView(QWidget):
                          f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
         self.project_b, self.results_b = fit.project, fit.results
         self._show_refit(fit)
-        self._update_later()
+        # At once, not later: whoever hears refit_finished finds the page already showing it.
+        self._stale = True
+        self._update_if_shown()
         self.refit_finished.emit(fit)
 
     def _show_refit(self, fit) -> None:
         colour = STATUS_COLOURS["pass" if fit.reached else "fail"]
         lines = refit_lines(fit)
         head = "Reached" if fit.reached else "Out of reach"
-        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(lines[0])}</p><ul>"]
+        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(fit.message)}</p><ul>"]
         html += [f"<li>{_escape(line.strip())}</li>" for line in lines[1:]]
         html.append(f"</ul><p style='color:#666'>{fit.evaluations} evaluations.</p>")
         if self.project_a is not self._refit_for_a:
