@@ -408,8 +408,9 @@ def _bracket_end(trial: _Trial, start: float, limit: float, schema_reason: str) 
     if problem:
         end, outside = _usable_end(lambda v: not first_problem(trial.project, v), start, limit, integer)
         if not integer:
-            # Step out to a round number so the validator's message reads like a person wrote it.
-            outside = math.ceil(outside * 1e3) / 1e3 if limit > start else math.floor(outside * 1e3) / 1e3
+            # Step out to the next tenth of a millimetre, so the validator's message shows a clear excess
+            # ("72.2 mm across, over the envelope of 72 mm") rather than rounding noise.
+            outside = math.floor(outside * 10 + 1) / 10 if limit > start else math.ceil(outside * 10 - 1) / 10
         reason = first_problem(trial.project, outside) or problem
     problem = first_problem(trial.results, end)
     if problem:
