@@ -264,24 +264,28 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
         painter.setPen(_pen(s.colour, s.width, s.dash))
         painter.drawPath(clipped_path(points, plot))
     painter.setFont(_font(13, bold=True))
-    placed: list[QRectF] = []
-    for m in panel.markers:
-        if not (math.isfinite(m.x) and math.isfinite(m.y)):
-            continue
-        centre = to_point(m.x, m.y)
-        if not plot.adjusted(-2, -2, 2, 2).contains(centre):
-            continue
+    metrics = QFontMetricsF(painter.font())
+    inside = plot.adjusted(-2, -2, 2, 2)
+    shown = [(m, to_point(m.x, m.y)) for m in panel.markers if math.isfinite(m.x) and math.isfinite(m.y)]
+    shown = [(m, centre) for m, centre in shown if inside.contains(centre)]
+    # Labels keep clear of every marker and of each other: the first free corner around the point wins.
+    taken = [QRectF(c.x() - m.size / 2, c.y() - m.size / 2, m.size, m.size) for m, c in shown]
+    for m, centre in shown:
         draw_marker(painter, centre, m.shape, m.colour, m.size, m.filled)
-        if m.label:
-            width = QFontMetricsF(painter.font()).horizontalAdvance(m.label) + 4
-            box = QRectF(centre.x() + 8, centre.y() - 22, width, 18)
-            if box.right() > plot.right():
-                box.moveRight(centre.x() - 8)
-            while any(box.intersects(other) for other in placed) and box.top() < plot.bottom():
-                box.translate(0, 18)
-            placed.append(box)
-            painter.setPen(m.colour)
-            painter.drawText(box, Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter, m.label)
+    for m, centre in shown:
+        if not m.label:
+            continue
+        width, height = metrics.horizontalAdvance(m.label) + 4, 18.0
+        gap = m.size / 2 + 3
+        candidates = [QRectF(centre.x() + gap, centre.y() - gap - height + 4, width, height),
+                      QRectF(centre.x() + gap, centre.y() + gap - 4, width, height),
+                      QRectF(centre.x() - gap - width, centre.y() - gap - height + 4, width, height),
+                      QRectF(centre.x() - gap - width, centre.y() + gap - 4, width, height)]
+        fitting = [box for box in candidates if plot.contains(box)] or candidates
+        box = next((b for b in fitting if not any(b.intersects(t) for t in taken)), fitting[0])
+        taken.append(box)
+        painter.setPen(m.colour)
+        painter.drawText(box, Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter, m.label)
     if panel.note:
         painter.setFont(_font(12))
         painter.setPen(AXIS)

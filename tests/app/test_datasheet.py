@@ -332,3 +332,31 @@ def test_curves_are_cut_to_the_plot_in_our_own_code():
     bounds = path.boundingRect()
     assert (bounds.left(), bounds.right(), bounds.top(), bounds.bottom()) == pytest.approx((0, 10, 5, 5))
     assert clipped_path([QPointF(20, 20), QPointF(30, 30)], box).isEmpty()
+
+
+def _figures(number: str) -> int:
+    """Significant figures of a printed number; an integer's trailing zeros are not counted."""
+    digits = number.lstrip("-−").replace(".", "")
+    digits = digits.lstrip("0")
+    if "." not in number:
+        digits = digits.rstrip("0")
+    return max(len(digits), 1)
+
+
+def test_no_figure_shows_more_digits_than_the_model_deserves(evaluated):
+    from app.datasheet.content import build, electrical_table, performance_table, thermal_table
+
+    design, results = evaluated
+    sheet = build(design, results, ISSUED)
+    assert sheet.headline
+    tables = (performance_table(results), electrical_table(design, results), thermal_table(results))
+    for table in tables:
+        for row in table.rows:
+            if row.kind == "group":
+                continue
+            allowed = 2 if "estimate" in row.cells[0] else 3
+            for cell in row.cells[1:]:
+                for number in re.findall(r"[-−]?\d+(?:\.\d+)?", cell.split("(")[0]):
+                    if cell.startswith(("S1", "S2")) or "°C" in cell or "IEC" in row.cells[0]:
+                        continue  # duty names, whole degrees and class names are not measurements
+                    assert _figures(number) <= allowed, f"{row.cells[0]}: {cell}"
