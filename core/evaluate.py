@@ -198,6 +198,9 @@ class CaseResult:
     rated_reached: bool
     meets_load: bool  #: rated torque reached at or above the required speed
     curve: CurveData = field(repr=False)
+    #: shaft torque at which the armature current reaches the drive's limit; None without a limit or
+    #: when the limit is above the stall current (the curve beyond it is not reachable with that drive)
+    current_limit_torque_N_m: float | None = None
 
 
 @dataclass(frozen=True)
@@ -226,8 +229,9 @@ class ThermalResult:
     winding_to_housing_K_per_W: float
     thermal_time_constant_s: float
     iterations: int
-    converged: bool
+    converged: bool  #: False when no steady state exists; the hot case is then at the class limit
     ok: bool
+    runaway_winding_temperature_C: float | None = None  #: where the iteration stopped, when it did not converge
 
 
 @dataclass(frozen=True)
@@ -460,9 +464,19 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         name: np.concatenate((np.broadcast_to(getattr(circuit, name), (3,)), np.broadcast_to(getattr(open_circuit, name), (2,))))
         for name in vars(circuit)
     })
+    runaway_winding_C = None
+    if not converged:
+        # No steady state (thermal runaway, or the rated load stalls the hot motor): the temperatures
+        # the loop stopped at mean nothing. The hot case is then shown at the insulation class limit,
+        # the hottest the winding may run, with the magnet at the matching share of the rise; the
+        # thermal check fails and says so.
+        runaway_winding_C = winding_C
+        rise = max(winding_C - ambient, 1e-9)
+        share = min(max((housing_C - ambient) / rise, 0.0), 1.0)
+        winding_C = max(w.insulation_limit_C, ambient)
+        housing_C = magnet_C = ambient + share * (winding_C - ambient)
     if magnet_C >= model_high_C:
-        # The hot magnet would be past the point where its coefficients mean anything: the thermal
-        # result already fails; evaluate the hot case at the edge of the model instead of crashing.
+        # Past the point where the grade's coefficients mean anything: evaluate at the model's edge.
         magnet_C = model_high_C
         converged = False
     case_temperatures = np.array([d.ambient_min_C, d.ambient_nominal_C, magnet_C, d.ambient_min_C, d.ambient_max_C])
@@ -484,6 +498,10 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         stc = speed_torque_curve(model, d.load_torque, samples=curve_points)
         c = stc.curve
         rated = _point(stc.rated)
+        limit_torque = None
+        if d.current_limit is not None and d.current_limit < float(stc.stall.current):
+            limit_speed = (d.supply_voltage - d.brush_drop - model.resistance * d.current_limit) / model.constant
+            limit_torque = float(model.constant * d.current_limit - loss_torque(model, limit_speed))
         cases.append(CaseResult(
             name=name,
             temperature_C=float(case_winding_C),
@@ -511,6 +529,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
                 copper_loss_W=c.copper_loss, brush_loss_W=c.brush_loss, friction_loss_W=c.friction_loss,
                 viscous_loss_W=c.viscous_loss, iron_loss_W=c.iron_loss,
             ),
+            current_limit_torque_N_m=limit_torque,
         ))
     cold, nominal, hot = cases
 
@@ -574,6 +593,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         magnet_limit_C=grade.max_working_temperature_C, losses_W=total_loss, rotor_losses_W=rotor_loss,
         housing_to_ambient_K_per_W=housing_resistance, winding_to_housing_K_per_W=d.thermal.winding_to_housing,
         thermal_time_constant_s=d.thermal.time_constant, iterations=iterations, converged=converged,
+        runaway_winding_temperature_C=runaway_winding_C,
         ok=bool(converged and winding_C <= w.insulation_limit_C and magnet_C <= grade.max_working_temperature_C),
     )
     slot_area = float(g.slot_area)
