@@ -322,7 +322,8 @@ def _lookup(results: Results, key: str) -> float:
 
 
 def _show(value_si: float, unit: str) -> str:
-    return f"{from_si(value_si, unit):.4g} {unit}"
+    value = from_si(value_si, unit)
+    return f"{value:.0f} {unit}" if abs(value) >= 1e4 else f"{value:.4g} {unit}"  # 18860 mN·m, not 1.886e+04
 
 
 def _show_parameter(value: float, target: RefitTarget, unit: str) -> str:

@@ -180,6 +180,11 @@ class CompareView(QWidget):
         self.open_button.clicked.connect(self._choose_b_file)
         row.addWidget(self.open_button)
         row.addStretch(1)
+        self.save_button = QPushButton("Save B as…")
+        self.save_button.setObjectName("save_b_button")
+        self.save_button.setToolTip("Write design B (a re-fitted one too) to a project file of its own.")
+        self.save_button.clicked.connect(self._choose_b_save_path)
+        row.addWidget(self.save_button)
         return bar
 
     def _build_numbers_panel(self) -> QWidget:
@@ -243,6 +248,14 @@ class CompareView(QWidget):
         self.case_combo.addItems(["nominal", "cold", "hot"])
         self.case_combo.currentTextChanged.connect(lambda _text: self._draw_curves())
         row.addWidget(self.case_combo)
+        row.addWidget(QLabel("Torque range"))
+        self.range_combo = QComboBox()
+        self.range_combo.setObjectName("curve_range_combo")
+        self.range_combo.addItems(["no load to stall", "around the rated point"])
+        self.range_combo.setToolTip("Around the rated point: 0 to 3 × the rated torque, where a motor with a "
+                                    "current-limited drive actually works.")
+        self.range_combo.currentTextChanged.connect(lambda _text: self._draw_curves())
+        row.addWidget(self.range_combo)
         self.curve_note = QLabel()
         row.addWidget(self.curve_note, 1)
         column.addLayout(row)
@@ -374,6 +387,23 @@ class CompareView(QWidget):
         self._update_later()
         return True
 
+    def _choose_b_save_path(self) -> None:
+        path, _filter = QFileDialog.getSaveFileName(self, "Save design B", "", "pmdc-sizer projects (*.toml)")
+        if path:
+            self.save_b(path if path.endswith(".toml") else path + ".toml")
+
+    def save_b(self, path) -> bool:
+        """Write B to ``path`` (atomically, by the project module); a failure says why and writes nothing."""
+        if self.project_b is None:
+            return False
+        try:
+            project_file.save(self.project_b, path)
+        except ProjectError as error:
+            self._set_status(f"B not saved: {error}", "fail")
+            return False
+        self._set_status(f"B saved to {Path(path).name}.", "pass")
+        return True
+
     def _reset_grade_combo(self) -> None:
         self.grade_combo.blockSignals(True)
         self.grade_combo.setCurrentText(NO_GRADE)
@@ -440,7 +470,8 @@ class CompareView(QWidget):
         head = "Reached" if fit.reached else "Out of reach"
         html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(fit.message)}</p><ul>"]
         html += [f"<li>{_escape(line.strip())}</li>" for line in lines[1:]]
-        html.append(f"</ul><p style='color:#666'>{fit.evaluations} evaluations.</p>")
+        html.append(f"</ul><p style='color:#666'>{fit.evaluations} evaluations. To start again from B before the "
+                    "re-fit, choose it again above; to keep this B, save it as a project file.</p>")
         if self.project_a is not self._refit_for_a:
             html.append("<p><b>A changed while B was re-fitted; re-fit again to match the new A.</b></p>")
         self.refit_report.setHtml("".join(html))
@@ -490,6 +521,7 @@ class CompareView(QWidget):
         self._stale = False
         self._show_sides()
         ready = self.results_a is not None and self.results_b is not None
+        self.save_button.setEnabled(self.project_b is not None)
         for button in self.refit_buttons.values():
             button.setEnabled(ready and not self._refit_running)
         if self.last_refit is not None and self.b_mode == "refit" and self.project_a is not self._refit_for_a:
@@ -587,8 +619,12 @@ class CompareView(QWidget):
             keys.append(f"<span style='color:{REQUIRED_COLOUR}'><b>✚</b> required: rated torque at this speed or faster</span>")
         self.curve_key.setText("&nbsp;&nbsp;&nbsp;".join(keys))
         if highest_stall > 0:
+            right = highest_stall * 1.02
+            if self.range_combo.currentIndex() == 1 and self.results_a is not None:
+                right = min(right, 3.0 * from_si(self.results_a.load_torque_N_m, "mN·m"))
             for plot in self.curve_plots.values():
-                plot.setXRange(0.0, highest_stall * 1.02, padding=0.0)
+                plot.setXRange(0.0, right, padding=0.0)
+                plot.getViewBox().setAutoVisible(y=True)  # scale each quantity to the torques in view
                 plot.enableAutoRange(axis="y")
 
     def _draw_magnets(self) -> None:

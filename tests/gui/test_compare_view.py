@@ -85,6 +85,9 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
     for side in ("A", "B"):
         x, y = view.curve_items[("speed_rad_per_s", side)].getData()
         assert len(x) > 10 and y[0] > y[-1]
+    view.range_combo.setCurrentIndex(1)
+    left, right = view.curve_plots["speed_rad_per_s"].getViewBox().viewRange()[0]
+    assert right == pytest.approx(3 * 35.0)  # three times the rated 35 mN·m
     view.tabs.setCurrentIndex(1)  # the magnet charts are drawn when their tab is in view
     for side, grade in (("A", "Y30BH"), ("B", "N42")):
         assert view.magnet_titles[side].text().startswith(f"{side}: {grade}, 6 mm arcs")
@@ -97,7 +100,7 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
         window.edit({"magnets.thickness_mm": 5.0})
 
 
-def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot):
+def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
     window, view = page
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.use_grade_for_b("Y25")
@@ -112,6 +115,10 @@ def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot):
     table = view.figures_table
     assert cell(table, row_of(table, "Stall torque"), 3) == "0"
     assert all(button.isEnabled() for button in view.refit_buttons.values())
+    # The re-fitted B can be kept as a project file of its own, exactly as re-fitted.
+    saved = tmp_path / "b_refitted.toml"
+    assert view.save_b(saved)
+    assert project.load(saved) == fit.project
 
 
 def test_out_of_reach_refit_says_why(page, qtbot):
@@ -145,4 +152,6 @@ def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         assert view.load_b_file(DEMO_FOLDER / "mobility_ndfeb_24v.toml")
     assert view.results_b.magnet.name == "N42SH" and "mobility_ndfeb_24v.toml" in view.side_labels.text()
+    assert not view.save_b(tmp_path / "no such folder" / "b.toml")
+    assert "B not saved" in view.side_labels.text() and not (tmp_path / "no such folder").exists()
     assert not view.grab().isNull()
