@@ -122,6 +122,14 @@ def _per_case(label: str, values) -> Row:
     return Row((label,) + tuple(values))
 
 
+NOT_REACHED = "stalls"
+
+
+def rated(case, text: str) -> str:
+    """A rated-point figure, or a plain word where the rated torque is beyond the stall torque."""
+    return text if case.rated_reached else NOT_REACHED
+
+
 def performance_table(results: Results) -> Table:
     r = results
     unit = torque_unit(r)
@@ -136,10 +144,10 @@ def performance_table(results: Results) -> Table:
         _per_case("No-load current", (q(c.no_load_current_A, "A") for c in cases)),
         Row((f"Rated load, {q(r.load_torque_N_m, unit)} (required speed {q(r.load_speed_rad_per_s, 'rpm')} or more)",),
             "group"),
-        _per_case("Speed", (q(c.rated.speed_rad_per_s, "rpm") for c in cases)),
-        _per_case("Current", (q(c.rated.current_A, "A") for c in cases)),
-        _per_case("Output power", (q(c.rated.output_power_W, "W") for c in cases)),
-        _per_case("Efficiency", (percent(c.rated.efficiency) for c in cases)),
+        _per_case("Speed", (rated(c, q(c.rated.speed_rad_per_s, "rpm")) for c in cases)),
+        _per_case("Current", (rated(c, q(c.rated.current_A, "A")) for c in cases)),
+        _per_case("Output power", (rated(c, q(c.rated.output_power_W, "W")) for c in cases)),
+        _per_case("Efficiency", (rated(c, percent(c.rated.efficiency)) for c in cases)),
         _per_case("Load met", ("yes" if c.meets_load else "NO" for c in cases)),
         Row(("Stall (no current limit)",), "group"),
         _per_case("Stall torque", (q(c.stall_torque_N_m, unit) for c in cases)),
@@ -311,13 +319,22 @@ def checks_table(results: Results) -> Table:
     return Table(("Status", "Check", "Finding"), rows, widths=(10, 19, 71), numeric_from=99, key="checks")
 
 
+def failing_summary(results: Results) -> tuple[Paragraph, ...]:
+    """A line that cannot be missed when any check fails; nothing when all pass."""
+    failing = [c.title for c in results.checks if c.status == "fail"]
+    if not failing:
+        return ()
+    return (Paragraph(f"This design fails {len(failing)} check(s): {', '.join(failing)}. See the design checks; "
+                      "it is not ready for release.", "fail"),)
+
+
 def headline(project: Project, results: Results) -> tuple[tuple[str, str], ...]:
     n, c, dm = results.nominal, results.constants, results.demagnetization
     unit = torque_unit(results)
     return (
         ("Supply", q(results.supply_voltage_V, "V")),
         ("Rated torque", q(results.load_torque_N_m, unit)),
-        ("Rated speed, nominal", q(n.rated.speed_rad_per_s, "rpm")),
+        ("Rated speed, nominal", rated(n, q(n.rated.speed_rad_per_s, "rpm"))),
         ("No-load speed", q(n.no_load_speed_rad_per_s, "rpm")),
         ("Stall torque", q(n.stall_torque_N_m, unit)),
         ("Ke", q(c.ke_V_s_per_rad, "V/krpm")),
@@ -337,7 +354,7 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
     winding, mass, cost = build_tables(project, r)
     notes = info.notes.strip()
     sections = (
-        Section("performance", "Performance at three temperatures", (
+        Section("performance", "Performance at three temperatures", failing_summary(r) + (
             Paragraph("Cold: the coldest ambient, motor at rest temperature. Nominal: the nominal ambient. Hot: the "
                       "hottest ambient with winding and magnets at the temperatures they reach at the rated load.",
                       "note"),
@@ -362,7 +379,8 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
         ), new_page=True),
         Section("construction", "Construction, masses and cost", (Columns((winding,), (mass, cost)),), new_page=True),
         Section("checks", "Design checks", (checks_table(r),)),
-        Section("notes", "Notes", (Paragraph(notes if notes else "No notes."),)),
+        Section("notes", "Notes", tuple(Paragraph(line.strip()) for line in notes.splitlines() if line.strip())
+                or (Paragraph("No notes."),)),
         Section("cautions", "Cautions", tuple(Paragraph(text, "caution") for text in CAUTIONS)),
     )
     identity = (

@@ -140,6 +140,7 @@ def test_failing_demagnetization_is_obvious(ferrite, tmp_path):
     datasheet.export(thin, results, target, ISSUED)
     text = _pdf_text(target)
     assert "DEMAGNETIZES" in text
+    assert "This design fails" in text and "Demagnetization" in text
     assert f"Worst case: {results.demagnetization.worst_case}" in text
     assert "FAIL" in text
 
@@ -360,3 +361,16 @@ def test_no_figure_shows_more_digits_than_the_model_deserves(evaluated):
                     if cell.startswith(("S1", "S2")) or "°C" in cell or "IEC" in row.cells[0]:
                         continue  # duty names, whole degrees and class names are not measurements
                     assert _figures(number) <= allowed, f"{row.cells[0]}: {cell}"
+
+
+def test_rated_load_beyond_stall_says_so(ferrite, tmp_path):
+    design, _ = ferrite
+    overloaded = project_file.with_values(design, {"load.torque_mNm": 500.0})
+    results = evaluate(overloaded)
+    assert not any(c.rated_reached for c in results.cases)
+    target = tmp_path / "overloaded.html"
+    datasheet.export(overloaded, results, target, ISSUED)
+    root = ET.fromstring(target.read_text(encoding="utf-8").split("\n", 1)[1])
+    text = _squash(" ".join(root.itertext()))
+    assert "Speed stalls stalls stalls" in text
+    assert "This design fails" in text and "Rated load" in text
