@@ -31,6 +31,8 @@ TEXT = QColor("#1b1f24")
 GRID = QColor("#d9dde3")
 AXIS = QColor("#5b6470")
 FAIL = QColor("#c0001a")
+REQUIRED = QColor("#6a2c91")
+LIMIT = QColor("#2e8b57")
 
 #: One colour and one dash per temperature case, so the cases differ in print and in grey scale too.
 CASE_STYLE = {
@@ -372,6 +374,11 @@ def working_torque_limit(results: Results) -> float:
     return min(stall, span) if span > 0 else stall
 
 
+def drive_current_limit(results: Results) -> float | None:
+    """The drive's current limit [A], as the demagnetization case at that limit carries it; None without one."""
+    return next((c.current_A for c in results.demagnetization.cases if c.kind == "current limit"), None)
+
+
 def performance_panels(results: Results) -> list[Panel]:
     unit = torque_unit(results)
     stall = max(c.stall_torque_N_m for c in results.cases)
@@ -404,8 +411,12 @@ def performance_panels(results: Results) -> list[Panel]:
                 value = {"speed_rad_per_s": point.speed_rad_per_s, "current_A": point.current_A,
                          "output_power_W": point.output_power_W, "efficiency": point.efficiency}[name]
                 panel.markers.append(Marker(from_si(point.torque_N_m, unit), from_si(value, q_unit), shape, colour))
+    limit = drive_current_limit(results)
+    if limit is not None:
+        # Above this line the current panel's curves are out of the drive's reach.
+        panels[1].series.append(Series(np.array(x_full), np.array([limit, limit]), LIMIT, Qt.PenStyle.DotLine, 2.4))
     required = Marker(from_si(results.load_torque_N_m, unit), from_si(results.load_speed_rad_per_s, "rpm"), "plus",
-                      QColor("#6a2c91"), size=16)
+                      REQUIRED, size=16)
     panels[0].markers.append(required)
     return panels
 
@@ -415,7 +426,9 @@ def performance_legend(results: Results) -> list[list[LegendItem]]:
         [LegendItem(f"{name}", colour, dash) for name, (colour, dash) in CASE_STYLE.items()]
         + [LegendItem("rated point", AXIS, shape="square"), LegendItem("best efficiency", AXIS, shape="circle"),
            LegendItem("maximum power", AXIS, shape="triangle"),
-           LegendItem("required speed at rated torque", QColor("#6a2c91"), shape="plus")],
+           LegendItem("required speed at rated torque", REQUIRED, shape="plus")]
+        + ([LegendItem(f"drive current limit, {drive_current_limit(results):g} A", LIMIT, Qt.PenStyle.DotLine)]
+           if drive_current_limit(results) is not None else []),
         [LegendItem(case_label(c), AXIS) for c in results.cases],
     ]
 

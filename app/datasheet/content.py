@@ -130,8 +130,9 @@ def rated(case, text: str) -> str:
     return text if case.rated_reached else NOT_REACHED
 
 
-def performance_table(results: Results) -> Table:
+def performance_table(project: Project, results: Results) -> Table:
     r = results
+    limit = project.supply.current_limit_A
     unit = torque_unit(r)
     cases = r.cases
     rows = [
@@ -149,9 +150,15 @@ def performance_table(results: Results) -> Table:
         _per_case("Output power", (rated(c, q(c.rated.output_power_W, "W")) for c in cases)),
         _per_case("Efficiency", (rated(c, percent(c.rated.efficiency)) for c in cases)),
         _per_case("Load met", ("yes" if c.meets_load else "NO" for c in cases)),
-        Row(("Stall (no current limit)",), "group"),
+        Row(("At stall" if limit is None else "At stall, and where the drive limits the current",), "group"),
         _per_case("Stall torque", (q(c.stall_torque_N_m, unit) for c in cases)),
         _per_case("Stall current", (q(c.stall_current_A, "A") for c in cases)),
+    ]
+    if limit is not None:
+        rows.append(_per_case(f"Torque at the {q(limit, 'A')} drive limit", (
+            q(c.current_limit_torque_N_m, unit) if c.current_limit_torque_N_m is not None else "limit above stall"
+            for c in cases)))
+    rows += [
         Row(("Best points",), "group"),
         _per_case("Maximum efficiency", (percent(c.max_efficiency) for c in cases)),
         _per_case("Torque at maximum efficiency", (q(c.max_efficiency_point.torque_N_m, unit) for c in cases)),
@@ -248,6 +255,8 @@ def thermal_table(results: Results) -> Table:
     t = results.thermal
     duty = "S1, continuous" if t.duty == "S1" else f"S2, {t.duty_minutes:g} min"
     winding_label = "Winding temperature, steady" if t.duty == "S1" else "Winding temperature, end of run"
+    if not t.converged:
+        winding_label = "Winding temperature (no steady state: shown at the class limit)"
     rows = [
         ("Highest ambient", temperature(t.ambient_C)),
         ("Duty type (IEC 60034-1)", duty),
@@ -358,7 +367,7 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
             Paragraph("Cold: the coldest ambient, motor at rest temperature. Nominal: the nominal ambient. Hot: the "
                       "hottest ambient with winding and magnets at the temperatures they reach at the rated load.",
                       "note"),
-            performance_table(r),
+            performance_table(project, r),
         )),
         Section("terminals", "Terminal markings", (
             Table(("Marking", "Meaning"), tuple(Row(t) for t in TERMINAL_ROWS), widths=(15, 85), numeric_from=99,
