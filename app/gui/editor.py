@@ -1,0 +1,513 @@
+"""The design editor: every key of the project schema as a widget, grouped the way a motor engineer
+works through a design (duty first, then the magnetic circuit from the magnets inwards, then the
+winding, the losses and the money).
+
+Widgets are generated from ``core.project.key_specs()``: the spin-box suffix is the key's unit (or its
+US customary equivalent on screen), the limits are the schema's, the tooltip is its description. A
+schema key this module does not know still appears, in the last group. Widgets only propose values to
+the input model; the model decides.
+"""
+
+from __future__ import annotations
+
+import math
+
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import (
+    QAbstractSpinBox,
+    QCheckBox,
+    QComboBox,
+    QDoubleSpinBox,
+    QFormLayout,
+    QHBoxLayout,
+    QLabel,
+    QLineEdit,
+    QScrollArea,
+    QSizePolicy,
+    QSpinBox,
+    QToolButton,
+    QVBoxLayout,
+    QWidget,
+)
+
+from app.formatting import quantity as format_quantity
+from app.formatting import significant
+from core import library
+from core.project import CustomGrade
+from core.units import from_si
+
+from .display_units import DisplayUnits
+from .input_model import DesignModel, QuantityModel
+
+#: (title, sections of the file, open at start)
+GROUPS = (
+    ("Supply, load and temperatures", ("supply", "load", "temperatures"), True),
+    ("Poles and magnets", ("motor", "magnets"), True),
+    ("Air gap and housing", ("airgap", "housing"), True),
+    ("Armature", ("armature",), False),
+    ("Winding", ("winding",), False),
+    ("Losses, thermal and rotor", ("losses", "thermal", "rotor"), False),
+    ("Prices and project information", ("prices", "project"), False),
+)
+OTHER_GROUP = "Other keys"
+
+# Key names carry their unit as a suffix; the label drops it because the spin box shows it.
+_UNIT_SUFFIXES = (
+    "_kA_per_m", "_kJ_per_m3", "_pct_per_K", "_kg_per_m3", "_K_per_W", "_W_per_m2K", "_mNm_per_krpm",
+    "_per_kg", "_mNm", "_rpm", "_mm", "_deg", "_gcm2", "_min", "_V", "_A", "_C", "_T",
+)
+# Where the key name alone reads poorly on screen.
+_LABELS = {
+    "supply.reversing": "Reversed at speed",
+    "supply.current_limit_A": "Drive current limit",
+    "load.torque_mNm": "Rated torque",
+    "load.speed_rpm": "Speed needed at rated torque",
+    "temperatures.ambient_min_C": "Coldest ambient",
+    "temperatures.ambient_nominal_C": "Nominal ambient",
+    "temperatures.ambient_max_C": "Hottest ambient",
+    "motor.poles": "Poles",
+    "magnets.arc_deg": "Magnet arc",
+    "magnets.thickness_mm": "Magnet thickness",
+    "magnets.length_mm": "Magnet length",
+    "airgap.length_mm": "Air gap",
+    "housing.wall_mm": "Housing wall",
+    "housing.length_mm": "Housing length",
+    "housing.steel": "Housing steel",
+    "housing.max_outer_diameter_mm": "Envelope diameter",
+    "armature.outer_diameter_mm": "Armature diameter",
+    "armature.steel": "Lamination steel",
+    "winding.type": "Winding type",
+    "winding.wire": "Wire size",
+    "losses.viscous_mNm_per_krpm": "Viscous torque per krpm",
+    "thermal.duty_minutes": "S2 run length",
+    "rotor.extra_inertia_gcm2": "Extra inertia on shaft",
+    "prices.magnet_per_kg": "Magnet price",
+    "prices.copper_per_kg": "Copper price",
+    "prices.housing_steel_per_kg": "Housing steel price",
+    "prices.lamination_per_kg": "Lamination price",
+    "project.name": "Design name",
+    "magnets.custom_grade.name": "Grade name",
+    "magnets.custom_grade.remanence_T": "Br",
+    "magnets.custom_grade.coercivity_HcB_kA_per_m": "HcB",
+    "magnets.custom_grade.coercivity_HcJ_kA_per_m": "HcJ",
+    "magnets.custom_grade.energy_product_kJ_per_m3": "(BH)max",
+    "magnets.custom_grade.recoil_permeability": "Recoil permeability μrec",
+    "magnets.custom_grade.squareness": "Squareness Hk/HcJ",
+    "magnets.custom_grade.remanence_temp_coeff_pct_per_K": "Br temperature coefficient",
+    "magnets.custom_grade.coercivity_temp_coeff_pct_per_K": "HcJ temperature coefficient",
+    "magnets.custom_grade.max_working_temperature_C": "Max. working temperature",
+    "magnets.custom_grade.source": "Data source",
+}
+_STEEL_KIND = {"housing.steel": "housing", "armature.steel": "lamination"}
+# The inline custom grade's keys and the library grade's fields (SI) they correspond to.
+_GRADE_FIELDS = {
+    "name": "name", "family": "family", "remanence_T": "remanence",
+    "coercivity_HcB_kA_per_m": "coercivity_hcb", "coercivity_HcJ_kA_per_m": "coercivity_hcj",
+    "energy_product_kJ_per_m3": "energy_product", "recoil_permeability": "recoil_permeability",
+    "squareness": "squareness", "remanence_temp_coeff_pct_per_K": "remanence_temp_coeff",
+    "coercivity_temp_coeff_pct_per_K": "coercivity_temp_coeff",
+    "max_working_temperature_C": "max_working_temperature_C", "density_kg_per_m3": "density",
+    "source": "source",
+}
+
+
+def label_for(key: str) -> str:
+    if key in _LABELS:
+        return _LABELS[key]
+    name = key.rsplit(".", 1)[-1]
+    for suffix in _UNIT_SUFFIXES:
+        if name.endswith(suffix):
+            name = name[: -len(suffix)]
+            break
+    words = name.replace("_", " ")
+    return words[0].upper() + words[1:]
+
+
+def custom_grade_from_library(grade) -> dict:
+    """The inline custom-grade table that reproduces a library grade, in the file's units."""
+    table = {}
+    for key, attribute in _GRADE_FIELDS.items():
+        value = getattr(grade, attribute)
+        if isinstance(value, float):
+            value = float(f"{from_si(value, CustomGrade.model_fields[key].json_schema_extra['unit']):.6g}")
+        table[key] = value
+    table["name"] = f"{grade.name} (custom)"[:60]
+    table["source"] = (f"copied from the library grade {grade.name}; replace with certified data")[:400]
+    return table
+
+
+class _NoWheelUnlessFocused:
+    """Scrolling the editor must not change the value under the pointer by accident."""
+
+    def wheelEvent(self, event):  # noqa: N802 - Qt's name
+        if self.hasFocus():
+            super().wheelEvent(event)
+        else:
+            event.ignore()
+
+
+class QuantitySpinBox(_NoWheelUnlessFocused, QDoubleSpinBox):
+    """Shows as few decimals as the value needs ("6 mm", "0.45 mm"), steps adaptively."""
+
+    SIGNIFICANT_DIGITS = 5
+
+    def textFromValue(self, value: float) -> str:  # noqa: N802 - Qt's name
+        magnitude = math.floor(math.log10(abs(value))) if value else 0
+        decimals = min(self.decimals(), max(self.SIGNIFICANT_DIGITS - 1 - magnitude, 0))
+        text = f"{value:.{decimals}f}"
+        return text.rstrip("0").rstrip(".") if "." in text else text
+
+
+class CountSpinBox(_NoWheelUnlessFocused, QSpinBox):
+    pass
+
+
+class ChoiceBox(_NoWheelUnlessFocused, QComboBox):
+    pass
+
+
+class FieldEditor(QWidget):
+    """One key's editor with its refusal message underneath."""
+
+    def __init__(self, field: QuantityModel, model: DesignModel, display: DisplayUnits):
+        super().__init__()
+        self.field, self.model, self.display = field, model, display
+        spec = field.spec
+        outer = QVBoxLayout(self)
+        outer.setContentsMargins(0, 0, 0, 0)
+        outer.setSpacing(1)
+        row = QHBoxLayout()
+        row.setSpacing(4)
+        outer.addLayout(row)
+        self.enable_box: QCheckBox | None = None
+        if spec.optional and spec.kind in ("float", "int"):
+            self.enable_box = QCheckBox()
+            self.enable_box.setToolTip("Tick to set a value; untick to leave the key out of the design.")
+            self.enable_box.toggled.connect(self._on_enable_toggled)
+            row.addWidget(self.enable_box)
+        self.widget = self._make_widget()
+        row.addWidget(self.widget, 1)
+        tip = spec.description
+        if spec.minimum is not None and spec.maximum is not None:
+            tip += f"\nAllowed: {spec.minimum:g} to {spec.maximum:g} {spec.unit}".rstrip()
+        self.widget.setToolTip(tip)
+        self.error_label = QLabel()
+        self.error_label.setObjectName("field_error")
+        self.error_label.setWordWrap(True)
+        self.error_label.setStyleSheet("color: #b3261e;")
+        self.error_label.hide()
+        outer.addWidget(self.error_label)
+        field.changed.connect(self.show_value)
+        field.error_changed.connect(self.show_error)
+        self.show_value(field.value)
+
+    # -- construction
+    def _make_widget(self):
+        spec = self.field.spec
+        if spec.kind == "float":
+            box = QuantitySpinBox()
+            box.setKeyboardTracking(False)
+            box.setStepType(QAbstractSpinBox.StepType.AdaptiveDecimalStepType)
+            box.setAccelerated(True)
+            box.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
+            box.valueChanged.connect(self._on_number)
+            box.editingFinished.connect(self.model.flush)
+            self._configure_range(box)
+            return box
+        if spec.kind == "int":
+            box = CountSpinBox()
+            box.setKeyboardTracking(False)
+            box.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
+            box.setRange(int(spec.minimum), int(spec.maximum))
+            box.valueChanged.connect(self._on_number)
+            box.editingFinished.connect(self.model.flush)
+            return box
+        if spec.kind == "choice" or spec.path in _STEEL_KIND:
+            box = ChoiceBox()
+            box.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
+            if spec.path in _STEEL_KIND:
+                kind = _STEEL_KIND[spec.path]
+                for name, steel in sorted(library.steels().items()):
+                    if steel.kind == kind:
+                        box.addItem(name, name)
+            else:
+                for choice in spec.choices:
+                    box.addItem(str(choice), choice)
+            box.activated.connect(self._on_choice)
+            return box
+        if spec.kind == "bool":
+            box = QCheckBox()
+            box.toggled.connect(lambda on: self.field.propose(bool(on), final=True))
+            return box
+        line = QLineEdit()
+        line.editingFinished.connect(self._on_text)
+        return line
+
+    def _configure_range(self, box: QDoubleSpinBox) -> None:
+        spec = self.field.spec
+        unit = self.display.screen_unit(spec.unit)
+        low = self.display.to_screen(spec.minimum, spec.unit)
+        high = self.display.to_screen(spec.maximum, spec.unit)
+        box.blockSignals(True)
+        box.setDecimals(5 if unit == "in" else 4)
+        box.setRange(low, high)
+        box.setSuffix(f" {unit}" if unit not in ("", "1") else "")
+        if spec.unit == "/kg":
+            box.setSuffix(" per kg")
+        box.blockSignals(False)
+
+    def refresh_units(self) -> None:
+        if isinstance(self.widget, QDoubleSpinBox):
+            self._configure_range(self.widget)
+            self.show_value(self.field.value)
+
+    # -- model to widget
+    def show_value(self, value) -> None:
+        spec, w = self.field.spec, self.widget
+        w.blockSignals(True)
+        try:
+            if self.enable_box is not None:
+                self.enable_box.blockSignals(True)
+                self.enable_box.setChecked(value is not None)
+                self.enable_box.blockSignals(False)
+                w.setEnabled(value is not None)
+            if isinstance(w, QDoubleSpinBox):
+                if value is None:  # an absent optional key reads "not set"
+                    w.setSpecialValueText("not set")
+                    w.setValue(w.minimum())
+                else:
+                    w.setSpecialValueText("")
+                    w.setValue(self.display.to_screen(float(value), spec.unit))
+            elif isinstance(w, QSpinBox):
+                w.setValue(int(value) if value is not None else int(spec.minimum))
+            elif isinstance(w, QComboBox):
+                index = w.findData(value)
+                if index < 0 and value is not None:
+                    w.addItem(str(value), value)
+                    index = w.count() - 1
+                w.setCurrentIndex(index)
+            elif isinstance(w, QCheckBox):
+                w.setChecked(bool(value))
+            else:
+                w.setText("" if value is None else str(value))
+        finally:
+            w.blockSignals(False)
+
+    def show_error(self, message: str) -> None:
+        self.error_label.setText(message)
+        self.error_label.setVisible(bool(message))
+        self.widget.setStyleSheet("background: #fde7e4;" if message else "")
+
+    # -- widget to model
+    def _number(self):
+        w, spec = self.widget, self.field.spec
+        if isinstance(w, QDoubleSpinBox):
+            value = float(self.display.from_screen(w.value(), spec.unit))
+            # Converting back from inches or °F must not push a value past the schema's limits.
+            return min(max(value, spec.minimum), spec.maximum)
+        return int(w.value())
+
+    def _on_number(self, _value) -> None:
+        self.field.propose(self._number(), final=False)
+
+    def _on_enable_toggled(self, on: bool) -> None:
+        self.widget.setEnabled(on)
+        if not on:
+            self.field.propose(None, final=True)
+            return
+        spec = self.field.spec
+        if self.widget.specialValueText() and self.widget.value() == self.widget.minimum():
+            # A first value in the middle of the range (geometrically), to be typed over.
+            start = float(f"{(spec.minimum * spec.maximum) ** 0.5:.2g}")
+            self.widget.setSpecialValueText("")
+            self.widget.blockSignals(True)
+            self.widget.setValue(self.display.to_screen(start, spec.unit))
+            self.widget.blockSignals(False)
+        self.field.propose(self._number(), final=True)
+
+    def _on_choice(self, index: int) -> None:
+        self.field.propose(self.widget.itemData(index), final=True)
+
+    def _on_text(self) -> None:
+        text = self.widget.text().strip()
+        if text != (self.field.value or ""):
+            self.field.propose(text, final=True)
+
+
+class Section(QWidget):
+    """A titled group that folds away, so the engineer keeps open what they are working on."""
+
+    def __init__(self, title: str, expanded: bool):
+        super().__init__()
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 4)
+        layout.setSpacing(2)
+        self.header = QToolButton()
+        self.header.setText(title)
+        self.header.setCheckable(True)
+        self.header.setChecked(expanded)
+        self.header.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextBesideIcon)
+        self.header.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Fixed)
+        self.header.setStyleSheet("QToolButton { font-weight: bold; text-align: left; padding: 3px; }")
+        self.header.toggled.connect(self._toggle)
+        layout.addWidget(self.header)
+        self.body = QWidget()
+        self.form = QFormLayout(self.body)
+        self.form.setContentsMargins(8, 0, 4, 0)
+        self.form.setVerticalSpacing(3)
+        self.form.setFieldGrowthPolicy(QFormLayout.FieldGrowthPolicy.AllNonFixedFieldsGrow)
+        layout.addWidget(self.body)
+        self._toggle(expanded)
+
+    def _toggle(self, on: bool) -> None:
+        self.header.setArrowType(Qt.ArrowType.DownArrow if on else Qt.ArrowType.RightArrow)
+        self.body.setVisible(on)
+
+
+class MagnetGradePicker(QWidget):
+    """Library grade or the design's own custom grade; shows the chosen grade's properties."""
+
+    LIBRARY, CUSTOM = 0, 1
+
+    def __init__(self, model: DesignModel):
+        super().__init__()
+        self.model = model
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.source_box = ChoiceBox()
+        self.source_box.addItem("From the library", self.LIBRARY)
+        self.source_box.addItem("Custom (supplier's certified data)", self.CUSTOM)
+        self.source_box.setToolTip("Use a typical library grade, or enter the numbers from your supplier's certificate.")
+        self.source_box.activated.connect(self._on_source)
+        layout.addWidget(self.source_box)
+        self.grade_box = ChoiceBox()
+        self.grade_box.setToolTip(model.fields["magnets.grade"].spec.description)
+        grades = library.magnet_grades()
+        for name, grade in sorted(grades.items(), key=lambda item: (item[1].family, item[0])):
+            self.grade_box.addItem(f"{name}   ({grade.family})", name)
+        self.grade_box.activated.connect(self._on_grade)
+        layout.addWidget(self.grade_box)
+        self.properties = QLabel()
+        self.properties.setObjectName("grade_properties")
+        self.properties.setWordWrap(True)
+        self.properties.setTextFormat(Qt.TextFormat.RichText)
+        self.properties.setStyleSheet("color: #333; background: #f4f4f0; padding: 4px; border-radius: 3px;")
+        layout.addWidget(self.properties)
+        self.error_label = QLabel()
+        self.error_label.setWordWrap(True)
+        self.error_label.setStyleSheet("color: #b3261e;")
+        self.error_label.hide()
+        layout.addWidget(self.error_label)
+        model.fields["magnets.grade"].changed.connect(lambda _v: self.refresh())
+        model.fields["magnets.grade"].error_changed.connect(self._show_error)
+        model.project_updated.connect(lambda _p: self.refresh())
+        self._last_library_grade = model.fields["magnets.grade"].value or "Y30"
+        self.custom_rows: list[QWidget] = []
+        self.refresh()
+
+    def _show_error(self, message: str) -> None:
+        self.error_label.setText(message)
+        self.error_label.setVisible(bool(message))
+
+    @property
+    def is_custom(self) -> bool:
+        return self.model.project.magnets.custom_grade is not None
+
+    def refresh(self) -> None:
+        magnets = self.model.project.magnets
+        self.source_box.setCurrentIndex(self.CUSTOM if self.is_custom else self.LIBRARY)
+        self.grade_box.setVisible(not self.is_custom)
+        if magnets.grade:
+            self._last_library_grade = magnets.grade
+            index = self.grade_box.findData(magnets.grade)
+            self.grade_box.setCurrentIndex(index)
+        for row in self.custom_rows:
+            row.setVisible(self.is_custom)
+        if self.is_custom:
+            self.properties.setText("Custom grade: edit its data below. Values are at 20 °C.")
+            return
+        grade = library.magnet_grades().get(magnets.grade)
+        self.properties.setText(grade_summary(grade) if grade else "")
+
+    def _on_grade(self, index: int) -> None:
+        self.model.fields["magnets.grade"].propose(self.grade_box.itemData(index), final=True)
+
+    def _on_source(self, index: int) -> None:
+        wanted = self.source_box.itemData(index)
+        if wanted == self.CUSTOM and not self.is_custom:
+            grade = library.magnet_grades()[self._last_library_grade]
+            self.model.propose_many({"magnets.grade": None, "magnets.custom_grade": custom_grade_from_library(grade)},
+                                    "switch to a custom grade")
+        elif wanted == self.LIBRARY and self.is_custom:
+            self.model.propose_many({"magnets.custom_grade": None, "magnets.grade": self._last_library_grade},
+                                    "switch to a library grade")
+        self.refresh()
+
+
+def grade_summary(grade) -> str:
+    """The grade's catalogue data at 20 °C in three short lines that wrap in a narrow column."""
+    return (
+        f"<b>{grade.name}</b>, {grade.family}, typical at 20 °C:<br>"
+        f"Br <b>{format_quantity(grade.remanence, 'T')}</b>, HcB <b>{format_quantity(grade.coercivity_hcb, 'kA/m')}</b>, "
+        f"HcJ <b>{format_quantity(grade.coercivity_hcj, 'kA/m')}</b>, "
+        f"(BH)max <b>{format_quantity(grade.energy_product, 'kJ/m3')}</b><br>"
+        f"μrec <b>{significant(grade.recoil_permeability, 3)}</b>, Hk/HcJ <b>{significant(grade.squareness, 2)}</b>; "
+        f"per K: Br <b>{100 * grade.remanence_temp_coeff:+.2g} %</b>, HcJ <b>{100 * grade.coercivity_temp_coeff:+.2g} %</b><br>"
+        f"max. working <b>{grade.max_working_temperature_C:.0f} °C</b>, density <b>{format_quantity(grade.density, 'kg/m3')}</b><br>"
+        f"<small>Source: {grade.source}</small>"
+    )
+
+
+class DesignEditor(QScrollArea):
+    """All groups in one scrolling column."""
+
+    def __init__(self, model: DesignModel, display: DisplayUnits):
+        super().__init__()
+        self.model, self.display = model, display
+        self.setWidgetResizable(True)
+        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        content = QWidget()
+        column = QVBoxLayout(content)
+        column.setContentsMargins(4, 4, 4, 4)
+        column.setSpacing(2)
+        self.editors: dict[str, FieldEditor] = {}
+        self.sections: dict[str, Section] = {}
+        section_of_group = {section: title for title, sections, _ in GROUPS for section in sections}
+        for title, _sections, expanded in GROUPS:
+            self.sections[title] = Section(title, expanded)
+        self.grade_picker = MagnetGradePicker(model)
+        for key, field in model.fields.items():
+            title = section_of_group.get(key.split(".")[0], OTHER_GROUP)
+            if title not in self.sections:
+                self.sections[title] = Section(title, False)
+            form = self.sections[title].form
+            if key == "magnets.grade":
+                form.addRow(self._label("Magnet grade", field.spec.description), self.grade_picker)
+                continue
+            editor = FieldEditor(field, model, display)
+            self.editors[key] = editor
+            label = self._label(label_for(key), field.spec.description)
+            form.addRow(label, editor)
+            if key.startswith("magnets.custom_grade."):
+                self.grade_picker.custom_rows.extend((label, editor))
+        for section in self.sections.values():
+            column.addWidget(section)
+        column.addStretch(1)
+        self.setWidget(content)
+        self.grade_picker.refresh()
+
+    @staticmethod
+    def _label(text: str, tip: str) -> QLabel:
+        label = QLabel(text)
+        label.setToolTip(tip)
+        return label
+
+    def refresh_units(self) -> None:
+        for editor in self.editors.values():
+            editor.refresh_units()
+
+    def editor(self, key: str) -> FieldEditor:
+        return self.editors[key]
+
+
+__all__ = ["DesignEditor", "FieldEditor", "label_for", "custom_grade_from_library"]

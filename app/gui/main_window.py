@@ -1,0 +1,553 @@
+"""The main window of the desktop tool.
+
+Layout, left to right: the design editor (every key of the project file, in groups); the pages (magnet
+operating chart, performance curves, cross-section, and any page a colleague's module adds); the key
+figures and the design checks. The status line says what happened to the last edit.
+
+Extension points (names kept stable for other modules):
+
+``MainWindow.current_project``
+    The design shown, a ``core.project.Project`` (includes a spin-box drag in progress).
+``MainWindow.current_results``
+    The ``core.evaluate.Results`` of the last evaluation, or None while the design has no solution.
+``MainWindow.results_ready``
+    Qt signal ``(project, results)`` emitted after every successful evaluation.
+``MainWindow.add_page(title, widget)``
+    Adds a page to the central area and returns its index.
+``MainWindow.current_path``
+    The file the design came from or was saved to, or None for an unsaved design.
+``app.gui.export_dialog.open_export_dialog(parent, project, results, path_hint)``
+    Called by File ▸ Export datasheet… when that module exists; otherwise the action is disabled.
+``app.gui.compare_view.CompareView(main_window)``
+    When that module exists, its widget becomes the "Compare designs" page.
+
+``run(file=None, screenshot=None) -> int`` starts the tool; with ``screenshot`` it renders the window
+offscreen to that PNG and returns (2 with one line on stderr when the file cannot be used).
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+from pathlib import Path
+
+from PySide6.QtCore import QEventLoop, Qt, QTimer, Signal
+from PySide6.QtGui import QAction, QActionGroup, QKeySequence
+from PySide6.QtWidgets import (
+    QApplication,
+    QFileDialog,
+    QLabel,
+    QMainWindow,
+    QMessageBox,
+    QSplitter,
+    QTabWidget,
+    QVBoxLayout,
+    QWidget,
+)
+
+from core import project as project_file
+from core.design import design_from_project
+from core.project import Project, ProjectError
+
+from .cross_section import CrossSection
+from .display_units import DisplayUnits
+from .editor import DesignEditor
+from .evaluation import Evaluator
+from .input_model import DesignModel, checked_project
+from .magnet_chart import MagnetChart
+from .performance_chart import PerformanceChart
+from .results_panel import ChecksPanel, ResultsPanel
+from .settings import DISPLAY_UNIT_SYSTEMS, load_settings, save_settings
+
+APP_NAME = "pmdc-sizer"
+DEMO_FOLDER = Path(__file__).resolve().parents[2] / "demo_projects"
+FILE_FILTER = "pmdc-sizer project (*.toml);;All files (*)"
+SCREENSHOT_SIZE = (1600, 1000)
+
+PAGE_MAGNET = "Magnet operating chart"
+PAGE_PERFORMANCE = "Performance curves"
+PAGE_SECTION = "Cross-section"
+PAGE_COMPARE = "Compare designs"
+
+SAFETY_CAUTIONS = (
+    "<ul>"
+    "<li><b>Strong magnets</b> pull together hard enough to pinch fingers and can shatter, throwing sharp "
+    "fragments; wear eye protection, keep them apart, and keep them away from anyone with a pacemaker or "
+    "other implanted medical device, and from magnetic media.</li>"
+    "<li><b>A stalled motor overheats</b>: stall current flows with no cooling air; fuse or limit it.</li>"
+    "<li><b>Batteries and supplies deliver currents that burn</b>: short circuits weld tools, heat wires and "
+    "start fires. Fuse the supply and insulate before you connect.</li>"
+    "<li><b>Results are engineering estimates</b> from typical material data and simplified models; confirm "
+    "every design by test on real parts before you rely on it.</li>"
+    "<li>Follow your local codes and standards and defer to licensed professional practice for any "
+    "installation, certification or safety decision.</li>"
+    "</ul>"
+)
+
+
+def demo_templates() -> list[Path]:
+    return sorted(DEMO_FOLDER.glob("*.toml")) if DEMO_FOLDER.is_dir() else []
+
+
+def read_project(path: str | os.PathLike) -> Project:
+    """A project from a file, checked like an edit (schema, fit, materials, wire); raises ProjectError."""
+    return checked_project(project_file.load(path), {})
+
+
+class MainWindow(QMainWindow):
+    results_ready = Signal(object, object)
+
+    def __init__(self, project: Project | None = None, path: str | os.PathLike | None = None):
+        super().__init__()
+        self.settings = load_settings()
+        self.display = DisplayUnits(self.settings.display_units)
+        self.current_path: Path | None = Path(path) if path else None
+        self.current_results = None
+        self.last_error = ""
+        self.remember_settings = True  #: False for screenshots: they must not touch the user's settings
+        self.model = DesignModel(project if project is not None else self._default_project(), self)
+        self.evaluator = Evaluator(self)
+        self._build_central()
+        self._build_actions()
+        self._build_menus()
+        self._build_status()
+        self.model.project_updated.connect(self._on_project_updated)
+        self.model.edit_rejected.connect(self._on_edit_rejected)
+        self.model.undo_stack.cleanChanged.connect(self._update_title)
+        self.model.undo_stack.indexChanged.connect(self._update_title)
+        self.evaluator.finished.connect(self._on_results)
+        self.evaluator.failed.connect(self._on_failure)
+        self.evaluator.busy_changed.connect(self._show_busy)
+        self.resize(self.settings.window_width, self.settings.window_height)
+        self._update_title()
+        self._on_project_updated(self.model.project)
+
+    # ------------------------------------------------------------------ construction
+    @staticmethod
+    def _default_project() -> Project:
+        for template in demo_templates():
+            try:
+                return read_project(template)
+            except ProjectError:
+                continue
+        return Project()
+
+    def _build_central(self) -> None:
+        splitter = QSplitter(Qt.Orientation.Horizontal)
+        self.editor = DesignEditor(self.model, self.display)
+        self.editor.setMinimumWidth(330)
+        editor_box = QWidget()
+        editor_layout = QVBoxLayout(editor_box)
+        editor_layout.setContentsMargins(0, 0, 0, 0)
+        heading = QLabel("<b>Design</b> <span style='color:#555'>— every edit is evaluated at once; hover a "
+                         "name for its meaning</span>")
+        heading.setWordWrap(True)
+        heading.setStyleSheet("padding: 4px;")
+        editor_layout.addWidget(heading)
+        editor_layout.addWidget(self.editor, 1)
+        splitter.addWidget(editor_box)
+        self.pages = QTabWidget()
+        self.pages.setDocumentMode(True)
+        self.magnet_chart = MagnetChart()
+        self.performance_chart = PerformanceChart(self.display)
+        self.cross_section = CrossSection(self.display)
+        self.pages.addTab(self.magnet_chart, PAGE_MAGNET)
+        self.pages.addTab(self.performance_chart, PAGE_PERFORMANCE)
+        self.pages.addTab(self.cross_section, PAGE_SECTION)
+        splitter.addWidget(self.pages)
+        right = QSplitter(Qt.Orientation.Vertical)
+        self.results_panel = ResultsPanel(self.display)
+        self.checks_panel = ChecksPanel()
+        right.addWidget(self._titled("Key figures", self.results_panel))
+        right.addWidget(self._titled("Design checks", self.checks_panel))
+        right.setSizes([560, 420])
+        splitter.addWidget(right)
+        splitter.setSizes([390, 740, 470])
+        splitter.setStretchFactor(1, 1)
+        self.setCentralWidget(splitter)
+        self.compare_view = None
+        self.compare_unavailable = ""
+        try:
+            from . import compare_view
+        except ImportError as error:
+            self.compare_unavailable = str(error)
+        else:
+            self.compare_view = compare_view.CompareView(self)
+            self.add_page(PAGE_COMPARE, self.compare_view)
+
+    @staticmethod
+    def _titled(title: str, widget: QWidget) -> QWidget:
+        box = QWidget()
+        layout = QVBoxLayout(box)
+        layout.setContentsMargins(2, 2, 2, 2)
+        layout.setSpacing(2)
+        label = QLabel(f"<b>{title}</b>")
+        label.setStyleSheet("padding: 2px;")
+        layout.addWidget(label)
+        layout.addWidget(widget, 1)
+        return box
+
+    def _action(self, text, slot, shortcut=None, tip=""):
+        action = QAction(text, self)
+        if shortcut is not None:
+            action.setShortcut(QKeySequence(shortcut))
+        if tip:
+            action.setStatusTip(tip)
+            action.setToolTip(tip)
+        action.triggered.connect(slot)
+        return action
+
+    def _build_actions(self) -> None:
+        self.new_action = self._action("&New design", lambda: self.new_design(), QKeySequence.StandardKey.New,
+                                       "Start a new design from the first template")
+        self.open_action = self._action("&Open…", lambda: self.open_file(), QKeySequence.StandardKey.Open)
+        self.save_action = self._action("&Save", lambda: self.save_file(), QKeySequence.StandardKey.Save)
+        self.save_as_action = self._action("Save &as…", lambda: self.save_file_as(), QKeySequence.StandardKey.SaveAs)
+        self.export_action = self._action("&Export datasheet…", self.export_datasheet, "Ctrl+E",
+                                          "Write a datasheet of the current design")
+        self.export_module = None
+        try:
+            from . import export_dialog
+        except ImportError as error:
+            self.export_action.setEnabled(False)
+            self.export_action.setToolTip(f"Datasheet export is not installed ({error})")
+        else:
+            self.export_module = export_dialog
+        self.quit_action = self._action("&Quit", self.close, QKeySequence.StandardKey.Quit)
+        self.undo_action = self.model.undo_stack.createUndoAction(self, "&Undo")
+        self.undo_action.setShortcut(QKeySequence.StandardKey.Undo)
+        self.redo_action = self.model.undo_stack.createRedoAction(self, "&Redo")
+        self.redo_action.setShortcut(QKeySequence.StandardKey.Redo)
+        # Commit a drag in progress first, so undo takes back what the user sees.
+        self.undo_action.triggered.disconnect()
+        self.undo_action.triggered.connect(self.model.undo)
+        self.redo_action.triggered.disconnect()
+        self.redo_action.triggered.connect(self.model.redo)
+        self.unit_actions = QActionGroup(self)
+        for system in DISPLAY_UNIT_SYSTEMS:
+            action = QAction(f"{system} units on screen", self, checkable=True)
+            action.setChecked(system == self.display.system)
+            action.triggered.connect(lambda _checked=False, s=system: self.set_display_units(s))
+            self.unit_actions.addAction(action)
+        self.about_action = self._action("&About and safety", self.show_about, QKeySequence.StandardKey.HelpContents)
+
+    def _build_menus(self) -> None:
+        bar = self.menuBar()
+        file_menu = bar.addMenu("&File")
+        file_menu.addAction(self.new_action)
+        self.template_menu = file_menu.addMenu("New from &template")
+        for template in demo_templates():
+            self.template_menu.addAction(template.stem.replace("_", " "),
+                                         lambda t=template: self.new_design(t))
+        self.template_menu.addAction("Schema defaults", lambda: self.new_design(None, defaults=True))
+        file_menu.addAction(self.open_action)
+        self.recent_menu = file_menu.addMenu("Open &recent")
+        self._fill_recent_menu()
+        file_menu.addSeparator()
+        file_menu.addAction(self.save_action)
+        file_menu.addAction(self.save_as_action)
+        file_menu.addAction(self.export_action)
+        file_menu.addSeparator()
+        file_menu.addAction(self.quit_action)
+        edit_menu = bar.addMenu("&Edit")
+        edit_menu.addAction(self.undo_action)
+        edit_menu.addAction(self.redo_action)
+        view_menu = bar.addMenu("&View")
+        for action in self.unit_actions.actions():
+            view_menu.addAction(action)
+        view_menu.addSeparator()
+        self.page_menu = view_menu
+        for index in range(self.pages.count()):
+            self._add_page_action(index)
+        help_menu = bar.addMenu("&Help")
+        help_menu.addAction(self.about_action)
+
+    def _add_page_action(self, index: int) -> None:
+        action = QAction(f"Show {self.pages.tabText(index).lower()}", self)
+        if index < 9:
+            action.setShortcut(QKeySequence(f"Ctrl+{index + 1}"))
+        action.triggered.connect(lambda _checked=False, i=index: self.pages.setCurrentIndex(i))
+        self.page_menu.addAction(action)
+        self.addAction(action)
+
+    def _build_status(self) -> None:
+        self.status_label = QLabel()
+        self.status_label.setObjectName("status_message")
+        self.busy_label = QLabel()
+        self.units_label = QLabel()
+        self.statusBar().addWidget(self.status_label, 1)
+        self.statusBar().addPermanentWidget(self.busy_label)
+        self.statusBar().addPermanentWidget(self.units_label)
+        self._show_units_label()
+        self.show_status("Ready. Edit any value on the left; charts, figures and checks follow.")
+
+    def _fill_recent_menu(self) -> None:
+        self.recent_menu.clear()
+        for path in self.settings.recent_files:
+            self.recent_menu.addAction(path, lambda p=path: self.open_file(p))
+        self.recent_menu.setEnabled(bool(self.settings.recent_files))
+
+    # ------------------------------------------------------------------ extension points
+    @property
+    def current_project(self) -> Project:
+        return self.model.project
+
+    def add_page(self, title: str, widget: QWidget) -> int:
+        index = self.pages.addTab(widget, title)
+        if hasattr(self, "page_menu"):
+            self._add_page_action(index)
+        return index
+
+    # ------------------------------------------------------------------ status and title
+    def show_status(self, message: str, error: bool = False) -> None:
+        self.status_label.setText(message)
+        self.status_label.setStyleSheet("color: #b3261e;" if error else "")
+        self.status_label.setToolTip(message)
+
+    def _show_busy(self, busy: bool) -> None:
+        self.busy_label.setText("evaluating…" if busy else "")
+
+    def _update_title(self, *_signal_arguments) -> None:
+        name = self.current_path.name if self.current_path else "unsaved design"
+        self.setWindowTitle(f"{self.model.project.project.name} — {name}[*] — {APP_NAME}")
+        self.setWindowModified(self.model.modified)
+
+    def _show_units_label(self) -> None:
+        self.units_label.setText(f"Screen units: {self.display.system}")
+
+    # ------------------------------------------------------------------ live evaluation
+    def _on_project_updated(self, project: Project) -> None:
+        self.cross_section.show_geometry(design_from_project(project).geometry)
+        self.evaluator.request(project)
+        self._update_title()
+
+    def _on_results(self, project: Project, results) -> None:
+        self.current_results = results
+        self.last_error = ""
+        self.magnet_chart.show_results(results)
+        self.performance_chart.show_results(results)
+        self.results_panel.show_results(results)
+        self.checks_panel.show_checks(results.checks)
+        self.results_ready.emit(project, results)
+
+    def _on_failure(self, project: Project, message: str) -> None:
+        self.current_results = None
+        self.last_error = message
+        self.magnet_chart.clear()
+        self.performance_chart.clear()
+        self.results_panel.show_failure(message)
+        self.checks_panel.show_failure()
+        self.show_status(f"No solution: {message}", error=True)
+
+    def _on_edit_rejected(self, key: str, message: str) -> None:
+        self.show_status(f"Not applied, the design is unchanged: {message}", error=True)
+
+    def wait_for_evaluation(self, timeout_ms: int = 10000) -> bool:
+        """Process events until the design shown has been evaluated (for the screenshot and tests)."""
+        loop = QEventLoop()
+        done = []
+
+        def finish(*_args):
+            if not self.evaluator.busy:
+                done.append(True)
+                loop.quit()
+
+        self.results_ready.connect(finish)
+        self.evaluator.failed.connect(finish)
+        QTimer.singleShot(timeout_ms, loop.quit)
+        if self.evaluator.busy:
+            loop.exec()
+        self.results_ready.disconnect(finish)
+        self.evaluator.failed.disconnect(finish)
+        return not self.evaluator.busy
+
+    # ------------------------------------------------------------------ files
+    def maybe_keep_changes(self) -> bool:
+        """Ask about unsaved changes; True when it is fine to go on (saved or discarded)."""
+        self.model.flush()
+        if not self.model.modified:
+            return True
+        answer = QMessageBox.question(
+            self, "Unsaved changes",
+            f"“{self.model.project.project.name}” has changes that are not saved. Save them first?",
+            QMessageBox.StandardButton.Save | QMessageBox.StandardButton.Discard | QMessageBox.StandardButton.Cancel,
+            QMessageBox.StandardButton.Save,
+        )
+        if answer == QMessageBox.StandardButton.Save:
+            return self.save_file()
+        return answer == QMessageBox.StandardButton.Discard
+
+    def new_design(self, template: Path | None = None, defaults: bool = False) -> bool:
+        if not self.maybe_keep_changes():
+            return False
+        if defaults:
+            project = Project()
+        else:
+            templates = demo_templates()
+            template = template or (templates[0] if templates else None)
+            try:
+                project = read_project(template) if template else Project()
+            except ProjectError as error:
+                QMessageBox.critical(self, "Cannot use the template", str(error))
+                return False
+        self.current_path = None
+        self.model.replace_project(project)
+        self.show_status("New design from " + (template.name if template and not defaults else "the schema defaults")
+                         + ". Save as… to give it a file.")
+        self._update_title()
+        return True
+
+    def open_file(self, path: str | os.PathLike | None = None) -> bool:
+        if not self.maybe_keep_changes():
+            return False
+        if path is None:
+            folder = str(self.current_path.parent) if self.current_path else str(DEMO_FOLDER)
+            path, _ = QFileDialog.getOpenFileName(self, "Open a design", folder, FILE_FILTER)
+            if not path:
+                return False
+        try:
+            project = read_project(path)
+        except ProjectError as error:
+            self.show_status(f"Not opened, the current design is unchanged: {error}", error=True)
+            QMessageBox.critical(self, "Cannot open the design",
+                                 f"{error}\n\nThe design you were working on is unchanged.")
+            return False
+        self.current_path = Path(path)
+        self.model.replace_project(project)
+        self._remember(self.current_path)
+        self.show_status(f"Opened {self.current_path}.")
+        self._update_title()
+        return True
+
+    def save_file(self) -> bool:
+        if self.current_path is None:
+            return self.save_file_as()
+        return self._write(self.current_path)
+
+    def save_file_as(self, path: str | os.PathLike | None = None) -> bool:
+        if path is None:
+            suggested = str(self.current_path or Path.cwd() / "motor.toml")
+            path, _ = QFileDialog.getSaveFileName(self, "Save the design as", suggested, FILE_FILTER)
+            if not path:
+                return False
+        path = Path(path)
+        if not path.suffix:
+            path = path.with_suffix(".toml")
+        return self._write(path)
+
+    def _write(self, path: Path) -> bool:
+        self.model.flush()
+        try:
+            project_file.save(self.model.project, path)
+        except ProjectError as error:
+            self.show_status(f"Not saved: {error}", error=True)
+            QMessageBox.critical(self, "Cannot save the design", str(error))
+            return False
+        self.current_path = path
+        self.model.mark_saved()
+        self._remember(path)
+        self.show_status(f"Saved {path}.")
+        self._update_title()
+        return True
+
+    def _remember(self, path: Path) -> None:
+        self.settings.add_recent_file(path)
+        save_settings(self.settings)
+        self._fill_recent_menu()
+
+    def export_datasheet(self) -> None:
+        if self.export_module is None:
+            return
+        self.model.flush()
+        self.export_module.open_export_dialog(self, self.current_project, self.current_results, self.current_path)
+
+    # ------------------------------------------------------------------ display units, about, closing
+    def set_display_units(self, system: str) -> None:
+        if system not in DISPLAY_UNIT_SYSTEMS:
+            raise ValueError(f"display units must be one of {DISPLAY_UNIT_SYSTEMS}, not {system!r}")
+        self.display.system = system
+        self.settings.display_units = system
+        save_settings(self.settings)
+        for action in self.unit_actions.actions():
+            action.setChecked(action.text().startswith(system))
+        self.editor.refresh_units()
+        self._show_units_label()
+        self._on_project_updated(self.model.project)
+
+    def show_about(self) -> None:
+        QMessageBox.about(self, f"About {APP_NAME}", about_text())
+
+    def closeEvent(self, event) -> None:  # noqa: N802 - Qt's name
+        if not self.maybe_keep_changes():
+            event.ignore()
+            return
+        if self.remember_settings:
+            self.settings.window_width, self.settings.window_height = self.width(), self.height()
+            save_settings(self.settings)
+        self.evaluator.wait(5000)
+        event.accept()
+
+
+def about_text() -> str:
+    return (
+        f"<h3>{APP_NAME}</h3>"
+        "<p>Sizing of brushed permanent-magnet DC motors: the magnet's load line and demagnetization "
+        "margins, flux per pole, Ke and Kt, speed-torque curves at the coldest, nominal and hottest "
+        "temperatures, winding temperature, mass and material cost.</p>"
+        f"<p><b>Safety</b></p>{SAFETY_CAUTIONS}"
+    )
+
+
+def _application() -> QApplication:
+    app = QApplication.instance()
+    if app is None:
+        app = QApplication(sys.argv[:1])
+        app.setApplicationName(APP_NAME)
+    return app
+
+
+def render_screenshot(window: MainWindow, out: str | os.PathLike) -> None:
+    window.resize(*SCREENSHOT_SIZE)
+    window.show()
+    QApplication.processEvents()
+    window.wait_for_evaluation()
+    for _ in range(3):
+        QApplication.processEvents()
+    if not window.grab().save(str(out)):
+        raise ProjectError(f"{out}: cannot write the PNG file")
+
+
+def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | None = None) -> int:
+    """Open the tool (or, with ``screenshot``, render it to a PNG and return)."""
+    if screenshot is not None and "QT_QPA_PLATFORM" not in os.environ and QApplication.instance() is None:
+        os.environ["QT_QPA_PLATFORM"] = "offscreen"
+    project = None
+    error = ""
+    if file is not None:
+        try:
+            project = read_project(file)
+        except ProjectError as problem:
+            error = str(problem)
+            if screenshot is not None:
+                print(f"{APP_NAME}: error: {error}", file=sys.stderr)
+                return 2
+    app = _application()
+    window = MainWindow(project, file if project is not None else None)
+    if screenshot is not None:
+        window.remember_settings = False
+        try:
+            render_screenshot(window, screenshot)
+        except ProjectError as problem:
+            print(f"{APP_NAME}: error: {problem}", file=sys.stderr)
+            return 2
+        finally:
+            window.model.undo_stack.setClean()
+            window.close()
+        return 0
+    window.show()
+    if error:
+        window.show_status(f"Not opened: {error}", error=True)
+        QMessageBox.critical(window, "Cannot open the design", f"{error}\n\nA template design is open instead.")
+    elif project is not None:
+        window._remember(Path(file))
+    return app.exec()

@@ -1,0 +1,48 @@
+"""GUI fixtures: settings go to a temporary folder, and windows close without asking anyone."""
+
+from __future__ import annotations
+
+import pytest
+
+
+@pytest.fixture(autouse=True)
+def _isolated_settings(tmp_path_factory, monkeypatch):
+    folder = tmp_path_factory.mktemp("gui_settings")
+    monkeypatch.setenv("PMDC_SIZER_CONFIG_DIR", str(folder))
+    return folder
+
+
+@pytest.fixture(autouse=True)
+def _no_blocking_prompts(monkeypatch):
+    """A prompt nobody answers would hang the run: any unexpected one fails the test instead."""
+    from PySide6.QtWidgets import QMessageBox
+
+    def unexpected(*args, **kwargs):
+        raise AssertionError(f"unexpected message box: {args[1:3]}")
+
+    for name in ("question", "critical", "warning", "information", "about"):
+        monkeypatch.setattr(QMessageBox, name, staticmethod(unexpected))
+
+
+@pytest.fixture
+def open_window(qtbot):
+    """``open_window(path)``: a shown main window on that project, evaluated once."""
+    from app.gui.main_window import MainWindow, read_project
+
+    windows = []
+
+    def make(path=None):
+        project = read_project(path) if path is not None else None
+        window = MainWindow(project, path)
+        window.show()  # closed below, after its changes are marked saved (qtbot.addWidget would close it first)
+        qtbot.waitUntil(lambda: window.current_results is not None and not window.evaluator.busy, timeout=10000)
+        windows.append(window)
+        return window
+
+    yield make
+    for window in windows:
+        window.model.flush()
+        window.model.undo_stack.setClean()
+        window.evaluator.wait(5000)
+        window.close()
+        window.deleteLater()
