@@ -5,6 +5,7 @@ Thresholds that are engineering judgement rather than a standard are marked so b
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from .demagnetization import advice_for
@@ -16,6 +17,14 @@ SLOT_FILL_BARE_WARNING = 0.45  #: hard to wind by machine above this (common pra
 SLOT_FILL_GROSS_FAIL = 0.78  #: round wires cannot pack tighter in practice (hexagonal limit 0.907; common practice)
 CURRENT_DENSITY_WARNING = {"S1": 8e6, "S2": 15e6}  #: [A/m²], enclosed small motors (common practice, no source)
 SATURATION_MARGIN = 0.25  #: [T] above a steel's recommended flux density counts as saturated (our rule)
+
+
+def _figures(value: float, digits: int = 3) -> str:
+    """``value`` to ``digits`` significant figures in plain notation: 2893 → "2890", 0.04567 → "0.0457"."""
+    if value == 0 or not math.isfinite(value):
+        return f"{value:g}"
+    decimals = digits - 1 - math.floor(math.log10(abs(value)))
+    return f"{round(value, decimals):.{max(decimals, 0)}f}"
 
 
 @dataclass(frozen=True)
@@ -53,20 +62,20 @@ def run_checks(design, results) -> list[Check]:
     if any(not c.rated_reached for c in r.cases):
         worst = min(r.cases, key=lambda c: c.stall_torque_N_m)
         out.append(Check("load", "Rated load", FAIL,
-                         f"the rated {torque_mNm:.3g} mN·m is beyond the stall torque in the {worst.name} case "
-                         f"({from_si(worst.stall_torque_N_m, 'mN·m'):.3g} mN·m).",
+                         f"the rated {_figures(torque_mNm)} mN·m is beyond the stall torque in the {worst.name} case "
+                         f"({_figures(from_si(worst.stall_torque_N_m, 'mN·m'))} mN·m).",
                          "raise the flux (thicker magnet, stronger grade), lengthen the stack, or lower the resistance"))
     elif short:
         slow = min(short, key=lambda c: c.rated.speed_rad_per_s)
         out.append(Check("load", "Rated load", FAIL,
-                         f"at {torque_mNm:.3g} mN·m the motor turns {rpm(slow.rated.speed_rad_per_s):.0f} rpm in the "
-                         f"{slow.name} case, below the required {required:.0f} rpm.",
+                         f"at {_figures(torque_mNm)} mN·m the motor turns {_figures(rpm(slow.rated.speed_rad_per_s), 4)} rpm in the "
+                         f"{slow.name} case, below the required {_figures(required, 4)} rpm.",
                          "use fewer turns per coil or thicker wire (lower Ke and R), or raise the supply voltage"))
     else:
         slowest = min(r.cases, key=lambda c: c.rated.speed_rad_per_s)
         out.append(Check("load", "Rated load", PASS,
-                         f"{torque_mNm:.3g} mN·m at {rpm(slowest.rated.speed_rad_per_s):.0f} rpm or more in every case "
-                         f"(required {required:.0f} rpm)."))
+                         f"{_figures(torque_mNm)} mN·m at {_figures(rpm(slowest.rated.speed_rad_per_s))} rpm or more in every case "
+                         f"(required {_figures(required)} rpm)."))
     if any(c.stall_torque_N_m <= 0.0 for c in r.cases):
         out.append(Check("start", "Starting", FAIL, "friction and drag exceed the stall torque: the motor cannot start.",
                          "raise the flux or the number of conductors, or lower the friction"))
@@ -79,10 +88,10 @@ def run_checks(design, results) -> list[Check]:
         advice = "; ".join(dict.fromkeys(advice_for(c) for c in failing))
         out.append(Check("demagnetization", "Demagnetization", FAIL,
                          f"the magnet passes its knee in: {names} (worst {dm.worst_case}, "
-                         f"{from_si(dm.worst_margin_A_per_m, 'kA/m'):.0f} kA/m beyond).", advice))
+                         f"{_figures(from_si(dm.worst_margin_A_per_m, 'kA/m'))} kA/m beyond).", advice))
     else:
         out.append(Check("demagnetization", "Demagnetization", PASS,
-                         f"every case stays above the knee; the least margin is {from_si(dm.worst_margin_A_per_m, 'kA/m'):.0f} kA/m "
+                         f"every case stays above the knee; the least margin is {_figures(from_si(dm.worst_margin_A_per_m, 'kA/m'))} kA/m "
                          f"({dm.worst_case})."))
 
     # Iron.

@@ -641,9 +641,10 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         magnet_embrace=float(g.magnet_embrace), overhang_m=float(g.overhang),
         slot_pitch_m=float(g.slot_pitch), core_depth_m=float(g.core_depth),
     )
+    deepest_field = min(c.magnet_field_A_per_m for c in demag_cases)
     chart = tuple(
         MagnetChartCase(
-            name=name, curves=demagnetization_curves(grade, float(case_temperatures[index])),
+            name=name, curves=demagnetization_curves(grade, float(case_temperatures[index]), field_min=deepest_field),
             operating_field_A_per_m=float(exact.magnet_field[index]),
             operating_flux_density_T=float(exact.magnet_flux_density[index]),
             permeance_coefficient=float(exact.permeance_coefficient[index]),

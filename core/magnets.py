@@ -219,10 +219,13 @@ class DemagnetizationCurves:
     coercivity_hcj: float  #: HcJ [A/m]
 
 
-def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: int = 300) -> DemagnetizationCurves:
-    """Second-quadrant normal and intrinsic curves from H = -1.1·HcJ to 0, for charts."""
+def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: int = 300,
+                           field_min: float | None = None) -> DemagnetizationCurves:
+    """Second-quadrant normal and intrinsic curves from H = -1.1·HcJ (or ``field_min`` [A/m] if that is
+    further out, so that every point to be drawn lies on the curve's range) to 0, for charts."""
     hcj = float(intrinsic_coercivity_at(grade, temperature_C))
-    h = np.linspace(-1.1 * hcj, 0.0, samples)
+    start = -1.1 * hcj if field_min is None else min(-1.1 * hcj, 1.05 * field_min)
+    h = np.linspace(start, 0.0, samples)
     knee = float(knee_field_at(grade, temperature_C))
     return DemagnetizationCurves(
         temperature_C=float(temperature_C),

@@ -455,6 +455,10 @@ def save(project: Project, path: str | os.PathLike) -> None:
             stream.write(text)
             stream.flush()
             os.fsync(stream.fileno())
+        # mkstemp makes the file private (0600); a project file is an ordinary document
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(temporary, 0o666 & ~umask)
         os.replace(temporary, path)
     except OSError as error:
         Path(temporary).unlink(missing_ok=True)
