@@ -198,3 +198,15 @@ def test_cost_differences_across_currencies_are_flagged(ferrite):
     dollars = project.with_values(compare.with_grade(design, "Y25"), {"prices.currency": "USD"})
     fit = compare.refit("stall-torque", results_a, dollars)
     assert any("mix currencies" in note for note in fit.notes)
+
+
+def test_with_grade_replaces_an_inline_custom_grade(ferrite):
+    design, _ = ferrite
+    custom = project.with_values(design, {"magnets.grade": None, "magnets.custom_grade": {
+        "name": "supplier ferrite lot 7", "family": "hard ferrite, anisotropic", "remanence_T": 0.40,
+        "coercivity_HcB_kA_per_m": 250.0, "coercivity_HcJ_kA_per_m": 260.0, "energy_product_kJ_per_m3": 30.0,
+        "recoil_permeability": 1.07, "squareness": 0.9, "remanence_temp_coeff_pct_per_K": -0.2,
+        "coercivity_temp_coeff_pct_per_K": 0.3, "max_working_temperature_C": 250.0, "density_kg_per_m3": 4900.0}})
+    swapped = compare.with_grade(custom, "Y30BH")
+    assert swapped.magnets.custom_grade is None and swapped.magnets.grade == "Y30BH"
+    assert project.with_values(swapped, {}) == design  # nothing else moved
