@@ -152,7 +152,7 @@ def _refined_maximum(model: MotorModel, stall: float, values_of, samples: int = 
 class SpeedTorqueCurve:
     """A whole speed-torque characteristic at one temperature case, with its named points."""
 
-    curve: OperatingPoints  #: from no load (first) to stall (last), evenly spaced in torque
+    curve: OperatingPoints  #: from no load (first) to stall (last), denser toward no load (see below)
     no_load: OperatingPoints  #: T = 0
     stall: OperatingPoints  #: ω = 0
     max_efficiency: OperatingPoints
@@ -163,9 +163,13 @@ class SpeedTorqueCurve:
 
 
 def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 200) -> SpeedTorqueCurve:
-    """The characteristic from no load to stall and its named points."""
+    """The characteristic from no load to stall and its named points.
+
+    The torques are spaced quadratically, T_i = T_stall·(i/(n-1))², so the working region near no load,
+    where a small motor runs at a few per cent of its stall torque, gets most of the points.
+    """
     stall = float(stall_torque(model))
-    curve = operating_points(model, np.linspace(0.0, stall, samples))
+    curve = operating_points(model, stall * np.linspace(0.0, 1.0, samples) ** 2)
     no_load = operating_points(model, 0.0)
     if stall > 0.0:
         eta_torque = _refined_maximum(model, stall, lambda p: p.efficiency)
