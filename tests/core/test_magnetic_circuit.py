@@ -384,21 +384,26 @@ def test_gap_flux_against_a_finite_element_solution():
 # A 2-D field solution of the real cross-section: radial arc magnets, slotless armature, ideal iron
 
 
-def _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thickness, arc, remanence, recoil, skfem):
-    """Gap flux per pole per metre of length of radially magnetized arc magnets in a steel housing.
+def _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thickness, arc, remanence, recoil, skfem,
+                                           rotor_removed=False):
+    """Radially magnetized arc magnets in a steel housing, per metre of length: returns the gap flux
+    per pole and the mean radial field H in the magnet.
 
     Half a pole pitch (pole centre θ = 0 to the interpolar line θ = π/p), meshed in (r, θ) and mapped to
     the plane. Scalar potential as in the strip model: ∫ μ·∇ψ·∇v = ∫ Br·r̂·∇v over the magnet. The
-    armature surface and the housing bore are ideal iron at ψ = 0 (N/S symmetry puts both at the same
-    potential), the interpolar line is at ψ = 0 (antisymmetry), the pole centre is a no-flux line.
-    The flux per pole is twice the flux into the armature surface over the half pitch.
+    housing bore is ideal iron at ψ = 0, and so is the armature surface (N/S symmetry puts armature and
+    housing at the same potential); the interpolar line is at ψ = 0 (antisymmetry), the pole centre a
+    no-flux line. With the rotor removed the air runs down to a small circle about the axis, at ψ = 0
+    by the same symmetry. The flux per pole is twice the flux into the inner surface over the half pitch.
     """
     from skfem.helpers import dot, grad
 
     magnet_radius = armature_radius + gap
     bore = magnet_radius + thickness
+    inner_radius = 0.02 * armature_radius if rotor_removed else armature_radius
     half_pitch, edge = math.pi / poles, arc / 2.0
-    r = np.unique(np.concatenate([np.linspace(armature_radius, magnet_radius, 6), np.linspace(magnet_radius, bore, 16)]))
+    r = np.unique(np.concatenate([np.linspace(inner_radius, magnet_radius, 30 if rotor_removed else 6),
+                                  np.linspace(magnet_radius, bore, 16)]))
     t = np.unique(np.concatenate([np.linspace(0.0, edge, 60), edge + (half_pitch - edge) * np.linspace(0.0, 1.0, 30)]))
     polar = skfem.MeshTri.init_tensor(r, t)
     radius_of_node, angle_of_node = polar.p
@@ -425,51 +430,108 @@ def _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thicknes
         return np.hypot(p[0], p[1])
 
     # Facet midpoints of the straight-sided mesh sit slightly inside the arcs: select by a band of 5 %
-    # of the gap, far smaller than the radial mesh step.
-    armature = mesh.facets_satisfying(lambda p: radius(p) < armature_radius + 0.05 * gap, boundaries_only=True)
+    # of the gap (or of the small inner circle), far smaller than the radial mesh step.
+    band = 0.05 * (0.02 * armature_radius if rotor_removed else gap)
+    inner = mesh.facets_satisfying(lambda p: radius(p) < inner_radius + band, boundaries_only=True)
     housing = mesh.facets_satisfying(lambda p: radius(p) > bore - 0.05 * gap, boundaries_only=True)
     interpolar = mesh.facets_satisfying(lambda p: np.abs(np.arctan2(p[1], p[0]) - half_pitch) < 1e-9, boundaries_only=True)
-    fixed = basis.get_dofs(np.concatenate([armature, housing, interpolar])).all()
+    fixed = basis.get_dofs(np.concatenate([inner, housing, interpolar])).all()
     potential = skfem.solve(*skfem.condense(stiffness, source, D=fixed))
 
-    surface = skfem.FacetBasis(mesh, basis.elem, facets=armature, intorder=4)
+    surface = skfem.FacetBasis(mesh, basis.elem, facets=inner, intorder=4)
 
     @skfem.Functional
     def flux_density_normal(w):
         return -MU_0 * dot(grad(w["psi"]), w.n)
 
-    return 2.0 * abs(flux_density_normal.assemble(surface, psi=surface.interpolate(potential)))
+    magnet = skfem.Basis(mesh, basis.elem, elements=np.nonzero(in_magnet)[0], intorder=4)
+
+    @skfem.Functional
+    def radial_field(w):
+        return -(w.x[0] * grad(w["psi"])[0] + w.x[1] * grad(w["psi"])[1]) / np.hypot(w.x[0], w.x[1])
+
+    @skfem.Functional
+    def area(w):
+        return np.ones_like(w.x[0])
+
+    flux = 2.0 * abs(flux_density_normal.assemble(surface, psi=surface.interpolate(potential)))
+    mean_field = radial_field.assemble(magnet, psi=magnet.interpolate(potential)) / area.assemble(magnet)
+    return flux, mean_field
 
 
-@pytest.mark.parametrize(
-    ("poles", "armature_radius", "gap", "thickness", "arc_deg", "remanence", "recoil"),
-    [
-        (2, 12e-3, 0.4e-3, 6e-3, 140.0, 0.4, 1.05),  # a ferrite motor like the 12 V demo
-        (4, 18e-3, 0.5e-3, 4e-3, 60.0, 1.25, 1.04),  # NdFeB, short arcs: more interpolar leakage
-        (4, 18e-3, 1.5e-3, 3e-3, 80.0, 1.25, 1.04),  # long gap: leakage factor about 1.18
-        (6, 25e-3, 0.6e-3, 4e-3, 50.0, 1.2, 1.05),
-    ],
-)
-def test_flux_per_pole_of_arc_magnets_against_a_finite_element_solution(poles, armature_radius, gap, thickness, arc_deg,
-                                                                        remanence, recoil):
-    # Source: scikit-fem as an independent reference for the whole per-pole circuit in its 2-D part:
-    # radial flux concentration of the arcs, fringing at the magnet edges and every leakage path
-    # between magnets and to the housing, with ideal iron and a slotless armature (Carter 1, the
-    # slot opening made negligible). A stack 1 m long makes the core's axial fringing (2g/L) vanish.
-    # The lumped flux tubes approximate the field to a few percent (measured: the core is 0.7 % to
-    # 4 % below the field solution, which changes by < 0.5 % when the mesh is halved): 6 % bounds it.
-    skfem = pytest.importorskip("skfem")
-    arc = math.radians(arc_deg)
-    flux_fem = _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thickness, arc, remanence, recoil, skfem)
+def _slotless_long_motor(poles, armature_radius, gap, thickness, arc_deg, remanence, recoil):
+    """The core's geometry and a linear grade for the field-solution comparisons: a stack 1 m long
+    (axial fringing 2g/L negligible), a negligible slot opening (Carter 1), ideal iron."""
     length = 1.0
     geometry = Geometry(
-        poles=poles, magnet_thickness=thickness, magnet_arc=arc, magnet_length=length, airgap=gap,
+        poles=poles, magnet_thickness=thickness, magnet_arc=math.radians(arc_deg), magnet_length=length, airgap=gap,
         housing_wall=3e-3, housing_length=length, armature_radius=armature_radius, stack_length=length,
         stacking_factor=1.0, slots=12, slot_opening=1e-9, tooth_width=2e-3, slot_depth=3e-3, shaft_radius=2e-3,
     )
     grade = dataclasses.replace(LINEAR, remanence=remanence, recoil_permeability=recoil,
                                 coercivity_hcj=1.6 * remanence / (MU_0 * recoil))
+    return geometry, grade
+
+
+ARC_MAGNET_MOTORS = [
+    (2, 12e-3, 0.4e-3, 6e-3, 140.0, 0.4, 1.05),  # a ferrite motor like the 12 V demo
+    (4, 18e-3, 0.5e-3, 4e-3, 60.0, 1.25, 1.04),  # NdFeB, short arcs: more interpolar leakage
+    (4, 18e-3, 1.5e-3, 3e-3, 80.0, 1.25, 1.04),  # long gap: leakage factor about 1.18
+    (6, 25e-3, 0.6e-3, 4e-3, 50.0, 1.2, 1.05),
+]
+
+
+@pytest.mark.parametrize("motor", ARC_MAGNET_MOTORS, ids=lambda m: f"{m[0]}p-{m[4]:g}deg-g{m[2] * 1e3:g}mm")
+def test_flux_per_pole_of_arc_magnets_against_a_finite_element_solution(motor):
+    # Source: scikit-fem as an independent reference for the whole per-pole circuit in its 2-D part:
+    # radial flux concentration of the arcs, fringing at the magnet edges and every leakage path
+    # between magnets and to the housing, with ideal iron and a slotless armature.
+    # The lumped flux tubes approximate the field to a few percent (measured: the core is 0.8 % to
+    # 4.1 % below the field solution, which changes by < 0.5 % when the mesh is halved): 6 % bounds it.
+    skfem = pytest.importorskip("skfem")
+    poles, armature_radius, gap, thickness, arc_deg, remanence, recoil = motor
+    flux_fem, _ = _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thickness, math.radians(arc_deg),
+                                                         remanence, recoil, skfem)
+    geometry, grade = _slotless_long_motor(*motor)
     point = mc.solve(grade, 20.0, mc.pole_circuit(geometry, recoil), None, None)
     assert bool(point.converged)
-    flux_core_per_metre = float(point.flux_per_pole) / (length + 2.0 * gap)
+    flux_core_per_metre = float(point.flux_per_pole) / (geometry.stack_length + 2.0 * gap)
     assert_allclose(flux_core_per_metre, flux_fem, rtol=0.06)
+
+
+def _rotor_removed_fields(motor):
+    skfem = pytest.importorskip("skfem")
+    from core.demagnetization import rotor_removed_circuit
+
+    poles, armature_radius, gap, thickness, arc_deg, remanence, recoil = motor
+    _, field_fem = _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thickness, math.radians(arc_deg),
+                                                          remanence, recoil, skfem, rotor_removed=True)
+    geometry, grade = _slotless_long_motor(*motor)
+    open_circuit = rotor_removed_circuit(geometry, mc.pole_circuit(geometry, recoil))
+    point = mc.solve(grade, 20.0, open_circuit, None, None)
+    assert bool(point.converged)
+    return float(point.magnet_field), field_fem
+
+
+@pytest.mark.parametrize("motor", ARC_MAGNET_MOTORS, ids=lambda m: f"{m[0]}p-{m[4]:g}deg-g{m[2] * 1e3:g}mm")
+def test_rotor_removed_field_against_a_finite_element_solution(motor):
+    # Source: scikit-fem as an independent reference for the core's rotor-removed estimate (an air path
+    # of R·sin(π/p) across the bore, "our estimate, no source" in core.demagnetization). The field
+    # solution's mean radial H over the magnet converges to 0.1 % (mesh halved). Measured: the core's
+    # field is 6 % to 11 % weaker (less negative) than the field solution's mean; 15 % bounds that.
+    field_core, field_fem = _rotor_removed_fields(motor)
+    assert field_core < 0.0 and field_fem < 0.0
+    assert_allclose(field_core, field_fem, rtol=0.15)
+
+
+@pytest.mark.xfail(strict=True, reason=(
+    "core.demagnetization.rotor_removed_circuit underestimates the demagnetizing field with the rotor "
+    "out by 6-11 % against a 2-D field solution (unconservative for a safety check); a likely cause is "
+    "that the leakage between magnet edges is kept as with the rotor in, though the open bore adds "
+    "more; reported to the lead"))
+@pytest.mark.parametrize("motor", ARC_MAGNET_MOTORS, ids=lambda m: f"{m[0]}p-{m[4]:g}deg-g{m[2] * 1e3:g}mm")
+def test_rotor_removed_estimate_is_not_unconservative(motor):
+    # A demagnetization check may err toward safety, not away from it: the lumped field must be at most
+    # 5 % less negative than the field solution's mean (our engineering judgement, no source).
+    field_core, field_fem = _rotor_removed_fields(motor)
+    assert field_core <= 0.95 * field_fem
