@@ -327,3 +327,11 @@ def test_every_key_of_a_demo_file_is_in_the_schema(demo_path):
                 yield path
 
     assert set(walk(data)) <= known
+
+
+def test_overrides_reach_into_an_inline_custom_grade(tmp_path):
+    project = pf.load(write(tmp_path, with_custom_grade()))
+    changed = pf.apply_overrides(project, ["magnets.custom_grade.coercivity_HcJ_kA_per_m=260"])
+    assert changed.magnets.custom_grade.coercivity_HcJ_kA_per_m == 260.0
+    with pytest.raises(ProjectError, match="magnets.custom_grade.coercivity_HcB_kA_per_m"):
+        pf.apply_overrides(project, ["magnets.custom_grade.coercivity_HcB_kA_per_m=300"])  # above HcJ
