@@ -424,10 +424,12 @@ class MagnetGradePicker(QWidget):
         for row in self.custom_rows:
             row.setVisible(self.is_custom)
         if self.is_custom:
-            self.properties.setText("Custom grade: edit its data below. Values are at 20 °C.")
-            return
-        grade = library.magnet_grades().get(magnets.grade)
-        self.properties.setText(grade_summary(grade) if grade else "")
+            text = "Custom grade: edit its data below. Values are at 20 °C."
+        else:
+            grade = library.magnet_grades().get(magnets.grade)
+            text = grade_summary(grade) if grade else ""
+        if text != self.properties.text():  # laying out rich text again on every edit is not free
+            self.properties.setText(text)
 
     def _on_grade(self, index: int) -> None:
         self.model.fields["magnets.grade"].propose(self.grade_box.itemData(index), final=True)

@@ -53,23 +53,29 @@ class MagnetChart(QWidget):
             item.getAxis(axis).setTextPen("k")
             item.getAxis(axis).setPen("k")
         self.legend = item.addLegend(offset=(10, 10), labelTextColor="k", brush=pg.mkBrush(255, 255, 255, 220))
-        self.normal_curves, self.intrinsic_curves, self.knee_marks, self.load_lines, self.operating_marks = {}, {}, {}, {}, {}
+        # Plain curve and scatter items (not PlotDataItem): every edit redraws them, so they must be light.
+        self.normal_curves, self.intrinsic_curves, self.load_lines = {}, {}, {}
         for name, colour in CASE_COLOURS.items():
-            self.normal_curves[name] = item.plot(pen=_pen(colour, 2.4), name=name)
-            self.intrinsic_curves[name] = item.plot(pen=_pen(colour, 1.6, dashed=True))
+            self.normal_curves[name] = self._curve(item, _pen(colour, 2.4))
+            self.legend.addItem(self.normal_curves[name], name)
+            self.intrinsic_curves[name] = self._curve(item, _pen(colour, 1.6, dashed=True))
             load_pen = pg.mkPen(colour, width=1.3)
             load_pen.setStyle(Qt.PenStyle.DotLine)
-            self.load_lines[name] = item.plot(pen=load_pen)
-            self.operating_marks[name] = item.plot(pen=None, symbol="o", symbolSize=11, symbolBrush=colour,
-                                                   symbolPen=pg.mkPen("w", width=1.5))
-        self.knee_item = item.plot(pen=None, symbol="t", symbolSize=11, symbolBrush=KNEE_COLOUR, symbolPen=None,
-                                   name="knee (Hk) on B and J")
-        self.legend.addItem(self.operating_marks["nominal"], "no-load operating point, on its load line")
-        self.safe_item = item.plot(pen=None, symbol="o", symbolSize=12, symbolBrush=None,
-                                   symbolPen=pg.mkPen(SAFE_COLOUR, width=2.2), name="demagnetization case: safe")
-        self.failed_item = item.plot(pen=None, symbol="x", symbolSize=20, symbolBrush=PAST_KNEE_COLOUR,
-                                     symbolPen=pg.mkPen(PAST_KNEE_COLOUR, width=1.5),
-                                     name="demagnetization case: PAST THE KNEE")
+            self.load_lines[name] = self._curve(item, load_pen)
+        self.operating_item = self._scatter(item, symbol="o", size=11, brush=CASE_COLOURS["nominal"],
+                                            pen=pg.mkPen("w", width=1.5))
+        self._case_brushes = [pg.mkBrush(colour) for colour in CASE_COLOURS.values()]
+        self.knee_item = self._scatter(item, symbol="t", size=11, brush=KNEE_COLOUR, pen=None)
+        self.legend.addItem(self.knee_item, "knee (Hk) on B and J")
+        self.legend.addItem(self.operating_item, "no-load operating point, on its load line (dotted)")
+        self.safe_item = self._scatter(item, symbol="o", size=12, brush=None, pen=pg.mkPen(SAFE_COLOUR, width=2.2))
+        self.legend.addItem(self.safe_item, "demagnetization case: safe")
+        self.failed_item = self._scatter(item, symbol="x", size=20, brush=PAST_KNEE_COLOUR,
+                                         pen=pg.mkPen(PAST_KNEE_COLOUR, width=1.5))
+        self.legend.addItem(self.failed_item, "demagnetization case: PAST THE KNEE")
+        self._legend_texts: dict[str, str] = {}
+        self._failed_background = QBrush(QColor("#fbe3ef"))
+        self._failed_foreground = QBrush(QColor(PAST_KNEE_COLOUR))
         self.case_labels: list[pg.TextItem] = []
         splitter.addWidget(self.plot)
         self.table = QTableWidget(0, 7)
@@ -79,14 +85,35 @@ class MagnetChart(QWidget):
              f"Knee ({FIELD_UNIT})", f"Margin ({FIELD_UNIT})", "Result"])
         self.table.verticalHeader().hide()
         self.table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
-        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
-        self.table.horizontalHeader().setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)
+        # Column widths are measured once, on the first results: measuring every cell on every edit
+        # (ResizeToContents) costs more than drawing the chart.
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        self.table.horizontalHeader().setStretchLastSection(True)
+        self.table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
+        self._columns_sized = False
         splitter.addWidget(self.table)
         splitter.setSizes([640, 200])
 
+    @staticmethod
+    def _curve(plot_item, pen) -> pg.PlotCurveItem:
+        curve = pg.PlotCurveItem(pen=pen, skipFiniteCheck=True)
+        plot_item.addItem(curve)
+        return curve
+
+    @staticmethod
+    def _scatter(plot_item, symbol, size, brush, pen) -> pg.ScatterPlotItem:
+        scatter = pg.ScatterPlotItem(symbol=symbol, size=size, brush=brush, pen=pen)
+        plot_item.addItem(scatter)
+        return scatter
+
+    def operating_points(self) -> dict[str, tuple[float, float]]:
+        """The drawn no-load operating points, (H [kA/m], B [T]) by case name."""
+        x, y = self.operating_item.getData()
+        return {name: (float(h), float(b)) for name, h, b in zip(CASE_COLOURS, x, y)}
+
     def show_results(self, results) -> None:
         chart = results.magnet_chart
-        knees_h, knees_b = [], []
+        knees_h, knees_b, operating_h, operating_b = [], [], [], []
         for case in chart:
             c = case.curves
             h = from_si(c.field_strength, FIELD_UNIT)
@@ -98,9 +125,13 @@ class MagnetChart(QWidget):
             op_h, op_b = from_si(case.operating_field_A_per_m, FIELD_UNIT), case.operating_flux_density_T
             reach = c.remanence / op_b if op_b > 0 else 1.0
             self.load_lines[case.name].setData([0.0, op_h * reach], [0.0, op_b * reach])
-            self.operating_marks[case.name].setData([op_h], [op_b])
-            legend_label = self.legend.getLabel(self.normal_curves[case.name])
-            legend_label.setText(f"{case.name}: magnet at {c.temperature_C:.0f} °C, Pc = {significant(case.permeance_coefficient, 3)}")
+            operating_h.append(op_h)
+            operating_b.append(op_b)
+            text = f"{case.name}: magnet at {c.temperature_C:.0f} °C, Pc = {significant(case.permeance_coefficient, 3)}"
+            if self._legend_texts.get(case.name) != text:  # relaying out the legend costs more than the curves
+                self._legend_texts[case.name] = text
+                self.legend.getLabel(self.normal_curves[case.name]).setText(text)
+        self.operating_item.setData(operating_h, operating_b, brush=self._case_brushes)
         self.knee_item.setData(knees_h, knees_b)
         cases = results.demagnetization.cases
         safe = [c for c in cases if c.ok]
@@ -126,8 +157,10 @@ class MagnetChart(QWidget):
                 label.hide()
                 continue
             case = cases[index]
-            label.setColor(SAFE_COLOUR if case.ok else PAST_KNEE_COLOUR)
-            label.setText(case.name if case.ok else f"{case.name}: past the knee")
+            text = case.name if case.ok else f"{case.name}: past the knee"
+            if label.textItem.toPlainText() != text:
+                label.setColor(SAFE_COLOUR if case.ok else PAST_KNEE_COLOUR)
+                label.setText(text)
             # Alternate above and below so neighbouring cases stay readable.
             label.setAnchor((0, 1.1) if index % 2 == 0 else (0, -0.1))
             label.setPos(from_si(case.magnet_field_A_per_m, FIELD_UNIT), case.magnet_flux_density_T)
@@ -135,7 +168,9 @@ class MagnetChart(QWidget):
 
     def _fill_table(self, cases) -> None:
         ordered = sorted(cases, key=lambda c: c.margin_A_per_m)
-        self.table.setRowCount(len(ordered))
+        if self.table.rowCount() != len(ordered):
+            self.table.setRowCount(len(ordered))
+            self._columns_sized = False
         for row, case in enumerate(ordered):
             cells = (
                 case.name,
@@ -147,13 +182,20 @@ class MagnetChart(QWidget):
                 "safe" if case.ok else "PAST THE KNEE: irreversible loss",
             )
             for column, text in enumerate(cells):
-                cell = QTableWidgetItem(text)
-                if column:
-                    cell.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
-                if not case.ok:
-                    cell.setBackground(QBrush(QColor("#fbe3ef")))
-                    cell.setForeground(QBrush(QColor(PAST_KNEE_COLOUR)))
-                self.table.setItem(row, column, cell)
+                cell = self.table.item(row, column)
+                if cell is None:
+                    cell = QTableWidgetItem()
+                    if column:
+                        cell.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+                    self.table.setItem(row, column, cell)
+                if cell.text() != text:
+                    cell.setText(text)
+                cell.setBackground(self._failed_background if not case.ok else QBrush())
+                cell.setForeground(self._failed_foreground if not case.ok else QBrush())
+        if not self._columns_sized:
+            self.table.resizeColumnsToContents()
+            self.table.setColumnWidth(0, max(self.table.columnWidth(0), 240))
+            self._columns_sized = True
 
     def _headline(self, results) -> None:
         d = results.demagnetization
@@ -176,11 +218,11 @@ class MagnetChart(QWidget):
                                          padding=0.0)
 
     def clear(self) -> None:
-        for items in (self.normal_curves, self.intrinsic_curves, self.load_lines, self.operating_marks):
+        for items in (self.normal_curves, self.intrinsic_curves, self.load_lines):
             for curve in items.values():
                 curve.setData([], [])
-        for curve in (self.knee_item, self.safe_item, self.failed_item):
-            curve.setData([], [])
+        for scatter in (self.operating_item, self.knee_item, self.safe_item, self.failed_item):
+            scatter.setData([], [])
         for label in self.case_labels:
             label.hide()
         self.table.setRowCount(0)

@@ -317,13 +317,15 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ live evaluation
     def _on_project_updated(self, project: Project) -> None:
-        self.cross_section.show_geometry(design_from_project(project).geometry)
+        # Everything, the drawing included, is redrawn when the evaluation returns: one paint per edit,
+        # and the worker does not compete with a paint for the interpreter.
         self.evaluator.request(project)
         self._update_title()
 
     def _on_results(self, project: Project, results) -> None:
         self.current_results = results
         self.last_error = ""
+        self.cross_section.show_geometry(design_from_project(project).geometry)
         self.magnet_chart.show_results(results)
         self.performance_chart.show_results(results)
         self.results_panel.show_results(results)
@@ -333,6 +335,7 @@ class MainWindow(QMainWindow):
     def _on_failure(self, project: Project, message: str) -> None:
         self.current_results = None
         self.last_error = message
+        self.cross_section.show_geometry(design_from_project(project).geometry)
         self.magnet_chart.clear()
         self.performance_chart.clear()
         self.results_panel.show_failure(message)

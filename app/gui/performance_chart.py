@@ -26,8 +26,6 @@ QUANTITIES = (
     ("efficiency", "Efficiency", "%"),
     ("output_power_W", "Output power", "W"),
 )
-_POINT_TO_CURVE = {"speed_rad_per_s": "speed_rad_per_s", "current_A": "current_A", "efficiency": "efficiency",
-                   "output_power_W": "output_power_W"}
 MARKS = (("rated", "star", 15, "rated point"), ("max_efficiency_point", "d", 12, "maximum efficiency"),
          ("max_power_point", "s", 10, "maximum output power"))
 
@@ -49,8 +47,8 @@ class PerformanceChart(QWidget):
         self.canvas.setObjectName("performance_plots")
         layout.addWidget(self.canvas, 1)
         self.plots: dict[str, pg.PlotItem] = {}
-        self.curves: dict[tuple[str, str], pg.PlotDataItem] = {}
-        self.marks: dict[tuple[str, str, str], pg.PlotDataItem] = {}
+        self.curves: dict[tuple[str, str], pg.PlotCurveItem] = {}
+        self.marks: dict[str, pg.ScatterPlotItem] = {}  #: per quantity: every case's marked points
         self.cursors: list[pg.InfiniteLine] = []
         self.rated_lines: list[pg.InfiniteLine] = []
         first = None
@@ -67,11 +65,14 @@ class PerformanceChart(QWidget):
                 first = plot
             else:
                 plot.setXLink(first)
+            # Plain curve and scatter items (not PlotDataItem): every edit redraws them, so they must be light.
             for case, colour in CASE_COLOURS.items():
-                self.curves[(attribute, case)] = plot.plot(pen=pg.mkPen(colour, width=2.2))
-                for mark, symbol, size, label in MARKS:
-                    self.marks[(attribute, case, mark)] = plot.plot(
-                        pen=None, symbol=symbol, symbolSize=size, symbolBrush=colour, symbolPen=pg.mkPen("w", width=1))
+                curve = pg.PlotCurveItem(pen=pg.mkPen(colour, width=2.2), skipFiniteCheck=True)
+                plot.addItem(curve)
+                self.curves[(attribute, case)] = curve
+            marks = pg.ScatterPlotItem(pen=pg.mkPen("w", width=1))
+            plot.addItem(marks)
+            self.marks[attribute] = marks
             rated = pg.InfiniteLine(angle=90, pen=pg.mkPen("#777", width=1, style=Qt.PenStyle.DashLine))
             plot.addItem(rated, ignoreBounds=True)
             self.rated_lines.append(rated)
@@ -80,8 +81,10 @@ class PerformanceChart(QWidget):
             plot.addItem(cursor, ignoreBounds=True)
             self.cursors.append(cursor)
             self.plots[attribute] = plot
-        self.required_mark = self.plots["speed_rad_per_s"].plot(
-            pen=None, symbol="+", symbolSize=22, symbolPen=pg.mkPen("#000", width=2.5))
+        self.required_mark = pg.ScatterPlotItem(symbol="+", size=22, pen=pg.mkPen("#000", width=2.5), brush=None)
+        self.plots["speed_rad_per_s"].addItem(self.required_mark)
+        self._brushes = {name: pg.mkBrush(colour) for name, colour in CASE_COLOURS.items()}
+        self._x_range = None
         self.key = QLabel(
             "".join(f"<span style='color:{colour}'>━━ {case}</span>&nbsp;&nbsp;&nbsp;" for case, colour in CASE_COLOURS.items())
             + "&nbsp;&nbsp;★ rated point&nbsp;&nbsp;&nbsp;◆ maximum efficiency&nbsp;&nbsp;&nbsp;■ maximum output power"
@@ -100,6 +103,9 @@ class PerformanceChart(QWidget):
         return self.display.screen_unit("mN·m")
 
     def set_torque_unit(self) -> None:
+        if getattr(self, "_labelled_unit", None) == self.torque_unit:
+            return  # relabelling relays out all four plots
+        self._labelled_unit = self.torque_unit
         for plot in self.plots.values():
             plot.setLabel("bottom", "Shaft torque", units=self.torque_unit)
 
@@ -111,31 +117,44 @@ class PerformanceChart(QWidget):
         self._results = results
         self.set_torque_unit()
         torque_unit = self.torque_unit
-        for case in results.cases:
-            torque = from_si(case.curve.torque_N_m, torque_unit)
-            for attribute, _title, _unit in QUANTITIES:
+        brushes = self._brushes
+        for attribute, _title, _unit in QUANTITIES:
+            xs, ys, symbols, sizes, case_brushes = [], [], [], [], []
+            for case in results.cases:
+                torque = from_si(case.curve.torque_N_m, torque_unit)
                 self.curves[(attribute, case.name)].setData(torque, self._to_screen(attribute, getattr(case.curve, attribute)))
-                for mark, *_ in MARKS:
+                for mark, symbol, size, _label in MARKS:
+                    if mark == "rated" and not case.rated_reached:
+                        continue  # the motor stalls before the rated torque: there is no rated point
                     point = getattr(case, mark)
-                    reached = mark != "rated" or case.rated_reached
-                    self.marks[(attribute, case.name, mark)].setData(
-                        [from_si(point.torque_N_m, torque_unit)] if reached else [],
-                        [float(self._to_screen(attribute, getattr(point, _POINT_TO_CURVE[attribute])))] if reached else [])
+                    xs.append(from_si(point.torque_N_m, torque_unit))
+                    ys.append(float(self._to_screen(attribute, getattr(point, attribute))))
+                    symbols.append(symbol)
+                    sizes.append(size)
+                    case_brushes.append(brushes[case.name])
+            self.marks[attribute].setData(xs, ys, symbol=symbols, size=sizes, brush=case_brushes)
         load_torque = from_si(results.load_torque_N_m, torque_unit)
         for line in self.rated_lines:
             line.setValue(load_torque)
         self.required_mark.setData([load_torque], [from_si(results.load_speed_rad_per_s, "rpm")])
         highest_stall = max(from_si(c.stall_torque_N_m, torque_unit) for c in results.cases)
-        for plot in self.plots.values():
-            plot.setXRange(0.0, highest_stall * 1.02, padding=0.0)
-            plot.enableAutoRange(axis="y")
+        x_range = (0.0, highest_stall * 1.02)
+        if self._x_range is None or abs(self._x_range[1] - x_range[1]) > 1e-3 * x_range[1]:
+            self._x_range = x_range
+            self.plots["speed_rad_per_s"].setXRange(*x_range, padding=0.0)  # the other plots are linked
         if self.cursors[0].isVisible():
             self.show_cursor(self.cursors[0].value())
+
+    def marked_points(self, attribute: str) -> list[tuple[float, float]]:
+        """The drawn rated, maximum-efficiency and maximum-power points of one quantity (screen units)."""
+        x, y = self.marks[attribute].getData()
+        return list(zip(map(float, x), map(float, y)))
 
     def clear(self) -> None:
         self._results = None
         for item in list(self.curves.values()) + list(self.marks.values()):
             item.setData([], [])
+        self._x_range = None
         self.readout.setText("No curves: the design has no solution (see the status line).")
 
     def _on_mouse_moved(self, position) -> None:

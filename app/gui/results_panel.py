@@ -8,12 +8,11 @@ from __future__ import annotations
 
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
-    QFrame,
     QHeaderView,
     QLabel,
-    QScrollArea,
     QTableWidget,
     QTableWidgetItem,
+    QTextBrowser,
     QTreeWidget,
     QTreeWidgetItem,
     QVBoxLayout,
@@ -129,7 +128,8 @@ class ResultsPanel(QWidget):
         self.case_table.setObjectName("case_table")
         self.case_table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
         self.case_table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
-        self.case_table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        # Fixed sizes: measuring every cell again on every edit would cost more than the edit.
+        self.case_table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
         self.case_table.verticalHeader().setDefaultSectionSize(20)
         layout.addWidget(self.case_table, 3)
         self.tree = QTreeWidget()
@@ -137,7 +137,9 @@ class ResultsPanel(QWidget):
         self.tree.setColumnCount(2)
         self.tree.setHeaderLabels(["Design figure", "Value"])
         self.tree.header().setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)
-        self.tree.header().setSectionResizeMode(1, QHeaderView.ResizeMode.ResizeToContents)
+        self.tree.header().setSectionResizeMode(1, QHeaderView.ResizeMode.Fixed)
+        self.tree.header().setStretchLastSection(False)
+        self.tree.setColumnWidth(1, 130)
         self.tree.setRootIsDecorated(True)
         self.tree.setUniformRowHeights(True)
         layout.addWidget(self.tree, 4)
@@ -219,51 +221,45 @@ class ResultsPanel(QWidget):
         self.values = {}
 
 
-class ChecksPanel(QScrollArea):
-    """One row per check: a mark and word for its status, the reason, and what to change."""
+class ChecksPanel(QTextBrowser):
+    """One entry per check, failures first: a mark and word for its status, the reason, what to change.
+
+    One rich-text document rather than a label per check: the checks' numbers change on every edit, and
+    laying out one document is much cheaper than relaying out a column of word-wrapped labels.
+    """
+
+    ORDER = {"fail": 0, "warning": 1, "pass": 2}
 
     def __init__(self):
         super().__init__()
-        self.setWidgetResizable(True)
-        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
-        body = QWidget()
-        self.column = QVBoxLayout(body)
-        self.column.setContentsMargins(2, 2, 2, 2)
-        self.column.setSpacing(3)
-        self.column.addStretch(1)
-        self.setWidget(body)
-        self.rows: list[QLabel] = []
+        self.setObjectName("checks_panel")
+        self.setOpenLinks(False)
         self.statuses: dict[str, str] = {}
+        self.shown: list[str] = []  #: check keys in the order shown
 
     def show_checks(self, checks) -> None:
-        order = {"fail": 0, "warning": 1, "pass": 2}
-        ordered = sorted(checks, key=lambda c: order.get(c.status, 3))
-        while len(self.rows) < len(ordered):
-            label = QLabel()
-            label.setWordWrap(True)
-            label.setTextFormat(Qt.TextFormat.RichText)
-            label.setFrameShape(QFrame.Shape.StyledPanel)
-            self.column.insertWidget(self.column.count() - 1, label)
-            self.rows.append(label)
+        ordered = sorted(checks, key=lambda c: self.ORDER.get(c.status, 3))
         self.statuses = {c.key: c.status for c in checks}
-        for index, label in enumerate(self.rows):
-            if index >= len(ordered):
-                label.hide()
-                continue
-            check = ordered[index]
+        self.shown = [c.key for c in ordered]
+        entries = []
+        for check in ordered:
             colour = STATUS_COLOURS.get(check.status, "#000")
             advice = (f"<br><i>What to change:</i> {check.advice[0].upper() + check.advice[1:]}."
                       if check.advice and check.status != "pass" else "")
-            label.setText(
+            entries.append(
+                f"<tr><td width=6 bgcolor='{colour}'></td><td style='padding:3px 6px'>"
                 f"<span style='color:{colour}; font-weight:bold'>{STATUS_MARKS.get(check.status, '?')} "
                 f"{STATUS_WORDS.get(check.status, check.status)}</span>&nbsp; <b>{check.title}</b><br>"
-                f"{check.message}{advice}")
-            label.setStyleSheet(f"QLabel {{ border-left: 4px solid {colour}; padding: 3px 5px; background: #fbfbfb; }}")
-            label.show()
+                f"{check.message}{advice}</td></tr>")
+        html = "<table width='100%' cellspacing=0 cellpadding=0 style='margin:0'>" + \
+            "<tr><td colspan=2 height=4></td></tr>".join(entries) + "</table>"
+        scroll = self.verticalScrollBar().value()
+        self.setHtml(html)
+        self.verticalScrollBar().setValue(scroll)
 
     def show_failure(self) -> None:
-        for label in self.rows:
-            label.hide()
+        self.statuses, self.shown = {}, []
+        self.setHtml("<i>No checks: the design has no solution (see the key figures).</i>")
 
 
 __all__ = ["ResultsPanel", "ChecksPanel", "CASE_COLOURS"]

@@ -32,15 +32,16 @@ def test_each_demo_opens_evaluated_with_every_view_filled(open_window, demo_path
         _h, b = window.magnet_chart.normal_curves[case.name].getData()
         assert len(b) == len(results.magnet_chart[0].curves.flux_density)
     assert window.magnet_chart.table.rowCount() == len(results.demagnetization.cases)
-    shown_checks = [row for row in window.checks_panel.rows if not row.isHidden()]
-    assert len(shown_checks) == len(results.checks)
+    assert sorted(window.checks_panel.shown) == sorted(c.key for c in results.checks)
+    text = window.checks_panel.toPlainText()
+    assert all(c.title in text and c.message[:20] in text for c in results.checks)
     assert window.results_panel.values["Ke"].endswith("V/krpm")
 
 
 def test_magnet_thickness_edit_changes_figures_and_chart(open_window, qtbot, ferrite_demo):
     window = open_window(ferrite_demo)
     flux_before = window.results_panel.values["Flux per pole"]
-    operating_before = window.magnet_chart.operating_marks["nominal"].getData()[1][0]
+    operating_before = window.magnet_chart.operating_points()["nominal"][1]
     with qtbot.waitSignal(window.results_ready, timeout=10000) as blocker:
         _thickness_box(window).setValue(4.0)
     project, results = blocker.args
@@ -49,7 +50,7 @@ def test_magnet_thickness_edit_changes_figures_and_chart(open_window, qtbot, fer
     assert window.current_project.magnets.thickness_mm == pytest.approx(4.0)
     # A thinner ferrite magnet works at a lower permeance coefficient: less flux, lower B.
     assert window.results_panel.values["Flux per pole"] != flux_before
-    assert window.magnet_chart.operating_marks["nominal"].getData()[1][0] < operating_before
+    assert window.magnet_chart.operating_points()["nominal"][1] < operating_before
     assert window.current_results.magnetics.permeance_coefficient == pytest.approx(results.magnetics.permeance_coefficient)
 
 
