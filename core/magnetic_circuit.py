@@ -79,6 +79,9 @@ class PoleCircuit:
     core_area: np.ndarray  #: cross-section carrying half the gap flux [m²]
     core_path: np.ndarray  #: per-pole path in the core [m]
     carter_factor: np.ndarray  #: kc [1]
+    #: the part of ``leakage_permeance`` that runs from the magnets' inner-face edges across the gap to
+    #: the next magnet; it depends on the armature being there (see core.demagnetization)
+    edge_leakage_permeance: np.ndarray | float = 0.0
 
 
 def pole_circuit(geometry: Geometry, recoil_permeability: float) -> PoleCircuit:
@@ -95,10 +98,11 @@ def pole_circuit(geometry: Geometry, recoil_permeability: float) -> PoleCircuit:
     carter = carter_coefficient(g.slot_pitch, g.slot_opening, g.airgap + g.magnet_thickness / recoil_permeability)
     effective_gap = g.airgap + (carter - 1.0) * (g.airgap + g.magnet_thickness / recoil_permeability)
     interpolar_width = (1.0 - g.magnet_embrace) * g.pole_pitch_angle * magnet_radius
+    # inner-face edges to the adjacent magnets: two edges, each facing twice the gap-side MMF
+    edge_leakage = 4.0 * magnet_leakage_permeance(useful_magnet_length, g.airgap, g.magnet_embrace,
+                                                  g.pole_pitch_angle * g.magnet_inner_radius)
     leakage = (
-        # inner-face edges to the adjacent magnets: two edges, each facing twice the gap-side MMF
-        4.0 * magnet_leakage_permeance(useful_magnet_length, g.airgap, g.magnet_embrace,
-                                       g.pole_pitch_angle * g.magnet_inner_radius)
+        edge_leakage
         # side faces to the adjacent magnets' side faces, across the interpolar space: the potential
         # rises linearly through the magnet, so the mean difference equals the gap-side MMF
         + 2.0 * MU_0 * useful_magnet_length * g.magnet_thickness / interpolar_width
@@ -120,6 +124,7 @@ def pole_circuit(geometry: Geometry, recoil_permeability: float) -> PoleCircuit:
         core_area=g.core_depth * g.stack_length * g.stacking_factor,
         core_path=np.pi * core_mean_radius / g.poles,
         carter_factor=carter,
+        edge_leakage_permeance=edge_leakage,
     )
 
 

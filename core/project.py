@@ -420,7 +420,13 @@ def load(path: str | os.PathLike) -> Project:
         text = raw.decode("utf-8")
     except UnicodeDecodeError:
         raise ProjectError(f"{path}: the file is not UTF-8 text") from None
-    return parse(text, source=str(path))
+    try:
+        return parse(text, source=str(path))
+    except ProjectError as error:
+        message = str(error)
+        if message.startswith(str(path)):
+            raise
+        raise ProjectError(f"{path}: {message}", key=error.key) from None
 
 
 # --------------------------------------------------------------------------------------------------

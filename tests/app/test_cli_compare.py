@@ -29,7 +29,7 @@ def test_two_files_as_json_hold_a_b_and_their_difference(capsys):
     assert status == 0 and err == ""
     data = json.loads(out)
     assert {"a", "b", "difference", "relative_difference"} <= data.keys() and "refit" not in data
-    assert data["a"]["magnet"]["name"] == "Y30BH" and data["b"]["magnet"]["name"] == "N42SH"
+    assert data["a"]["magnet"]["name"] == "Y40" and data["b"]["magnet"]["name"] == "N42SH"
     # Same keys as the evaluate JSON, B − A, numbers only.
     assert data["difference"]["performance"]["no_load_speed_rpm"] == pytest.approx(
         data["b"]["performance"]["no_load_speed_rpm"] - data["a"]["performance"]["no_load_speed_rpm"])

@@ -19,8 +19,9 @@ def test_masses_by_hand(ferrite_demo):
     # Arc magnets: p arcs of angle θ between radii ri and ro, length L: p·θ/2·(ro² - ri²)·L.
     ri, ro = 12.4e-3, 18.4e-3  # 24 mm armature, 0.4 mm gap, 6 mm magnets (the demo)
     assert_allclose(m.magnet, 4900.0 * 2 * math.radians(140.0) / 2.0 * (ro**2 - ri**2) * 28e-3, rtol=1e-12)
-    # Housing tube, 4 mm wall, 40 mm long.
-    assert_allclose(m.housing, 7870.0 * math.pi * ((ro + 4e-3) ** 2 - ro**2) * 40e-3, rtol=1e-12)
+    # Housing tube, 40 mm long, with the demo's wall.
+    wall = g.housing_wall
+    assert_allclose(m.housing, 7870.0 * math.pi * ((ro + wall) ** 2 - ro**2) * 40e-3, rtol=1e-12)
     assert_allclose(m.copper, COPPER_DENSITY * 40.0 * 0.128e-6, rtol=1e-14)
     assert_allclose(m.shaft, STEEL_DENSITY_SHAFT * math.pi * 2e-3**2 * 40e-3, rtol=1e-12)
     # The stack: disc less bore and slots, times the stacking factor; teeth and core are parts of it.
