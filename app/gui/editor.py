@@ -163,7 +163,12 @@ class CountSpinBox(_NoWheelUnlessFocused, QSpinBox):
 
 
 class ChoiceBox(_NoWheelUnlessFocused, QComboBox):
-    pass
+    """A combo box that does not widen the editor column to its longest item."""
+
+    def __init__(self):
+        super().__init__()
+        self.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.setMinimumContentsLength(10)
 
 
 class FieldEditor(QWidget):

@@ -73,6 +73,7 @@ class MagnetChart(QWidget):
         self.failed_item = self._scatter(item, symbol="x", size=20, brush=PAST_KNEE_COLOUR,
                                          pen=pg.mkPen(PAST_KNEE_COLOUR, width=1.5))
         self.legend.addItem(self.failed_item, "demagnetization case: PAST THE KNEE")
+        self.legend.setColumnCount(2)
         self._legend_texts: dict[str, str] = {}
         self._failed_background = QBrush(QColor("#fbe3ef"))
         self._failed_foreground = QBrush(QColor(PAST_KNEE_COLOUR))
@@ -88,7 +89,6 @@ class MagnetChart(QWidget):
         # Column widths are measured once, on the first results: measuring every cell on every edit
         # (ResizeToContents) costs more than drawing the chart.
         self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
-        self.table.horizontalHeader().setStretchLastSection(True)
         self.table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
         self._columns_sized = False
         splitter.addWidget(self.table)
@@ -146,18 +146,22 @@ class MagnetChart(QWidget):
         self._fit_view(results)
 
     def _label_cases(self, cases) -> None:
+        """Name the cases past the knee on the chart, or the one with the least margin when none is;
+        the table below names them all (labels for every case would pile up)."""
+        failed = [c for c in cases if not c.ok]
+        named = failed if failed else [min(cases, key=lambda c: c.margin_A_per_m)]
         item = self.plot.getPlotItem()
-        while len(self.case_labels) < len(cases):
+        while len(self.case_labels) < len(named):
             label = pg.TextItem(anchor=(0, 1.1))
-            label.setFont(QFont("Sans", 8))
+            label.setFont(QFont("Sans", 9))
             item.addItem(label)
             self.case_labels.append(label)
         for index, label in enumerate(self.case_labels):
-            if index >= len(cases):
+            if index >= len(named):
                 label.hide()
                 continue
-            case = cases[index]
-            text = case.name if case.ok else f"{case.name}: past the knee"
+            case = named[index]
+            text = f"{case.name}: past the knee" if not case.ok else f"least margin: {case.name}"
             if label.textItem.toPlainText() != text:
                 label.setColor(SAFE_COLOUR if case.ok else PAST_KNEE_COLOUR)
                 label.setText(text)
@@ -179,7 +183,7 @@ class MagnetChart(QWidget):
                 significant(from_si(case.magnet_field_A_per_m, FIELD_UNIT), 3),
                 significant(from_si(case.knee_field_A_per_m, FIELD_UNIT), 3),
                 significant(from_si(case.margin_A_per_m, FIELD_UNIT), 3),
-                "safe" if case.ok else "PAST THE KNEE: irreversible loss",
+                "safe" if case.ok else "PAST THE KNEE",
             )
             for column, text in enumerate(cells):
                 cell = self.table.item(row, column)
@@ -194,7 +198,12 @@ class MagnetChart(QWidget):
                 cell.setForeground(self._failed_foreground if not case.ok else QBrush())
         if not self._columns_sized:
             self.table.resizeColumnsToContents()
-            self.table.setColumnWidth(0, max(self.table.columnWidth(0), 240))
+            header = self.table.horizontalHeader()
+            header.setStretchLastSection(False)
+            header.setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)  # the case name takes what is left
+            result_column = self.table.columnCount() - 1
+            width = self.table.fontMetrics().horizontalAdvance("PAST THE KNEE") + 16
+            self.table.setColumnWidth(result_column, max(self.table.columnWidth(result_column), width))
             self._columns_sized = True
 
     def _headline(self, results) -> None:
@@ -211,10 +220,14 @@ class MagnetChart(QWidget):
                 f"the magnet loses flux for good. Worst: {d.worst_case}, {margin} {FIELD_UNIT} beyond the knee.")
 
     def _fit_view(self, results) -> None:
+        cases = results.demagnetization.cases
         lowest = min(min(float(c.curves.field_strength[0]) for c in results.magnet_chart),
-                     min(c.magnet_field_A_per_m for c in results.demagnetization.cases))
+                     min(c.magnet_field_A_per_m for c in cases))
         top = max(c.curves.remanence for c in results.magnet_chart)
-        self.plot.getPlotItem().setRange(xRange=(from_si(lowest, FIELD_UNIT) * 1.03, 0.0), yRange=(0.0, top * 1.08),
+        # A case past the knee can sit below B = 0: it must stay in view, it is the point of the chart.
+        bottom = min(0.0, min(c.magnet_flux_density_T for c in cases) - 0.04 * top)
+        # Head room above Br keeps the legend clear of the curves.
+        self.plot.getPlotItem().setRange(xRange=(from_si(lowest, FIELD_UNIT) * 1.03, 0.0), yRange=(bottom, top * 1.3),
                                          padding=0.0)
 
     def clear(self) -> None:

@@ -13,7 +13,8 @@ Extension points (names kept stable for other modules):
 ``MainWindow.results_ready``
     Qt signal ``(project, results)`` emitted after every successful evaluation.
 ``MainWindow.add_page(title, widget)``
-    Adds a page to the central area and returns its index.
+    Adds a page (inside a scroll area, so its minimum size cannot squeeze the other columns) to the
+    central area and returns its index.
 ``MainWindow.current_path``
     The file the design came from or was saved to, or None for an unsaved design.
 ``app.gui.export_dialog.open_export_dialog(parent, project, results, path_hint)``
@@ -39,6 +40,7 @@ from PySide6.QtWidgets import (
     QLabel,
     QMainWindow,
     QMessageBox,
+    QScrollArea,
     QSplitter,
     QTabWidget,
     QVBoxLayout,
@@ -162,8 +164,9 @@ class MainWindow(QMainWindow):
         right.addWidget(self._titled("Design checks", self.checks_panel))
         right.setSizes([560, 420])
         splitter.addWidget(right)
-        splitter.setSizes([390, 740, 470])
         splitter.setStretchFactor(1, 1)
+        self.splitter = splitter
+        self._splitter_placed = False
         self.setCentralWidget(splitter)
         self.compare_view = None
         self.compare_unavailable = ""
@@ -293,7 +296,12 @@ class MainWindow(QMainWindow):
         return self.model.project
 
     def add_page(self, title: str, widget: QWidget) -> int:
-        index = self.pages.addTab(widget, title)
+        # In a scroll area, so a page's minimum width cannot squeeze the editor and the checks.
+        holder = QScrollArea()
+        holder.setWidgetResizable(True)
+        holder.setFrameShape(QScrollArea.Shape.NoFrame)
+        holder.setWidget(widget)
+        index = self.pages.addTab(holder, title)
         if hasattr(self, "page_menu"):
             self._add_page_action(index)
         return index
@@ -479,6 +487,20 @@ class MainWindow(QMainWindow):
 
     def show_about(self) -> None:
         QMessageBox.about(self, f"About {APP_NAME}", about_text())
+
+    COLUMN_SHARES = (0.24, 0.47, 0.29)  #: editor, pages, figures and checks
+
+    def showEvent(self, event) -> None:  # noqa: N802 - Qt's name
+        super().showEvent(event)
+        if not self._splitter_placed:
+            # After the first layout: before it the splitter does not know its width yet.
+            QTimer.singleShot(0, self._place_columns)
+
+    def _place_columns(self) -> None:
+        width = self.splitter.width()
+        if width > 600 and not self._splitter_placed:
+            self.splitter.setSizes([int(width * share) for share in self.COLUMN_SHARES])
+            self._splitter_placed = True
 
     def closeEvent(self, event) -> None:  # noqa: N802 - Qt's name
         if not self.maybe_keep_changes():

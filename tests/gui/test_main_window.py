@@ -3,12 +3,15 @@
 from __future__ import annotations
 
 import shutil
+import tomllib
 
 import numpy as np
+import tomli_w
 import pytest
 from PySide6.QtWidgets import QMessageBox
 
 from app.gui.main_window import PAGE_MAGNET, PAGE_PERFORMANCE, PAGE_SECTION
+from core import library
 from core import project as project_file
 from core.design import design_from_project
 from core.units import from_si
@@ -57,6 +60,7 @@ def test_magnet_thickness_edit_changes_figures_and_chart(open_window, qtbot, fer
 def test_undo_restores_the_value_and_the_results(open_window, qtbot, ferrite_demo):
     window = open_window(ferrite_demo)
     figures_before = dict(window.results_panel.values)
+    thickness_before = window.current_project.magnets.thickness_mm
     with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
         _thickness_box(window).setValue(4.5)
         _thickness_box(window).editingFinished.emit()
@@ -66,7 +70,7 @@ def test_undo_restores_the_value_and_the_results(open_window, qtbot, ferrite_dem
     with qtbot.waitSignal(window.results_ready, timeout=10000):
         window.undo_action.trigger()
     qtbot.waitUntil(lambda: not window.evaluator.busy)
-    assert _thickness_box(window).value() == pytest.approx(6.0)
+    assert _thickness_box(window).value() == pytest.approx(thickness_before)
     assert window.current_project == project_file.load(ferrite_demo)
     assert window.results_panel.values == figures_before
     assert not window.isWindowModified()
@@ -78,17 +82,18 @@ def test_undo_restores_the_value_and_the_results(open_window, qtbot, ferrite_dem
 def test_a_drag_is_one_undo_step(open_window, qtbot, ferrite_demo):
     window = open_window(ferrite_demo)
     box = _thickness_box(window)
-    for value in (5.9, 5.8, 5.7, 5.6, 5.5):
-        box.setValue(value)
+    thickness_before = box.value()
+    for step in range(1, 6):
+        box.setValue(thickness_before - 0.1 * step)
     assert window.model.undo_stack.count() == 0  # still dragging: shown, not yet an undo step
     with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
         pass  # the idle timer commits the drag
     assert window.model.undo_stack.count() == 1
     qtbot.waitUntil(lambda: not window.evaluator.busy)
     assert window.current_results is not None
-    assert window.current_project.magnets.thickness_mm == pytest.approx(5.5)
+    assert window.current_project.magnets.thickness_mm == pytest.approx(thickness_before - 0.5)
     window.undo_action.trigger()
-    assert window.current_project.magnets.thickness_mm == pytest.approx(6.0)
+    assert window.current_project.magnets.thickness_mm == pytest.approx(thickness_before)
 
 
 def test_refused_edit_names_the_limit_and_keeps_the_design(open_window, qtbot, ferrite_demo):
@@ -109,9 +114,10 @@ def test_refused_edit_names_the_limit_and_keeps_the_design(open_window, qtbot, f
 def test_broken_file_shows_the_message_and_keeps_the_design(open_window, qtbot, ferrite_demo, tmp_path, monkeypatch):
     window = open_window(ferrite_demo)
     before, path_before = window.current_project, window.current_path
+    data = tomllib.loads(ferrite_demo.read_text(encoding="utf-8"))
+    data["magnets"]["thickness_mm"] = 60.0  # the schema allows at most 40 mm
     broken = tmp_path / "broken.toml"
-    broken.write_text(ferrite_demo.read_text(encoding="utf-8").replace("thickness_mm = 6.0", "thickness_mm = 60.0"),
-                      encoding="utf-8")
+    broken.write_text(tomli_w.dumps(data), encoding="utf-8")
     shown = []
     monkeypatch.setattr(QMessageBox, "critical", staticmethod(lambda parent, title, text, *a: shown.append(text)))
     assert window.open_file(broken) is False
@@ -195,10 +201,11 @@ def test_cross_section_is_drawn_to_the_design_dimensions(open_window, qtbot, dem
 
 def test_display_units_change_the_screen_not_the_file(open_window, qtbot, ferrite_demo, _isolated_settings):
     window = open_window(ferrite_demo)
+    thickness_mm = window.current_project.magnets.thickness_mm
     window.set_display_units("US customary")
     box = _thickness_box(window)
     assert box.suffix() == " in"
-    assert box.value() == pytest.approx(6.0 / 25.4, abs=1e-5)
+    assert box.value() == pytest.approx(thickness_mm / 25.4, abs=1e-5)  # Source: 1 in = 25.4 mm exactly (NIST SP 811)
     assert window.editor.editor("temperatures.ambient_max_C").widget.suffix() == " °F"
     assert window.current_project == project_file.load(ferrite_demo)
     qtbot.waitUntil(lambda: not window.evaluator.busy and window.current_results is not None)
@@ -215,36 +222,41 @@ def test_display_units_change_the_screen_not_the_file(open_window, qtbot, ferrit
 def test_custom_grade_can_be_chosen_and_edited(open_window, qtbot, ferrite_demo):
     window = open_window(ferrite_demo)
     picker = window.editor.grade_picker
+    library_grade = library.magnet_grades()[window.current_project.magnets.grade]
     with qtbot.waitSignal(window.results_ready, timeout=10000):
         picker.source_box.setCurrentIndex(picker.CUSTOM)
         picker.source_box.activated.emit(picker.CUSTOM)
     grade = window.current_project.magnets.custom_grade
     assert grade is not None and window.current_project.magnets.grade is None
-    assert grade.remanence_T == pytest.approx(0.385)
+    assert grade.remanence_T == pytest.approx(library_grade.remanence)
+    assert grade.coercivity_HcJ_kA_per_m == pytest.approx(from_si(library_grade.coercivity_hcj, "kA/m"))
     remanence = window.editor.editor("magnets.custom_grade.remanence_T")
     assert remanence.isVisibleTo(window)
     flux_before = window.current_results.magnetics.flux_per_pole_Wb
     with qtbot.waitSignal(window.results_ready, timeout=10000):
-        remanence.widget.setValue(0.42)
+        remanence.widget.setValue(1.05 * library_grade.remanence)
     assert window.current_results.magnetics.flux_per_pole_Wb > flux_before
     with qtbot.waitSignal(window.results_ready, timeout=10000):
         picker.source_box.setCurrentIndex(picker.LIBRARY)
         picker.source_box.activated.emit(picker.LIBRARY)
-    assert window.current_project.magnets.grade == "Y30BH"
+    assert window.current_project.magnets.grade == library_grade.name
     assert not remanence.isVisibleTo(window)
 
 
 def test_library_grade_choice_shows_its_properties(open_window, qtbot, ferrite_demo):
     window = open_window(ferrite_demo)
     picker = window.editor.grade_picker
-    assert "Y30BH" in picker.properties.text() and "kA/m" in picker.properties.text()
-    index = picker.grade_box.findData("Y35")
+    current = window.current_project.magnets.grade
+    assert current in picker.properties.text() and "kA/m" in picker.properties.text()
+    other = next(name for name, grade in library.magnet_grades().items()
+                 if grade.family == library.magnet_grades()[current].family and name != current)
+    index = picker.grade_box.findData(other)
     assert index >= 0
     with qtbot.waitSignal(window.results_ready, timeout=10000):
         picker.grade_box.setCurrentIndex(index)
         picker.grade_box.activated.emit(index)
-    assert window.current_project.magnets.grade == "Y35"
-    assert "Y35" in picker.properties.text()
+    assert window.current_project.magnets.grade == other
+    assert other in picker.properties.text()
 
 
 def test_extension_points(open_window, qtbot, ferrite_demo):
@@ -253,7 +265,7 @@ def test_extension_points(open_window, qtbot, ferrite_demo):
     window = open_window(ferrite_demo)
     page = QLabel("extra")
     index = window.add_page("Extra page", page)
-    assert window.pages.widget(index) is page and window.pages.tabText(index) == "Extra page"
+    assert window.pages.widget(index).widget() is page and window.pages.tabText(index) == "Extra page"
     received = []
     window.results_ready.connect(lambda project, results: received.append((project, results)))
     with qtbot.waitSignal(window.results_ready, timeout=10000):
