@@ -9,7 +9,10 @@ magnet and gap in series, with the magnet on its recoil line, the extra field in
     ΔH = -F_tip / (lm + μrec·g_e),   F_tip = Z·(I/a)·θm / (4π)
 
 (the standard local-load-line argument, e.g. Hanselman 2006, ch. 5, from memory), and the tip's field
-is the no-load field plus ΔH (common practice: the no-load operating point stands for the tip's).
+is the no-load field plus ΔH (common practice: the no-load operating point stands for the tip's). The
+no-load field used here is the circuit's demand with the magnet on its recoil line
+(``magnetic_circuit.solve(..., magnet_on_recoil_line=True)``): past the knee, the full curve would let
+the point slide down with it and understate how far the circuit drives the magnet.
 
 Rotor removed: the magnets face the open bore. The per-pole circuit keeps the housing and the magnet
 and replaces gap, teeth and core by an air path from the magnet's inner face round to the interpolar

@@ -482,6 +482,9 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     case_temperatures = np.array([d.ambient_min_C, d.ambient_nominal_C, magnet_C, d.ambient_min_C, d.ambient_max_C])
     exact = mc.solve(grade, case_temperatures, stacked, d.housing_steel, d.lamination_steel)
     mc.require_converged(exact, "the magnetic circuit (cold, nominal, hot or rotor removed)")
+    # What the circuit asks of the magnet, on its recoil line, for the demagnetization checks.
+    demand = mc.solve(grade, case_temperatures, stacked, d.housing_steel, d.lamination_steel, magnet_on_recoil_line=True)
+    mc.require_converged(demand, "the magnetic circuit (demagnetization demand)")
 
     # 7. Performance for the three cases.
     case_specs = (
@@ -554,7 +557,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
 
     for label, case, index in (("cold", cold, 0), ("hot", hot, 2)):
         model = models[case.name]
-        no_load_field = float(exact.magnet_field[index])
+        no_load_field = float(demand.magnet_field[index])
         stall_i = float(stall_current(model))
         back_emf = model.constant * case.no_load_speed_rad_per_s
         reversal_i = (d.supply_voltage + back_emf - d.brush_drop) / model.resistance
@@ -570,8 +573,8 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
                      "reversal", case.magnet_temperature_C, reversal_i, no_load_field)
         if d.current_limit is not None:
             add_case(f"drive current limit, {label}", "current limit", case.magnet_temperature_C, d.current_limit, no_load_field)
-    add_case("rotor removed, cold", "rotor removed", d.ambient_min_C, 0.0, float(exact.magnet_field[3]))
-    add_case("rotor removed, hot", "rotor removed", d.ambient_max_C, 0.0, float(exact.magnet_field[4]))
+    add_case("rotor removed, cold", "rotor removed", d.ambient_min_C, 0.0, float(demand.magnet_field[3]))
+    add_case("rotor removed, hot", "rotor removed", d.ambient_max_C, 0.0, float(demand.magnet_field[4]))
     worst = min(demag_cases, key=lambda c: c.margin_A_per_m)
     demagnetization = DemagnetizationResult(
         ok=all(c.ok for c in demag_cases), worst_case=worst.name,

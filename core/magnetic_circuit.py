@@ -163,19 +163,26 @@ def solve(
     circuit: PoleCircuit,
     housing_steel: Steel | None,
     lamination_steel: Steel | None,
+    magnet_on_recoil_line: bool = False,
 ) -> MagneticOperatingPoint:
     """Solve the per-pole circuit for the magnet's no-load operating point.
 
     Every argument broadcasts; one call solves a whole sweep. Elements that fail to converge are
     returned with ``converged`` False and NaN values; :func:`require_converged` turns that into an
     error with a reason.
+
+    ``magnet_on_recoil_line`` replaces the magnet's curve by its straight recoil line, B = Br + μ0·μrec·H:
+    the field the circuit then asks of the magnet is its demand, which the demagnetization checks compare
+    with the knee. (On the full curve, a point past the knee slides down with the collapsing curve and
+    no longer says how far past it the circuit drives the magnet.)
     """
     c = circuit
     curve = curve_at(grade, np.asarray(temperature_C, dtype=float))
 
     def parts(field):
         magnet_mmf = -field * c.magnet_thickness
-        magnet_flux = curve.flux_density(field) * c.magnet_area
+        magnet_b = curve.recoil_flux_density(field) if magnet_on_recoil_line else curve.flux_density(field)
+        magnet_flux = magnet_b * c.magnet_area
         housing_mmf = _drop(housing_steel, 0.5 * magnet_flux / c.housing_area, c.housing_path)
         gap_flux = magnet_flux - c.leakage_permeance * (magnet_mmf - housing_mmf)
         gap_b = gap_flux / c.gap_area
@@ -190,7 +197,11 @@ def solve(
         magnet_mmf, _, housing_mmf, _, _, gap_mmf, _, tooth_mmf, _, core_mmf = parts(field)
         return magnet_mmf - housing_mmf - gap_mmf - tooth_mmf - core_mmf
 
+    # The bracket's lower end is where the magnet's B reaches zero or below: -HcJ on the full curve;
+    # on the recoil line, which may still be positive there, its own zero crossing if that is further.
     hcj = curve.coercivity_hcj
+    if magnet_on_recoil_line:
+        hcj = np.maximum(hcj, curve.remanence / (MU_0 + curve.recoil_slope))
     shape = np.broadcast_shapes(np.shape(hcj), *(np.shape(v) for v in vars(c).values()))
     lower = np.broadcast_to(-hcj, shape)
     upper = np.zeros(shape)

@@ -19,7 +19,8 @@ coefficients as suppliers state them (IEC 60404-8-1 gives them per grade family)
 β > 0, so its knee moves toward the operating region when cold; NdFeB has β < 0 and loses its knee
 margin when hot.
 
-The knee field reported for the demagnetization checks is -Hk(T) = -squareness · HcJ(T).
+The knee reported for the demagnetization checks is the onset of irreversible loss: the field at which
+J has fallen 1 % of Br(T) below its recoil line (see ``knee_field_at``); Hk itself is kept for reference.
 """
 
 from __future__ import annotations
@@ -111,8 +112,29 @@ def model_temperature_range_C(grade: MagnetGrade) -> tuple[float, float]:
     return low, high
 
 
+#: The knee used by the demagnetization checks: where the intrinsic curve has fallen this fraction of
+#: Br(T) below its recoil line. An operating point driven there and released comes back about this much
+#: weaker. (Our definition; the trade's Hk, where J = 0.9·Br, lies further out, at about 5 % of loss for
+#: a square sintered grade, which is too late for a safety check.)
+KNEE_LOSS_FRACTION = 0.01
+
+
 def knee_field_at(grade: MagnetGrade, temperature_C):
-    """The knee, -Hk = -squareness·HcJ(T) [A/m] (negative): fields below it demagnetize irreversibly."""
+    """The knee [A/m] (negative): the field at which the intrinsic curve has fallen
+    ``KNEE_LOSS_FRACTION``·Br(T) below its recoil line, the onset of irreversible loss.
+
+    With the knee term A'·(exp((u - HcJ)/h) - exp(-HcJ/h)) of the model (A' = A/(1 - exp(-HcJ/h))),
+    u_knee = HcJ + h·ln(k·Br/A' + exp(-HcJ/h)), in closed form.
+    """
+    curve = curve_at(grade, np.asarray(temperature_C, dtype=float))
+    inverse_width, hcj_over_width, scale, shift = curve._knee_constants
+    offset = shift / scale
+    knee_depth = curve.coercivity_hcj + curve.width * np.log(KNEE_LOSS_FRACTION * curve.remanence / scale + offset)
+    return -knee_depth
+
+
+def squareness_field_at(grade: MagnetGrade, temperature_C):
+    """The trade's Hk as a field, -squareness·HcJ(T) [A/m]: where J = 0.9·Br (for reference on charts)."""
     return -grade.squareness * intrinsic_coercivity_at(grade, temperature_C)
 
 
@@ -150,6 +172,10 @@ class CurveAtTemperature:
     def flux_density(self, field_strength):
         """Normal curve B(H) = μ0·H + J(H) [T]."""
         return MU_0 * field_strength + self.polarization(field_strength)
+
+    def recoil_flux_density(self, field_strength):
+        """The straight recoil line B = Br + μ0·μrec·H [T], the curve without its knee."""
+        return self.remanence + (MU_0 + self.recoil_slope) * field_strength
 
 
 def curve_at(grade: MagnetGrade, temperature_C) -> CurveAtTemperature:

@@ -84,8 +84,9 @@ class Steel:
         """H(B) [A/m] for flux density [T]; odd, monotone, μ0 slope beyond the data."""
         inverse_step, nodes, slopes, last_b, last_h = self._uniform_lookup
         b = np.abs(flux_density)
+        clipped = np.fmin(b, last_b)  # fmin drops a NaN here, so the cast below stays valid; h stays NaN
         within = np.minimum(b, last_b) * inverse_step
-        cell = within.astype(np.intp)
+        cell = (clipped * inverse_step).astype(np.intp)
         h = nodes[cell] + (within - cell) * (slopes[cell] / inverse_step)
         # beyond the data: the slope of free space
         h = h + np.maximum(b - last_b, 0.0) / MU_0

@@ -169,9 +169,24 @@ def test_ndfeb_knee_moves_toward_the_operating_region_when_hot(name):
     assert mg.polarization(grade, field, -40.0) > 0.5 * mg.remanence_at(grade, -40.0)
 
 
-def test_knee_field_is_squareness_times_hcj():
+@pytest.mark.parametrize("name", sorted(GRADES))
+@pytest.mark.parametrize("temperature", [-30.0, 20.0, 90.0])
+def test_knee_is_where_the_curve_has_left_its_recoil_line_by_one_percent(name, temperature):
+    # By definition (core.magnets.KNEE_LOSS_FRACTION): J has fallen 1 % of Br(T) below the recoil line.
+    grade = GRADES[name]
+    knee = float(mg.knee_field_at(grade, temperature))
+    br = float(mg.remanence_at(grade, temperature))
+    recoil_line = br + mg.MU_0 * (grade.recoil_permeability - 1.0) * knee
+    assert_allclose(recoil_line - float(mg.polarization(grade, knee, temperature)), mg.KNEE_LOSS_FRACTION * br, rtol=1e-9)
+    # It comes before HcJ, and for the square sintered grades also before the trade's Hk (J = 0.9·Br).
+    assert -float(mg.intrinsic_coercivity_at(grade, temperature)) < knee < 0.0
+    if grade.squareness >= 0.85:
+        assert knee > float(mg.squareness_field_at(grade, temperature))
+
+
+def test_squareness_field_is_squareness_times_hcj():
     grade = GRADES["Y30"]
-    assert_allclose(mg.knee_field_at(grade, 60.0), -grade.squareness * mg.intrinsic_coercivity_at(grade, 60.0), rtol=1e-15)
+    assert_allclose(mg.squareness_field_at(grade, 60.0), -grade.squareness * mg.intrinsic_coercivity_at(grade, 60.0), rtol=1e-15)
 
 
 def test_model_temperature_range():
