@@ -31,7 +31,10 @@ class _Job(QRunnable):
             self.signals.done.emit(self.generation, self.project, None, str(error))
             return
         except Exception as error:  # noqa: BLE001 - the window must survive any failure of one design
-            self.signals.done.emit(self.generation, self.project, None, f"evaluation failed: {error!r}")
+            self.signals.done.emit(
+                self.generation, self.project, None,
+                f"the calculation failed on this design ({type(error).__name__}: {error}); this is a defect in "
+                "pmdc-sizer, please report it with the project file")
             return
         self.signals.done.emit(self.generation, self.project, results, "")
 
