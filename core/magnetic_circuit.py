@@ -163,7 +163,7 @@ def solve(
     circuit: PoleCircuit,
     housing_steel: Steel | None,
     lamination_steel: Steel | None,
-    magnet_on_recoil_line: bool = False,
+    magnet_on_recoil_line=False,
 ) -> MagneticOperatingPoint:
     """Solve the per-pole circuit for the magnet's no-load operating point.
 
@@ -174,14 +174,24 @@ def solve(
     ``magnet_on_recoil_line`` replaces the magnet's curve by its straight recoil line, B = Br + μ0·μrec·H:
     the field the circuit then asks of the magnet is its demand, which the demagnetization checks compare
     with the knee. (On the full curve, a point past the knee slides down with the collapsing curve and
-    no longer says how far past it the circuit drives the magnet.)
+    no longer says how far past it the circuit drives the magnet.) It may be an array of booleans that
+    broadcasts with the rest, to solve both kinds in one call.
     """
     c = circuit
     curve = curve_at(grade, np.asarray(temperature_C, dtype=float))
+    if np.ndim(magnet_on_recoil_line) == 0:
+        recoil_mask = True if bool(magnet_on_recoil_line) else None
+    else:
+        recoil_mask = np.asarray(magnet_on_recoil_line, dtype=bool)
 
     def parts(field):
         magnet_mmf = -field * c.magnet_thickness
-        magnet_b = curve.recoil_flux_density(field) if magnet_on_recoil_line else curve.flux_density(field)
+        if recoil_mask is None:
+            magnet_b = curve.flux_density(field)
+        elif recoil_mask is True:
+            magnet_b = curve.recoil_flux_density(field)
+        else:
+            magnet_b = np.where(recoil_mask, curve.recoil_flux_density(field), curve.flux_density(field))
         magnet_flux = magnet_b * c.magnet_area
         housing_mmf = _drop(housing_steel, 0.5 * magnet_flux / c.housing_area, c.housing_path)
         gap_flux = magnet_flux - c.leakage_permeance * (magnet_mmf - housing_mmf)
@@ -200,8 +210,8 @@ def solve(
     # The bracket's lower end is where the magnet's B reaches zero or below: -HcJ on the full curve;
     # on the recoil line, which may still be positive there, its own zero crossing if that is further.
     hcj = curve.coercivity_hcj
-    if magnet_on_recoil_line:
-        hcj = np.maximum(hcj, curve.remanence / (MU_0 + curve.recoil_slope))
+    if recoil_mask is not None:
+        hcj = np.where(recoil_mask, np.maximum(hcj, curve.remanence / (MU_0 + curve.recoil_slope)), hcj)
     shape = np.broadcast_shapes(np.shape(hcj), *(np.shape(v) for v in vars(c).values()))
     lower = np.broadcast_to(-hcj, shape)
     upper = np.zeros(shape)
