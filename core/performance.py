@@ -134,7 +134,7 @@ def operating_points(model: MotorModel, torque) -> OperatingPoints:
     )
 
 
-def _refined_maximum(model: MotorModel, stall: float, values_of, samples: int = 200, rounds: int = 2):
+def _refined_maximum(model: MotorModel, stall: float, values_of, samples: int = 64, rounds: int = 3):
     """Torque of the maximum of ``values_of(points)`` by a grid search refined around the best cell."""
     low, high = 0.0, stall
     best = 0.0
