@@ -75,7 +75,7 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
         view.grade_combo.setCurrentText("N42")
     assert view.results_b.magnet.name == "N42"
     table = view.figures_table
-    assert float(cell(table, row_of(table, "Br ["), 2)) > 3 * float(cell(table, row_of(table, "Br ["), 1))
+    assert float(cell(table, row_of(table, "Br ["), 2)) > 2.5 * float(cell(table, row_of(table, "Br ["), 1))  # NdFeB against ferrite
     # Each side's checks: the ferrite demo passes, N42 in its frame fails demagnetization when hot.
     checks = view.checks_table
     demag = row_of(checks, "Demagnetization")
@@ -89,11 +89,11 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
     left, right = view.curve_plots["speed_rad_per_s"].getViewBox().viewRange()[0]
     assert right == pytest.approx(3 * 35.0)  # three times the rated 35 mN·m
     view.tabs.setCurrentIndex(1)  # the magnet charts are drawn when their tab is in view
-    for side, grade in (("A", "Y30BH"), ("B", "N42")):
+    for side, grade in (("A", "Y40"), ("B", "N42")):
         assert view.magnet_titles[side].text().startswith(f"{side}: {grade}, 6 mm arcs")
         normal, _ = view.magnet_charts[side].normal_curves["nominal"].getData()
         assert len(normal) > 10
-    assert "N42" in view.curve_key.text() and "Y30BH" in view.curve_key.text()
+    assert "N42" in view.curve_key.text() and "Y40" in view.curve_key.text()
     # B follows A's edits with its own grade.
     with qtbot.waitSignal(view.comparison_updated, timeout=5000, check_params_cb=lambda c: c.b.magnet.name == "N42"
                           and view.project_b.magnets.thickness_mm == 5.0):
