@@ -52,6 +52,8 @@ class MagnetChart(QWidget):
             item.getAxis(axis).enableAutoSIPrefix(False)
             item.getAxis(axis).setTextPen("k")
             item.getAxis(axis).setPen("k")
+            # Grid lines at the labelled ticks only: the finer levels cost most of a frame to paint.
+            item.getAxis(axis).setStyle(maxTickLevel=0)
         self.legend = item.addLegend(offset=(10, 10), labelTextColor="k", brush=pg.mkBrush(255, 255, 255, 220))
         # Plain curve and scatter items (not PlotDataItem): every edit redraws them, so they must be light.
         self.normal_curves, self.intrinsic_curves, self.load_lines = {}, {}, {}

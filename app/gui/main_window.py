@@ -11,7 +11,8 @@ Extension points (names kept stable for other modules):
 ``MainWindow.current_results``
     The ``core.evaluate.Results`` of the last evaluation, or None while the design has no solution.
 ``MainWindow.results_ready``
-    Qt signal ``(project, results)`` emitted after every successful evaluation.
+    Qt signal ``(project, results)`` emitted after every successful evaluation, once the window's own
+    views show it (from the event loop, right after their paint).
 ``MainWindow.add_page(title, widget)``
     Adds a page (inside a scroll area, so its minimum size cannot squeeze the other columns) to the
     central area and returns its index.
@@ -109,6 +110,9 @@ class MainWindow(QMainWindow):
         self.remember_settings = True  #: False for screenshots: they must not touch the user's settings
         self.model = DesignModel(project if project is not None else self._default_project(), self)
         self.evaluator = Evaluator(self)
+        self._results_to_announce: list = []
+        self._announce_timer = QTimer(self, singleShot=True, interval=0)
+        self._announce_timer.timeout.connect(self._announce_results)
         self._build_central()
         self._build_actions()
         self._build_menus()
@@ -338,7 +342,15 @@ class MainWindow(QMainWindow):
         self.performance_chart.show_results(results)
         self.results_panel.show_results(results)
         self.checks_panel.show_checks(results.checks)
-        self.results_ready.emit(project, results)
+        # Listeners (other pages, exports) hear of the results after this paint, so the charts the
+        # user is looking at never wait for them.
+        self._results_to_announce.append((project, results))
+        self._announce_timer.start()
+
+    def _announce_results(self) -> None:
+        while self._results_to_announce:
+            project, results = self._results_to_announce.pop(0)
+            self.results_ready.emit(project, results)
 
     def _on_failure(self, project: Project, message: str) -> None:
         self.current_results = None

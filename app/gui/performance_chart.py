@@ -60,6 +60,8 @@ class PerformanceChart(QWidget):
                 plot.getAxis(axis).enableAutoSIPrefix(False)
                 plot.getAxis(axis).setTextPen("k")
                 plot.getAxis(axis).setPen("k")
+                # Grid lines at the labelled ticks only: the finer levels cost most of a frame to paint.
+                plot.getAxis(axis).setStyle(maxTickLevel=0)
             plot.setMenuEnabled(False)
             if first is None:
                 first = plot
