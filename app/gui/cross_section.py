@@ -203,7 +203,12 @@ class CrossSection(QWidget):
             self.scene.addItem(item)
 
     def _scale_bar(self, housing_out: float) -> None:
-        length = 10.0 if housing_out > 12 else 5.0
+        unit = self.display.screen_unit("mm")
+        if unit == "mm":
+            shown = 10.0 if housing_out > 12 else 5.0
+        else:
+            shown = 0.5 if housing_out > 15 else 0.25
+        length = float(convert(shown, unit, "mm"))
         y = -housing_out - 0.08 * housing_out
         x = -housing_out
         path = QPainterPath(QPointF(x, y))
@@ -218,7 +223,7 @@ class CrossSection(QWidget):
         pen.setCosmetic(True)
         item.setPen(pen)
         self.scene.addItem(item)
-        self._text(f"{length:g} mm", x + length + 0.8, y + 1.2)
+        self._text(f"{shown:g} {unit}", x + length + 0.8, y + 1.2)
 
     def _describe(self, g) -> None:
         unit = self.display.screen_unit("mm")

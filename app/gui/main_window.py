@@ -33,7 +33,7 @@ import os
 import sys
 from pathlib import Path
 
-from PySide6.QtCore import QEventLoop, Qt, QTimer, Signal
+from PySide6.QtCore import QEventLoop, Qt, QTimer, Signal, qInstallMessageHandler
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
 from PySide6.QtWidgets import (
     QApplication,
@@ -554,10 +554,18 @@ def render_screenshot(window: MainWindow, out: str | os.PathLike) -> None:
         raise ProjectError(f"{out}: cannot write the PNG file")
 
 
+def _quiet_offscreen_notice(mode, context, message) -> None:
+    """Drop the offscreen platform's notice about window size hints; pass everything else on."""
+    if "propagateSizeHints" not in message:
+        sys.stderr.write(message + "\n")
+
+
 def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | None = None) -> int:
     """Open the tool (or, with ``screenshot``, render it to a PNG and return)."""
     if screenshot is not None and "QT_QPA_PLATFORM" not in os.environ and QApplication.instance() is None:
         os.environ["QT_QPA_PLATFORM"] = "offscreen"
+    if screenshot is not None and QApplication.instance() is None:
+        qInstallMessageHandler(_quiet_offscreen_notice)
     project = None
     error = ""
     if file is not None:
