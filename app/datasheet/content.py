@@ -11,6 +11,7 @@ import datetime as _dt
 from dataclasses import dataclass, field
 
 from core.evaluate import Results
+from core.magnets import KNEE_LOSS_FRACTION
 from core.project import Project
 from core.units import from_si
 
@@ -238,6 +239,8 @@ def demagnetization_table(results: Results) -> Table:
     return Table(("No.", "Case", "Magnet", "Current", "Tip field", "Knee", "Margin", "Status"), tuple(rows),
                  widths=(5, 25, 9, 9, 12, 12, 12, 16), numeric_from=2, numeric_until=7, key="demagnetization",
                  caption="Margin is the field at the magnet's most exposed tip minus the knee field; positive is safe. "
+                         "The knee is where the magnet starts to lose flux for good: its intrinsic curve has fallen "
+                         f"{KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
                          "The numbers mark the cases on the magnet chart.")
 
 

@@ -68,7 +68,7 @@ class MagnetChart(QWidget):
                                             pen=pg.mkPen("w", width=1.5))
         self._case_brushes = [pg.mkBrush(colour) for colour in CASE_COLOURS.values()]
         self.knee_item = self._scatter(item, symbol="t", size=11, brush=KNEE_COLOUR, pen=None)
-        self.legend.addItem(self.knee_item, "knee (Hk) on B and J")
+        self.legend.addItem(self.knee_item, "knee: irreversible loss begins (on B and J)")
         self.legend.addItem(self.operating_item, "no-load operating point, on its load line (dotted)")
         self.safe_item = self._scatter(item, symbol="o", size=12, brush=None, pen=pg.mkPen(SAFE_COLOUR, width=2.2))
         self.legend.addItem(self.safe_item, "demagnetization case: safe")
