@@ -67,7 +67,8 @@ def speed_at_torque(model: MotorModel, torque):
     """Speed [rad/s] at shaft torque [N·m]: the closed-form root above; 0 at and beyond stall."""
     m = model
     quadratic = m.constant**2 / m.resistance + m.viscous_coeff + m.iron.eddy
-    available = m.constant * (m.voltage - m.brush_drop) / m.resistance - m.friction_torque - m.iron.hysteresis - torque
+    # the same arithmetic as stall_torque, so that at the stall torque the speed is exactly zero
+    available = (m.constant * stall_current(m) - m.friction_torque - m.iron.hysteresis) - torque
     linear = m.iron.excess
     root_s = (-linear + np.sqrt(linear**2 + 4.0 * quadratic * np.maximum(available, 0.0))) / (2.0 * quadratic)
     return root_s**2
