@@ -22,7 +22,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError
 from .magnets import MagnetGrade
 from .project import CustomGrade, ProjectError, _format_validation_error
 from .steel import Steel
-from .units import to_si
+from .units import from_si, to_si
 
 
 class SteelSpec(BaseModel):
@@ -41,26 +41,40 @@ class SteelSpec(BaseModel):
     source: str = ""
 
 
+#: File key of a grade table → field of :class:`MagnetGrade`; the unit is the schema's (core.project).
+GRADE_KEYS = {
+    "name": "name", "family": "family", "remanence_T": "remanence",
+    "coercivity_HcB_kA_per_m": "coercivity_hcb", "coercivity_HcJ_kA_per_m": "coercivity_hcj",
+    "energy_product_kJ_per_m3": "energy_product", "recoil_permeability": "recoil_permeability",
+    "squareness": "squareness", "remanence_temp_coeff_pct_per_K": "remanence_temp_coeff",
+    "coercivity_temp_coeff_pct_per_K": "coercivity_temp_coeff",
+    "max_working_temperature_C": "max_working_temperature_C", "density_kg_per_m3": "density",
+    "source": "source",
+}
+
+
+def _unit_of(key: str) -> str:
+    return (CustomGrade.model_fields[key].json_schema_extra or {}).get("unit", "")
+
+
 def grade_from_spec(spec: CustomGrade, custom: bool = False) -> MagnetGrade:
     """A :class:`MagnetGrade` in SI from the file-unit schema."""
-    grade = MagnetGrade(
-        name=spec.name,
-        family=spec.family,
-        remanence=spec.remanence_T,
-        coercivity_hcb=to_si(spec.coercivity_HcB_kA_per_m, "kA/m"),
-        coercivity_hcj=to_si(spec.coercivity_HcJ_kA_per_m, "kA/m"),
-        energy_product=to_si(spec.energy_product_kJ_per_m3, "kJ/m3"),
-        recoil_permeability=spec.recoil_permeability,
-        squareness=spec.squareness,
-        remanence_temp_coeff=to_si(spec.remanence_temp_coeff_pct_per_K, "%/K"),
-        coercivity_temp_coeff=to_si(spec.coercivity_temp_coeff_pct_per_K, "%/K"),
-        max_working_temperature_C=spec.max_working_temperature_C,
-        density=spec.density_kg_per_m3,
-        source=spec.source,
-        custom=custom,
-    )
+    values = {}
+    for key, attribute in GRADE_KEYS.items():
+        value = getattr(spec, key)
+        values[attribute] = to_si(value, _unit_of(key)) if isinstance(value, float) else value
+    grade = MagnetGrade(**values, custom=custom)
     grade.knee_width_ratio  # fails early, with the grade's name, if the curve cannot be built
     return grade
+
+
+def grade_table(grade: MagnetGrade) -> dict:
+    """The inverse of :func:`grade_from_spec`: a grade as a table in the file's units (6 figures)."""
+    table = {}
+    for key, attribute in GRADE_KEYS.items():
+        value = getattr(grade, attribute)
+        table[key] = float(f"{from_si(value, _unit_of(key)):.6g}") if isinstance(value, float) else value
+    return table
 
 
 def steel_from_spec(spec: SteelSpec) -> Steel:

@@ -33,8 +33,6 @@ from PySide6.QtWidgets import (
 from app.formatting import quantity as format_quantity
 from app.formatting import significant
 from core import library
-from core.project import CustomGrade
-from core.units import from_si
 
 from .display_units import DisplayUnits
 from .input_model import DesignModel, QuantityModel
@@ -100,17 +98,6 @@ _LABELS = {
 }
 _STEEL_KIND = {"housing.steel": "housing", "armature.steel": "lamination"}
 # The inline custom grade's keys and the library grade's fields (SI) they correspond to.
-_GRADE_FIELDS = {
-    "name": "name", "family": "family", "remanence_T": "remanence",
-    "coercivity_HcB_kA_per_m": "coercivity_hcb", "coercivity_HcJ_kA_per_m": "coercivity_hcj",
-    "energy_product_kJ_per_m3": "energy_product", "recoil_permeability": "recoil_permeability",
-    "squareness": "squareness", "remanence_temp_coeff_pct_per_K": "remanence_temp_coeff",
-    "coercivity_temp_coeff_pct_per_K": "coercivity_temp_coeff",
-    "max_working_temperature_C": "max_working_temperature_C", "density_kg_per_m3": "density",
-    "source": "source",
-}
-
-
 def label_for(key: str) -> str:
     if key in _LABELS:
         return _LABELS[key]
@@ -125,12 +112,7 @@ def label_for(key: str) -> str:
 
 def custom_grade_from_library(grade) -> dict:
     """The inline custom-grade table that reproduces a library grade, in the file's units."""
-    table = {}
-    for key, attribute in _GRADE_FIELDS.items():
-        value = getattr(grade, attribute)
-        if isinstance(value, float):
-            value = float(f"{from_si(value, CustomGrade.model_fields[key].json_schema_extra['unit']):.6g}")
-        table[key] = value
+    table = library.grade_table(grade)
     table["name"] = f"{grade.name} (custom)"[:60]
     table["source"] = (f"copied from the library grade {grade.name}; replace with certified data")[:400]
     return table

@@ -8,7 +8,7 @@ import tomli_w
 from core import library
 from core import project as pf
 from core.design import design_from_project
-from core.project import ProjectError
+from core.project import CustomGrade, ProjectError
 from core.units import to_si
 
 USER_GRADE = {
@@ -97,3 +97,11 @@ def test_resolving_a_project_names_the_key_of_a_bad_material(ferrite_demo, key, 
     with pytest.raises(ProjectError) as caught:
         design_from_project(project)
     assert caught.value.key == key and key in str(caught.value)
+
+
+def test_grade_table_is_the_inverse_of_grade_from_spec():
+    # Every library grade, written out as a file table and read back, is the same grade.
+    for name, grade in library.magnet_grades().items():
+        table = library.grade_table(grade)
+        again = library.grade_from_spec(CustomGrade.model_validate(table))
+        assert again == grade, name
