@@ -24,6 +24,7 @@ test: $(STAMP)
 bench: $(STAMP)
 	$(BIN)/python benchmarks/bench_magnetics.py
 	$(BIN)/python benchmarks/bench_evaluate.py
+	$(BIN)/python benchmarks/bench_refit.py
 	QT_QPA_PLATFORM=offscreen $(BIN)/python benchmarks/bench_gui_latency.py
 
 clean:
