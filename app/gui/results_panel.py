@@ -48,7 +48,8 @@ def _case_rows(f: Figures):
         ("Winding temperature", lambda c: f(c.winding_temperature_C, "°C")),
         ("No-load speed", lambda c: f(c.no_load_speed_rad_per_s, "rpm")),
         ("No-load current", lambda c: f(c.no_load_current_A, "A")),
-        ("Stall torque", lambda c: f(c.stall_torque_N_m, "mN·m")),
+        # N·m once the stall torque reaches 10 N·m, so big motors' figures fit their column
+        ("Stall torque", lambda c: f(c.stall_torque_N_m, "N·m" if c.stall_torque_N_m >= 10.0 else "mN·m")),
         ("Stall current", lambda c: f(c.stall_current_A, "A")),
         ("Speed at rated torque", lambda c: f(c.rated.speed_rad_per_s, "rpm") if c.rated_reached else "stalls"),
         ("Current at rated torque", lambda c: f(c.rated.current_A, "A")),
