@@ -129,8 +129,9 @@ def run_checks(design, results) -> list[Check]:
     duty = "steady state (S1)" if t.duty == "S1" else f"after {t.duty_minutes:g} min (S2)"
     if not t.converged:
         out.append(Check("thermal", "Winding temperature", FAIL,
-                         f"no thermal steady state at the rated load and {t.ambient_C:g} °C ambient: the losses grow "
-                         "faster than the heat can leave (or the hot motor stalls); the hot case is shown at the "
+                         f"no usable thermal steady state at the rated load and {t.ambient_C:g} °C ambient: the losses grow "
+                         "faster than the heat can leave, the hot motor stalls, or the magnets would pass the "
+                         "temperature their data hold to; the hot case is shown at the "
                          f"class limit of {t.insulation_limit_C:.0f} °C.",
                          "lower the rated load or the winding resistance, or improve the cooling"))
     elif t.winding_temperature_C > t.insulation_limit_C:

@@ -476,6 +476,10 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         for name in vars(circuit)
     })
     runaway_winding_C = None
+    if magnet_C >= model_high_C:
+        # The magnets would pass the temperature up to which their data mean anything: no usable
+        # steady state either.
+        converged = False
     if not converged:
         # No steady state (thermal runaway, or the rated load stalls the hot motor): the temperatures
         # the loop stopped at mean nothing. The hot case is then shown at the insulation class limit,
@@ -487,9 +491,8 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         winding_C = max(w.insulation_limit_C, ambient)
         housing_C = magnet_C = ambient + share * (winding_C - ambient)
     if magnet_C >= model_high_C:
-        # Past the point where the grade's coefficients mean anything: evaluate at the model's edge.
+        # Even at the class limit: evaluate at the model's edge.
         magnet_C = model_high_C
-        converged = False
     case_temperatures = np.array([d.ambient_min_C, d.ambient_nominal_C, magnet_C, d.ambient_min_C, d.ambient_max_C])
     # One call: the five points on the magnet's full curve, then the same five with the magnet on its
     # recoil line, which is what the circuit asks of it (the demand the demagnetization checks use).

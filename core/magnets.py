@@ -100,16 +100,24 @@ def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C):
     )
 
 
+@lru_cache(maxsize=256)
 def model_temperature_range_C(grade: MagnetGrade) -> tuple[float, float]:
-    """Temperatures between which the linear reversible coefficients keep Br and HcJ above a quarter of
-    their 20 °C values; beyond them the model says nothing useful (our bound)."""
-    low, high = -273.0, 1000.0
-    for coefficient in (grade.remanence_temp_coeff, grade.coercivity_temp_coeff):
-        if coefficient < 0.0:
-            high = min(high, REFERENCE_TEMPERATURE_C - 0.75 / coefficient)
-        elif coefficient > 0.0:
-            low = max(low, REFERENCE_TEMPERATURE_C - 0.75 / coefficient)
-    return low, high
+    """Temperatures between which the curve model means something (our bound): the linear reversible
+    coefficients keep Br and HcJ above a quarter of their 20 °C values, and the recoil line still
+    stands clear of zero at -HcJ (A = Br - μ0·(μrec - 1)·HcJ at least 5 % of Br), so the knee exists."""
+    temperatures = np.arange(-273.0, 1000.5, 0.5)
+    br = remanence_at(grade, temperatures)
+    hcj = intrinsic_coercivity_at(grade, temperatures)
+    amplitude = br - MU_0 * (grade.recoil_permeability - 1.0) * hcj
+    valid = (br > 0.25 * grade.remanence) & (hcj > 0.25 * grade.coercivity_hcj) & (amplitude > 0.05 * br)
+    reference = int(np.searchsorted(temperatures, REFERENCE_TEMPERATURE_C))
+    low_index = reference
+    while low_index > 0 and valid[low_index - 1]:
+        low_index -= 1
+    high_index = reference
+    while high_index < temperatures.size - 1 and valid[high_index + 1]:
+        high_index += 1
+    return float(temperatures[low_index]), float(temperatures[high_index])
 
 
 #: The knee used by the demagnetization checks: where the intrinsic curve has fallen this fraction of
