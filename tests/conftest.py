@@ -12,7 +12,7 @@ from hypothesis import settings
 # Property tests draw the same examples on every run, so CI cannot turn red by chance; widen the search
 # locally with HYPOTHESIS_PROFILE=explore.
 settings.register_profile("repeatable", derandomize=True, deadline=None)
-settings.register_profile("explore", deadline=None, max_examples=400)
+settings.register_profile("explore", deadline=None, max_examples=300)
 settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "repeatable"))
 
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")

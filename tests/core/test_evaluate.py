@@ -270,7 +270,7 @@ def _perturbed(base: pf.Project, draw, grades) -> pf.Project:
 
 FERRITE_GRADES = sorted(n for n, g in library.magnet_grades().items() if g.family.startswith("hard ferrite"))
 NDFEB_GRADES = sorted(n for n, g in library.magnet_grades().items() if g.family == "sintered NdFeB")
-_PROPERTY = settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.filter_too_much, HealthCheck.too_slow])
+_PROPERTY = settings(max_examples=40 if settings().max_examples <= 100 else settings().max_examples, deadline=None, suppress_health_check=[HealthCheck.filter_too_much, HealthCheck.too_slow])
 
 
 @st.composite
