@@ -22,7 +22,7 @@ from pathlib import Path
 from typing import Any, Iterator, Literal, Optional
 
 import tomli_w
-from pydantic import BaseModel, ConfigDict, Field, ValidationError
+from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
 
 FORMAT_VERSION = 1
 
@@ -59,6 +59,19 @@ class ProjectInfo(_Section):
     name: str = Field("Untitled motor", min_length=1, max_length=120, description="Name of the design, shown on the datasheet.")
     description: str = Field("", max_length=2000, description="What the motor is for, in a sentence or two.")
     revision: str = Field("A", min_length=1, max_length=20, description="Design revision shown on the datasheet.")
+    revision_date: Optional[str] = Field(None, pattern=r"^\d{4}-\d{2}-\d{2}$", description="Date of this revision as YYYY-MM-DD, shown on the datasheet; leave out to show none.")
+
+    @field_validator("revision_date")
+    @classmethod
+    def _is_a_calendar_date(cls, value):
+        if value is not None:
+            import datetime
+
+            try:
+                datetime.date.fromisoformat(value)
+            except ValueError:
+                raise ValueError("is not a calendar date (YYYY-MM-DD)") from None
+        return value
     notes: str = Field("", max_length=4000, description="Free notes printed on the datasheet.")
 
 
@@ -282,7 +295,9 @@ def _format_validation_error(error: ValidationError) -> ProjectError:
         return ProjectError(f"{path}: unknown key (check the spelling; see docs/project-file.md)", key=path)
     if kind == "missing":
         return ProjectError(f"{path}: required key is missing", key=path)
-    message = first["msg"]
+    message = first["msg"].removeprefix("Value error, ")
+    if kind == "string_pattern_mismatch" and path.endswith("_date"):
+        message = "is not a date written YYYY-MM-DD"
     try:
         spec = key_spec(path)
     except ProjectError:

@@ -361,7 +361,9 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
     """The complete datasheet content of one evaluated design."""
     r = results
     info = project.project
-    issued = issued or _dt.date.today()
+    # The sheet is issued on its revision's date when the project gives one, else on the day of export.
+    if issued is None:
+        issued = _dt.date.fromisoformat(info.revision_date) if info.revision_date else _dt.date.today()
     magnet_grade, operating_points = magnet_tables(r)
     winding, mass, cost = build_tables(project, r)
     notes = info.notes.strip()

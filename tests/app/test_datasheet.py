@@ -374,3 +374,12 @@ def test_rated_load_beyond_stall_says_so(ferrite, tmp_path):
     text = _squash(" ".join(root.itertext()))
     assert "Speed stalls stalls stalls" in text
     assert "This design fails" in text and "Rated load" in text
+
+
+def test_sheet_is_issued_on_the_revision_date_when_the_project_gives_one(ferrite_demo):
+    from app.datasheet.content import build
+    from core import project as pf
+    from core.evaluate import evaluate
+
+    dated = pf.with_values(pf.load(ferrite_demo), {"project.revision_date": "2026-11-20"})
+    assert build(dated, evaluate(dated)).issued == "2026-11-20"

@@ -335,3 +335,17 @@ def test_overrides_reach_into_an_inline_custom_grade(tmp_path):
     assert changed.magnets.custom_grade.coercivity_HcJ_kA_per_m == 260.0
     with pytest.raises(ProjectError, match="magnets.custom_grade.coercivity_HcB_kA_per_m"):
         pf.apply_overrides(project, ["magnets.custom_grade.coercivity_HcB_kA_per_m=300"])  # above HcJ
+
+
+@pytest.mark.parametrize("value, words", [("2026-02-30", "calendar date"), ("yesterday", "YYYY-MM-DD"),
+                                          ("2026-1-5", "YYYY-MM-DD")])
+def test_revision_date_must_be_a_calendar_date(ferrite_demo, value, words):
+    with pytest.raises(ProjectError) as error:
+        pf.with_values(pf.load(ferrite_demo), {"project.revision_date": value})
+    assert str(error.value).startswith("project.revision_date") and words in str(error.value)
+
+
+def test_revision_date_round_trips(ferrite_demo, tmp_path):
+    dated = pf.with_values(pf.load(ferrite_demo), {"project.revision_date": "2026-11-20"})
+    pf.save(dated, tmp_path / "dated.toml")
+    assert pf.load(tmp_path / "dated.toml").project.revision_date == "2026-11-20"
