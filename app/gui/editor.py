@@ -318,7 +318,8 @@ class FieldEditor(QWidget):
     def _on_text(self) -> None:
         text = self.widget.text().strip()
         if text != (self.field.value or ""):
-            self.field.propose(text, final=True)
+            # an emptied optional text (a revision date) removes the key rather than failing its pattern
+            self.field.propose(None if not text and self.field.spec.optional else text, final=True)
 
 
 class Section(QWidget):

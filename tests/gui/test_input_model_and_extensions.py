@@ -79,3 +79,16 @@ def test_about_box_is_shown_with_the_cautions(open_window, ferrite_demo, monkeyp
     monkeypatch.setattr(QMessageBox, "about", staticmethod(lambda parent, title, text: shown.append(text)))
     window.about_action.trigger()
     assert shown and "implanted medical device" in shown[0] and "licensed" in shown[0]
+
+
+def test_an_optional_text_can_be_set_and_emptied(ferrite_demo):
+    # The revision date is optional text: a date sets it, an empty field removes it again.
+    from app.gui.input_model import DesignModel
+    from core import project as pf
+
+    model = DesignModel(pf.load(ferrite_demo))
+    assert model.propose("project.revision_date", "2026-11-20", final=True)
+    assert model.project.project.revision_date == "2026-11-20"
+    assert model.propose("project.revision_date", None, final=True)
+    assert model.project.project.revision_date is None
+    assert not model.propose("project.revision_date", "", final=True)  # what an emptied field would send
