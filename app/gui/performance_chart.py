@@ -17,7 +17,7 @@ from app.formatting import significant
 from core.units import from_si
 
 from .display_units import DisplayUnits
-from .style import CASE_COLOURS
+from .style import CASE_COLOURS, LIMIT_COLOUR
 
 # (attribute of CurveData and PointResult, title, unit)
 QUANTITIES = (
@@ -51,6 +51,7 @@ class PerformanceChart(QWidget):
         self.marks: dict[str, pg.ScatterPlotItem] = {}  #: per quantity: every case's marked points
         self.cursors: list[pg.InfiniteLine] = []
         self.rated_lines: list[pg.InfiniteLine] = []
+        self.limit_lines: list[pg.InfiniteLine] = []  # torque at the drive's current limit, when it has one
         first = None
         for index, (attribute, title, unit) in enumerate(QUANTITIES):
             plot = self.canvas.addPlot(row=index // 2, col=index % 2)
@@ -78,6 +79,10 @@ class PerformanceChart(QWidget):
             rated = pg.InfiniteLine(angle=90, pen=pg.mkPen("#777", width=1, style=Qt.PenStyle.DashLine))
             plot.addItem(rated, ignoreBounds=True)
             self.rated_lines.append(rated)
+            limit = pg.InfiniteLine(angle=90, pen=pg.mkPen(LIMIT_COLOUR, width=1.4, style=Qt.PenStyle.DashDotLine))
+            limit.hide()
+            plot.addItem(limit, ignoreBounds=True)
+            self.limit_lines.append(limit)
             cursor = pg.InfiniteLine(angle=90, pen=pg.mkPen("#000", width=1))
             cursor.hide()
             plot.addItem(cursor, ignoreBounds=True)
@@ -91,7 +96,8 @@ class PerformanceChart(QWidget):
             "".join(f"<span style='color:{colour}'>━━ {case}</span>&nbsp;&nbsp;&nbsp;" for case, colour in CASE_COLOURS.items())
             + "&nbsp;&nbsp;★ rated point&nbsp;&nbsp;&nbsp;◆ maximum efficiency&nbsp;&nbsp;&nbsp;■ maximum output power"
             "&nbsp;&nbsp;&nbsp;<b>+</b> required: rated torque at this speed or faster&nbsp;&nbsp;&nbsp;"
-            "<span style='color:#777'>┆ rated torque</span>")
+            "<span style='color:#777'>┆ rated torque</span>&nbsp;&nbsp;&nbsp;"
+            f"<span style='color:{LIMIT_COLOUR}'>┆ drive current limit (nominal case)</span>")
         self.key.setObjectName("performance_key")
         self.key.setWordWrap(True)
         self.key.setStyleSheet("padding: 2px 4px;")
@@ -139,6 +145,13 @@ class PerformanceChart(QWidget):
         for line in self.rated_lines:
             line.setValue(load_torque)
         self.required_mark.setData([load_torque], [from_si(results.load_speed_rad_per_s, "rpm")])
+        limit_torque = results.nominal.current_limit_torque_N_m
+        for line in self.limit_lines:
+            if limit_torque is None:
+                line.hide()
+            else:
+                line.setValue(from_si(limit_torque, torque_unit))
+                line.show()
         highest_stall = max(from_si(c.stall_torque_N_m, torque_unit) for c in results.cases)
         x_range = (0.0, highest_stall * 1.02)
         if self._x_range is None or abs(self._x_range[1] - x_range[1]) > 1e-3 * x_range[1]:

@@ -11,6 +11,7 @@ SAFE_COLOUR = "#1b7f3b"
 PAST_KNEE_COLOUR = "#c0137a"
 WARNING_COLOUR = "#b7791f"
 KNEE_COLOUR = "#111111"
+LIMIT_COLOUR = "#6b3fa0"  # the drive's current limit on the performance chart
 STATUS_COLOURS = {"pass": SAFE_COLOUR, "warning": WARNING_COLOUR, "fail": PAST_KNEE_COLOUR}
 STATUS_MARKS = {"pass": "✔", "warning": "▲", "fail": "✖"}
 STATUS_WORDS = {"pass": "OK", "warning": "Watch", "fail": "Fails"}

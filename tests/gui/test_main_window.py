@@ -294,3 +294,16 @@ def test_about_text_carries_the_safety_cautions():
     for phrase in ("pinch", "shatter", "medical device", "stalled motor overheats", "burn", "confirm", "local codes",
                    "licensed"):
         assert phrase in text
+
+
+def test_drive_current_limit_is_marked_on_the_performance_chart(open_window, qtbot, ndfeb_demo, ferrite_demo):
+    # The scooter demo's drive limits the current: its torque there is drawn on every plot.
+    window = open_window(ndfeb_demo)
+    chart = window.performance_chart
+    limit = window.current_results.nominal.current_limit_torque_N_m
+    assert limit is not None
+    assert all(line.isVisible() and line.value() == pytest.approx(from_si(limit, chart.torque_unit))
+               for line in chart.limit_lines)
+    # The ferrite demo's plain supply has no limit, and no line.
+    plain = open_window(ferrite_demo)
+    assert not any(line.isVisible() for line in plain.performance_chart.limit_lines)
