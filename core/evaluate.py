@@ -329,6 +329,14 @@ class Results:
 _GRID_POINTS = 24  # temperatures at which the thermal iteration reads the flux
 
 
+def _stacked(parts) -> mc.PoleCircuit:
+    """One circuit of arrays from (circuit, copies) pairs, in order."""
+    return mc.PoleCircuit(**{
+        name: np.concatenate([np.broadcast_to(getattr(c, name), (copies,)) for c, copies in parts])
+        for name in vars(parts[0][0])
+    })
+
+
 def _select(point: mc.MagneticOperatingPoint, index) -> mc.MagneticOperatingPoint:
     """Part of a batch solution, as a solution of its own."""
     values = {}
@@ -471,10 +479,6 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
 
     # 3b. Exact magnetic solves at the hot magnet temperature and for the rotor removed.
     open_circuit = rotor_removed_circuit(g, circuit)
-    stacked = mc.PoleCircuit(**{
-        name: np.concatenate((np.broadcast_to(getattr(circuit, name), (3,)), np.broadcast_to(getattr(open_circuit, name), (2,))))
-        for name in vars(circuit)
-    })
     runaway_winding_C = None
     if magnet_C >= model_high_C:
         # The magnets would pass the temperature up to which their data mean anything: no usable
@@ -494,11 +498,12 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         # Even at the class limit: evaluate at the model's edge.
         magnet_C = model_high_C
     case_temperatures = np.array([d.ambient_min_C, d.ambient_nominal_C, magnet_C, d.ambient_min_C, d.ambient_max_C])
-    # One call: the five points on the magnet's full curve, then the same five with the magnet on its
-    # recoil line, which is what the circuit asks of it (the demand the demagnetization checks use).
+    # One call: the five points (rotor in at cold, nominal, hot; rotor out at cold, hot) on the magnet's
+    # full curve, then the same five with the magnet on its recoil line, which is what the circuit asks
+    # of it (the demand the demagnetization checks use).
+    five_points = ((circuit, 3), (open_circuit, 2))
     both = mc.solve(
-        grade, np.concatenate((case_temperatures, case_temperatures)),
-        mc.PoleCircuit(**{name: np.concatenate((np.broadcast_to(value, (5,)),) * 2) for name, value in vars(stacked).items()}),
+        grade, np.concatenate((case_temperatures, case_temperatures)), _stacked(five_points * 2),
         d.housing_steel, d.lamination_steel, magnet_on_recoil_line=np.repeat([False, True], 5),
     )
     mc.require_converged(both, "the magnetic circuit (cold, nominal, hot or rotor removed)")
@@ -580,16 +585,17 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         stall_i = float(stall_current(model))
         back_emf = model.constant * case.no_load_speed_rad_per_s
         reversal_i = (d.supply_voltage + back_emf - d.brush_drop) / model.resistance
-        limited = ""
         if d.current_limit is not None:
             # The drive holds the current at its limit whatever the load asks for.
-            limited = " (drive-limited)" if min(stall_i, reversal_i) > d.current_limit else ""
             stall_i, reversal_i = min(stall_i, d.current_limit), min(reversal_i, d.current_limit)
-        add_case(f"stall, {label}" + (" (drive-limited)" if limited and stall_i == d.current_limit else ""),
-                 "stall", case.magnet_temperature_C, stall_i, no_load_field)
+
+        def limited(current):
+            return " (drive-limited)" if current == d.current_limit else ""
+
+        add_case(f"stall, {label}{limited(stall_i)}", "stall", case.magnet_temperature_C, stall_i, no_load_field)
         if d.reversing:
-            add_case(f"reversal at no-load speed, {label}" + (" (drive-limited)" if d.current_limit is not None and reversal_i == d.current_limit else ""),
-                     "reversal", case.magnet_temperature_C, reversal_i, no_load_field)
+            add_case(f"reversal at no-load speed, {label}{limited(reversal_i)}", "reversal",
+                     case.magnet_temperature_C, reversal_i, no_load_field)
         if d.current_limit is not None:
             add_case(f"drive current limit, {label}", "current limit", case.magnet_temperature_C, d.current_limit, no_load_field)
     add_case("rotor removed, cold", "rotor removed", d.ambient_min_C, 0.0, float(demand.magnet_field[3]))

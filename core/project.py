@@ -13,10 +13,12 @@ writes a temporary file in the same folder and renames it over the target.
 
 from __future__ import annotations
 
+import datetime
 import math
 import os
 import tempfile
 import tomllib
+import typing
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Iterator, Literal, Optional
@@ -65,8 +67,6 @@ class ProjectInfo(_Section):
     @classmethod
     def _is_a_calendar_date(cls, value):
         if value is not None:
-            import datetime
-
             try:
                 datetime.date.fromisoformat(value)
             except ValueError:
@@ -236,8 +236,6 @@ class KeySpec:
 
 
 def _spec_of(path: str, info) -> KeySpec:
-    import typing
-
     annotation = info.annotation
     optional = False
     origin = typing.get_origin(annotation)
@@ -516,8 +514,6 @@ def with_values(project: Project, changes: dict[str, Any]) -> Project:
                     node[part] = value
             else:
                 annotation = fields[part].annotation
-                import typing
-
                 if typing.get_origin(annotation) is typing.Union:
                     annotation = next(a for a in typing.get_args(annotation) if a is not type(None))
                 model = annotation
