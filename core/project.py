@@ -61,7 +61,8 @@ class ProjectInfo(_Section):
     name: str = Field("Untitled motor", min_length=1, max_length=120, description="Name of the design, shown on the datasheet.")
     description: str = Field("", max_length=2000, description="What the motor is for, in a sentence or two.")
     revision: str = Field("A", min_length=1, max_length=20, description="Design revision shown on the datasheet.")
-    revision_date: Optional[str] = Field(None, pattern=r"^\d{4}-\d{2}-\d{2}$", description="Date of this revision as YYYY-MM-DD, shown on the datasheet; leave out to show none.")
+    revision_date: Optional[str] = Field(None, pattern=r"^\d{4}-\d{2}-\d{2}$", description="Date of this revision as YYYY-MM-DD, shown on the datasheet as its issue date; leave out to use the export date.")
+    notes: str = Field("", max_length=4000, description="Free notes printed on the datasheet.")
 
     @field_validator("revision_date")
     @classmethod
@@ -72,7 +73,6 @@ class ProjectInfo(_Section):
             except ValueError:
                 raise ValueError("is not a calendar date (YYYY-MM-DD)") from None
         return value
-    notes: str = Field("", max_length=4000, description="Free notes printed on the datasheet.")
 
 
 class Supply(_Section):
