@@ -16,9 +16,9 @@ import sys
 import tempfile
 from pathlib import Path
 
-from core import project as project_file
-from core.magnetic_circuit import MagneticCircuitError
-from core.project import ProjectError
+from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
+from pmdc_sizer.core.project import ProjectError
 
 EXIT_BAD_INPUT = 2
 EXIT_NO_SOLUTION = 1
@@ -40,7 +40,7 @@ def load_project(path: str, overrides: list[str] | None = None):
 
 
 def evaluate_project(project):
-    from core.evaluate import evaluate
+    from pmdc_sizer.core.evaluate import evaluate
 
     return evaluate(project)
 
@@ -97,8 +97,8 @@ def cmd_evaluate(args) -> int:
 
 
 def cmd_grades(args) -> int:
-    from core import library
-    from core.units import from_si
+    from pmdc_sizer.core import library
+    from pmdc_sizer.core.units import from_si
 
     grades = library.magnet_grades()
     if args.json:
@@ -145,7 +145,7 @@ CURVE_COLUMNS = (
 
 def curves_csv(results, cases=("cold", "nominal", "hot")) -> str:
     """The speed-torque tables of the chosen cases as CSV; the header names every unit."""
-    from core.units import from_si
+    from pmdc_sizer.core.units import from_si
 
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\n")
@@ -218,7 +218,7 @@ def build_parser() -> argparse.ArgumentParser:
 def _extensions():
     """Subcommands that live in their own modules (compare, datasheet)."""
     registrations = []
-    for module_name in ("app.cli_compare", "app.cli_datasheet"):
+    for module_name in ("pmdc_sizer.app.cli_compare", "pmdc_sizer.app.cli_datasheet"):
         try:
             module = __import__(module_name, fromlist=["register"])
         except ModuleNotFoundError as error:

@@ -11,8 +11,8 @@ from __future__ import annotations
 
 import json
 
-from core import compare
-from core.units import from_si
+from pmdc_sizer.core import compare
+from pmdc_sizer.core.units import from_si
 
 from .cli import EXIT_NO_SOLUTION, CommandError, evaluate_project, load_project
 from .compare_text import check_lines, figure_rows, refit_lines, table_lines

@@ -9,8 +9,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from core.compare import Comparison, Refit
-from core.units import from_si
+from pmdc_sizer.core.compare import Comparison, Refit
+from pmdc_sizer.core.units import from_si
 
 from .formatting import significant
 
@@ -95,7 +95,7 @@ def parameter_text(value, unit: str) -> str:
 
 def refit_lines(fit: Refit) -> list[str]:
     """The re-fit in sentences: what changed, how close it came, and what it costs against A."""
-    from core.project import key_spec
+    from pmdc_sizer.core.project import key_spec
 
     lines = [fit.message if fit.reached else f"Out of reach: {fit.message}"]
     for change in fit.changes:

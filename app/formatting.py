@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 
-from core.units import factor, from_si
+from pmdc_sizer.core.units import factor, from_si
 
 
 def significant(value: float, digits: int = 3) -> str:

@@ -1,20 +1,20 @@
 """Writes docs/project-file.md from the schema, so the key table can never drift from the validator.
 
-    python -m app.project_docs > docs/project-file.md
+    python -m pmdc_sizer.app.project_docs > docs/project-file.md
 """
 
 from __future__ import annotations
 
 import sys
 
-from core.project import FORMAT_VERSION, key_specs
+from pmdc_sizer.core.project import FORMAT_VERSION, key_specs
 
 _INTRO = f"""# The project file (format version {FORMAT_VERSION})
 
 A project file is TOML: one complete motor design in plain text, with comments and clean diffs. Every
 key carries its unit in its name (`thickness_mm`, `voltage_V`, `torque_mNm`); the table below gives each
 key's unit, allowed range, default and meaning. It is generated from the schema in `core/project.py`
-(`python -m app.project_docs > docs/project-file.md`), which is also what validates files, builds the
+(`python -m pmdc_sizer.app.project_docs > docs/project-file.md`), which is also what validates files, builds the
 editor in the desktop tool and checks `--set` on the command line.
 
 Rules:

@@ -13,8 +13,8 @@ import math
 
 import numpy as np
 
-from core.evaluate import CaseResult, Results
-from core.units import from_si
+from pmdc_sizer.core.evaluate import CaseResult, Results
+from pmdc_sizer.core.units import from_si
 
 _SPEED_SUFFIX = "_rad_per_s"
 

@@ -15,7 +15,7 @@ the result then holds B at the nearest limit and a sentence saying what B would 
 
 Usage::
 
-    from core import compare, evaluate, project
+    from pmdc_sizer.core import compare, evaluate, project
     a = project.load("demo_projects/appliance_ferrite_12v.toml")
     b = compare.with_grade(a, "N42")
     fit = compare.refit("ke", evaluate.evaluate(a), b)

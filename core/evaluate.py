@@ -13,7 +13,7 @@
 
 Usage from a Python session or notebook::
 
-    from core import project, evaluate
+    from pmdc_sizer.core import project, evaluate
     design = project.load("demo_projects/appliance_ferrite_12v.toml")
     thinner = project.with_values(design, {"magnets.thickness_mm": 4.0})
     results = evaluate.evaluate(thinner)

@@ -4,7 +4,7 @@ Each swept value is validated like a file (so a sweep never computes a motor who
 the resulting cross-sections are stacked into one :class:`~core.geometry.Geometry` of arrays, and the
 circuit is solved once for all of them::
 
-    from core import project, sweep
+    from pmdc_sizer.core import project, sweep
     design = project.load("demo_projects/appliance_ferrite_12v.toml")
     points = sweep.magnetics_sweep(design, "magnets.thickness_mm", [4, 5, 6, 7, 8])
     points.airgap_flux_density   # one value per thickness [T]

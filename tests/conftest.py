@@ -24,7 +24,7 @@ DEMO_FILES = sorted(DEMO_FOLDER.glob("*.toml"))
 
 @pytest.fixture(autouse=True)
 def _isolated_user_library(tmp_path_factory, monkeypatch):
-    from core import library
+    from pmdc_sizer.core import library
 
     folder = tmp_path_factory.mktemp("user_library")
     monkeypatch.setenv("PMDC_SIZER_LIBRARY", str(folder))

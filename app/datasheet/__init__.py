@@ -1,6 +1,6 @@
 """The design datasheet: PDF and HTML for the customer, test and purchasing; charts as PNG and SVG.
 
-    from app import datasheet
+    from pmdc_sizer.app import datasheet
     datasheet.export(project, results, "motor.pdf")          # or .html
     datasheet.write_charts(results, "charts/", "motor")      # motor_performance.png/.svg, motor_magnet.png/.svg
 
@@ -14,8 +14,8 @@ import datetime as _dt
 import os
 from pathlib import Path
 
-from core.evaluate import Results
-from core.project import Project
+from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.project import Project
 
 from ..cli import CommandError, atomic_output, write_text_atomically
 

@@ -19,8 +19,8 @@ from PySide6.QtCore import QByteArray, QBuffer, QIODevice, QPointF, QRectF, QSiz
 from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF, QImage, QPainter, QPainterPath, QPen, QPolygonF
 from PySide6.QtSvg import QSvgGenerator
 
-from core.evaluate import Results
-from core.units import from_si
+from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.units import from_si
 
 CANVAS_WIDTH = 1000.0
 PERFORMANCE_ASPECT = 0.78  #: height over width of the performance chart

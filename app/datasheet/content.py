@@ -10,10 +10,10 @@ from __future__ import annotations
 import datetime as _dt
 from dataclasses import dataclass, field
 
-from core.evaluate import Results
-from core.magnets import KNEE_LOSS_FRACTION
-from core.project import Project
-from core.units import from_si
+from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.magnets import KNEE_LOSS_FRACTION
+from pmdc_sizer.core.project import Project
+from pmdc_sizer.core.units import from_si
 
 from ..formatting import money, percent, quantity as q, ratio, significant, temperature
 from .charts import demagnetization_point_labels, torque_unit

@@ -35,13 +35,13 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.compare_text import figure_rows, parameter_text, refit_lines
-from app.formatting import significant
-from core import compare, library
-from core import project as project_file
-from core.magnetic_circuit import MagneticCircuitError
-from core.project import ProjectError
-from core.units import from_si
+from pmdc_sizer.app.compare_text import figure_rows, parameter_text, refit_lines
+from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.core import compare, library
+from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
+from pmdc_sizer.core.project import ProjectError
+from pmdc_sizer.core.units import from_si
 
 from .evaluation import Evaluator
 from .magnet_chart import MagnetChart

@@ -23,8 +23,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.formatting import significant
-from core.units import convert, from_si
+from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.core.units import convert, from_si
 
 from .display_units import DisplayUnits
 from .style import COPPER_FILL, HOUSING_FILL, LAMINATION_FILL, NORTH_FILL, SHAFT_FILL, SOUTH_FILL

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 
-from core.units import US_CUSTOMARY, convert
+from pmdc_sizer.core.units import US_CUSTOMARY, convert
 
 # Results stay in watts in both systems: horsepower for a 20 W motor reads worse than watts.
 _KEEP_IN_US = {"W"}

@@ -30,9 +30,9 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.formatting import quantity as format_quantity
-from app.formatting import significant
-from core import library
+from pmdc_sizer.app.formatting import quantity as format_quantity
+from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.core import library
 
 from .display_units import DisplayUnits
 from .input_model import DesignModel, QuantityModel

@@ -9,9 +9,9 @@ from __future__ import annotations
 
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
 
-from core.evaluate import evaluate
-from core.magnetic_circuit import MagneticCircuitError
-from core.project import Project, ProjectError
+from pmdc_sizer.core.evaluate import evaluate
+from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
+from pmdc_sizer.core.project import Project, ProjectError
 
 
 class _Signals(QObject):

@@ -24,8 +24,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app import datasheet
-from app.cli import CommandError, curves_csv, write_text_atomically
+from pmdc_sizer.app import datasheet
+from pmdc_sizer.app.cli import CommandError, curves_csv, write_text_atomically
 
 PREVIEW_DPI = 80.0
 

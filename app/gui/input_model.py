@@ -25,8 +25,8 @@ from typing import Any
 from PySide6.QtCore import QObject, QTimer, Signal
 from PySide6.QtGui import QUndoCommand, QUndoStack
 
-from core.design import design_from_project
-from core.project import KeySpec, Project, ProjectError, get_value, key_specs, with_values
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.project import KeySpec, Project, ProjectError, get_value, key_specs, with_values
 
 COMMIT_AFTER_IDLE_MS = 500  #: a drag that pauses this long becomes an undo step
 MERGE_WINDOW_S = 2.0  #: commits of one key this close together are one undo step

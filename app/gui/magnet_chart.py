@@ -15,8 +15,8 @@ from PySide6.QtCore import Qt
 from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget
 
-from app.formatting import significant
-from core.units import from_si
+from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.core.units import from_si
 
 from .style import CASE_COLOURS, KNEE_COLOUR, PAST_KNEE_COLOUR, SAFE_COLOUR
 

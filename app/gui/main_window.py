@@ -48,9 +48,9 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from core import project as project_file
-from core.design import design_from_project
-from core.project import Project, ProjectError
+from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.project import Project, ProjectError
 
 from .cross_section import CrossSection
 from .display_units import DisplayUnits

@@ -13,8 +13,8 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 
-from app.formatting import significant
-from core.units import from_si
+from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.core.units import from_si
 
 from .display_units import DisplayUnits
 from .style import CASE_COLOURS, LIMIT_COLOUR

@@ -19,8 +19,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.formatting import percent, significant
-from app.formatting import quantity as format_quantity
+from pmdc_sizer.app.formatting import percent, significant
+from pmdc_sizer.app.formatting import quantity as format_quantity
 
 from .display_units import DisplayUnits
 from .style import CASE_COLOURS, PAST_KNEE_COLOUR, SAFE_COLOUR, STATUS_COLOURS, STATUS_MARKS, STATUS_WORDS, WARNING_COLOUR
@@ -35,7 +35,7 @@ class Figures:
     def __call__(self, value_si, unit: str, digits: int = 3) -> str:
         shown = self.display.screen_unit(unit)
         if shown in ("°C", "°F"):
-            from core.units import from_si
+            from pmdc_sizer.core.units import from_si
 
             return f"{from_si(value_si, shown):.0f} {shown}"
         return format_quantity(value_si, shown, digits).replace(" ohm", " Ω")

@@ -15,8 +15,8 @@ import pytest
 import tomli_w
 import tomllib
 
-from app.cli import main
-from core import library
+from pmdc_sizer.app.cli import main
+from pmdc_sizer.core import library
 
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
@@ -192,13 +192,13 @@ def test_the_installed_command_prints_no_traceback(tmp_path):
     # The real console entry point in a fresh interpreter: bad file → exit 2, one stderr line.
     path = tmp_path / "broken.toml"
     path.write_text("format_version = 1\n[supply\n", encoding="utf-8")
-    done = subprocess.run([sys.executable, "-m", "app.cli", "evaluate", str(path)], capture_output=True, text=True,
+    done = subprocess.run([sys.executable, "-m", "pmdc_sizer.app.cli", "evaluate", str(path)], capture_output=True, text=True,
                           cwd=REPO, timeout=120)
     assert done.returncode == 2
     assert done.stdout == ""
     assert len(done.stderr.splitlines()) == 1 and "Traceback" not in done.stderr
     assert "TOML" in done.stderr
-    good = subprocess.run([sys.executable, "-m", "app.cli", "evaluate", str(FERRITE), "--json"], capture_output=True,
+    good = subprocess.run([sys.executable, "-m", "pmdc_sizer.app.cli", "evaluate", str(FERRITE), "--json"], capture_output=True,
                           text=True, cwd=REPO, timeout=120)
     assert good.returncode == 0 and json.loads(good.stdout)["magnetics"]["flux_per_pole_Wb"] > 0.0
 

@@ -6,8 +6,8 @@ import json
 
 import pytest
 
-from app.cli import main
-from core import compare
+from pmdc_sizer.app.cli import main
+from pmdc_sizer.core import compare
 from tests.conftest import DEMO_FOLDER
 
 FERRITE = str(DEMO_FOLDER / "appliance_ferrite_12v.toml")

@@ -17,12 +17,12 @@ import numpy as np
 import pypdf
 import pytest
 
-from app import datasheet
-from app.cli import CommandError, main
-from app.datasheet.charts import torque_unit
-from app.formatting import percent, quantity
-from core import project as project_file
-from core.evaluate import evaluate
+from pmdc_sizer.app import datasheet
+from pmdc_sizer.app.cli import CommandError, main
+from pmdc_sizer.app.datasheet.charts import torque_unit
+from pmdc_sizer.app.formatting import percent, quantity
+from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core.evaluate import evaluate
 
 ISSUED = dt.date(2026, 3, 14)
 A4_POINTS = (595.3, 841.9)  # ISO 216: 210 mm × 297 mm in PostScript points
@@ -221,7 +221,7 @@ def test_charts_as_png_and_svg(ferrite, tmp_path, name):
 
 
 def test_chart_image_is_drawn(ferrite):
-    from app.datasheet.charts import chart_image
+    from pmdc_sizer.app.datasheet.charts import chart_image
 
     _, results = ferrite
     image = chart_image("magnet", results, 600)
@@ -230,7 +230,7 @@ def test_chart_image_is_drawn(ferrite):
 
 
 def test_magnet_chart_marks_failing_cases(ferrite):
-    from app.datasheet.charts import FAIL, magnet_panel
+    from pmdc_sizer.app.datasheet.charts import FAIL, magnet_panel
 
     design, _ = ferrite
     results = evaluate(project_file.with_values(design, {"magnets.thickness_mm": 2.0}))
@@ -326,7 +326,7 @@ def test_curves_are_cut_to_the_plot_in_our_own_code():
     # SVG ignores a painter's clip, so the charts cut their polylines themselves.
     from PySide6.QtCore import QPointF, QRectF
 
-    from app.datasheet.charts import clipped_path
+    from pmdc_sizer.app.datasheet.charts import clipped_path
 
     box = QRectF(0, 0, 10, 10)
     path = clipped_path([QPointF(-5, 5), QPointF(5, 5), QPointF(15, 5), QPointF(15, 20)], box)
@@ -345,7 +345,7 @@ def _figures(number: str) -> int:
 
 
 def test_no_figure_shows_more_digits_than_the_model_deserves(evaluated):
-    from app.datasheet.content import build, electrical_table, performance_table, thermal_table
+    from pmdc_sizer.app.datasheet.content import build, electrical_table, performance_table, thermal_table
 
     design, results = evaluated
     sheet = build(design, results, ISSUED)
@@ -377,9 +377,9 @@ def test_rated_load_beyond_stall_says_so(ferrite, tmp_path):
 
 
 def test_sheet_is_issued_on_the_revision_date_when_the_project_gives_one(ferrite_demo):
-    from app.datasheet.content import build
-    from core import project as pf
-    from core.evaluate import evaluate
+    from pmdc_sizer.app.datasheet.content import build
+    from pmdc_sizer.core import project as pf
+    from pmdc_sizer.core.evaluate import evaluate
 
     dated = pf.with_values(pf.load(ferrite_demo), {"project.revision_date": "2026-11-20"})
     assert build(dated, evaluate(dated)).issued == "2026-11-20"

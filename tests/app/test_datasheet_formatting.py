@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from app.formatting import quantity, ratio, significant
+from pmdc_sizer.app.formatting import quantity, ratio, significant
 
 
 @pytest.mark.parametrize("value, digits, expected", [

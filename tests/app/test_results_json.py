@@ -9,10 +9,10 @@ import math
 import numpy as np
 from numpy.testing import assert_allclose
 
-from app.results_json import _plain, results_json
-from core import project as pf
-from core.evaluate import evaluate
-from core.units import from_si
+from pmdc_sizer.app.results_json import _plain, results_json
+from pmdc_sizer.core import project as pf
+from pmdc_sizer.core.evaluate import evaluate
+from pmdc_sizer.core.units import from_si
 
 
 @dataclasses.dataclass(frozen=True)

@@ -7,8 +7,8 @@ import math
 import pytest
 from numpy.testing import assert_allclose
 
-from core import compare, evaluate, project
-from core.project import ProjectError
+from pmdc_sizer.core import compare, evaluate, project
+from pmdc_sizer.core.project import ProjectError
 
 #: The issue asks re-fits to meet their target within 0.5 %.
 TARGET_TOLERANCE = 5e-3
@@ -63,7 +63,7 @@ def test_lists_of_named_items_are_matched_by_name(ferrite):
 
 
 def test_nested_difference_of_json_keeps_the_keys_and_holds_numbers_only(ferrite):
-    from app.results_json import results_json
+    from pmdc_sizer.app.results_json import results_json
 
     _, results = ferrite
     data = results_json(results)

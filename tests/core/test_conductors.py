@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import conductors
-from core.units import to_si
+from pmdc_sizer.core import conductors
+from pmdc_sizer.core.units import to_si
 
 
 def test_iec_60028_copper_constants():

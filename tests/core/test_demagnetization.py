@@ -8,10 +8,10 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import demagnetization as dm
-from core import magnetic_circuit as mc
-from core.design import design_from_project
-from core.project import load
+from pmdc_sizer.core import demagnetization as dm
+from pmdc_sizer.core import magnetic_circuit as mc
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.project import load
 
 
 def test_armature_reaction_by_hand():

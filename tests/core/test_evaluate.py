@@ -11,12 +11,12 @@ import pytest
 from hypothesis import HealthCheck, assume, given, settings, strategies as st
 from numpy.testing import assert_allclose
 
-from core import library
-from core import project as pf
-from core.conductors import COPPER_TEMP_COEFF_20C
-from core.evaluate import Results, evaluate
-from core.project import ProjectError
-from core.units import from_si
+from pmdc_sizer.core import library
+from pmdc_sizer.core import project as pf
+from pmdc_sizer.core.conductors import COPPER_TEMP_COEFF_20C
+from pmdc_sizer.core.evaluate import Results, evaluate
+from pmdc_sizer.core.project import ProjectError
+from pmdc_sizer.core.units import from_si
 
 DEMO_FOLDER = __import__("pathlib").Path(__file__).resolve().parents[2] / "demo_projects"
 FERRITE_DEMO = DEMO_FOLDER / "appliance_ferrite_12v.toml"
@@ -200,7 +200,7 @@ def test_every_result_field_names_its_unit(ferrite_demo):
     missing = set()
 
     def walk(value):
-        if dataclasses.is_dataclass(value) and type(value).__module__ == "core.evaluate":
+        if dataclasses.is_dataclass(value) and type(value).__module__ == "pmdc_sizer.core.evaluate":
             for f in dataclasses.fields(value):
                 if f.name not in _UNITLESS and not f.name.endswith(_UNIT_SUFFIXES):
                     missing.add(f"{type(value).__name__}.{f.name}")
@@ -214,7 +214,7 @@ def test_every_result_field_names_its_unit(ferrite_demo):
 
 
 def test_evaluate_accepts_a_project_or_a_design(ferrite_demo):
-    from core.design import design_from_project
+    from pmdc_sizer.core.design import design_from_project
 
     project = pf.load(ferrite_demo)
     a, b = evaluate(project), evaluate(design_from_project(project))

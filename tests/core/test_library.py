@@ -5,11 +5,11 @@ from __future__ import annotations
 import pytest
 import tomli_w
 
-from core import library
-from core import project as pf
-from core.design import design_from_project
-from core.project import CustomGrade, ProjectError
-from core.units import to_si
+from pmdc_sizer.core import library
+from pmdc_sizer.core import project as pf
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.project import CustomGrade, ProjectError
+from pmdc_sizer.core.units import to_si
 
 USER_GRADE = {
     "name": "certified Y30 lot 7", "family": "hard ferrite, anisotropic", "remanence_T": 0.392,

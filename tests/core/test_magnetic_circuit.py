@@ -20,13 +20,13 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import library
-from core import magnetic_circuit as mc
-from core.design import design_from_project
-from core.geometry import Geometry
-from core.magnets import MagnetGrade, normal_coercivity_at, remanence_at
-from core.project import load
-from core.units import MU_0
+from pmdc_sizer.core import library
+from pmdc_sizer.core import magnetic_circuit as mc
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.geometry import Geometry
+from pmdc_sizer.core.magnets import MagnetGrade, normal_coercivity_at, remanence_at
+from pmdc_sizer.core.project import load
+from pmdc_sizer.core.units import MU_0
 
 # A grade whose knee is so far from the operating region that the knee term underflows to exactly 0
 # there: the normal curve is the straight recoil line B = Br + μ0·μrec·H to machine precision.
@@ -501,7 +501,7 @@ def test_flux_per_pole_of_arc_magnets_against_a_finite_element_solution(motor):
 
 def _rotor_removed_fields(motor):
     skfem = pytest.importorskip("skfem")
-    from core.demagnetization import rotor_removed_circuit
+    from pmdc_sizer.core.demagnetization import rotor_removed_circuit
 
     poles, armature_radius, gap, thickness, arc_deg, remanence, recoil = motor
     _, field_fem = _radial_arc_magnets_by_finite_elements(poles, armature_radius, gap, thickness, math.radians(arc_deg),

@@ -8,9 +8,9 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import library
-from core import magnets as mg
-from core.units import MU_0, to_si
+from pmdc_sizer.core import library
+from pmdc_sizer.core import magnets as mg
+from pmdc_sizer.core.units import MU_0, to_si
 
 GRADES = library.magnet_grades()
 

@@ -6,10 +6,10 @@ import math
 
 from numpy.testing import assert_allclose
 
-from core import project as pf
-from core.conductors import COPPER_DENSITY
-from core.design import design_from_project
-from core.mass import STEEL_DENSITY_SHAFT, masses, material_cost, rotor_inertia
+from pmdc_sizer.core import project as pf
+from pmdc_sizer.core.conductors import COPPER_DENSITY
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.mass import STEEL_DENSITY_SHAFT, masses, material_cost, rotor_inertia
 
 
 def test_masses_by_hand(ferrite_demo):

@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import library
-from core import performance as pm
+from pmdc_sizer.core import library
+from pmdc_sizer.core import performance as pm
 
 NO_IRON = pm.IronLossTerms(0.0, 0.0, 0.0)
 

@@ -9,8 +9,8 @@ from pathlib import Path
 import pytest
 import tomli_w
 
-from core import project as pf
-from core.project import ProjectError
+from pmdc_sizer.core import project as pf
+from pmdc_sizer.core.project import ProjectError
 
 DEMO = Path(__file__).resolve().parents[2] / "demo_projects" / "appliance_ferrite_12v.toml"
 

@@ -8,7 +8,7 @@ from hypothesis import given, settings, strategies as st
 from numpy.testing import assert_allclose
 from scipy.optimize import brentq
 
-from core.solvers import find_root
+from pmdc_sizer.core.solvers import find_root
 
 
 def test_cubic_batch_matches_brentq():

@@ -6,9 +6,9 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import library
-from core.steel import Steel
-from core.units import MU_0
+from pmdc_sizer.core import library
+from pmdc_sizer.core.steel import Steel
+from pmdc_sizer.core.units import MU_0
 
 STEELS = library.steels()
 

@@ -3,10 +3,10 @@
 import numpy as np
 import pytest
 
-from core import magnetic_circuit as mc
-from core import project, sweep
-from core.design import design_from_project
-from core.project import ProjectError
+from pmdc_sizer.core import magnetic_circuit as mc
+from pmdc_sizer.core import project, sweep
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.project import ProjectError
 
 
 def _single(design_project, key, value):

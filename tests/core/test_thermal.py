@@ -8,10 +8,10 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import project as pf
-from core import thermal
-from core.design import INSULATION_CLASS_LIMIT_C, design_from_project
-from core.evaluate import evaluate
+from pmdc_sizer.core import project as pf
+from pmdc_sizer.core import thermal
+from pmdc_sizer.core.design import INSULATION_CLASS_LIMIT_C, design_from_project
+from pmdc_sizer.core.evaluate import evaluate
 
 
 def test_zero_losses_give_ambient():

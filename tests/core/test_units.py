@@ -10,7 +10,7 @@ import pytest
 from numpy.testing import assert_allclose
 from scipy import constants
 
-from core import units
+from pmdc_sizer.core import units
 
 UREG = pint.UnitRegistry()
 

@@ -9,11 +9,11 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from core import winding
-from core.conductors import copper_resistivity
-from core.design import design_from_project
-from core.project import load
-from core.units import from_si, rpm_to_rad_per_s
+from pmdc_sizer.core import winding
+from pmdc_sizer.core.conductors import copper_resistivity
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.project import load
+from pmdc_sizer.core.units import from_si, rpm_to_rad_per_s
 
 
 @pytest.mark.parametrize(

@@ -27,7 +27,7 @@ def _no_blocking_prompts(monkeypatch):
 @pytest.fixture
 def open_window(qtbot):
     """``open_window(path)``: a shown main window on that project, evaluated once."""
-    from app.gui.main_window import MainWindow, read_project
+    from pmdc_sizer.app.gui.main_window import MainWindow, read_project
 
     windows = []
 

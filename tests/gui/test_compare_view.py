@@ -5,12 +5,12 @@ from __future__ import annotations
 import pytest
 from PySide6.QtCore import QObject, Qt, Signal
 
-from core import compare, evaluate, project
+from pmdc_sizer.core import compare, evaluate, project
 from tests.conftest import DEMO_FOLDER
 
 pytest.importorskip("pyqtgraph")
 
-from app.gui.compare_view import CompareView  # noqa: E402
+from pmdc_sizer.app.gui.compare_view import CompareView  # noqa: E402
 
 FERRITE = DEMO_FOLDER / "appliance_ferrite_12v.toml"
 

@@ -8,9 +8,9 @@ import json
 import pytest
 from PySide6.QtGui import QKeySequence
 
-from app.gui.evaluation import Evaluator
-from app.gui.settings import MAX_RECENT_FILES, Settings, load_settings, save_settings, settings_path
-from core import project as project_file
+from pmdc_sizer.app.gui.evaluation import Evaluator
+from pmdc_sizer.app.gui.settings import MAX_RECENT_FILES, Settings, load_settings, save_settings, settings_path
+from pmdc_sizer.core import project as project_file
 
 
 def test_evaluator_runs_the_newest_request_and_skips_the_ones_in_between(qtbot, ferrite_demo):

@@ -7,9 +7,9 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
-from app.gui import export_dialog
-from core import project as project_file
-from core.evaluate import evaluate
+from pmdc_sizer.app.gui import export_dialog
+from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core.evaluate import evaluate
 
 
 @pytest.fixture

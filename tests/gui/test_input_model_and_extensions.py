@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from app.gui.input_model import DesignModel
-from app.gui.main_window import PAGE_COMPARE
-from core import project as project_file
+from pmdc_sizer.app.gui.input_model import DesignModel
+from pmdc_sizer.app.gui.main_window import PAGE_COMPARE
+from pmdc_sizer.core import project as project_file
 
 
 def test_a_drag_signals_changing_then_one_changed(qtbot, ferrite_demo):
@@ -64,7 +64,7 @@ def test_compare_page_is_added_when_its_module_is_there(open_window, ferrite_dem
     window = open_window(ferrite_demo)
     titles = [window.pages.tabText(i) for i in range(window.pages.count())]
     try:
-        import app.gui.compare_view  # noqa: F401
+        import pmdc_sizer.app.gui.compare_view  # noqa: F401
     except ImportError:
         assert PAGE_COMPARE not in titles and window.compare_unavailable
     else:
@@ -83,8 +83,8 @@ def test_about_box_is_shown_with_the_cautions(open_window, ferrite_demo, monkeyp
 
 def test_an_optional_text_can_be_set_and_emptied(ferrite_demo):
     # The revision date is optional text: a date sets it, an empty field removes it again.
-    from app.gui.input_model import DesignModel
-    from core import project as pf
+    from pmdc_sizer.app.gui.input_model import DesignModel
+    from pmdc_sizer.core import project as pf
 
     model = DesignModel(pf.load(ferrite_demo))
     assert model.propose("project.revision_date", "2026-11-20", final=True)

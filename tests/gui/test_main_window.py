@@ -10,11 +10,11 @@ import tomli_w
 import pytest
 from PySide6.QtWidgets import QMessageBox
 
-from app.gui.main_window import PAGE_MAGNET, PAGE_PERFORMANCE, PAGE_SECTION
-from core import library
-from core import project as project_file
-from core.design import design_from_project
-from core.units import from_si
+from pmdc_sizer.app.gui.main_window import PAGE_MAGNET, PAGE_PERFORMANCE, PAGE_SECTION
+from pmdc_sizer.core import library
+from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.units import from_si
 
 
 def _thickness_box(window):
@@ -214,7 +214,7 @@ def test_display_units_change_the_screen_not_the_file(open_window, qtbot, ferrit
         box.setValue(0.2)  # inches
     assert window.current_project.magnets.thickness_mm == pytest.approx(5.08, abs=1e-3)
     assert (_isolated_settings / "settings.json").is_file()
-    from app.gui.settings import load_settings
+    from pmdc_sizer.app.gui.settings import load_settings
 
     assert load_settings().display_units == "US customary"
 
@@ -281,14 +281,14 @@ def test_cursor_readout_reads_every_case(open_window, ferrite_demo):
     text = chart.readout.text()
     nominal = window.current_results.nominal
     expected_speed = np.interp(35.0, from_si(nominal.curve.torque_N_m, "mN·m"), from_si(nominal.curve.speed_rad_per_s, "rpm"))
-    from app.formatting import significant
+    from pmdc_sizer.app.formatting import significant
 
     assert f"{significant(expected_speed, 3)} rpm" in text
     assert "Efficiency" in text and "cold" in text and "hot" in text
 
 
 def test_about_text_carries_the_safety_cautions():
-    from app.gui.main_window import about_text
+    from pmdc_sizer.app.gui.main_window import about_text
 
     text = about_text().lower()
     for phrase in ("pinch", "shatter", "medical device", "stalled motor overheats", "burn", "confirm", "local codes",

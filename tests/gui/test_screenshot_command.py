@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 from PySide6.QtGui import QImage
 
-from app.cli import main
+from pmdc_sizer.app.cli import main
 
 
 def _pixels(path) -> np.ndarray:
