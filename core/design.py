@@ -83,6 +83,8 @@ class Design:
     thermal: ThermalData
     extra_inertia: float  #: [kg·m²]
     prices: Prices
+    magnetization: str = "radial"  #: "radial" or "parallel", for the field solution
+    shaft_magnetic: bool = True  #: a steel shaft (housing steel's B(H)) or a non-magnetic one
 
     @property
     def name(self) -> str:
@@ -166,6 +168,8 @@ def design_from_project(project: Project) -> Design:
             duty_time=to_si(p.thermal.duty_minutes, "min"),
         ),
         extra_inertia=to_si(p.rotor.extra_inertia_gcm2, "g·cm2"),
+        magnetization=p.magnets.magnetization,
+        shaft_magnetic=p.armature.shaft_magnetic,
         prices=Prices(
             currency=p.prices.currency,
             magnet=p.prices.magnet_per_kg,

@@ -118,6 +118,7 @@ class Magnets(_Section):
     thickness_mm: float = quantity(5.0, "mm", 0.5, 40.0, "Radial thickness of each arc magnet.")
     arc_deg: float = quantity(130.0, "deg", 15.0, 178.0, "Mechanical arc of each magnet; at most the pole pitch, 360°/poles.")
     length_mm: float = quantity(30.0, "mm", 3.0, 300.0, "Axial length of each magnet; at least the armature stack length.")
+    magnetization: Literal["radial", "parallel"] = choice("radial", "Direction of magnetization: radial (along every radius) or parallel (along the magnet's centre line); used by the field solution.")
 
 
 class Motor(_Section):
@@ -144,6 +145,7 @@ class Armature(_Section):
     tooth_width_mm: float = quantity(3.0, "mm", 0.3, 40.0, "Width of each tooth (parallel-sided teeth).")
     slot_depth_mm: float = quantity(7.0, "mm", 0.5, 100.0, "Radial depth of each slot from the armature surface.")
     shaft_diameter_mm: float = quantity(5.0, "mm", 1.0, 80.0, "Diameter of the steel shaft through the stack.")
+    shaft_magnetic: bool = Field(True, description="True for a steel shaft that carries flux like the housing steel (the usual case); false for a stainless or non-magnetic shaft. Used by the field solution.", json_schema_extra={"unit": ""})
     steel: str = Field("M400-50A", min_length=1, description="Lamination steel from the library.")
 
 
@@ -213,6 +215,7 @@ MAY_BE_LEFT_OUT = frozenset({
     "project.description", "project.revision", "project.notes",
     "supply.reversing", "winding.multiplicity", "winding.end_turn_factor",
     "losses.iron_loss_build_factor", "thermal.duty_minutes", "rotor.extra_inertia_gcm2",
+    "magnets.magnetization", "armature.shaft_magnetic",
     "magnets.grade",  # or magnets.custom_grade: exactly one of them, checked below
 })
 
