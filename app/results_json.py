@@ -13,7 +13,7 @@ import math
 
 import numpy as np
 
-from pmdc_sizer.core.evaluate import CaseResult, Results
+from pmdc_sizer.core.results import CaseResult, Results
 from pmdc_sizer.core.units import from_si
 
 _SPEED_SUFFIX = "_rad_per_s"

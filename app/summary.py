@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.results import Results
 
 from .formatting import percent, quantity as q, significant, temperature
 

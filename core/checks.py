@@ -6,9 +6,8 @@ Thresholds that are engineering judgement rather than a standard are marked so b
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-
 from .demagnetization import advice_for
+from .results import Check
 from .units import from_si
 
 PASS, WARNING, FAIL = "pass", "warning", "fail"
@@ -25,20 +24,6 @@ def _figures(value: float, digits: int = 3) -> str:
         return f"{value:g}"
     decimals = digits - 1 - math.floor(math.log10(abs(value)))
     return f"{round(value, decimals):.{max(decimals, 0)}f}"
-
-
-@dataclass(frozen=True)
-class Check:
-    key: str  #: stable identifier, e.g. "demagnetization" or "housing_flux_density"
-    title: str  #: a short label for the checks panel
-    status: str  #: "pass", "warning" or "fail"
-    message: str  #: the reason, in a sentence, with the numbers
-    advice: str = ""  #: what to change, when it did not pass
-
-    @property
-    def sentence(self) -> str:
-        text = f"{self.title}: {self.message}"
-        return f"{text} {self.advice[0].upper() + self.advice[1:]}." if self.advice else text
 
 
 def _flux_check(key, title, value, steel, part, advice):
@@ -152,8 +137,9 @@ def run_checks(design, results) -> list[Check]:
                          f"the magnets reach {t.magnet_temperature_C:.0f} °C (limit {t.magnet_limit_C:.0f} °C)."))
 
     # Envelope.
-    envelope = d.project.housing.max_outer_diameter_mm
+    envelope = r.geometry.max_outer_diameter_m
     if envelope is not None:
         out.append(Check("envelope", "Envelope", PASS,
-                         f"housing {from_si(r.geometry.housing_outer_diameter_m, 'mm'):.1f} mm across, within {envelope:g} mm."))
+                         f"housing {from_si(r.geometry.housing_outer_diameter_m, 'mm'):.1f} mm across, "
+                         f"within {from_si(envelope, 'mm'):g} mm."))
     return out

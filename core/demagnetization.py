@@ -29,12 +29,16 @@ A case passes when its field stays above the knee at its temperature: margin = H
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
 
 from .geometry import Geometry
 from .magnetic_circuit import PoleCircuit
+from .magnets import MagnetGrade, flux_density, knee_field_at
+from .performance import MotorModel, plugging_current, stall_current
+from .results import DemagnetizationCase, DemagnetizationResult
 
 
 def armature_reaction_field(current, conductors, paths, magnet_arc, magnet_thickness, recoil_permeability, effective_gap):
@@ -63,21 +67,6 @@ def rotor_removed_circuit(geometry: Geometry, circuit: PoleCircuit) -> PoleCircu
     )
 
 
-@dataclass(frozen=True)
-class DemagnetizationCase:
-    """One case: a current at a temperature, or the rotor removed."""
-
-    name: str  #: e.g. "stall, cold"
-    kind: str  #: "stall", "reversal", "current limit" or "rotor removed"
-    temperature_C: float  #: magnet temperature of the case [°C]
-    current_A: float  #: armature current [A] (0 for the rotor removed)
-    magnet_field_A_per_m: float  #: field at the worst point of the magnet [A/m]
-    magnet_flux_density_T: float  #: normal-curve B there [T]
-    knee_field_A_per_m: float  #: -Hk at the case's temperature [A/m]
-    margin_A_per_m: float  #: magnet field minus knee field; positive is safe [A/m]
-    ok: bool
-
-
 ADVICE = {
     "stall": "at stall the armature current is highest: choose a grade with higher HcJ, thicken the magnet, "
              "add resistance or limit the current",
@@ -91,4 +80,130 @@ ADVICE = {
 
 
 def advice_for(case: DemagnetizationCase) -> str:
+    """What to change when ``case`` goes past the knee, in words.
+
+    Parameters
+    ----------
+    case : DemagnetizationCase
+        A case that failed.
+
+    Returns
+    -------
+    str
+        Advice, lower case, no full stop.
+    """
     return ADVICE[case.kind]
+
+
+def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C: float, current: float,
+                         magnet_field: float) -> DemagnetizationCase:
+    """A case's verdict: the field the circuit demands of the magnet against the knee at its temperature.
+
+    Parameters
+    ----------
+    name, kind : str
+        The case's name (e.g. "stall, cold") and kind ("stall", "reversal", "current limit",
+        "rotor removed").
+    grade : MagnetGrade
+        The magnet grade.
+    temperature_C : float
+        Magnet temperature of the case [°C].
+    current : float
+        Armature current of the case [A].
+    magnet_field : float
+        Field in the magnet at its worst point, the no-load demand plus the armature reaction [A/m].
+
+    Returns
+    -------
+    DemagnetizationCase
+        With the margin H - H_knee [A/m]; positive is safe.
+
+    Notes
+    -----
+    The knee is where irreversible loss begins (``core.magnets.knee_field_at``: J has fallen 1 % of Br
+    below its recoil line, our definition); a case passes while its field stays above it.
+    """
+    knee = float(knee_field_at(grade, temperature_C))
+    return DemagnetizationCase(
+        name=name, kind=kind, temperature_C=float(temperature_C), current_A=float(current),
+        magnet_field_A_per_m=float(magnet_field),
+        magnet_flux_density_T=float(flux_density(grade, magnet_field, temperature_C)),
+        knee_field_A_per_m=knee, margin_A_per_m=float(magnet_field) - knee, ok=bool(magnet_field > knee),
+    )
+
+
+@dataclass(frozen=True)
+class TemperatureCase:
+    """What the demagnetization cases need of one temperature case (cold or hot)."""
+
+    label: str  #: "cold" or "hot"
+    model: MotorModel  #: the motor at that case's temperatures
+    no_load_speed: float  #: [rad/s]
+    magnet_temperature_C: float  #: [°C]
+    no_load_magnet_field: float  #: the circuit's demand on the magnet's recoil line [A/m]
+
+
+def demagnetization_cases(
+    grade: MagnetGrade, conductors: int, paths: int, geometry: Geometry, effective_gap: float,
+    temperature_cases: Sequence[TemperatureCase], current_limit: float | None, reversing: bool,
+    rotor_removed: Sequence[tuple[str, float, float]],
+) -> DemagnetizationResult:
+    """Stall, reversal and drive-limit cases at each temperature, then the rotor removed; the worst named.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The magnet grade.
+    conductors, paths : int
+        Total armature conductors Z and parallel paths a [1].
+    geometry : Geometry
+        The cross-section (magnet arc and thickness) [m, rad].
+    effective_gap : float
+        Gap with Carter's coefficient [m].
+    temperature_cases : sequence of TemperatureCase
+        The coldest and the hottest case.
+    current_limit : float or None
+        The drive's current limit [A]; it caps the stall and reversal currents.
+    reversing : bool
+        The application plugs the motor at speed.
+    rotor_removed : sequence of (label, temperature [°C], magnet field [A/m])
+        The rotor-removed circuit's demand on the magnet at each temperature.
+
+    Returns
+    -------
+    DemagnetizationResult
+        Every case, and the one with the least margin.
+
+    References
+    ----------
+    .. [1] D. Hanselman, Brushless Permanent Magnet Motor Design, 2nd ed., 2006, ch. 5 (armature
+       reaction at the magnet tip; from memory).
+    """
+    cases: list[DemagnetizationCase] = []
+
+    def add(name: str, kind: str, temperature_C: float, current: float, no_load_field: float) -> None:
+        reaction = float(armature_reaction_field(current, conductors, paths, geometry.magnet_arc,
+                                                 geometry.magnet_thickness, grade.recoil_permeability,
+                                                 effective_gap))
+        cases.append(demagnetization_case(name, kind, grade, temperature_C, current, no_load_field + reaction))
+
+    def limited(current: float) -> str:
+        return " (drive-limited)" if current == current_limit else ""
+
+    for case in temperature_cases:
+        stall_i = float(stall_current(case.model))
+        reversal_i = float(plugging_current(case.model, case.no_load_speed))
+        if current_limit is not None:
+            # The drive holds the current at its limit whatever the load asks for.
+            stall_i, reversal_i = min(stall_i, current_limit), min(reversal_i, current_limit)
+        t, h = case.magnet_temperature_C, case.no_load_magnet_field
+        add(f"stall, {case.label}{limited(stall_i)}", "stall", t, stall_i, h)
+        if reversing:
+            add(f"reversal at no-load speed, {case.label}{limited(reversal_i)}", "reversal", t, reversal_i, h)
+        if current_limit is not None:
+            add(f"drive current limit, {case.label}", "current limit", t, current_limit, h)
+    for label, temperature_C, magnet_field in rotor_removed:
+        add(f"rotor removed, {label}", "rotor removed", temperature_C, 0.0, magnet_field)
+    worst = min(cases, key=lambda c: c.margin_A_per_m)
+    return DemagnetizationResult(ok=all(c.ok for c in cases), worst_case=worst.name,
+                                 worst_margin_A_per_m=worst.margin_A_per_m, cases=tuple(cases))

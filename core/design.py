@@ -85,6 +85,7 @@ class Design:
     prices: Prices
     magnetization: str = "radial"  #: "radial" or "parallel", for the field solution
     shaft_magnetic: bool = True  #: a steel shaft (housing steel's B(H)) or a non-magnetic one
+    max_outer_diameter: float | None = None  #: envelope limit on the housing diameter [m]
 
     @property
     def name(self) -> str:
@@ -170,6 +171,8 @@ def design_from_project(project: Project) -> Design:
         extra_inertia=to_si(p.rotor.extra_inertia_gcm2, "g·cm2"),
         magnetization=p.magnets.magnetization,
         shaft_magnetic=p.armature.shaft_magnetic,
+        max_outer_diameter=(None if p.housing.max_outer_diameter_mm is None
+                            else to_si(p.housing.max_outer_diameter_mm, "mm")),
         prices=Prices(
             currency=p.prices.currency,
             magnet=p.prices.magnet_per_kg,

@@ -22,10 +22,13 @@ density over half the pole-to-pole path (conservative).
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
+from .errors import MagneticCircuitError
 from .geometry import Geometry
 from .magnets import MagnetGrade, curve_at
 from .solvers import find_root
@@ -147,10 +150,6 @@ class MagneticOperatingPoint:
     converged: np.ndarray  #: False where the solve failed (see :func:`solve`)
 
 
-class MagneticCircuitError(RuntimeError):
-    """The circuit has no solution for these inputs."""
-
-
 def _drop(steel: Steel | None, flux_density_in_iron, path):
     if steel is None:
         return np.zeros_like(flux_density_in_iron)
@@ -261,3 +260,46 @@ def load_line(point: MagneticOperatingPoint, field_min, samples: int = 2):
     """The load line B = -μ0·Pc·H from H = 0 to ``field_min`` (negative) [A/m], as plot data (H, B)."""
     h = np.linspace(0.0, field_min, samples)
     return h, -MU_0 * point.permeance_coefficient * h
+
+
+def stack_circuits(parts: Sequence[tuple[PoleCircuit, int]]) -> PoleCircuit:
+    """One circuit of arrays from (circuit, copies) pairs, in order, for a single batch solve.
+
+    Parameters
+    ----------
+    parts : sequence of (PoleCircuit, int)
+        Each circuit and how many times it repeats.
+
+    Returns
+    -------
+    PoleCircuit
+        Every field concatenated along one axis.
+    """
+    return PoleCircuit(**{
+        name: np.concatenate([np.broadcast_to(getattr(c, name), (copies,)) for c, copies in parts])
+        for name in vars(parts[0][0])
+    })
+
+
+def select_points(point: MagneticOperatingPoint, index: slice | int) -> MagneticOperatingPoint:
+    """Part of a batch solution, as a solution of its own.
+
+    Parameters
+    ----------
+    point : MagneticOperatingPoint
+        A batch solution.
+    index : slice or int
+        Which entries.
+
+    Returns
+    -------
+    MagneticOperatingPoint
+        The same fields, indexed.
+    """
+    values: dict[str, Any] = {}
+    for name, value in vars(point).items():
+        if isinstance(value, dict):
+            values[name] = {k: np.asarray(v)[index] for k, v in value.items()}
+        else:
+            values[name] = np.asarray(value)[index]
+    return MagneticOperatingPoint(**values)

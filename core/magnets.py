@@ -31,6 +31,7 @@ from functools import cached_property, lru_cache
 import numpy as np
 from scipy.optimize import brentq
 
+from .errors import MagneticCircuitError
 from .solvers import find_root
 from .units import MU_0
 
@@ -271,3 +272,25 @@ def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: in
         remanence=float(remanence_at(grade, temperature_C)),
         coercivity_hcj=hcj,
     )
+
+
+def require_ambient_inside_model(grade: MagnetGrade, ambient_min_C: float, ambient_max_C: float) -> None:
+    """Refuse an ambient range that reaches past where the grade's temperature coefficients hold.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The magnet grade.
+    ambient_min_C, ambient_max_C : float
+        The ambient range [°C].
+
+    Raises
+    ------
+    MagneticCircuitError
+        Naming the range and the grade's model range (:func:`model_temperature_range_C`).
+    """
+    low_C, high_C = model_temperature_range_C(grade)
+    if not (low_C < ambient_min_C and ambient_max_C < high_C):
+        raise MagneticCircuitError(
+            f"the ambient range {ambient_min_C:g} to {ambient_max_C:g} °C is outside the range where "
+            f"{grade.name}'s temperature coefficients hold ({low_C:.0f} to {high_C:.0f} °C)")

@@ -190,3 +190,75 @@ def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 20
         rated_reached=bool(rated_reached),
         speed_torque_gradient=gradient,
     )
+
+
+def plugging_current(model: MotorModel, speed):
+    """Armature current when the supply is reversed while the motor turns at ``speed`` (plugging).
+
+    Parameters
+    ----------
+    model : MotorModel
+        The motor at the case's temperatures.
+    speed : float or ndarray
+        Speed at the moment of reversal [rad/s].
+
+    Returns
+    -------
+    float or ndarray
+        (V + K·ω - Vb)/R [A]: supply and back-EMF add.
+
+    References
+    ----------
+    .. [1] S. J. Chapman, Electric Machinery Fundamentals, 5th ed., 2012, ch. 9 (plugging a DC motor;
+       from memory).
+    """
+    m = model
+    return (m.voltage + m.constant * speed - m.brush_drop) / m.resistance
+
+
+def current_limit_torque(model: MotorModel, current_limit: float | None) -> float | None:
+    """Shaft torque at which the armature current reaches the drive's limit.
+
+    Parameters
+    ----------
+    model : MotorModel
+        The motor at the case's temperatures.
+    current_limit : float or None
+        The drive's current limit [A].
+
+    Returns
+    -------
+    float or None
+        K·I_lim less the loss torque at the speed where the current is I_lim [N·m]; None without a
+        limit, or when the limit is at or above the stall current (the drive then never limits).
+    """
+    if current_limit is None or current_limit >= float(stall_current(model)):
+        return None
+    m = model
+    limit_speed = (m.voltage - m.brush_drop - m.resistance * current_limit) / m.constant
+    return float(m.constant * current_limit - loss_torque(m, limit_speed))
+
+
+def mechanical_time_constant(inertia, resistance, constant):
+    """Mechanical time constant τm = J·R/K² [s].
+
+    Parameters
+    ----------
+    inertia : float
+        Rotor inertia J [kg·m²].
+    resistance : float
+        Terminal resistance R [Ω].
+    constant : float
+        Ke = Kt [V·s/rad].
+
+    Returns
+    -------
+    float
+        [s]
+
+    References
+    ----------
+    .. [1] first-order speed response of a DC motor with negligible inductance, e.g. Chapman,
+       Electric Machinery Fundamentals, ch. 9 (from memory).
+    """
+    return inertia * resistance / constant**2

@@ -26,15 +26,9 @@ from typing import Any, Iterator, Literal, Optional
 import tomli_w
 from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
 
+from .errors import ProjectError
+
 FORMAT_VERSION = 1
-
-
-class ProjectError(ValueError):
-    """A project file, key or value that cannot be used; the message names the key and the limit."""
-
-    def __init__(self, message: str, key: str = ""):
-        super().__init__(message)
-        self.key = key
 
 
 def quantity(default, unit: str, minimum=None, maximum=None, description: str = "", **kwargs):

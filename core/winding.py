@@ -120,3 +120,21 @@ def armature_inductance_estimate(geometry: Geometry, conductors, paths, recoil_p
         * (0.5 * g.magnet_arc) ** 3 / (3.0 * magnetic_gap)
     )
     return slot_part + gap_part
+
+
+def slot_share_of_turn(stack_length, turn_length):
+    """Share of a turn's length that lies in the slots: its two sides over the mean turn [1].
+
+    Parameters
+    ----------
+    stack_length : float
+        Axial length of the stack [m].
+    turn_length : float
+        Mean turn length, end turns included [m].
+
+    Returns
+    -------
+    float
+        2·L/l_turn [1]; the rest of the copper is in the end turns.
+    """
+    return 2.0 * stack_length / turn_length

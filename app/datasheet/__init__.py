@@ -14,7 +14,7 @@ import datetime as _dt
 import os
 from pathlib import Path
 
-from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.project import Project
 
 from ..cli import CommandError, atomic_output, write_text_atomically

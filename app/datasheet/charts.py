@@ -19,7 +19,7 @@ from PySide6.QtCore import QByteArray, QBuffer, QIODevice, QPointF, QRectF, QSiz
 from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF, QImage, QPainter, QPainterPath, QPen, QPolygonF
 from PySide6.QtSvg import QSvgGenerator
 
-from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.units import from_si
 
 CANVAS_WIDTH = 1000.0

@@ -10,7 +10,7 @@ from __future__ import annotations
 import datetime as _dt
 from dataclasses import dataclass, field
 
-from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.magnets import KNEE_LOSS_FRACTION
 from pmdc_sizer.core.project import Project
 from pmdc_sizer.core.units import from_si

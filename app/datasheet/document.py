@@ -13,7 +13,7 @@ import re
 from PySide6.QtCore import QMarginsF, QPointF, QRectF, QSizeF, QUrl, Qt
 from PySide6.QtGui import QColor, QImage, QPageLayout, QPageSize, QPainter, QPdfWriter, QPen, QTextDocument
 
-from pmdc_sizer.core.evaluate import Results
+from pmdc_sizer.core.results import Results
 
 from . import charts
 from .content import Chart, Columns, Datasheet, Paragraph, Table

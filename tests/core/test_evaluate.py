@@ -183,6 +183,7 @@ _UNITLESS = {
     "magnet_embrace", "slot_fill_bare", "slot_fill_gross", "parallel_paths", "commutator_segments",
     "turns_per_coil", "conductors", "conductors_per_slot", "coil_span_slots", "enamel_grade", "iterations",
     "converged", "ok", "rated_reached", "meets_load", "curve", "curves", "checks", "magnet_chart",
+    "poles", "slots", "reversing", "key", "title", "status", "message", "advice",
     # sub-results (dataclasses, named for what they hold)
     "magnet", "geometry", "magnetics", "winding", "constants", "cold", "nominal", "hot", "demagnetization",
     "thermal", "mass", "cost", "sizing", "cases", "rated", "max_efficiency_point", "max_power_point",
@@ -192,7 +193,7 @@ _UNITLESS = {
 _UNIT_SUFFIXES = ("_T", "_A_per_m", "_Wb", "_m", "_m2", "_m3", "_kg", "_kg_m2", "_kg_per_m3", "_W", "_A", "_ohm",
                   "_C", "_s", "_rad_per_s", "_N_m", "_V", "_V_s_per_rad", "_V_per_krpm", "_N_m_per_A",
                   "_mN_m_per_A", "_A_per_m2", "_K_per_W", "_H_estimate", "_s_estimate", "_minutes",
-                  "_rad_per_s_per_N_m", "_Pa", "_N_m_per_m3")
+                  "_rad_per_s_per_N_m", "_Pa", "_N_m_per_m3", "_rad")
 
 
 def test_every_result_field_names_its_unit(ferrite_demo):
@@ -200,7 +201,7 @@ def test_every_result_field_names_its_unit(ferrite_demo):
     missing = set()
 
     def walk(value):
-        if dataclasses.is_dataclass(value) and type(value).__module__ == "pmdc_sizer.core.evaluate":
+        if dataclasses.is_dataclass(value) and type(value).__module__ == "pmdc_sizer.core.results":
             for f in dataclasses.fields(value):
                 if f.name not in _UNITLESS and not f.name.endswith(_UNIT_SUFFIXES):
                     missing.add(f"{type(value).__name__}.{f.name}")

@@ -1,0 +1,332 @@
+"""What one evaluation returns: documented, frozen dataclasses, SI throughout, temperatures in °C.
+
+Every figure a view, the datasheet, the comparison or the checks display is here, the input values they
+echo included, so no reader has to go back to the project for a number. Each field's name carries its
+unit (``flux_per_pole_Wb``); the comment beside it gives the meaning in one line.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .magnets import DemagnetizationCurves
+
+
+@dataclass(frozen=True)
+class MagnetResult:
+    """The magnet grade as used, with its properties at the nominal ambient."""
+
+    name: str  #: grade name
+    family: str  #: material family (decides which temperature is the worst case)
+    temperature_C: float  #: the nominal ambient, at which the properties below are given [°C]
+    remanence_T: float  #: Br at ``temperature_C`` [T]
+    coercivity_HcB_A_per_m: float  #: normal coercivity HcB at ``temperature_C`` (magnitude) [A/m]
+    coercivity_HcJ_A_per_m: float  #: intrinsic coercivity HcJ at ``temperature_C`` (magnitude) [A/m]
+    knee_field_A_per_m: float  #: field where irreversible loss begins, at ``temperature_C`` (negative) [A/m]
+    remanence_20C_T: float  #: Br at 20 °C, as the grade data give it [T]
+    coercivity_HcJ_20C_A_per_m: float  #: HcJ at 20 °C, as the grade data give it [A/m]
+    max_working_temperature_C: float  #: the supplier's maximum working temperature [°C]
+    density_kg_per_m3: float  #: [kg/m³]
+    source: str  #: where the grade's numbers come from
+
+
+@dataclass(frozen=True)
+class MagneticsResult:
+    """The no-load magnetic circuit at one magnet temperature."""
+
+    temperature_C: float  #: magnet temperature [°C]
+    flux_per_pole_Wb: float  #: useful flux crossing the gap under one pole, stack length [Wb]
+    airgap_flux_density_T: float  #: flux per pole over the fringed gap area under the magnet [T]
+    magnet_flux_density_T: float  #: operating point's B in the magnet [T]
+    magnet_field_A_per_m: float  #: operating point's H in the magnet (negative) [A/m]
+    permeance_coefficient: float  #: -B/(μ0·H) at the operating point, iron drops included [1]
+    housing_flux_density_T: float  #: peak, in the housing wall at the interpolar axis [T]
+    tooth_flux_density_T: float  #: in the teeth under the pole [T]
+    core_flux_density_T: float  #: peak, in the armature back iron [T]
+    leakage_factor: float  #: magnet flux over useful gap flux [1]
+    carter_factor: float  #: Carter's coefficient of the slotted armature [1]
+    gap_mmf_A: float  #: MMF drop across the (effective) gap, one crossing [A]
+    teeth_mmf_A: float  #: MMF drop along the teeth [A]
+    core_mmf_A: float  #: MMF drop along the armature core, half a pole pitch [A]
+    housing_mmf_A: float  #: MMF drop along the housing, half a pole pitch [A]
+
+
+@dataclass(frozen=True)
+class WindingResult:
+    """The armature winding as built."""
+
+    type: str  #: "lap" or "wave"
+    parallel_paths: int  #: a [1]
+    commutator_segments: int  #: one coil each [1]
+    turns_per_coil: int  #: [1]
+    conductors: int  #: total conductors Z = 2·segments·turns [1]
+    conductors_per_slot: float  #: [1]
+    coil_span_slots: int  #: coil pitch in slots [1]
+    wire: str  #: wire size as given ("AWG 24", "0.50 mm")
+    wire_bare_diameter_m: float  #: copper diameter [m]
+    wire_overall_diameter_m: float  #: enamelled diameter (maximum per IEC 60317) [m]
+    enamel_grade: int  #: IEC 60317 grade 1, 2 or 3
+    mean_turn_length_m: float  #: one turn, end turns included [m]
+    wire_length_m: float  #: all coils [m]
+    slot_area_m2: float  #: one slot's cross-section [m²]
+    slot_fill_bare: float  #: copper area over slot area [1]
+    slot_fill_gross: float  #: enamelled round-wire area over slot area [1]
+    resistance_20C_ohm: float  #: terminal resistance of the winding at 20 °C [Ω]
+    rated_current_density_A_per_m2: float  #: in the hot case at the rated point [A/m²]
+
+
+@dataclass(frozen=True)
+class ConstantsResult:
+    """Motor constants at the nominal case."""
+
+    machine_constant: float  #: K = p·Z/(2π·a) [1]
+    ke_V_s_per_rad: float  #: back-EMF constant K·Φ [V·s/rad]
+    kt_N_m_per_A: float  #: torque constant, equal to Ke in SI [N·m/A]
+    ke_V_per_krpm: float  #: Ke for the datasheet [V/krpm]
+    kt_mN_m_per_A: float  #: Kt for the datasheet [mN·m/A]
+    terminal_resistance_ohm: float  #: winding resistance at the nominal ambient [Ω]
+    inductance_H_estimate: float  #: armature inductance, an estimate [H]
+    electrical_time_constant_s_estimate: float  #: L/R [s]
+    mechanical_time_constant_s: float  #: J·R/K² [s]
+    rotor_inertia_kg_m2: float  #: armature, shaft and extra inertia [kg·m²]
+
+
+@dataclass(frozen=True)
+class PointResult:
+    """The steady state at one shaft torque."""
+
+    torque_N_m: float  #: shaft torque [N·m]
+    speed_rad_per_s: float  #: [rad/s]
+    current_A: float  #: armature current [A]
+    input_power_W: float  #: V·I [W]
+    output_power_W: float  #: T·ω [W]
+    total_loss_W: float  #: input less output [W]
+    efficiency: float  #: output over input [1]
+
+
+@dataclass(frozen=True)
+class CurveData:
+    """The speed-torque table of one case (SI arrays, no load first, stall last)."""
+
+    torque_N_m: np.ndarray  #: shaft torque [N·m]
+    speed_rad_per_s: np.ndarray  #: [rad/s]
+    current_A: np.ndarray  #: [A]
+    input_power_W: np.ndarray  #: [W]
+    output_power_W: np.ndarray  #: [W]
+    efficiency: np.ndarray  #: [1]
+    copper_loss_W: np.ndarray  #: I²·R [W]
+    brush_loss_W: np.ndarray  #: Vb·I [W]
+    friction_loss_W: np.ndarray  #: [W]
+    viscous_loss_W: np.ndarray  #: [W]
+    iron_loss_W: np.ndarray  #: [W]
+
+
+@dataclass(frozen=True)
+class CaseResult:
+    """Performance at one temperature case."""
+
+    name: str  #: "cold", "nominal" or "hot"
+    temperature_C: float  #: winding temperature [°C]
+    ambient_C: float  #: ambient of the case [°C]
+    magnet_temperature_C: float  #: [°C]
+    winding_temperature_C: float  #: [°C]
+    flux_per_pole_Wb: float  #: at the magnet temperature, no load [Wb]
+    ke_V_s_per_rad: float  #: K·Φ at this case [V·s/rad]
+    terminal_resistance_ohm: float  #: at the winding temperature [Ω]
+    no_load_speed_rad_per_s: float  #: [rad/s]
+    no_load_current_A: float  #: [A]
+    stall_torque_N_m: float  #: at the supply voltage, no current limit [N·m]
+    stall_current_A: float  #: (V - Vb)/R [A]
+    speed_torque_gradient_rad_per_s_per_N_m: float  #: no-load speed over stall torque [rad/s per N·m]
+    max_efficiency: float  #: [1]
+    max_efficiency_point: PointResult  #: where the efficiency is highest
+    max_output_power_W: float  #: [W]
+    max_power_point: PointResult  #: where the output power is highest
+    rated: PointResult  #: at the rated torque (at stall when the load is beyond it)
+    rated_reached: bool  #: the rated torque is below the stall torque
+    meets_load: bool  #: rated torque reached at or above the required speed
+    curve: CurveData = field(repr=False)  #: the whole characteristic
+    #: shaft torque at which the armature current reaches the drive's limit [N·m]; None without a limit
+    #: or when the limit is above the stall current (the curve beyond it is not reachable with that drive)
+    current_limit_torque_N_m: float | None = None
+
+
+@dataclass(frozen=True)
+class DemagnetizationCase:
+    """One demagnetization case: a current at a temperature, or the rotor removed."""
+
+    name: str  #: e.g. "stall, cold"
+    kind: str  #: "stall", "reversal", "current limit" or "rotor removed"
+    temperature_C: float  #: magnet temperature of the case [°C]
+    current_A: float  #: armature current [A] (0 for the rotor removed)
+    magnet_field_A_per_m: float  #: field at the worst point of the magnet [A/m]
+    magnet_flux_density_T: float  #: normal-curve B there [T]
+    knee_field_A_per_m: float  #: knee field at the case's temperature (negative) [A/m]
+    margin_A_per_m: float  #: magnet field minus knee field; positive is safe [A/m]
+    ok: bool  #: the field stays above the knee
+
+
+@dataclass(frozen=True)
+class DemagnetizationResult:
+    """Every demagnetization case and the worst of them."""
+
+    ok: bool  #: every case stays above the knee
+    worst_case: str  #: name of the case with the least margin
+    worst_margin_A_per_m: float  #: its margin [A/m]
+    cases: tuple[DemagnetizationCase, ...]  #: in the order they were computed
+
+
+@dataclass(frozen=True)
+class ThermalResult:
+    """The hot case's temperatures at the rated point and the highest ambient."""
+
+    ambient_C: float  #: the highest ambient [°C]
+    duty: str  #: IEC 60034-1 duty type, "S1" or "S2"
+    duty_minutes: float  #: length of an S2 run [min]
+    housing_temperature_C: float  #: [°C]
+    winding_temperature_C: float  #: steady state (S1) or at the end of the short-time run (S2) [°C]
+    magnet_temperature_C: float  #: [°C]
+    steady_winding_temperature_C: float  #: S1 steady state, also shown for S2 [°C]
+    insulation_class: str  #: IEC 60085 class
+    insulation_limit_C: float  #: the class's temperature [°C]
+    magnet_limit_C: float  #: the grade's maximum working temperature [°C]
+    losses_W: float  #: total at the rated point, hot [W]
+    rotor_losses_W: float  #: copper, brush and iron losses, which heat the winding [W]
+    housing_to_ambient_K_per_W: float  #: given or estimated [K/W]
+    winding_to_housing_K_per_W: float  #: [K/W]
+    thermal_time_constant_s: float  #: [s]
+    iterations: int  #: of the losses ⇄ temperatures fixed point
+    converged: bool  #: False when no steady state exists; the hot case is then at the class limit
+    ok: bool  #: converged, and winding and magnets inside their limits
+    runaway_winding_temperature_C: float | None = None  #: where the iteration stopped, when it did not converge
+
+
+@dataclass(frozen=True)
+class MassResult:
+    """Masses of the active parts and the shaft."""
+
+    magnet_kg: float  #: [kg]
+    copper_kg: float  #: [kg]
+    housing_kg: float  #: [kg]
+    lamination_kg: float  #: [kg]
+    shaft_kg: float  #: [kg]
+    total_kg: float  #: sum of the above [kg]
+
+
+@dataclass(frozen=True)
+class CostResult:
+    """Raw-material cost at the project's prices per kilogram."""
+
+    currency: str  #: as the project gives it
+    magnet: float  #: [currency]
+    copper: float  #: [currency]
+    housing: float  #: [currency]
+    lamination: float  #: [currency]
+    total: float  #: [currency]
+
+
+@dataclass(frozen=True)
+class GeometryResult:
+    """The cross-section and lengths as evaluated, derived dimensions included."""
+
+    poles: int  #: number of magnet poles [1]
+    slots: int  #: armature slots [1]
+    housing_outer_diameter_m: float  #: armature + 2·(gap + magnet + wall) [m]
+    housing_inner_diameter_m: float  #: [m]
+    housing_wall_m: float  #: [m]
+    housing_length_m: float  #: axial [m]
+    magnet_inner_diameter_m: float  #: [m]
+    magnet_thickness_m: float  #: radial [m]
+    magnet_arc_rad: float  #: mechanical arc of one magnet [rad]
+    magnet_length_m: float  #: axial [m]
+    magnet_embrace: float  #: arc over pole pitch [1]
+    overhang_m: float  #: magnet beyond the stack at each end [m]
+    airgap_m: float  #: radial clearance [m]
+    armature_diameter_m: float  #: [m]
+    stack_length_m: float  #: axial [m]
+    shaft_diameter_m: float  #: [m]
+    slot_pitch_m: float  #: at the armature surface [m]
+    core_depth_m: float  #: armature back iron, slot bottom to shaft [m]
+    max_outer_diameter_m: float | None = None  #: the envelope limit, if the project sets one [m]
+
+
+@dataclass(frozen=True)
+class SizingResult:
+    """The classic sizing figures of the armature at the rated point, nominal case."""
+
+    electric_loading_A_per_m: float  #: ampere-conductors per metre of armature circumference [A/m]
+    magnetic_loading_T: float  #: mean gap flux density over the whole circumference [T]
+    rotor_volume_m3: float  #: π/4·D²·L [m³]
+    torque_per_rotor_volume_N_m_per_m3: float  #: electromagnetic torque over rotor volume (TRV) [N·m/m³]
+    airgap_shear_stress_Pa: float  #: TRV/2 [Pa]
+
+
+@dataclass(frozen=True)
+class MagnetChartCase:
+    """Plot data of the magnet operating chart for one temperature."""
+
+    name: str  #: "cold", "nominal" or "hot"
+    curves: DemagnetizationCurves  #: normal and intrinsic curves at the case's magnet temperature
+    operating_field_A_per_m: float  #: no-load operating point's H [A/m]
+    operating_flux_density_T: float  #: no-load operating point's B [T]
+    permeance_coefficient: float  #: slope of the operating point, iron drops included [1]
+
+
+@dataclass(frozen=True)
+class Check:
+    """One design check: what was tested, the finding, and what to change."""
+
+    key: str  #: stable identifier, e.g. "demagnetization" or "housing_flux_density"
+    title: str  #: a short label for the checks panel
+    status: str  #: "pass", "warning" or "fail"
+    message: str  #: the reason, in a sentence, with the numbers
+    advice: str = ""  #: what to change, when it did not pass
+
+    @property
+    def sentence(self) -> str:
+        """Title, finding and advice as one line."""
+        text = f"{self.title}: {self.message}"
+        return f"{text} {self.advice[0].upper() + self.advice[1:]}." if self.advice else text
+
+
+@dataclass(frozen=True)
+class Results:
+    """Everything one evaluation computes. SI throughout; temperatures in °C."""
+
+    name: str  #: the project's name
+    supply_voltage_V: float  #: at the motor terminals [V]
+    brush_drop_V: float  #: both brushes [V]
+    load_torque_N_m: float  #: rated shaft torque [N·m]
+    load_speed_rad_per_s: float  #: required speed at the rated torque [rad/s]
+    magnet: MagnetResult
+    geometry: GeometryResult
+    magnetics: MagneticsResult  #: nominal case
+    winding: WindingResult
+    constants: ConstantsResult
+    cold: CaseResult
+    nominal: CaseResult
+    hot: CaseResult
+    demagnetization: DemagnetizationResult
+    thermal: ThermalResult
+    mass: MassResult
+    cost: CostResult
+    checks: tuple[Check, ...]
+    magnet_chart: tuple[MagnetChartCase, ...] = field(repr=False)
+    sizing: SizingResult | None = None
+    current_limit_A: float | None = None  #: the drive's current limit, if the project sets one [A]
+    reversing: bool = False  #: the application reverses (plugs) the motor at speed
+    ambient_min_C: float = 20.0  #: coldest ambient [°C]
+    ambient_nominal_C: float = 20.0  #: nominal ambient [°C]
+    ambient_max_C: float = 20.0  #: hottest ambient [°C]
+
+    @property
+    def cases(self) -> tuple[CaseResult, CaseResult, CaseResult]:
+        """Cold, nominal and hot, in that order."""
+        return (self.cold, self.nominal, self.hot)
+
+    @property
+    def warnings(self) -> list[str]:
+        """Sentences for every check that did not pass."""
+        return [c.sentence for c in self.checks if c.status != "pass"]
