@@ -7,78 +7,16 @@ computation has no solution.
 from __future__ import annotations
 
 import argparse
-import contextlib
-import csv
-import io
 import json
-import os
 import sys
-import tempfile
-from pathlib import Path
 
-from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
 from pmdc_sizer.core.project import ProjectError
 
-EXIT_BAD_INPUT = 2
-EXIT_NO_SOLUTION = 1
-
-
-class CommandError(Exception):
-    """A user-facing error: one line, no traceback."""
-
-    def __init__(self, message: str, status: int = EXIT_BAD_INPUT):
-        super().__init__(message)
-        self.status = status
-
-
-def load_project(path: str, overrides: list[str] | None = None):
-    project = project_file.load(path)
-    if overrides:
-        project = project_file.apply_overrides(project, overrides)
-    return project
-
-
-def evaluate_project(project):
-    from pmdc_sizer.core.evaluate import evaluate
-
-    return evaluate(project)
-
-
-@contextlib.contextmanager
-def atomic_output(path: str | os.PathLike):
-    """A temporary path beside ``path`` to write into, renamed over ``path`` only if the block succeeds.
-
-    Nothing is left behind on failure. The file gets the usual permissions (0666 less the umask), not
-    the private 0600 of a temporary file, since exports are meant to be handed on.
-    """
-    path = Path(path)
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        raise CommandError(f"{path}: the folder {folder} does not exist")
-    try:
-        handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
-    except OSError as error:
-        raise CommandError(f"{path}: cannot write here ({error.strerror or error})") from None
-    os.close(handle)
-    try:
-        yield temporary
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(temporary, 0o666 & ~umask)
-        os.replace(temporary, path)
-    except OSError as error:
-        raise CommandError(f"{path}: cannot write the file ({error.strerror or error})") from None
-    finally:
-        Path(temporary).unlink(missing_ok=True)
-
-
-def write_text_atomically(path: str | os.PathLike, text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file in the same folder; no partial file is left."""
-    with atomic_output(path) as temporary:
-        with open(temporary, "w", encoding="utf-8", newline="") as stream:
-            stream.write(text)
-
+from . import cli_compare, cli_datasheet
+from .cli_inputs import evaluate_project, load_project
+from .errors import EXIT_BAD_INPUT, EXIT_NO_SOLUTION, CommandError
+from .files import curves_csv, write_text_atomically
 
 # --------------------------------------------------------------------------------------------
 # Subcommands
@@ -128,38 +66,6 @@ def cmd_grades(args) -> int:
     return 0
 
 
-CURVE_COLUMNS = (
-    ("torque_mN_m", "torque_N_m", "mN·m"),
-    ("speed_rpm", "speed_rad_per_s", "rpm"),
-    ("current_A", "current_A", "A"),
-    ("input_power_W", "input_power_W", "W"),
-    ("output_power_W", "output_power_W", "W"),
-    ("efficiency_pct", "efficiency", "%"),
-    ("copper_loss_W", "copper_loss_W", "W"),
-    ("brush_loss_W", "brush_loss_W", "W"),
-    ("friction_loss_W", "friction_loss_W", "W"),
-    ("viscous_loss_W", "viscous_loss_W", "W"),
-    ("iron_loss_W", "iron_loss_W", "W"),
-)
-
-
-def curves_csv(results, cases=("cold", "nominal", "hot")) -> str:
-    """The speed-torque tables of the chosen cases as CSV; the header names every unit."""
-    from pmdc_sizer.core.units import from_si
-
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(["case", "winding_temperature_C", "magnet_temperature_C"] + [c[0] for c in CURVE_COLUMNS])
-    for case in results.cases:
-        if case.name not in cases:
-            continue
-        columns = [from_si(getattr(case.curve, field), unit) for _, field, unit in CURVE_COLUMNS]
-        for row in zip(*columns):
-            writer.writerow([case.name, f"{case.winding_temperature_C:.2f}", f"{case.magnet_temperature_C:.2f}"]
-                            + [f"{v:.6g}" for v in row])
-    return buffer.getvalue()
-
-
 def cmd_curves(args) -> int:
     results = evaluate_project(load_project(args.file, args.set))
     cases = ("cold", "nominal", "hot") if args.case == "all" else (args.case,)
@@ -171,10 +77,16 @@ def cmd_curves(args) -> int:
     return 0
 
 
+GUI_LIBRARIES = ("PySide6", "shiboken6", "pyqtgraph")
+
+
 def cmd_gui(args) -> int:
     try:
         from .gui.main_window import run
-    except ImportError as error:
+    except ModuleNotFoundError as error:
+        # Only a missing GUI library means "install the extra"; any other failed import is a defect to see.
+        if (error.name or "").split(".")[0] not in GUI_LIBRARIES:
+            raise
         raise CommandError(f"the desktop tool needs the 'gui' extra (PySide6, pyqtgraph): {error}", status=1) from None
     return run(args.file, screenshot=args.screenshot)
 
@@ -210,23 +122,10 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--screenshot", metavar="OUT.png", help="render the main window offscreen to a PNG and exit")
     p.set_defaults(handler=cmd_gui)
 
-    for register in _extensions():
-        register(sub)
+    # Subcommands that live in their own modules.
+    cli_compare.register(sub)
+    cli_datasheet.register(sub)
     return parser
-
-
-def _extensions():
-    """Subcommands that live in their own modules (compare, datasheet)."""
-    registrations = []
-    for module_name in ("pmdc_sizer.app.cli_compare", "pmdc_sizer.app.cli_datasheet"):
-        try:
-            module = __import__(module_name, fromlist=["register"])
-        except ModuleNotFoundError as error:
-            if error.name == module_name:
-                continue
-            raise
-        registrations.append(module.register)
-    return registrations
 
 
 def main(argv: list[str] | None = None) -> int:

@@ -11,11 +11,12 @@ from __future__ import annotations
 
 import json
 
-from pmdc_sizer.core import compare
+from pmdc_sizer.core import difference, refit
 from pmdc_sizer.core.units import from_si
 
-from .cli import EXIT_NO_SOLUTION, CommandError, evaluate_project, load_project
+from .cli_inputs import evaluate_project, load_project
 from .compare_text import check_lines, figure_rows, refit_lines, table_lines
+from .errors import EXIT_NO_SOLUTION, CommandError
 from .results_json import results_json
 
 
@@ -28,7 +29,7 @@ def register(subparsers) -> None:
     p.add_argument("file_a", metavar="A.toml", help="design A, the reference")
     p.add_argument("file_b", metavar="B.toml", nargs="?", help="design B (or give --grade-b instead)")
     p.add_argument("--grade-b", metavar="NAME", help="B is A with this library magnet grade (see `pmdc-sizer grades`)")
-    p.add_argument("--refit", choices=tuple(compare.TARGETS),
+    p.add_argument("--refit", choices=tuple(refit.TARGETS),
                    help="change B until it meets A's Ke (magnet thickness), no-load speed (turns per coil) or "
                         "stall torque (stack length)")
     p.add_argument("--json", action="store_true",
@@ -40,11 +41,11 @@ def _design_b(args, design_a):
     if (args.file_b is None) == (args.grade_b is None):
         raise CommandError("compare: give design B either as a second project file or as --grade-b NAME (one of them)")
     if args.grade_b is not None:
-        return compare.with_grade(design_a, args.grade_b)
+        return difference.with_grade(design_a, args.grade_b)
     return load_project(args.file_b)
 
 
-def refit_json(fit: compare.Refit, results_a) -> dict:
+def refit_json(fit: refit.Refit, results_a) -> dict:
     """The re-fit as plain data; figures in ``figure_unit`` (speeds in rpm, as in the evaluate JSON)."""
     unit = "N·m" if fit.figure_unit == "mN·m" else fit.figure_unit  # torques in N·m, as in the evaluate JSON
 
@@ -65,7 +66,7 @@ def refit_json(fit: compare.Refit, results_a) -> dict:
         "parameter_unit": fit.parameter_unit,
         "value_before": fit.value_before,
         "value_after": fit.value_after,
-        "whole_numbers": compare.TARGETS[fit.target].integer,
+        "whole_numbers": refit.TARGETS[fit.target].integer,
         "search_range": list(fit.search_range),
         "range_limits": list(fit.range_limits),
         "changes": [{"key": c.key, "before": c.before, "after": c.after, "reason": c.reason} for c in fit.changes],
@@ -78,7 +79,7 @@ def refit_json(fit: compare.Refit, results_a) -> dict:
         "currency": fit.currency,
         "evaluations": fit.evaluations,
         "b_after": after,
-        "difference_after": compare.nested_difference(results_json(results_a), after),
+        "difference_after": difference.nested_difference(results_json(results_a), after),
     }
 
 
@@ -88,16 +89,16 @@ def cmd_compare(args) -> int:
     design_a = load_project(args.file_a)
     design_b = _design_b(args, design_a)
     results_a, results_b = evaluate_project(design_a), evaluate_project(design_b)
-    comparison = compare.compare(design_a, design_b, results_a, results_b)
-    fit = compare.refit(args.refit, results_a, design_b, results_b) if args.refit else None
+    comparison = difference.compare(design_a, design_b, results_a, results_b)
+    fit = refit.refit(args.refit, results_a, design_b, results_b) if args.refit else None
 
     if args.json:
         json_a, json_b = results_json(results_a), results_json(results_b)
         out = {
             "a": json_a,
             "b": json_b,
-            "difference": compare.nested_difference(json_a, json_b),
-            "relative_difference": compare.nested_difference(json_a, json_b, relative=True),
+            "difference": difference.nested_difference(json_a, json_b),
+            "relative_difference": difference.nested_difference(json_a, json_b, relative=True),
         }
         if fit is not None:
             out["refit"] = refit_json(fit, results_a)
@@ -124,7 +125,7 @@ def compare_text(args, design_a, design_b, comparison, fit) -> list[str]:
         lines += ["", f"Checks of {side}:"] + [f"  {line}" for line in check_lines(results)]
     if fit is not None:
         lines += ["", f"Re-fit of B to A's {fit.title}:"] + refit_lines(fit)
-        after = compare.compare(design_a, fit.project, a, fit.results)
+        after = difference.compare(design_a, fit.project, a, fit.results)
         lines += ["", "A against re-fitted B:"] + table_lines(figure_rows(after), "A", "B re-fit")
         lines += ["", "Checks of re-fitted B:"] + [f"  {line}" for line in check_lines(fit.results)]
     lines += ["", "Estimates to be confirmed by test. Strong magnets pinch and shatter; handle them under your "

@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from .cli import CommandError, evaluate_project, load_project
+from .cli_inputs import evaluate_project, load_project
+from .errors import CommandError
 
 
 def cmd_datasheet(args) -> int:

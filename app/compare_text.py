@@ -9,10 +9,47 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from pmdc_sizer.core.compare import Comparison, Refit
+from pmdc_sizer.core.difference import Comparison, FigureDifference
+from pmdc_sizer.core.refit import Refit
+from pmdc_sizer.core.schema import key_spec
 from pmdc_sizer.core.units import from_si
 
 from .formatting import significant
+
+
+#: The figures an engineer reads first when choosing between two designs: (key, title, display unit).
+#: Nominal case unless the title says otherwise.
+KEY_FIGURES: tuple[tuple[str, str, str], ...] = (
+    ("magnet.remanence_T", "Br", "T"),
+    ("magnet.coercivity_HcJ_A_per_m", "HcJ", "kA/m"),
+    ("geometry.magnet_thickness_m", "Magnet thickness", "mm"),
+    ("magnetics.permeance_coefficient", "Permeance coefficient", "1"),
+    ("magnetics.magnet_flux_density_T", "Operating point Bm", "T"),
+    ("magnetics.airgap_flux_density_T", "Air-gap flux density", "T"),
+    ("magnetics.flux_per_pole_Wb", "Flux per pole", "mWb"),
+    ("constants.ke_V_s_per_rad", "Ke = Kt", "V·s/rad"),
+    ("constants.terminal_resistance_ohm", "Terminal resistance", "ohm"),
+    ("nominal.no_load_speed_rad_per_s", "No-load speed", "rpm"),
+    ("nominal.no_load_current_A", "No-load current", "A"),
+    ("nominal.stall_torque_N_m", "Stall torque", "mN·m"),
+    ("nominal.stall_current_A", "Stall current", "A"),
+    ("nominal.rated.speed_rad_per_s", "Rated-torque speed", "rpm"),
+    ("hot.rated.speed_rad_per_s", "Rated-torque speed, hot", "rpm"),
+    ("nominal.rated.current_A", "Rated-torque current", "A"),
+    ("nominal.max_efficiency", "Maximum efficiency", "%"),
+    ("nominal.max_output_power_W", "Maximum output power", "W"),
+    ("demagnetization.worst_margin_A_per_m", "Least margin to the knee", "kA/m"),
+    ("thermal.winding_temperature_C", "Winding temp., hot", "°C"),
+    ("mass.magnet_kg", "Magnet mass", "g"),
+    ("mass.total_kg", "Active mass", "g"),
+    ("cost.magnet", "Magnet material cost", ""),
+    ("cost.total", "Material cost", ""),
+)
+
+
+def key_figures(comparison: Comparison) -> tuple[tuple[str, str, FigureDifference], ...]:
+    """(title, display unit, difference) for each of :data:`KEY_FIGURES`."""
+    return tuple((title, unit, comparison.figure(key)) for key, title, unit in KEY_FIGURES)
 
 
 @dataclass(frozen=True)
@@ -53,7 +90,7 @@ def figure_rows(comparison: Comparison) -> tuple[FigureRow, ...]:
     if comparison.b.cost.currency != currency:
         currency = f"A {currency}, B {comparison.b.cost.currency}"
     rows = []
-    for title, unit, item in comparison.key_figures():
+    for title, unit, item in key_figures(comparison):
         label = f"{title} [{currency if item.key.startswith('cost.') else unit or '1'}]"
         a, b = _shown(item.a, unit), _shown(item.b, unit)
         difference = _difference(b - a, max(abs(a), abs(b)))
@@ -95,8 +132,6 @@ def parameter_text(value, unit: str) -> str:
 
 def refit_lines(fit: Refit) -> list[str]:
     """The re-fit in sentences: what changed, how close it came, and what it costs against A."""
-    from pmdc_sizer.core.project import key_spec
-
     lines = [fit.message if fit.reached else f"Out of reach: {fit.message}"]
     for change in fit.changes:
         unit = key_spec(change.key).unit

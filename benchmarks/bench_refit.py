@@ -15,7 +15,7 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from pmdc_sizer.core import compare, project  # noqa: E402
+from pmdc_sizer.core import difference, project, refit  # noqa: E402
 from pmdc_sizer.core.evaluate import evaluate  # noqa: E402
 
 DEMO_FOLDER = Path(__file__).resolve().parents[1] / "demo_projects"
@@ -37,12 +37,12 @@ def main() -> None:
     for demo, grade in CASES:
         design_a = project.load(DEMO_FOLDER / f"{demo}.toml")
         results_a = evaluate(design_a)
-        design_b = compare.with_grade(design_a, grade)
+        design_b = difference.with_grade(design_a, grade)
         results_b = evaluate(design_b)
         one = _median_seconds(lambda: evaluate(design_b), 50)
-        for target in compare.TARGETS:
-            fit = compare.refit(target, results_a, design_b, results_b)
-            seconds = _median_seconds(lambda: compare.refit(target, results_a, design_b, results_b), 5)
+        for target in refit.TARGETS:
+            fit = refit.refit(target, results_a, design_b, results_b)
+            seconds = _median_seconds(lambda: refit.refit(target, results_a, design_b, results_b), 5)
             ratio = seconds / one
             worst = max(worst, ratio)
             print(f"{demo:<24} B = {grade:<6} {target:<14} {seconds * 1e3:7.1f} ms = {ratio:5.1f} evaluations "

@@ -9,6 +9,14 @@ Wire sizes: American Wire Gauge diameters per ASTM B258, d = 0.127 mm · 92^((36
 (R20 series). The overall diameter with enamel follows IEC 60317-0-1's grades 1, 2 and 3 (thin,
 medium, thick film); the increments below are typical maxima read as a fraction of the bare diameter
 plus a floor, from memory of that standard's table, accurate to a few micrometres.
+
+References
+----------
+.. [1] IEC 60028:1925, International standard of resistance for copper.
+.. [2] ASTM B258, Standard specification for standard nominal diameters and cross-sectional areas of
+   AWG sizes of solid round wires used as electrical conductors.
+.. [3] IEC 60317-0-1, Specifications for particular types of winding wires, part 0-1: general
+   requirements, enamelled round copper wire (the grade increments here are from memory).
 """
 
 from __future__ import annotations
@@ -25,14 +33,45 @@ COPPER_TEMP_COEFF_20C = 0.00393  #: α20 [1/K], IEC 60028
 COPPER_DENSITY = 8890.0  #: [kg/m³], IEC 60028
 
 
-def copper_resistivity(temperature_C):
-    """Resistivity of annealed copper [Ω·m] at temperature [°C] (IEC 60028)."""
+def copper_resistivity(temperature_C: float | np.ndarray) -> float | np.ndarray:
+    """Resistivity of annealed copper at a temperature, ρ(T) = ρ20·(1 + α20·(T - 20 °C)).
+
+    Parameters
+    ----------
+    temperature_C : float or ndarray
+        Conductor temperature [°C].
+
+    Returns
+    -------
+    float or ndarray
+        Resistivity [Ω·m].
+
+    References
+    ----------
+    .. [1] IEC 60028:1925: ρ20 = 1/58 Ω·mm²/m and α20 = 0.00393 1/K for annealed copper.
+    """
     return COPPER_RESISTIVITY_20C * (1.0 + COPPER_TEMP_COEFF_20C * (temperature_C - 20.0))
 
 
 def awg_diameter(gauge: int) -> float:
-    """Bare diameter of AWG ``gauge`` [m] (ASTM B258: d = 0.127 mm · 92^((36 - n)/39))."""
-    return to_si(0.127 * 92.0 ** ((36 - gauge) / 39.0), "mm")
+    """Bare diameter of an American Wire Gauge size, d = 0.127 mm · 92^((36 - n)/39).
+
+    Parameters
+    ----------
+    gauge : int
+        The gauge number n [1]: 0 to 44, or -1, -2, -3 for 00, 000 and 0000.
+
+    Returns
+    -------
+    float
+        Bare diameter [m].
+
+    References
+    ----------
+    .. [1] ASTM B258, the defining formula of the AWG diameters.
+    """
+    # float ** float is typed Any (a negative base would give a complex); this base is positive
+    return to_si(float(0.127 * 92.0 ** ((36 - gauge) / 39.0)), "mm")
 
 
 # Nominal bare diameters [mm] of IEC 60317-0-1, R20 series, 0.10 mm to 2.50 mm.
@@ -64,7 +103,28 @@ class Wire:
 
 
 def parse_wire_size(label: str) -> float:
-    """Bare diameter [m] from "AWG n" (n from 0 to 44) or "d mm" (an IEC 60317-0-1 R20 size)."""
+    """Bare diameter of a wire size as a project file writes it.
+
+    Parameters
+    ----------
+    label : str
+        ``"AWG n"`` with n from 0 to 44, or ``"d mm"`` with d a nominal size of IEC 60317-0-1 (R20
+        series, 0.10 to 2.50 mm), e.g. ``"AWG 24"`` or ``"0.50 mm"``.
+
+    Returns
+    -------
+    float
+        Bare diameter [m].
+
+    Raises
+    ------
+    ValueError
+        Naming the label and what is accepted, if it is neither form or not a standard size.
+
+    References
+    ----------
+    .. [1] ASTM B258 (AWG) and IEC 60317-0-1 (metric nominal diameters).
+    """
     match = _WIRE_PATTERN.match(label)
     if not match:
         raise ValueError(f"wire size {label!r} is not 'AWG n' or 'd mm' (for example 'AWG 24' or '0.50 mm')")
@@ -83,12 +143,51 @@ def parse_wire_size(label: str) -> float:
 
 
 def overall_diameter(bare_diameter: float, enamel_grade: int) -> float:
-    """Maximum overall diameter with enamel [m] for IEC 60317-0-1 grade 1, 2 or 3 (from memory)."""
+    """Maximum overall diameter of an enamelled wire: the bare diameter plus the film build.
+
+    The build on the diameter is the larger of a fraction of the bare diameter and a floor, per grade.
+
+    Parameters
+    ----------
+    bare_diameter : float
+        Bare copper diameter [m].
+    enamel_grade : int
+        IEC 60317-0-1 grade [1]: 1 (thin), 2 (medium) or 3 (thick film).
+
+    Returns
+    -------
+    float
+        Overall diameter with enamel [m], a maximum, accurate to a few micrometres.
+
+    References
+    ----------
+    .. [1] IEC 60317-0-1, table of maximum overall diameters; the fractions and floors here are read
+       from that table from memory.
+    """
     fraction, floor_mm = _ENAMEL_BUILD[enamel_grade]
     return bare_diameter + max(fraction * bare_diameter, to_si(floor_mm, "mm"))
 
 
 def wire(label: str, enamel_grade: int) -> Wire:
+    """The enamelled round wire of a size label and an enamel grade.
+
+    Parameters
+    ----------
+    label : str
+        Size as in :func:`parse_wire_size`, e.g. ``"AWG 24"`` or ``"0.50 mm"``.
+    enamel_grade : int
+        IEC 60317-0-1 grade [1]: 1, 2 or 3.
+
+    Returns
+    -------
+    Wire
+        Bare and overall diameters [m], with the label as given (stripped).
+
+    Raises
+    ------
+    ValueError
+        If the label is not a standard size (see :func:`parse_wire_size`).
+    """
     bare = parse_wire_size(label)
     return Wire(label=label.strip(), bare_diameter=bare, overall_diameter=overall_diameter(bare, enamel_grade),
                 enamel_grade=enamel_grade)

@@ -10,8 +10,9 @@ from dataclasses import dataclass
 from . import library
 from .conductors import Wire, wire
 from .geometry import Geometry
+from .errors import ProjectError
 from .magnets import MagnetGrade
-from .project import Project
+from .schema import Project
 from .steel import Steel
 from .units import to_si
 
@@ -97,22 +98,26 @@ def magnet_grade_of(project: Project) -> MagnetGrade:
         try:
             return library.grade_from_spec(project.magnets.custom_grade, custom=True)
         except ValueError as error:
-            from .project import ProjectError
 
             raise ProjectError(f"magnets.custom_grade: {error}", key="magnets.custom_grade.squareness") from None
     return library.magnet_grade(project.magnets.grade)
 
 
-def design_from_project(project: Project) -> Design:
-    """Resolve materials and convert every quantity to SI. Raises ``ProjectError`` naming the key."""
-    from .project import ProjectError
+def geometry_of(project: Project) -> Geometry:
+    """The cross-section and lengths of a project in SI: the one place where its dimensions become metres.
 
+    Parameters
+    ----------
+    project : Project
+        A project whose sections passed the schema (the fit rules use this before they pass).
+
+    Returns
+    -------
+    Geometry
+        Radii, lengths and angles in SI [m, rad].
+    """
     p = project
-    try:
-        winding_wire = wire(p.winding.wire, p.winding.enamel_grade)
-    except ValueError as error:
-        raise ProjectError(f"winding.wire: {error}", key="winding.wire") from None
-    geometry = Geometry(
+    return Geometry(
         poles=p.motor.poles,
         magnet_thickness=to_si(p.magnets.thickness_mm, "mm"),
         magnet_arc=to_si(p.magnets.arc_deg, "deg"),
@@ -129,6 +134,16 @@ def design_from_project(project: Project) -> Design:
         slot_depth=to_si(p.armature.slot_depth_mm, "mm"),
         shaft_radius=to_si(p.armature.shaft_diameter_mm, "mm") / 2.0,
     )
+
+
+def design_from_project(project: Project) -> Design:
+    """Resolve materials and convert every quantity to SI. Raises ``ProjectError`` naming the key."""
+    p = project
+    try:
+        winding_wire = wire(p.winding.wire, p.winding.enamel_grade)
+    except ValueError as error:
+        raise ProjectError(f"winding.wire: {error}", key="winding.wire") from None
+    geometry = geometry_of(p)
     w = p.winding
     return Design(
         project=p,

@@ -60,7 +60,7 @@ from .performance import (
     speed_torque_curve,
     stall_torque,
 )
-from .project import Project
+from .schema import Project
 from .results import (
     CaseResult,
     ConstantsResult,

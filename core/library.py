@@ -19,8 +19,9 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
+from .errors import ProjectError
 from .magnets import MagnetGrade
-from .project import CustomGrade, ProjectError, _format_validation_error
+from .schema import CustomGrade, format_validation_error
 from .steel import Steel
 from .units import from_si, to_si
 
@@ -110,7 +111,7 @@ def _entries(data: dict, source: str):
         try:
             yield "grade", grade_from_spec(CustomGrade.model_validate(entry), custom=source != "built-in")
         except ValidationError as error:
-            message = _format_validation_error(error)
+            message = format_validation_error(error)
             raise ProjectError(f"{source}: grade[{index}].{message}") from None
         except ValueError as error:
             raise ProjectError(f"{source}: grade[{index}]: {error}") from None
@@ -118,7 +119,7 @@ def _entries(data: dict, source: str):
         try:
             yield "steel", steel_from_spec(SteelSpec.model_validate(entry))
         except ValidationError as error:
-            raise ProjectError(f"{source}: steel[{index}].{_format_validation_error(error)}") from None
+            raise ProjectError(f"{source}: steel[{index}].{format_validation_error(error)}") from None
         except ValueError as error:
             raise ProjectError(f"{source}: steel[{index}]: {error}") from None
 

@@ -1,413 +1,61 @@
-"""The project file: one complete motor design as human-editable, versioned TOML.
+"""The project file: one complete motor design as human-editable, versioned TOML, read and written.
 
-This schema is the single source of truth for every input quantity: its key, engineering unit (in the
-key's suffix and in ``unit``), limits, default and one-sentence description live here once. The file
-validator, the GUI's editor, the key table in ``docs/project-file.md`` and the command line's ``--set``
-all read it.
+Loading never half-succeeds: a file is read, parsed and validated (:func:`fit_rules.validate`) or
+refused with one line naming the file, the key and the limit; a file from a newer format version is
+refused with a clear message. Saving writes a temporary file in the same folder and renames it over
+the target.
 
-Rules: unknown keys are errors (a typo is never ignored), values are strictly typed (a number where a
-number belongs), every range names its key, cross-field checks name the dimension and the limit, and a
-file from a newer format version is refused with a clear message. Loading never half-succeeds; saving
-writes a temporary file in the same folder and renames it over the target.
+The schema (:mod:`schema`), the fit rules (:mod:`fit_rules`) and what-if edits (:mod:`edits`) live in
+modules of their own; their public names are re-exported here so that ``project.load``,
+``project.with_values`` and ``project.Project`` read naturally at the call site.
 """
 
 from __future__ import annotations
 
-import datetime
-import math
 import os
 import tempfile
 import tomllib
-import typing
-from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Iterator, Literal, Optional
 
 import tomli_w
-from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
 
+from .edits import get_value, with_values
 from .errors import ProjectError
-
-FORMAT_VERSION = 1
-
-
-def quantity(default, unit: str, minimum=None, maximum=None, description: str = "", **kwargs):
-    """A numeric field with its engineering unit, inclusive limits and a one-sentence description."""
-    return Field(
-        default,
-        ge=minimum,
-        le=maximum,
-        description=description,
-        json_schema_extra={"unit": unit},
-        **kwargs,
-    )
-
-
-def choice(default, description: str):
-    return Field(default, description=description, json_schema_extra={"unit": ""})
-
-
-class _Section(BaseModel):
-    model_config = ConfigDict(extra="forbid", strict=True, frozen=True, validate_default=True)
-
-
-class ProjectInfo(_Section):
-    name: str = Field("Untitled motor", min_length=1, max_length=120, description="Name of the design, shown on the datasheet.")
-    description: str = Field("", max_length=2000, description="What the motor is for, in a sentence or two.")
-    revision: str = Field("A", min_length=1, max_length=20, description="Design revision shown on the datasheet.")
-    revision_date: Optional[str] = Field(None, pattern=r"^\d{4}-\d{2}-\d{2}$", description="Date of this revision as YYYY-MM-DD, shown on the datasheet as its issue date; leave out to use the export date.")
-    notes: str = Field("", max_length=4000, description="Free notes printed on the datasheet.")
-
-    @field_validator("revision_date")
-    @classmethod
-    def _is_a_calendar_date(cls, value):
-        if value is not None:
-            try:
-                datetime.date.fromisoformat(value)
-            except ValueError:
-                raise ValueError("is not a calendar date (YYYY-MM-DD)") from None
-        return value
-
-
-class Supply(_Section):
-    voltage_V: float = quantity(12.0, "V", 1.0, 600.0, "DC supply voltage at the motor terminals.")
-    brush_drop_V: float = quantity(1.0, "V", 0.0, 10.0, "Total voltage drop across both brushes at rated current.")
-    current_limit_A: Optional[float] = quantity(None, "A", 0.01, 5000.0, "Current limit of the drive, if it has one; leave out for a plain supply.")
-    reversing: bool = Field(True, description="Whether the application reverses the motor at speed (plugging); if so the reversal current is checked.", json_schema_extra={"unit": ""})
-
-
-class Load(_Section):
-    torque_mNm: float = quantity(50.0, "mN·m", 0.0, 1.0e5, "Shaft torque at the rated point.")
-    speed_rpm: float = quantity(3000.0, "rpm", 0.0, 60000.0, "Lowest acceptable speed at the rated torque, at every temperature.")
-
-
-class Temperatures(_Section):
-    ambient_min_C: float = quantity(-20.0, "°C", -70.0, 60.0, "Coldest ambient the motor must work and survive in.")
-    ambient_nominal_C: float = quantity(25.0, "°C", -40.0, 80.0, "Ambient of the nominal case.")
-    ambient_max_C: float = quantity(40.0, "°C", -20.0, 150.0, "Hottest ambient the motor must work in.")
-
-
-class CustomGrade(_Section):
-    name: str = Field(..., min_length=1, max_length=60, description="Grade name as the supplier gives it.")
-    family: Literal[
-        "sintered NdFeB", "bonded NdFeB", "SmCo 1:5", "SmCo 2:17",
-        "hard ferrite, isotropic", "hard ferrite, anisotropic", "AlNiCo",
-    ] = Field(..., description="Material family; decides which temperature is the worst case.")
-    remanence_T: float = quantity(..., "T", 0.05, 1.6, "Br at 20 °C.")
-    coercivity_HcB_kA_per_m: float = quantity(..., "kA/m", 10.0, 1200.0, "Normal coercivity HcB at 20 °C.")
-    coercivity_HcJ_kA_per_m: float = quantity(..., "kA/m", 10.0, 3500.0, "Intrinsic coercivity HcJ at 20 °C.")
-    energy_product_kJ_per_m3: float = quantity(..., "kJ/m3", 1.0, 480.0, "(BH)max at 20 °C.")
-    recoil_permeability: float = quantity(1.05, "1", 1.0, 8.0, "Relative recoil permeability μrec.")
-    squareness: float = quantity(0.9, "1", 0.3, 0.999, "Hk/HcJ, where Hk is the field at which J = 0.9·Br.")
-    remanence_temp_coeff_pct_per_K: float = quantity(..., "%/K", -0.5, 0.1, "Reversible temperature coefficient of Br.")
-    coercivity_temp_coeff_pct_per_K: float = quantity(..., "%/K", -1.5, 1.0, "Reversible temperature coefficient of HcJ.")
-    max_working_temperature_C: float = quantity(..., "°C", 20.0, 550.0, "Supplier's maximum working temperature.")
-    density_kg_per_m3: float = quantity(..., "kg/m3", 1000.0, 10000.0, "Density.")
-    source: str = Field("user data", max_length=400, description="Where the numbers come from (certificate, datasheet).")
-
-
-class Magnets(_Section):
-    grade: Optional[str] = Field(None, min_length=1, max_length=60, description="Magnet grade from the library (see `pmdc-sizer grades`); leave out when custom_grade is given.")
-    custom_grade: Optional[CustomGrade] = Field(None, description="Inline grade data from a supplier's certificate, used instead of a library grade.")
-    thickness_mm: float = quantity(5.0, "mm", 0.5, 40.0, "Radial thickness of each arc magnet.")
-    arc_deg: float = quantity(130.0, "deg", 15.0, 178.0, "Mechanical arc of each magnet; at most the pole pitch, 360°/poles.")
-    length_mm: float = quantity(30.0, "mm", 3.0, 300.0, "Axial length of each magnet; at least the armature stack length.")
-    magnetization: Literal["radial", "parallel"] = choice("radial", "Direction of magnetization: radial (along every radius) or parallel (along the magnet's centre line); used by the field solution.")
-
-
-class Motor(_Section):
-    poles: Literal[2, 4, 6] = Field(2, description="Number of magnet poles: 2, 4 or 6.", json_schema_extra={"unit": ""})
-
-
-class Housing(_Section):
-    wall_mm: float = quantity(2.5, "mm", 0.3, 25.0, "Wall thickness of the steel housing, which carries the return flux.")
-    length_mm: float = quantity(45.0, "mm", 5.0, 400.0, "Axial length of the housing tube; at least the magnet length.")
-    steel: str = Field("low-carbon steel 1010", min_length=1, description="Housing steel from the library.")
-    max_outer_diameter_mm: Optional[float] = quantity(None, "mm", 5.0, 500.0, "Envelope limit on the housing diameter, if there is one.")
-
-
-class Airgap(_Section):
-    length_mm: float = quantity(0.5, "mm", 0.05, 5.0, "Radial clearance between armature and magnet faces.")
-
-
-class Armature(_Section):
-    outer_diameter_mm: float = quantity(30.0, "mm", 5.0, 300.0, "Outer diameter of the armature lamination stack.")
-    stack_length_mm: float = quantity(30.0, "mm", 3.0, 300.0, "Axial length of the lamination stack.")
-    stacking_factor: float = quantity(0.95, "1", 0.8, 1.0, "Fraction of the stack length that is steel.")
-    slots: int = quantity(12, "", 3, 72, "Number of armature slots.")
-    slot_opening_mm: float = quantity(2.0, "mm", 0.2, 15.0, "Width of the slot opening at the armature surface.")
-    tooth_width_mm: float = quantity(3.0, "mm", 0.3, 40.0, "Width of each tooth (parallel-sided teeth).")
-    slot_depth_mm: float = quantity(7.0, "mm", 0.5, 100.0, "Radial depth of each slot from the armature surface.")
-    shaft_diameter_mm: float = quantity(5.0, "mm", 1.0, 80.0, "Diameter of the steel shaft through the stack.")
-    shaft_magnetic: bool = Field(True, description="True for a steel shaft that carries flux like the housing steel (the usual case); false for a stainless or non-magnetic shaft. Used by the field solution.", json_schema_extra={"unit": ""})
-    steel: str = Field("M400-50A", min_length=1, description="Lamination steel from the library.")
-
-
-class Winding(_Section):
-    type: Literal["lap", "wave"] = choice("lap", "Lap (parallel paths = poles × multiplicity) or wave (parallel paths = 2 × multiplicity).")
-    multiplicity: int = quantity(1, "", 1, 3, "Simplex 1, duplex 2, triplex 3.")
-    commutator_segments: int = quantity(12, "", 3, 240, "Number of commutator segments, one coil each.")
-    turns_per_coil: int = quantity(20, "", 1, 2000, "Turns in each armature coil.")
-    wire: str = Field("AWG 24", min_length=2, description="Wire size: 'AWG n' or a metric bare diameter such as '0.50 mm'.", json_schema_extra={"unit": ""})
-    enamel_grade: Literal[1, 2, 3] = Field(2, description="Enamel film grade per IEC 60317: 1 thin, 2 medium, 3 thick.", json_schema_extra={"unit": ""})
-    insulation_class: Literal["105 (A)", "120 (E)", "130 (B)", "155 (F)", "180 (H)", "200 (N)", "220 (R)"] = choice("155 (F)", "Thermal class of the insulation system per IEC 60085.")
-    end_turn_factor: float = quantity(1.0, "1", 0.5, 2.0, "Scales the estimated end-turn length (1 is the estimate; measure and adjust).")
-
-
-class Losses(_Section):
-    friction_torque_mNm: float = quantity(2.0, "mN·m", 0.0, 1.0e4, "Constant friction torque of bearings and brushes.")
-    viscous_mNm_per_krpm: float = quantity(0.5, "mN·m/krpm", 0.0, 1.0e4, "Viscous (windage) torque per 1000 rpm.")
-    iron_loss_build_factor: float = quantity(1.5, "1", 1.0, 4.0, "Multiplies the catalogue core loss for punching and rotation (1.5 is common practice).")
-
-
-class Thermal(_Section):
-    winding_to_housing_K_per_W: float = quantity(1.5, "K/W", 0.0, 100.0, "Thermal resistance from the winding to the housing.")
-    housing_to_ambient_K_per_W: Optional[float] = quantity(None, "K/W", 0.01, 500.0, "Thermal resistance from the housing to ambient; leave out to estimate it from the surface.")
-    convection_W_per_m2K: float = quantity(12.0, "W/(m2·K)", 1.0, 500.0, "Heat-transfer coefficient of the housing surface, used when no housing resistance is given.")
-    thermal_time_constant_min: float = quantity(15.0, "min", 0.1, 600.0, "Thermal time constant of the motor as a whole.")
-    duty: Literal["S1", "S2"] = choice("S1", "IEC 60034-1 duty type: S1 continuous or S2 short-time.")
-    duty_minutes: float = quantity(10.0, "min", 1.0, 600.0, "Length of the S2 short-time run.")
-
-
-class Rotor(_Section):
-    extra_inertia_gcm2: float = quantity(0.0, "g·cm2", 0.0, 1.0e7, "Inertia of the commutator, fan and anything else on the shaft.")
-
-
-class Prices(_Section):
-    currency: str = Field("EUR", min_length=1, max_length=8, description="Currency of the prices below.", json_schema_extra={"unit": ""})
-    magnet_per_kg: float = quantity(10.0, "/kg", 0.0, 1.0e4, "Price of magnet material.")
-    copper_per_kg: float = quantity(10.0, "/kg", 0.0, 1.0e4, "Price of enamelled copper wire.")
-    housing_steel_per_kg: float = quantity(1.5, "/kg", 0.0, 1.0e4, "Price of the housing tube steel.")
-    lamination_per_kg: float = quantity(2.5, "/kg", 0.0, 1.0e4, "Price of lamination steel (as punched, scrap included).")
-
-
-class Project(_Section):
-    """A complete design as stored in a file, in the file's engineering units."""
-
-    format_version: int = Field(FORMAT_VERSION, ge=1, le=FORMAT_VERSION, description="Version of this file format.")
-    project: ProjectInfo = ProjectInfo()
-    supply: Supply = Supply()
-    load: Load = Load()
-    temperatures: Temperatures = Temperatures()
-    motor: Motor = Motor()
-    magnets: Magnets = Magnets(grade="Y30")
-    airgap: Airgap = Airgap()
-    housing: Housing = Housing()
-    armature: Armature = Armature()
-    winding: Winding = Winding()
-    losses: Losses = Losses()
-    thermal: Thermal = Thermal()
-    rotor: Rotor = Rotor()
-    prices: Prices = Prices()
-
-
-SECTIONS = tuple(name for name in Project.model_fields if name != "format_version")
-
-#: Keys a file may leave out; they then take the schema's default. Every other key must be written:
-#: a design quantity that is silently defaulted is a design quantity nobody chose.
-MAY_BE_LEFT_OUT = frozenset({
-    "project.description", "project.revision", "project.notes",
-    "supply.reversing", "winding.multiplicity", "winding.end_turn_factor",
-    "losses.iron_loss_build_factor", "thermal.duty_minutes", "rotor.extra_inertia_gcm2",
-    "magnets.magnetization", "armature.shaft_magnetic",
-    "magnets.grade",  # or magnets.custom_grade: exactly one of them, checked below
-})
-
-
-# --------------------------------------------------------------------------------------------------
-# The schema as a flat list of keys, for the GUI editor, the docs table and --set.
-
-
-@dataclass(frozen=True)
-class KeySpec:
-    path: str  #: dotted key, e.g. "magnets.thickness_mm"
-    unit: str  #: engineering unit as in the file ("" for counts, names and choices)
-    minimum: Any
-    maximum: Any
-    default: Any
-    description: str
-    kind: str  #: "float", "int", "str", "choice" or "bool"
-    choices: tuple = ()
-    optional: bool = False  #: the value may be absent (None): the tool then does what the description says
-    required_in_file: bool = True  #: a file that leaves the key out is refused
-
-
-def _spec_of(path: str, info) -> KeySpec:
-    annotation = info.annotation
-    optional = False
-    origin = typing.get_origin(annotation)
-    if origin is typing.Union:
-        args = [a for a in typing.get_args(annotation) if a is not type(None)]
-        optional = True
-        annotation = args[0]
-    minimum = maximum = None
-    for meta in info.metadata:
-        minimum = getattr(meta, "ge", minimum)
-        maximum = getattr(meta, "le", maximum)
-    extra = info.json_schema_extra or {}
-    if typing.get_origin(annotation) is Literal:
-        kind, choices = "choice", typing.get_args(annotation)
-    else:
-        kind, choices = {float: "float", int: "int", str: "str", bool: "bool"}[annotation], ()
-    default = None if info.is_required() else info.default
-    required_in_file = not optional and path not in MAY_BE_LEFT_OUT and ".custom_grade." not in path
-    if ".custom_grade." in path:
-        required_in_file = info.is_required()
-    return KeySpec(path, extra.get("unit", ""), minimum, maximum, default, info.description or "", kind,
-                   choices, optional, required_in_file)
-
-
-def key_specs() -> Iterator[KeySpec]:
-    """Every scalar key of the file, in file order (the inline custom grade's keys included)."""
-    yield _spec_of("format_version", Project.model_fields["format_version"])
-    for section in SECTIONS:
-        model = Project.model_fields[section].annotation
-        for name, info in model.model_fields.items():
-            if name == "custom_grade":
-                for sub, sub_info in CustomGrade.model_fields.items():
-                    yield _spec_of(f"{section}.custom_grade.{sub}", sub_info)
-                continue
-            yield _spec_of(f"{section}.{name}", info)
-
-
-def key_spec(path: str) -> KeySpec:
-    for spec in key_specs():
-        if spec.path == path:
-            return spec
-    raise ProjectError(f"{path}: no such key (see docs/project-file.md for the keys)", key=path)
-
-
-# --------------------------------------------------------------------------------------------------
-# Validation
-
-
-def _format_validation_error(error: ValidationError) -> ProjectError:
-    first = error.errors()[0]
-    path = ".".join(str(part) for part in first["loc"])
-    kind = first["type"]
-    value = first.get("input")
-    if kind == "extra_forbidden":
-        return ProjectError(f"{path}: unknown key (check the spelling; see docs/project-file.md)", key=path)
-    if kind == "missing":
-        return ProjectError(f"{path}: required key is missing", key=path)
-    message = first["msg"].removeprefix("Value error, ")
-    if kind == "string_pattern_mismatch" and path.endswith("_date"):
-        message = "is not a date written YYYY-MM-DD"
-    try:
-        spec = key_spec(path)
-    except ProjectError:
-        spec = None
-    limits = ""
-    if spec is not None and (spec.minimum is not None or spec.maximum is not None):
-        unit = f" {spec.unit}" if spec.unit and spec.unit not in ("1",) else ""
-        limits = f" (allowed {spec.minimum:g} to {spec.maximum:g}{unit})"
-    elif spec is not None and spec.choices:
-        limits = " (allowed: " + ", ".join(repr(c) for c in spec.choices) + ")"
-    shown = repr(value) if not isinstance(value, dict) else "a table"
-    return ProjectError(f"{path} = {shown}: {message[0].lower() + message[1:]}{limits}", key=path)
-
-
-def _check_fit(p: Project) -> None:
-    """Cross-field checks: the parts must fit and the numbers must agree with each other."""
-
-    def fail(key: str, message: str):
-        raise ProjectError(f"{key}: {message}", key=key)
-
-    t = p.temperatures
-    if not t.ambient_min_C <= t.ambient_nominal_C <= t.ambient_max_C:
-        fail("temperatures.ambient_nominal_C",
-             f"{t.ambient_nominal_C:g} °C must lie between ambient_min_C ({t.ambient_min_C:g} °C) "
-             f"and ambient_max_C ({t.ambient_max_C:g} °C)")
-    m, a, h, w = p.magnets, p.armature, p.housing, p.winding
-    if (m.grade is None) == (m.custom_grade is None):
-        fail("magnets.grade", "give either a library grade or a [magnets.custom_grade] table, not both or neither")
-    pole_pitch_deg = 360.0 / p.motor.poles
-    if m.arc_deg > 0.98 * pole_pitch_deg:
-        fail("magnets.arc_deg",
-             f"{m.arc_deg:g}° is more than 98 % of the pole pitch ({pole_pitch_deg:g}° for {p.motor.poles} poles, "
-             f"so at most {0.98 * pole_pitch_deg:.4g}°); adjacent magnets would touch")
-    if m.length_mm < a.stack_length_mm:
-        fail("magnets.length_mm",
-             f"{m.length_mm:g} mm is shorter than the armature stack ({a.stack_length_mm:g} mm); the overhang would "
-             "be negative")
-    if h.length_mm < m.length_mm:
-        fail("housing.length_mm", f"{h.length_mm:g} mm is shorter than the magnets ({m.length_mm:g} mm)")
-    if m.custom_grade is not None:
-        g = m.custom_grade
-        if g.coercivity_HcB_kA_per_m > g.coercivity_HcJ_kA_per_m:
-            fail("magnets.custom_grade.coercivity_HcB_kA_per_m",
-                 f"{g.coercivity_HcB_kA_per_m:g} kA/m exceeds HcJ ({g.coercivity_HcJ_kA_per_m:g} kA/m); HcB ≤ HcJ always")
-    radius = a.outer_diameter_mm / 2.0
-    shaft_radius = a.shaft_diameter_mm / 2.0
-    root_radius = radius - a.slot_depth_mm
-    if root_radius - shaft_radius < 1.0:
-        fail("armature.slot_depth_mm",
-             f"{a.slot_depth_mm:g} mm leaves {root_radius - shaft_radius:.3g} mm of core between the slot bottoms and "
-             f"the shaft; at most {max(radius - shaft_radius - 1.0, 0):.4g} mm for this diameter and shaft (1 mm of "
-             "core at least)")
-    root_pitch = 2.0 * math.pi * root_radius / a.slots
-    if a.tooth_width_mm >= 0.9 * root_pitch:
-        fail("armature.tooth_width_mm",
-             f"{a.tooth_width_mm:g} mm leaves no room for the slots at the slot bottom (slot pitch there "
-             f"{root_pitch:.3g} mm; the tooth may be at most {0.9 * root_pitch:.3g} mm)")
-    surface_pitch = 2.0 * math.pi * radius / a.slots
-    if a.slot_opening_mm >= surface_pitch - 0.2:
-        fail("armature.slot_opening_mm",
-             f"{a.slot_opening_mm:g} mm is wider than the slot pitch at the surface allows "
-             f"(at most {surface_pitch - 0.2:.3g} mm)")
-    slot_width_at_top = surface_pitch - a.tooth_width_mm
-    if a.slot_opening_mm > slot_width_at_top + 1e-9:
-        fail("armature.slot_opening_mm",
-             f"{a.slot_opening_mm:g} mm is wider than the slot itself at the surface ({slot_width_at_top:.3g} mm)")
-    if w.commutator_segments % a.slots != 0:
-        fail("winding.commutator_segments",
-             f"{w.commutator_segments} is not a whole multiple of the {a.slots} slots (one, two or more coils per slot)")
-    pole_pairs = p.motor.poles // 2
-    if w.type == "wave" and pole_pairs > 1 and (
-        (w.commutator_segments + w.multiplicity) % pole_pairs and (w.commutator_segments - w.multiplicity) % pole_pairs
-    ):
-        fail("winding.commutator_segments",
-             f"{w.commutator_segments} segments cannot carry a wave winding on {p.motor.poles} poles: "
-             f"segments ± multiplicity must divide by the {pole_pairs} pole pairs")
-    if a.slots < p.motor.poles:
-        fail("armature.slots", f"{a.slots} slots is fewer than the {p.motor.poles} poles")
-    if h.max_outer_diameter_mm is not None:
-        outer = a.outer_diameter_mm + 2.0 * (p.airgap.length_mm + m.thickness_mm + h.wall_mm)
-        if outer > h.max_outer_diameter_mm + 1e-9:
-            fail("housing.max_outer_diameter_mm",
-                 f"the housing comes out at {outer:.4g} mm across (armature + 2 × (gap + magnet + wall)), over the "
-                 f"envelope of {h.max_outer_diameter_mm:g} mm")
-
-
-def validate(data: dict) -> Project:
-    """A validated :class:`Project` from parsed TOML data, or :class:`ProjectError` naming the key."""
-    if not isinstance(data, dict):
-        raise ProjectError("the project is not a table of keys")
-    version = data.get("format_version", FORMAT_VERSION)
-    if isinstance(version, int) and not isinstance(version, bool) and version > FORMAT_VERSION:
-        raise ProjectError(
-            f"format_version = {version}: this file was written by a newer pmdc-sizer (this one reads format "
-            f"version {FORMAT_VERSION}); update pmdc-sizer to open it",
-            key="format_version",
-        )
-    try:
-        project = Project.model_validate(data)
-    except ValidationError as error:
-        raise _format_validation_error(error) from None
-    for spec in key_specs():
-        if spec.required_in_file and ".custom_grade." not in spec.path and spec.path != "format_version":
-            section, name = spec.path.split(".")
-            if name not in data.get(section, {}):
-                raise ProjectError(f"{spec.path}: required key is missing ({spec.description.rstrip('.')})",
-                                   key=spec.path)
-    if "format_version" not in data:
-        raise ProjectError("format_version: required key is missing (write format_version = "
-                           f"{FORMAT_VERSION} at the top of the file)", key="format_version")
-    _check_fit(project)
-    return project
+from .fit_rules import check_fit, validate
+from .schema import (
+    FORMAT_VERSION,
+    MAY_BE_LEFT_OUT,
+    SECTIONS,
+    CustomGrade,
+    KeySpec,
+    Project,
+    format_validation_error,
+    key_spec,
+    key_specs,
+    to_dict,
+)
 
 
 def parse(text: str, source: str = "project") -> Project:
+    """A validated project from the text of a project file.
+
+    Parameters
+    ----------
+    text : str
+        TOML text.
+    source : str
+        What to call it in messages (the file's path).
+
+    Returns
+    -------
+    Project
+        Validated.
+
+    Raises
+    ------
+    ProjectError
+        Naming the file, the key and the limit.
+    """
     if not text.strip():
         raise ProjectError(f"{source}: the file is empty")
     try:
@@ -439,21 +87,25 @@ def load(path: str | os.PathLike) -> Project:
         raise ProjectError(f"{path}: {message}", key=error.key) from None
 
 
-# --------------------------------------------------------------------------------------------------
-# Writing and what-if edits
-
 _HEADER = (
     "# pmdc-sizer project file. Keys carry their units in their names; every key is described in\n"
     "# docs/project-file.md. Lengths in mm, temperatures in °C, torques in mN·m, speeds in rpm.\n"
 )
 
 
-def to_dict(project: Project) -> dict:
-    """The project as plain TOML-ready data, in schema order, with absent optional keys left out."""
-    return project.model_dump(mode="python", exclude_none=True)
-
-
 def dumps(project: Project) -> str:
+    """The text of a project file for ``project``, with a header that says where the keys are described.
+
+    Parameters
+    ----------
+    project : Project
+        A validated project.
+
+    Returns
+    -------
+    str
+        TOML text.
+    """
     return _HEADER + tomli_w.dumps(to_dict(project))
 
 
@@ -481,58 +133,8 @@ def save(project: Project, path: str | os.PathLike) -> None:
         raise ProjectError(f"{path}: cannot write the file ({error.strerror or error})") from None
 
 
-def get_value(project: Project, path: str):
-    node: Any = project
-    for part in path.split("."):
-        if not hasattr(node, part) or part not in type(node).model_fields:
-            raise ProjectError(f"{path}: no such key (see docs/project-file.md)", key=path)
-        node = getattr(node, part)
-    return node
-
-
-def with_values(project: Project, changes: dict[str, Any]) -> Project:
-    """A copy of ``project`` with dotted keys changed, validated like a file (a what-if).
-
-    A value of None removes an optional key.
-    """
-    data = to_dict(project)
-    for path, value in changes.items():
-        parts = path.split(".")
-        node = data
-        model: Any = Project
-        for depth, part in enumerate(parts):
-            fields = getattr(model, "model_fields", {})
-            if part not in fields:
-                raise ProjectError(f"{path}: no such key (see docs/project-file.md)", key=path)
-            if depth == len(parts) - 1:
-                if value is None:
-                    node.pop(part, None)
-                else:
-                    node[part] = value
-            else:
-                annotation = fields[part].annotation
-                if typing.get_origin(annotation) is typing.Union:
-                    annotation = next(a for a in typing.get_args(annotation) if a is not type(None))
-                model = annotation
-                node = node.setdefault(part, {})
-    return validate(data)
-
-
-def parse_cli_value(text: str):
-    """A ``--set`` value, parsed as TOML would parse it; a bare word is taken as a string."""
-    try:
-        return tomllib.loads(f"value = {text}")["value"]
-    except tomllib.TOMLDecodeError:
-        return text
-
-
-def apply_overrides(project: Project, assignments: list[str]) -> Project:
-    """Apply ``KEY=VALUE`` strings from the command line, through the same validation as a file."""
-    changes: dict[str, Any] = {}
-    for assignment in assignments:
-        key, sep, value = assignment.partition("=")
-        if not sep or not key.strip():
-            raise ProjectError(f"--set {assignment!r}: expected KEY=VALUE, for example magnets.thickness_mm=4.5")
-        key = key.strip()
-        changes[key] = parse_cli_value(value.strip())
-    return with_values(project, changes)
+__all__ = [
+    "FORMAT_VERSION", "MAY_BE_LEFT_OUT", "SECTIONS", "CustomGrade", "KeySpec", "Project", "ProjectError",
+    "check_fit", "dumps", "format_validation_error", "get_value", "key_spec", "key_specs", "load", "parse",
+    "save", "to_dict", "validate", "with_values",
+]

@@ -17,8 +17,8 @@ References
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Callable
 
 import numpy as np
 
@@ -27,30 +27,57 @@ _EPS = np.finfo(float).eps
 
 @dataclass(frozen=True)
 class RootResult:
-    """Roots of a batch of equations."""
+    """Roots of a batch of equations, as :func:`find_root` returns them (arrays of the batch's shape)."""
 
     root: np.ndarray  #: the root of each equation, in the unit of the bracket
     converged: np.ndarray  #: True where the root is bracketed and met the tolerance
     bracketed: np.ndarray  #: False where f(lower) and f(upper) had the same sign
-    iterations: int  #: iterations used by the slowest element
+    #: the pass at which every element was done, counting from 1 (one more than the steps taken when
+    #: the batch finished early; ``max_iterations`` when it did not)
+    iterations: int
 
 
 def find_root(
     residual: Callable[[np.ndarray], np.ndarray],
-    lower,
-    upper,
+    lower: float | np.ndarray,
+    upper: float | np.ndarray,
     *,
     xtol: float = 1e-12,
     rtol: float = 1e-12,
     max_iterations: int = 60,
-    first_guess=None,
+    first_guess: float | np.ndarray | None = None,
 ) -> RootResult:
     """Solve ``residual(x) == 0`` elementwise for x inside ``[lower, upper]``.
 
-    ``residual`` must accept and return arrays of the broadcast shape of ``lower`` and ``upper``.
-    Elements whose bracket does not hold are returned as NaN with ``bracketed`` False. A
-    ``first_guess`` inside the bracket replaces the opening bisection step (it saves a few iterations
-    when a cheap estimate is at hand; it cannot break the bracket).
+    Each element stops when its bracket is narrower than ``2·rtol·|x| + xtol``; elements already done
+    step by zero, so an element's root does not depend on the batch it is solved in.
+
+    Parameters
+    ----------
+    residual : callable
+        ``residual(x)`` for an array x of the broadcast shape of ``lower`` and ``upper``, returning an
+        array of that shape, in any unit; its sign must change once inside each bracket.
+    lower, upper : float or ndarray
+        Ends of each bracket, in the unit of x (broadcast together).
+    xtol : float, optional
+        Absolute tolerance on x, in the unit of x.
+    rtol : float, optional
+        Relative tolerance on x [1].
+    max_iterations : int, optional
+        Iterations at most [1]; elements not done by then have ``converged`` False.
+    first_guess : float or ndarray, optional
+        An estimate of the root, in the unit of x: inside the bracket it replaces the opening bisection
+        step (it saves a few iterations when a cheap estimate is at hand; it cannot break the bracket).
+
+    Returns
+    -------
+    RootResult
+        The roots (NaN where f(lower) and f(upper) had the same sign, with ``bracketed`` False), and
+        whether each converged.
+
+    References
+    ----------
+    .. [1] Chandrupatla 1997 (the method: inverse quadratic interpolation guarded by bisection).
     """
     a = np.array(lower, dtype=float, copy=True)
     b = np.array(upper, dtype=float, copy=True)
@@ -69,7 +96,8 @@ def find_root(
     done = ~bracketed | (fa == 0) | (fb == 0)
     iterations = 0
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        for iterations in range(1, max_iterations + 1):
+        for iteration in range(1, max_iterations + 1):
+            iterations = iteration
             if done.all():
                 break
             # Elements already done step by t = 0, which re-evaluates their best end and leaves a, b

@@ -13,11 +13,19 @@ Losses per unit mass follow the loss-separation law
 (hysteresis after C. P. Steinmetz, Trans. AIEE 9 (1892) 3-64; the classical eddy and excess terms after
 G. Bertotti, IEEE Trans. Magn. 24 (1988) 621-630), with the coefficients fitted to a grade's catalogue
 loss figures.
+
+References
+----------
+.. [1] F. N. Fritsch and R. E. Carlson, "Monotone piecewise cubic interpolation", SIAM J. Numer. Anal.
+   17 (1980) 238-246.
+.. [2] C. P. Steinmetz, "On the law of hysteresis", Trans. AIEE 9 (1892) 3-64.
+.. [3] G. Bertotti, "General properties of power losses in soft ferromagnetic materials", IEEE Trans.
+   Magn. 24 (1988) 621-630.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from functools import cached_property
 
 import numpy as np
@@ -30,9 +38,13 @@ _DENSE_POINTS = 2048
 
 @dataclass(frozen=True)
 class Steel:
-    """A soft-magnetic steel: B(H) data points and loss coefficients (SI)."""
+    """A soft-magnetic steel: its B(H) data points and loss coefficients, in SI.
 
-    name: str
+    The data are validated on construction: paired points from (0, 0), both increasing, the slope never
+    below μ0 (a ``ValueError`` names the steel otherwise).
+    """
+
+    name: str  #: the library name, e.g. a grade designation
     kind: str  #: "housing" (solid low-carbon steel) or "lamination" (non-oriented electrical steel)
     field_strength: tuple[float, ...]  #: H data [A/m], increasing, starting at 0
     flux_density: tuple[float, ...]  #: B data [T], increasing, starting at 0
@@ -42,10 +54,9 @@ class Steel:
     eddy_coeff: float = 0.0  #: kc [W/kg per (Hz·T)²]
     excess_coeff: float = 0.0  #: ke [W/kg per (Hz·T)^1.5]
     recommended_max_flux_density: float = 1.6  #: above this the steel is working hard [T]
-    source: str = ""
-    _cache: dict = field(default_factory=dict, compare=False, repr=False)
+    source: str = ""  #: where the data come from
 
-    def __post_init__(self):
+    def __post_init__(self) -> None:
         h, b = np.asarray(self.field_strength), np.asarray(self.flux_density)
         if h.shape != b.shape or h.size < 3:
             raise ValueError(f"steel {self.name!r}: B and H need the same number of points, at least 3")
@@ -80,9 +91,25 @@ class Steel:
         """The last B data point [T]; beyond it the curve has the slope of free space."""
         return self.flux_density[-1]
 
-    def field_for(self, flux_density):
-        """H(B) [A/m] for flux density [T]; odd, monotone, μ0 slope beyond the data."""
-        inverse_step, nodes, slopes, last_b, last_h = self._uniform_lookup
+    def field_for(self, flux_density: float | np.ndarray):
+        """Field strength that magnetizes the steel to a flux density: H(B), odd and monotone.
+
+        Parameters
+        ----------
+        flux_density : float or ndarray
+            Flux density B [T], of either sign; NaN gives NaN.
+
+        Returns
+        -------
+        float or ndarray
+            Field strength H [A/m], of the sign of B; beyond the last data point the curve continues
+            with the slope of free space, dB/dH = μ0.
+
+        References
+        ----------
+        .. [1] Fritsch and Carlson 1980 (PCHIP through the data, sampled on a dense uniform grid in B).
+        """
+        inverse_step, nodes, slopes, last_b, _last_h = self._uniform_lookup
         b = np.abs(flux_density)
         clipped = np.fmin(b, last_b)  # fmin drops a NaN here, so the cast below stays valid; h stays NaN
         within = np.minimum(b, last_b) * inverse_step
@@ -92,8 +119,19 @@ class Steel:
         h = h + np.maximum(b - last_b, 0.0) / MU_0
         return np.copysign(h, flux_density)
 
-    def flux_density_for(self, field_strength):
-        """B(H) [T] for field strength [A/m]; the inverse of :meth:`field_for`."""
+    def flux_density_for(self, field_strength: float | np.ndarray):
+        """Flux density at a field strength: B(H), the inverse of :meth:`field_for`.
+
+        Parameters
+        ----------
+        field_strength : float or ndarray
+            Field strength H [A/m], of either sign.
+
+        Returns
+        -------
+        float or ndarray
+            Flux density B [T], of the sign of H; μ0 slope beyond the data.
+        """
         dense_b, dense_h = self._dense_table
         h = np.abs(field_strength)
         b = np.interp(h, dense_h, dense_b)
@@ -101,8 +139,26 @@ class Steel:
         b = np.where(beyond > 0.0, dense_b[-1] + MU_0 * beyond, b)
         return np.copysign(b, field_strength)
 
-    def specific_loss(self, frequency, peak_flux_density):
-        """Core loss per unit mass [W/kg] at magnetic frequency [Hz] and peak flux density [T]."""
+    def specific_loss(self, frequency: float | np.ndarray, peak_flux_density: float | np.ndarray):
+        """Core loss per unit mass, p = kh·f·B^α + kc·(f·B)² + ke·(f·B)^1.5.
+
+        Parameters
+        ----------
+        frequency : float or ndarray
+            Magnetic (remagnetization) frequency f [Hz].
+        peak_flux_density : float or ndarray
+            Peak flux density B of the cycle [T]; the sign is ignored.
+
+        Returns
+        -------
+        float or ndarray
+            Specific core loss [W/kg].
+
+        References
+        ----------
+        .. [1] Steinmetz 1892 (hysteresis term kh·f·B^α).
+        .. [2] Bertotti 1988 (classical eddy-current term in (f·B)², excess term in (f·B)^1.5).
+        """
         f = np.asarray(frequency, dtype=float)
         b = np.abs(peak_flux_density)
         return (

@@ -23,7 +23,9 @@ import numpy as np
 from . import magnetic_circuit as mc
 from .design import design_from_project
 from .geometry import Geometry
-from .project import Project, ProjectError, with_values
+from .edits import with_values
+from .errors import ProjectError
+from .schema import Project
 
 
 def stack_geometries(geometries: Sequence[Geometry]) -> Geometry:

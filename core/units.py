@@ -5,13 +5,24 @@ Files, screens and reports speak mm, kA/m, rpm, mN·m and °C; the core speaks m
 This is the one module that converts: nothing else multiplies by 1e-3.
 
 Every factor is an exact definition (SI brochure, 9th edition, 2019; NIST SP 811, 2008) and is checked
-against pint in ``tests/test_units.py``.
+against pint in ``tests/core/test_units.py``.
+
+Each conversion takes a float or a numpy array and returns the same kind.
+
+References
+----------
+.. [1] BIPM, "The International System of Units (SI)", 9th edition, 2019.
+.. [2] A. Thompson and B. N. Taylor, "Guide for the Use of the International System of Units (SI)",
+   NIST Special Publication 811, 2008 edition, appendix B (factors for inch, pound, ounce, pound-force,
+   horsepower of 550 ft·lbf/s, gauss, oersted).
 """
 
 from __future__ import annotations
 
 import math
+from typing import overload
 
+import numpy as np
 from scipy import constants as _const
 
 MU_0: float = _const.mu_0  #: vacuum permeability [H/m], CODATA value via scipy.constants
@@ -100,8 +111,35 @@ _TO_SI: dict[str, float] = {
 }
 
 
-def to_si(value, unit: str):
-    """Convert ``value`` given in engineering ``unit`` to SI. Works on floats and numpy arrays."""
+@overload
+def to_si(value: float, unit: str) -> float: ...
+@overload
+def to_si(value: np.ndarray, unit: str) -> np.ndarray: ...
+def to_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
+    """Convert a value in an engineering unit to SI.
+
+    Parameters
+    ----------
+    value : float or ndarray
+        The quantity in ``unit``.
+    unit : str
+        One of :func:`known_units`, e.g. ``"mm"``, ``"kA/m"``, ``"rpm"``. Temperatures: ``"°C"`` stays in
+        °C (the core's temperature unit), ``"°F"`` becomes °C.
+
+    Returns
+    -------
+    float or ndarray
+        The quantity in SI [m, A/m, rad/s, N·m, ...], or in °C for a temperature.
+
+    Raises
+    ------
+    KeyError
+        If ``unit`` is not one of :func:`known_units`.
+
+    References
+    ----------
+    .. [1] exact factors of the SI brochure, 9th ed., 2019, and NIST SP 811, 2008, appendix B
+    """
     if unit == "°C":
         return value
     if unit == "°F":
@@ -109,8 +147,34 @@ def to_si(value, unit: str):
     return value * _TO_SI[unit]
 
 
-def from_si(value, unit: str):
-    """Convert an SI ``value`` to engineering ``unit``. Works on floats and numpy arrays."""
+@overload
+def from_si(value: float, unit: str) -> float: ...
+@overload
+def from_si(value: np.ndarray, unit: str) -> np.ndarray: ...
+def from_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
+    """Convert an SI value to an engineering unit: the inverse of :func:`to_si`.
+
+    Parameters
+    ----------
+    value : float or ndarray
+        The quantity in SI [m, A/m, rad/s, N·m, ...], or in °C for a temperature.
+    unit : str
+        One of :func:`known_units`.
+
+    Returns
+    -------
+    float or ndarray
+        The quantity in ``unit``.
+
+    Raises
+    ------
+    KeyError
+        If ``unit`` is not one of :func:`known_units`.
+
+    References
+    ----------
+    .. [1] exact factors of the SI brochure, 9th ed., 2019, and NIST SP 811, 2008, appendix B
+    """
     if unit == "°C":
         return value
     if unit == "°F":
@@ -119,12 +183,35 @@ def from_si(value, unit: str):
 
 
 def factor(unit: str) -> float:
-    """The multiplicative factor from ``unit`` to SI (not defined for temperatures)."""
+    """The multiplicative factor from an engineering unit to SI.
+
+    Parameters
+    ----------
+    unit : str
+        One of :func:`known_units` except the temperatures, which have an offset.
+
+    Returns
+    -------
+    float
+        The SI value of one ``unit`` [SI unit per ``unit``].
+
+    Raises
+    ------
+    KeyError
+        If ``unit`` is a temperature or not a known unit.
+    """
     return _TO_SI[unit]
 
 
 def known_units() -> tuple[str, ...]:
-    return tuple(_TO_SI) + ("°C", "°F")
+    """Every unit the conversions accept.
+
+    Returns
+    -------
+    tuple of str
+        The unit names, temperatures (``"°C"``, ``"°F"``) last.
+    """
+    return (*_TO_SI, "°C", "°F")
 
 
 # Screen units for the US customary display (the files always keep the metric engineering units).
@@ -143,19 +230,86 @@ US_CUSTOMARY: dict[str, str] = {
 _TO_SI["oz·in/A"] = _TO_SI["oz·in"]
 
 
-def convert(value, from_unit: str, to_unit: str):
-    """Convert between two engineering units of the same quantity."""
+@overload
+def convert(value: float, from_unit: str, to_unit: str) -> float: ...
+@overload
+def convert(value: np.ndarray, from_unit: str, to_unit: str) -> np.ndarray: ...
+def convert(value: float | np.ndarray, from_unit: str, to_unit: str) -> float | np.ndarray:
+    """Convert between two engineering units of the same quantity, through SI.
+
+    Parameters
+    ----------
+    value : float or ndarray
+        The quantity in ``from_unit``.
+    from_unit, to_unit : str
+        Units of the same quantity, each one of :func:`known_units` (``"mm"`` to ``"in"``, ``"°C"`` to
+        ``"°F"``).
+
+    Returns
+    -------
+    float or ndarray
+        The quantity in ``to_unit``.
+    """
     return from_si(to_si(value, from_unit), to_unit)
 
 
-def temperature_difference_to_si(value, unit: str):
-    """A temperature *difference* in K from °C or °F (no offset)."""
+@overload
+def temperature_difference_to_si(value: float, unit: str) -> float: ...
+@overload
+def temperature_difference_to_si(value: np.ndarray, unit: str) -> np.ndarray: ...
+def temperature_difference_to_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
+    """A temperature difference in K, from °C or °F (a difference has no offset).
+
+    Parameters
+    ----------
+    value : float or ndarray
+        The difference in ``unit``.
+    unit : str
+        ``"°C"`` (or ``"K"``) or ``"°F"``.
+
+    Returns
+    -------
+    float or ndarray
+        The difference [K]; one °F of difference is 5/9 K (NIST SP 811, 2008, appendix B).
+    """
     return value * (5.0 / 9.0 if unit == "°F" else 1.0)
 
 
-def rpm_to_rad_per_s(speed_rpm):
+@overload
+def rpm_to_rad_per_s(speed_rpm: float) -> float: ...
+@overload
+def rpm_to_rad_per_s(speed_rpm: np.ndarray) -> np.ndarray: ...
+def rpm_to_rad_per_s(speed_rpm: float | np.ndarray) -> float | np.ndarray:
+    """A rotational speed in rad/s from rpm.
+
+    Parameters
+    ----------
+    speed_rpm : float or ndarray
+        Speed [rpm].
+
+    Returns
+    -------
+    float or ndarray
+        Speed [rad/s]: one revolution per minute is 2π/60 rad/s.
+    """
     return speed_rpm * _TO_SI["rpm"]
 
 
-def rad_per_s_to_rpm(speed_rad_per_s):
+@overload
+def rad_per_s_to_rpm(speed_rad_per_s: float) -> float: ...
+@overload
+def rad_per_s_to_rpm(speed_rad_per_s: np.ndarray) -> np.ndarray: ...
+def rad_per_s_to_rpm(speed_rad_per_s: float | np.ndarray) -> float | np.ndarray:
+    """A rotational speed in rpm from rad/s: the inverse of :func:`rpm_to_rad_per_s`.
+
+    Parameters
+    ----------
+    speed_rad_per_s : float or ndarray
+        Speed [rad/s].
+
+    Returns
+    -------
+    float or ndarray
+        Speed [rpm].
+    """
     return speed_rad_per_s / _TO_SI["rpm"]

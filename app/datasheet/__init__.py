@@ -5,7 +5,7 @@
     datasheet.write_charts(results, "charts/", "motor")      # motor_performance.png/.svg, motor_magnet.png/.svg
 
 Every file is written atomically: to a temporary file in the same folder, then renamed over the
-target, so a failure leaves no partial file. Errors are :class:`app.cli.CommandError` with one line.
+target, so a failure leaves no partial file. Errors are :class:`app.errors.CommandError` with one line.
 """
 
 from __future__ import annotations
@@ -17,7 +17,8 @@ from pathlib import Path
 from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.project import Project
 
-from ..cli import CommandError, atomic_output, write_text_atomically
+from ..errors import CommandError
+from ..files import atomic_output, write_bytes_atomically, write_text_atomically
 
 FORMATS = {".pdf": "PDF", ".html": "HTML", ".htm": "HTML"}
 
@@ -90,9 +91,7 @@ def write_chart(results: Results, name: str, path: str | os.PathLike) -> None:
     if suffix == ".svg":
         write_text_atomically(path, charts.chart_svg(name, results, f"{results.name}: {name} chart"))
     elif suffix == ".png":
-        data = charts.chart_png(name, results)
-        with atomic_output(path) as temporary:
-            Path(temporary).write_bytes(data)
+        write_bytes_atomically(path, charts.chart_png(name, results))
     else:
         raise CommandError(f"{path}: unknown chart format {suffix or '(no extension)'!r}; use .png or .svg")
 

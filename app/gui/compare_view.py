@@ -27,17 +27,17 @@ from PySide6.QtWidgets import (
     QLabel,
     QPushButton,
     QSplitter,
-    QTabWidget,
     QTableWidget,
     QTableWidgetItem,
+    QTabWidget,
     QTextBrowser,
     QVBoxLayout,
     QWidget,
 )
 
 from pmdc_sizer.app.compare_text import figure_rows, parameter_text, refit_lines
-from pmdc_sizer.app.formatting import significant
-from pmdc_sizer.core import compare, library
+from pmdc_sizer.app.figures import POINTS, SIDES, STATUSES, figure, text_of
+from pmdc_sizer.core import difference, library, refit
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
 from pmdc_sizer.core.project import ProjectError
@@ -46,15 +46,10 @@ from pmdc_sizer.core.units import from_si
 from .evaluation import Evaluator
 from .magnet_chart import MagnetChart
 from .performance_chart import QUANTITIES
-from .style import STATUS_COLOURS, STATUS_MARKS, STATUS_WORDS
+from .style import line_pen, mark_style
 
-#: A is drawn solid in slate, B dashed in teal: told apart by colour and by line, also in grey print.
-SIDE_STYLES = {
-    "A": {"colour": "#334155", "style": Qt.PenStyle.SolidLine, "symbol": "o"},
-    "B": {"colour": "#0d9488", "style": Qt.PenStyle.DashLine, "symbol": "s"},
-}
-REQUIRED_COLOUR = "#b91c1c"
 NO_GRADE = "— choose a grade —"
+TORQUE = figure("curve.torque_N_m")
 REFIT_BUTTONS = (
     ("ke", "Ke\nby magnet thickness", "Change B's magnet thickness until its Ke equals A's."),
     ("no-load-speed", "No-load speed\nby turns per coil",
@@ -77,7 +72,7 @@ class _RefitJob(QRunnable):
 
     def run(self) -> None:
         try:
-            fit = compare.refit(*self.arguments)
+            fit = refit.refit(*self.arguments)
         except (ProjectError, MagneticCircuitError, ValueError, ArithmeticError) as error:
             self.signals.done.emit(self.generation, None, str(error))
             return
@@ -92,8 +87,8 @@ class CompareView(QWidget):
     signal ``results_ready(project, results)``."""
 
     page_title = "A against B"
-    comparison_updated = Signal(object)  #: the new core.compare.Comparison
-    refit_finished = Signal(object)  #: core.compare.Refit, or None when it failed
+    comparison_updated = Signal(object)  #: the new core.difference.Comparison
+    refit_finished = Signal(object)  #: core.refit.Refit, or None when it failed
 
     def __init__(self, main_window):
         super().__init__()
@@ -103,8 +98,8 @@ class CompareView(QWidget):
         self.project_b = self.results_b = None
         self.b_mode = ""  # "grade", "pinned", "file" or "refit"
         self.b_source = ""  # words for the B line
-        self.comparison: compare.Comparison | None = None
-        self.last_refit: compare.Refit | None = None
+        self.comparison: difference.Comparison | None = None
+        self.last_refit: refit.Refit | None = None
         self._refit_generation = 0
         self._refit_running = False
         self._refit_for_a = None
@@ -276,7 +271,7 @@ class CompareView(QWidget):
             plot = self.curves_canvas.addPlot(row=index // 2, col=index % 2)
             plot.showGrid(x=True, y=True, alpha=0.25)
             plot.setLabel("left", title, units=unit)
-            plot.setLabel("bottom", "Shaft torque", units="mN·m")
+            plot.setLabel("bottom", TORQUE.title, units=TORQUE.unit)
             plot.setMenuEnabled(False)
             for axis in ("left", "bottom"):
                 plot.getAxis(axis).enableAutoSIPrefix(False)
@@ -286,16 +281,18 @@ class CompareView(QWidget):
                 first = plot
             else:
                 plot.setXLink(first)
-            for side, style in SIDE_STYLES.items():
-                pen = pg.mkPen(style["colour"], width=2.4, style=style["style"])
-                self.curve_items[(attribute, side)] = plot.plot(pen=pen)
+            for side, style in SIDES.items():
+                self.curve_items[(attribute, side)] = plot.plot(pen=line_pen(style.colour, style.dash, 2.4))
                 # A's mark is the larger, so that B's, at the same rated torque, still lets it show.
+                mark = mark_style("rated", style.colour)
                 self.rated_marks[(attribute, side)] = plot.plot(
-                    pen=None, symbol=style["symbol"], symbolSize=13 if side == "A" else 8,
-                    symbolBrush=style["colour"], symbolPen=pg.mkPen("w", width=1))
+                    pen=None, symbol=mark["symbol"], symbolSize=mark["size"] * style.size, symbolBrush=mark["brush"],
+                    symbolPen=mark["pen"])
             self.curve_plots[attribute] = plot
+        required = mark_style("required")
         self.required_mark = self.curve_plots["speed_rad_per_s"].plot(
-            pen=None, symbol="+", symbolSize=22, symbolPen=pg.mkPen(REQUIRED_COLOUR, width=2.5))
+            pen=None, symbol=required["symbol"], symbolSize=required["size"], symbolBrush=required["brush"],
+            symbolPen=required["pen"])
         return page
 
     def _build_magnet_charts(self) -> QWidget:
@@ -309,7 +306,7 @@ class CompareView(QWidget):
             column.setContentsMargins(0, 0, 0, 0)
             title = QLabel()
             title.setObjectName(f"magnet_title_{side}")
-            title.setStyleSheet(f"font-weight: bold; color: {SIDE_STYLES[side]['colour']}; padding: 2px;")
+            title.setStyleSheet(f"font-weight: bold; color: {SIDES[side].colour}; padding: 2px;")
             column.addWidget(title)
             chart = MagnetChart()
             chart.setObjectName(f"magnet_chart_{side}")
@@ -351,7 +348,7 @@ class CompareView(QWidget):
         if self.project_a is None:
             return
         try:
-            design_b = compare.with_grade(self.project_a, self.grade_combo.currentText())
+            design_b = difference.with_grade(self.project_a, self.grade_combo.currentText())
         except ProjectError as error:
             self._on_b_failed(None, str(error))
             return
@@ -427,7 +424,7 @@ class CompareView(QWidget):
     # Re-fits
 
     def start_refit(self, target: str) -> bool:
-        """Re-fit B to A's figure ``target`` (a key of core.compare.TARGETS) off the GUI thread."""
+        """Re-fit B to A's figure ``target`` (a key of core.refit.TARGETS) off the GUI thread."""
         if self._refit_running or self.results_a is None or self.results_b is None:
             return False
         self._refit_generation += 1
@@ -435,7 +432,7 @@ class CompareView(QWidget):
         self._refit_for_a = self.project_a
         for button in self.refit_buttons.values():
             button.setEnabled(False)
-        self.refit_report.setPlainText(f"Re-fitting B to A's {compare.TARGETS[target].title}…")
+        self.refit_report.setPlainText(f"Re-fitting B to A's {refit.TARGETS[target].title}…")
         self._refit_pool.start(_RefitJob(self._refit_generation, target, self.results_a, self.project_b,
                                          self.results_b, self._refit_signals))
         return True
@@ -455,7 +452,7 @@ class CompareView(QWidget):
         self._reset_grade_combo()
         self.b_mode = "refit"
         self.b_source = (f"re-fitted to A's {fit.title} ({'reached' if fit.reached else 'out of reach'}): "
-                         f"{compare.TARGETS[fit.target].parameter_title} {parameter_text(fit.value_before, fit.parameter_unit)}"
+                         f"{refit.TARGETS[fit.target].parameter_title} {parameter_text(fit.value_before, fit.parameter_unit)}"
                          f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
         self.project_b, self.results_b = fit.project, fit.results
         self._show_refit(fit)
@@ -465,7 +462,7 @@ class CompareView(QWidget):
         self.refit_finished.emit(fit)
 
     def _show_refit(self, fit) -> None:
-        colour = STATUS_COLOURS["pass" if fit.reached else "fail"]
+        colour = STATUSES["pass" if fit.reached else "fail"].colour
         lines = refit_lines(fit)
         head = "Reached" if fit.reached else "Out of reach"
         html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(fit.message)}</p><ul>"]
@@ -480,16 +477,16 @@ class CompareView(QWidget):
     # Showing
 
     def _set_status(self, text: str, status: str = "pass") -> None:
-        self.status_text = f"<br><span style='color:{STATUS_COLOURS[status]}'>{_escape(text)}</span>" if text else ""
+        self.status_text = f"<br><span style='color:{STATUSES[status].colour}'>{_escape(text)}</span>" if text else ""
         self._show_sides()
 
     def _side_text(self, side: str, results, source: str) -> str:
-        style = SIDE_STYLES[side]
-        mark = "━━" if side == "A" else "╍╍"
+        style = SIDES[side]
+        mark = style.line_glyph
         if results is None:
-            return f"<span style='color:{style['colour']}'><b>{mark} {side}</b></span>: {_escape(source)}"
+            return f"<span style='color:{style.colour}'><b>{mark} {side}</b></span>: {_escape(source)}"
         m = results.magnet
-        return (f"<span style='color:{style['colour']}'><b>{mark} {side}</b></span>: {_escape(results.name)} · "
+        return (f"<span style='color:{style.colour}'><b>{mark} {side}</b></span>: {_escape(results.name)} · "
                 f"<b>{_escape(m.name)}</b> ({_escape(m.family)}) · {_escape(source)}")
 
     def _show_sides(self) -> None:
@@ -532,7 +529,7 @@ class CompareView(QWidget):
             self.checks_table.setRowCount(0)
             self._draw_charts()
             return
-        self.comparison = compare.compare(self.project_a, self.project_b, self.results_a, self.results_b)
+        self.comparison = difference.compare(self.project_a, self.project_b, self.results_a, self.results_b)
         self._fill_figures()
         self._fill_checks()
         self._draw_charts()
@@ -555,7 +552,7 @@ class CompareView(QWidget):
                     if column:
                         cell.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
                     if column in (1, 2):
-                        cell.setForeground(QBrush(QColor(SIDE_STYLES["A" if column == 1 else "B"]["colour"])))
+                        cell.setForeground(QBrush(QColor(SIDES["A" if column == 1 else "B"].colour)))
                     table.setItem(index, column, cell)
         # Sizing the columns to their contents once, after all the texts, not after each of them.
         header = table.horizontalHeader()
@@ -579,8 +576,9 @@ class CompareView(QWidget):
                     cell = QTableWidgetItem("–")
                     cell.setToolTip("this side has no such check")
                 else:
-                    cell = QTableWidgetItem(f"{STATUS_MARKS[check.status]} {STATUS_WORDS[check.status]}")
-                    cell.setForeground(QBrush(QColor(STATUS_COLOURS[check.status])))
+                    status = STATUSES[check.status]
+                    cell = QTableWidgetItem(f"{status.mark} {status.word}")
+                    cell.setForeground(QBrush(QColor(status.colour)))
                     cell.setToolTip(check.sentence)
                 self.checks_table.setItem(index, column, cell)
         self.checks_table.setToolTip("Point at a result to read the reason and what to change.")
@@ -598,30 +596,30 @@ class CompareView(QWidget):
                     curve.setData([], [])
                     mark.setData([], [])
                     continue
-                torque = from_si(case.curve.torque_N_m, "mN·m")
+                torque = from_si(case.curve.torque_N_m, TORQUE.unit)
                 curve.setData(torque, from_si(np.asarray(getattr(case.curve, attribute)), unit))
                 if case.rated_reached:
-                    mark.setData([from_si(case.rated.torque_N_m, "mN·m")],
+                    mark.setData([from_si(case.rated.torque_N_m, TORQUE.unit)],
                                  [from_si(getattr(case.rated, attribute), unit)])
                 else:
                     mark.setData([], [])
             if case is not None:
-                highest_stall = max(highest_stall, from_si(case.stall_torque_N_m, "mN·m"))
-                colour, line, mark = SIDE_STYLES[side]["colour"], ("━━━" if side == "A" else "╍╍╍"), \
-                    ("●" if side == "A" else "■")
-                keys.append(f"<span style='color:{colour}'><b>{line} {side}</b>: {_escape(results.magnet.name)}, "
-                            f"winding {case.winding_temperature_C:.0f} °C, magnet {case.magnet_temperature_C:.0f} °C; "
-                            f"{mark} rated point</span>")
+                highest_stall = max(highest_stall, from_si(case.stall_torque_N_m, TORQUE.unit))
+                style, rated = SIDES[side], POINTS["rated"]
+                keys.append(f"<span style='color:{style.colour}'><b>{style.line_glyph} {side}</b>: "
+                            f"{_escape(results.magnet.name)}, winding {case.winding_temperature_C:.0f} °C, magnet "
+                            f"{case.magnet_temperature_C:.0f} °C; {rated.glyph} {rated.title}</span>")
         if self.results_a is not None:
-            self.required_mark.setData([from_si(self.results_a.load_torque_N_m, "mN·m")],
+            self.required_mark.setData([from_si(self.results_a.load_torque_N_m, TORQUE.unit)],
                                        [from_si(self.results_a.load_speed_rad_per_s, "rpm")])
             self.curve_note.setText(f"{case_name} case")
-            keys.append(f"<span style='color:{REQUIRED_COLOUR}'><b>✚</b> required: rated torque at this speed or faster</span>")
+            required = POINTS["required"]
+            keys.append(f"<span style='color:{required.colour}'><b>{required.glyph}</b> {required.title}</span>")
         self.curve_key.setText("&nbsp;&nbsp;&nbsp;".join(keys))
         if highest_stall > 0:
             right = highest_stall * 1.02
             if self.range_combo.currentIndex() == 1 and self.results_a is not None:
-                right = min(right, 3.0 * from_si(self.results_a.load_torque_N_m, "mN·m"))
+                right = min(right, 3.0 * from_si(self.results_a.load_torque_N_m, TORQUE.unit))
             for plot in self.curve_plots.values():
                 plot.setXRange(0.0, right, padding=0.0)
                 plot.getViewBox().setAutoVisible(y=True)  # scale each quantity to the torques in view
@@ -636,7 +634,7 @@ class CompareView(QWidget):
                 continue
             chart.show_results(results)
             title.setText(f"{side}: {results.magnet.name}, {design.magnets.thickness_mm:g} mm arcs, "
-                          f"Pc {significant(results.magnetics.permeance_coefficient, 3)} at no load")
+                          f"Pc {text_of(results, 'magnetics.permeance_coefficient')} at no load")
 
 
 def _escape(text: str) -> str:

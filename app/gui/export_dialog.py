@@ -25,7 +25,8 @@ from PySide6.QtWidgets import (
 )
 
 from pmdc_sizer.app import datasheet
-from pmdc_sizer.app.cli import CommandError, curves_csv, write_text_atomically
+from pmdc_sizer.app.errors import CommandError
+from pmdc_sizer.app.files import curves_csv, write_text_atomically
 
 PREVIEW_DPI = 80.0
 

@@ -19,9 +19,9 @@ Extension points (names kept stable for other modules):
 ``MainWindow.current_path``
     The file the design came from or was saved to, or None for an unsaved design.
 ``app.gui.export_dialog.open_export_dialog(parent, project, results, path_hint)``
-    Called by File ▸ Export datasheet… when that module exists; otherwise the action is disabled.
+    Called by File ▸ Export datasheet….
 ``app.gui.compare_view.CompareView(main_window)``
-    When that module exists, its widget becomes the "Compare designs" page.
+    Its widget is the "Compare designs" page.
 
 ``run(file=None, screenshot=None) -> int`` starts the tool; with ``screenshot`` it renders the window
 offscreen to that PNG and returns (2 with one line on stderr when the file cannot be used).
@@ -52,6 +52,7 @@ from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import Project, ProjectError
 
+from . import compare_view, export_dialog
 from .cross_section import CrossSection
 from .display_units import DisplayUnits
 from .editor import DesignEditor
@@ -172,15 +173,8 @@ class MainWindow(QMainWindow):
         self.splitter = splitter
         self._splitter_placed = False
         self.setCentralWidget(splitter)
-        self.compare_view = None
-        self.compare_unavailable = ""
-        try:
-            from . import compare_view
-        except ImportError as error:
-            self.compare_unavailable = str(error)
-        else:
-            self.compare_view = compare_view.CompareView(self)
-            self.add_page(PAGE_COMPARE, self.compare_view)
+        self.compare_view = compare_view.CompareView(self)
+        self.add_page(PAGE_COMPARE, self.compare_view)
 
     @staticmethod
     def _titled(title: str, widget: QWidget) -> QWidget:
@@ -212,14 +206,6 @@ class MainWindow(QMainWindow):
         self.save_as_action = self._action("Save &as…", lambda: self.save_file_as(), QKeySequence.StandardKey.SaveAs)
         self.export_action = self._action("&Export datasheet…", self.export_datasheet, "Ctrl+E",
                                           "Write a datasheet of the current design")
-        self.export_module = None
-        try:
-            from . import export_dialog
-        except ImportError as error:
-            self.export_action.setEnabled(False)
-            self.export_action.setToolTip(f"Datasheet export is not installed ({error})")
-        else:
-            self.export_module = export_dialog
         self.quit_action = self._action("&Quit", self.close, QKeySequence.StandardKey.Quit)
         self.undo_action = self.model.undo_stack.createUndoAction(self, "&Undo")
         self.undo_action.setShortcut(QKeySequence.StandardKey.Undo)
@@ -479,10 +465,8 @@ class MainWindow(QMainWindow):
         self._fill_recent_menu()
 
     def export_datasheet(self) -> None:
-        if self.export_module is None:
-            return
         self.model.flush()
-        self.export_module.open_export_dialog(self, self.current_project, self.current_results, self.current_path)
+        export_dialog.open_export_dialog(self, self.current_project, self.current_results, self.current_path)
 
     # ------------------------------------------------------------------ display units, about, closing
     def set_display_units(self, system: str) -> None:

@@ -19,7 +19,7 @@ os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 
 from PySide6.QtWidgets import QApplication  # noqa: E402
 
-from pmdc_sizer.core.project import apply_overrides  # noqa: E402
+from pmdc_sizer.app.overrides import apply_overrides  # noqa: E402
 
 from .main_window import DEMO_FOLDER, MainWindow, _application, read_project, render_screenshot  # noqa: E402
 

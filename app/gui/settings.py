@@ -9,9 +9,11 @@ from __future__ import annotations
 
 import json
 import os
-import tempfile
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
+
+from pmdc_sizer.app.errors import CommandError
+from pmdc_sizer.app.files import write_text_atomically
 
 SETTINGS_FILE_NAME = "settings.json"
 MAX_RECENT_FILES = 8
@@ -66,12 +68,8 @@ def load_settings() -> Settings:
 
 def save_settings(settings: Settings) -> None:
     """Write atomically; a settings file that cannot be written is not worth interrupting the user."""
-    folder = config_folder()
     try:
-        folder.mkdir(parents=True, exist_ok=True)
-        handle, temporary = tempfile.mkstemp(prefix=".settings.", suffix=".tmp", dir=folder)
-        with os.fdopen(handle, "w", encoding="utf-8") as stream:
-            json.dump(asdict(settings), stream, indent=2)
-        os.replace(temporary, settings_path())
-    except OSError:
+        config_folder().mkdir(parents=True, exist_ok=True)
+        write_text_atomically(settings_path(), json.dumps(asdict(settings), indent=2))
+    except (OSError, CommandError):
         pass

@@ -7,7 +7,7 @@ import json
 import pytest
 
 from pmdc_sizer.app.cli import main
-from pmdc_sizer.core import compare
+from pmdc_sizer.core import difference
 from tests.conftest import DEMO_FOLDER
 
 FERRITE = str(DEMO_FOLDER / "appliance_ferrite_12v.toml")
@@ -21,7 +21,7 @@ def run(capsys, *argv):
 
 
 def leaves(node):
-    return [value for _, value in compare.flatten(node)]
+    return [value for _, value in difference.flatten(node)]
 
 
 def test_two_files_as_json_hold_a_b_and_their_difference(capsys):

@@ -18,7 +18,8 @@ import pypdf
 import pytest
 
 from pmdc_sizer.app import datasheet
-from pmdc_sizer.app.cli import CommandError, main
+from pmdc_sizer.app.cli import main
+from pmdc_sizer.app.errors import CommandError
 from pmdc_sizer.app.datasheet.charts import torque_unit
 from pmdc_sizer.app.formatting import percent, quantity
 from pmdc_sizer.core import project as project_file

@@ -255,42 +255,6 @@ def test_with_values_sets_and_removes_optional_keys():
     assert pf.with_values(limited, {"supply.current_limit_A": None}).supply.current_limit_A is None
 
 
-@pytest.mark.parametrize(
-    ("assignment", "key", "value"),
-    [
-        ("magnets.thickness_mm=4.5", "magnets.thickness_mm", 4.5),
-        ("magnets.thickness_mm = 5", "magnets.thickness_mm", 5.0),
-        ("magnets.grade=Y35", "magnets.grade", "Y35"),
-        ('magnets.grade="Y40"', "magnets.grade", "Y40"),
-        ("supply.reversing=true", "supply.reversing", True),
-        ("winding.wire=AWG 25", "winding.wire", "AWG 25"),
-        ("armature.slots=12", "armature.slots", 12),
-    ],
-)
-def test_overrides_parse_like_the_file(assignment, key, value):
-    project = pf.apply_overrides(pf.load(DEMO), [assignment])
-    assert pf.get_value(project, key) == value
-
-
-@pytest.mark.parametrize(
-    ("assignment", "key"),
-    [
-        ("magnets.thickness_mm=0.1", "magnets.thickness_mm"),
-        ("magnets.thickness_mm=thick", "magnets.thickness_mm"),
-        ("armature.slots=12.5", "armature.slots"),
-        ("magnets.thicknes_mm=4", "magnets.thicknes_mm"),
-        ("nosuchsection.key=1", "nosuchsection.key"),
-        ("magnets.arc_deg=179", "magnets.arc_deg"),
-        ("supply.voltage_V", "supply.voltage_V"),
-        ("=4", "=4"),
-    ],
-)
-def test_overrides_go_through_the_same_validation(assignment, key):
-    with pytest.raises(ProjectError) as caught:
-        pf.apply_overrides(pf.load(DEMO), [assignment])
-    assert key in str(caught.value)
-
-
 # ------------------------------------------------------------------------------------------------
 # The schema as the single source of truth
 
@@ -327,14 +291,6 @@ def test_every_key_of_a_demo_file_is_in_the_schema(demo_path):
                 yield path
 
     assert set(walk(data)) <= known
-
-
-def test_overrides_reach_into_an_inline_custom_grade(tmp_path):
-    project = pf.load(write(tmp_path, with_custom_grade()))
-    changed = pf.apply_overrides(project, ["magnets.custom_grade.coercivity_HcJ_kA_per_m=260"])
-    assert changed.magnets.custom_grade.coercivity_HcJ_kA_per_m == 260.0
-    with pytest.raises(ProjectError, match="magnets.custom_grade.coercivity_HcB_kA_per_m"):
-        pf.apply_overrides(project, ["magnets.custom_grade.coercivity_HcB_kA_per_m=300"])  # above HcJ
 
 
 @pytest.mark.parametrize("value, words", [("2026-02-30", "calendar date"), ("yesterday", "YYYY-MM-DD"),

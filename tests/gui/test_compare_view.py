@@ -5,7 +5,8 @@ from __future__ import annotations
 import pytest
 from PySide6.QtCore import QObject, Qt, Signal
 
-from pmdc_sizer.core import compare, evaluate, project
+from pmdc_sizer.app.compare_text import KEY_FIGURES
+from pmdc_sizer.core import evaluate, project
 from tests.conftest import DEMO_FOLDER
 
 pytest.importorskip("pyqtgraph")
@@ -59,7 +60,7 @@ def test_pinned_copy_of_a_shows_no_difference_then_follows_edits_of_a(page, qtbo
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.pin_button.click()
     table = view.figures_table
-    assert table.rowCount() == len(compare.KEY_FIGURES)
+    assert table.rowCount() == len(KEY_FIGURES)
     assert all(cell(table, row, 3) == "0" for row in range(table.rowCount()))
     # Editing A moves A only: the pinned B stays at 6 mm.
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):

@@ -1,7 +1,6 @@
-"""Two designs side by side, and design B re-fitted to one of design A's figures.
+"""Design B re-fitted to one of design A's figures.
 
-A comparison is the difference of every number two evaluations share, B − A, absolute and as a
-fraction of A. A re-fit changes one of B's inputs until B meets A's figure:
+A re-fit changes one of B's inputs until B meets A's figure:
 
     ke             same Ke (= Kt)           by B's magnets.thickness_mm
     no-load-speed  same no-load speed       by B's winding.turns_per_coil (whole turns)
@@ -15,10 +14,10 @@ the result then holds B at the nearest limit and a sentence saying what B would 
 
 Usage::
 
-    from pmdc_sizer.core import compare, evaluate, project
+    from pmdc_sizer.core import difference, evaluate, project, refit
     a = project.load("demo_projects/appliance_ferrite_12v.toml")
-    b = compare.with_grade(a, "N42")
-    fit = compare.refit("ke", evaluate.evaluate(a), b)
+    b = difference.with_grade(a, "N42")
+    fit = refit.refit("ke", evaluate(a), b)
     fit.value_after, fit.message
 
 SI throughout, like the results; the parameter values are in the project file's units (mm, turns).
@@ -27,220 +26,20 @@ SI throughout, like the results; the parameter values are in the project file's 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, fields, is_dataclass
-from typing import Any, Callable, Iterator
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
 from .checks import FAIL, SLOT_FILL_GROSS_FAIL
-from .evaluate import Results, evaluate
-from .magnetic_circuit import MagneticCircuitError
-from .project import Project, ProjectError, get_value, key_spec, with_values
+from .edits import get_value, with_values
+from .errors import MagneticCircuitError, ProjectError
+from .evaluate import evaluate
+from .results import Results
+from .schema import Project, key_spec
 from .solvers import find_root
 from .units import from_si
-
-# ----------------------------------------------------------------------------------------------
-# Differences
-
-
-@dataclass(frozen=True)
-class FigureDifference:
-    """One number both designs have, and how B differs from A."""
-
-    key: str  #: dotted path into the results, e.g. "constants.ke_V_s_per_rad" (the unit is in the name)
-    a: float
-    b: float
-    difference: float  #: B − A, in the unit of the key
-    fraction: float | None  #: (B − A)/|A|; None where A is zero or the key is a temperature in °C
-
-    @property
-    def percent(self) -> float | None:
-        return None if self.fraction is None else 100.0 * self.fraction
-
-
-#: The figures an engineer reads first when choosing between two designs: (key, title, display unit).
-#: Nominal case unless the title says otherwise.
-KEY_FIGURES: tuple[tuple[str, str, str], ...] = (
-    ("magnet.remanence_T", "Br", "T"),
-    ("magnet.coercivity_HcJ_A_per_m", "HcJ", "kA/m"),
-    ("magnets.thickness_mm", "Magnet thickness", "mm"),
-    ("magnetics.permeance_coefficient", "Permeance coefficient", "1"),
-    ("magnetics.magnet_flux_density_T", "Operating point Bm", "T"),
-    ("magnetics.airgap_flux_density_T", "Air-gap flux density", "T"),
-    ("magnetics.flux_per_pole_Wb", "Flux per pole", "mWb"),
-    ("constants.ke_V_s_per_rad", "Ke = Kt", "V·s/rad"),
-    ("constants.terminal_resistance_ohm", "Terminal resistance", "ohm"),
-    ("nominal.no_load_speed_rad_per_s", "No-load speed", "rpm"),
-    ("nominal.no_load_current_A", "No-load current", "A"),
-    ("nominal.stall_torque_N_m", "Stall torque", "mN·m"),
-    ("nominal.stall_current_A", "Stall current", "A"),
-    ("nominal.rated.speed_rad_per_s", "Rated-torque speed", "rpm"),
-    ("hot.rated.speed_rad_per_s", "Rated-torque speed, hot", "rpm"),
-    ("nominal.rated.current_A", "Rated-torque current", "A"),
-    ("nominal.max_efficiency", "Maximum efficiency", "%"),
-    ("nominal.max_output_power_W", "Maximum output power", "W"),
-    ("demagnetization.worst_margin_A_per_m", "Least margin to the knee", "kA/m"),
-    ("thermal.winding_temperature_C", "Winding temp., hot", "°C"),
-    ("mass.magnet_kg", "Magnet mass", "g"),
-    ("mass.total_kg", "Active mass", "g"),
-    ("cost.magnet", "Magnet material cost", ""),
-    ("cost.total", "Material cost", ""),
-)
-
-
-def _is_number(value) -> bool:
-    return (isinstance(value, (int, float, np.integer, np.floating)) and not isinstance(value, (bool, np.bool_))
-            and math.isfinite(float(value)))
-
-
-def _children(value) -> dict | None:
-    """The named parts of a dataclass or mapping; plot arrays are not figures and are left out."""
-    if is_dataclass(value) and not isinstance(value, type):
-        return {f.name: getattr(value, f.name) for f in fields(value)
-                if f.name not in ("curve", "curves") and not isinstance(getattr(value, f.name), np.ndarray)}
-    if isinstance(value, dict):
-        return value
-    return None
-
-
-def _name_of(item):
-    children = _children(item)
-    return None if children is None else children.get("name")
-
-
-_SKIP = object()
-
-
-def _pair(a, b, key: str, leaf: Callable[[str, Any, Any], Any]):
-    """``leaf`` applied to every number A and B share, in A's nesting; lists of named items are
-    matched by name (two designs need not have the same demagnetization cases), others by position."""
-    if _is_number(a) and _is_number(b):
-        return leaf(key, a, b)
-    children_a, children_b = _children(a), _children(b)
-    if children_a is not None and children_b is not None:
-        out = {}
-        for name, value in children_a.items():
-            if name in children_b:
-                paired = _pair(value, children_b[name], name, leaf)
-                if paired is not _SKIP:
-                    out[name] = paired
-        return out or _SKIP
-    if isinstance(a, (list, tuple)) and isinstance(b, (list, tuple)):
-        names_a = [_name_of(item) for item in a]
-        if all(isinstance(n, str) for n in names_a):
-            by_name = {_name_of(item): item for item in b}
-            out = []
-            for name, item in zip(names_a, a):
-                if name in by_name:
-                    paired = _pair(item, by_name[name], key, leaf)
-                    if paired is not _SKIP:
-                        out.append({"name": name, **paired})
-            return out or _SKIP
-        if len(a) == len(b):
-            out = [p for p in (_pair(x, y, key, leaf) for x, y in zip(a, b)) if p is not _SKIP]
-            return out or _SKIP
-    return _SKIP
-
-
-def _fraction(key: str, a, b) -> float | None:
-    # °C is an offset scale: a per cent of it means nothing.
-    if key.endswith("_C") or float(a) == 0.0:
-        return None
-    return (float(b) - float(a)) / abs(float(a))
-
-
-def nested_difference(a, b, relative: bool = False):
-    """B − A (or (B − A)/|A| when ``relative``) for every number two nested structures share.
-
-    ``a`` and ``b`` are results dataclasses or their JSON dicts; the answer keeps their nesting and
-    keys, holds numbers only (plus the ``name`` of matched list items) and leaves out what is not a
-    number on both sides.
-    """
-    def leaf(key, x, y):
-        if relative:
-            value = _fraction(key, x, y)
-            return _SKIP if value is None else value
-        return y - x
-
-    result = _pair(a, b, "", leaf)
-    return {} if result is _SKIP else result
-
-
-def flatten(nested, prefix: str = "") -> Iterator[tuple[str, Any]]:
-    """(dotted key, value) for every leaf of a :func:`nested_difference`; list items by name."""
-    if isinstance(nested, dict):
-        for name, value in nested.items():
-            if name == "name" and prefix.endswith("]"):
-                continue
-            yield from flatten(value, f"{prefix}.{name}" if prefix else name)
-    elif isinstance(nested, list):
-        for index, item in enumerate(nested):
-            label = item.get("name", index) if isinstance(item, dict) else index
-            yield from flatten(item, f"{prefix}[{label}]")
-    else:
-        yield prefix, nested
-
-
-def difference(a: Results, b: Results) -> tuple[FigureDifference, ...]:
-    """Every number the two results share, flattened to dotted keys, with B − A."""
-    pairs = _pair(a, b, "", lambda key, x, y: (key, x, y))
-    if pairs is _SKIP:
-        return ()
-    return tuple(
-        FigureDifference(key=path, a=x, b=y, difference=y - x, fraction=_fraction(leaf_key, x, y))
-        for path, (leaf_key, x, y) in flatten(pairs)
-    )
-
-
-@dataclass(frozen=True)
-class Comparison:
-    """Two evaluated designs and every difference between them."""
-
-    a: Results = field(repr=False)
-    b: Results = field(repr=False)
-    figures: tuple[FigureDifference, ...]
-    magnet_thickness_mm: tuple[float, float]  #: A's and B's, from their projects (an input, shown beside the results)
-
-    def figure(self, key: str) -> FigureDifference:
-        for item in self.figures:
-            if item.key == key:
-                return item
-        raise KeyError(key)
-
-    def key_figures(self) -> tuple[tuple[str, str, FigureDifference], ...]:
-        """(title, display unit, difference) for each of :data:`KEY_FIGURES`."""
-        out = []
-        for key, title, unit in KEY_FIGURES:
-            if key == "magnets.thickness_mm":
-                a_mm, b_mm = self.magnet_thickness_mm
-                # The thickness is an input in mm; the display unit "mm" turns SI metres into mm.
-                a_m, b_m = a_mm / from_si(1.0, "mm"), b_mm / from_si(1.0, "mm")
-                item = FigureDifference(key, a_m, b_m, b_m - a_m, _fraction(key, a_m, b_m))
-            else:
-                item = self.figure(key)
-            out.append((title, unit, item))
-        return tuple(out)
-
-
-def compare(project_a: Project, project_b: Project, results_a: Results | None = None,
-            results_b: Results | None = None) -> Comparison:
-    """Evaluate both designs (unless their results are given) and difference them."""
-    results_a = evaluate(project_a) if results_a is None else results_a
-    results_b = evaluate(project_b) if results_b is None else results_b
-    return Comparison(a=results_a, b=results_b, figures=difference(results_a, results_b),
-                      magnet_thickness_mm=(project_a.magnets.thickness_mm, project_b.magnets.thickness_mm))
-
-
-def with_grade(project: Project, grade_name: str) -> Project:
-    """The same design with a library magnet grade (an inline custom grade is dropped)."""
-    from .library import magnet_grade
-
-    magnet_grade(grade_name)  # an unknown name is a ProjectError naming magnets.grade
-    return with_values(project, {"magnets.custom_grade": None, "magnets.grade": grade_name})
-
-
-# ----------------------------------------------------------------------------------------------
-# Re-fits
 
 
 @dataclass(frozen=True)

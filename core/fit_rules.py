@@ -1,0 +1,153 @@
+"""Cross-field rules of a project: the parts must fit and the numbers must agree with each other.
+
+The dimensions are checked on the design's SI cross-section (:func:`design.geometry_of`), the same
+derivation the computation uses, and reported in the file's millimetres. Each failure names the key
+to change and its limit.
+"""
+
+from __future__ import annotations
+
+import math
+
+from pydantic import ValidationError
+
+from .design import geometry_of
+from .errors import ProjectError
+from .schema import FORMAT_VERSION, Project, format_validation_error, key_specs
+from .units import from_si
+
+MIN_CORE_DEPTH = 1.0e-3  #: back iron between slot bottoms and shaft, at least [m] (our rule)
+MAX_TOOTH_SHARE_AT_ROOT = 0.9  #: a tooth may take at most this share of the slot pitch at the slot bottom
+MIN_TOOTH_TIP = 0.2e-3  #: the slot opening leaves at least this much tooth tip at the surface [m]
+MAX_EMBRACE = 0.98  #: adjacent magnets would touch beyond this share of the pole pitch
+
+
+def _mm(length: float) -> float:
+    return float(from_si(length, "mm"))
+
+
+def check_fit(project: Project) -> None:
+    """Raise :class:`ProjectError` naming the key and the limit when the parts do not fit.
+
+    Parameters
+    ----------
+    project : Project
+        A project whose sections passed the schema.
+
+    Raises
+    ------
+    ProjectError
+        On the first rule broken.
+    """
+    p = project
+
+    def fail(key: str, message: str):
+        raise ProjectError(f"{key}: {message}", key=key)
+
+    t = p.temperatures
+    if not t.ambient_min_C <= t.ambient_nominal_C <= t.ambient_max_C:
+        fail("temperatures.ambient_nominal_C",
+             f"{t.ambient_nominal_C:g} °C must lie between ambient_min_C ({t.ambient_min_C:g} °C) "
+             f"and ambient_max_C ({t.ambient_max_C:g} °C)")
+    m, a, h, w = p.magnets, p.armature, p.housing, p.winding
+    if (m.grade is None) == (m.custom_grade is None):
+        fail("magnets.grade", "give either a library grade or a [magnets.custom_grade] table, not both or neither")
+    pole_pitch_deg = 360.0 / p.motor.poles
+    if m.arc_deg > MAX_EMBRACE * pole_pitch_deg:
+        fail("magnets.arc_deg",
+             f"{m.arc_deg:g}° is more than 98 % of the pole pitch ({pole_pitch_deg:g}° for {p.motor.poles} poles, "
+             f"so at most {MAX_EMBRACE * pole_pitch_deg:.4g}°); adjacent magnets would touch")
+    if m.length_mm < a.stack_length_mm:
+        fail("magnets.length_mm",
+             f"{m.length_mm:g} mm is shorter than the armature stack ({a.stack_length_mm:g} mm); the overhang would "
+             "be negative")
+    if h.length_mm < m.length_mm:
+        fail("housing.length_mm", f"{h.length_mm:g} mm is shorter than the magnets ({m.length_mm:g} mm)")
+    if m.custom_grade is not None:
+        c = m.custom_grade
+        if c.coercivity_HcB_kA_per_m > c.coercivity_HcJ_kA_per_m:
+            fail("magnets.custom_grade.coercivity_HcB_kA_per_m",
+                 f"{c.coercivity_HcB_kA_per_m:g} kA/m exceeds HcJ ({c.coercivity_HcJ_kA_per_m:g} kA/m); HcB ≤ HcJ always")
+    g = geometry_of(p)
+    core_depth = float(g.core_depth)
+    if core_depth < MIN_CORE_DEPTH:
+        fail("armature.slot_depth_mm",
+             f"{a.slot_depth_mm:g} mm leaves {_mm(core_depth):.3g} mm of core between the slot bottoms and "
+             f"the shaft; at most {max(_mm(g.armature_radius - g.shaft_radius - MIN_CORE_DEPTH), 0):.4g} mm for "
+             "this diameter and shaft (1 mm of core at least)")
+    root_pitch = 2.0 * math.pi * float(g.slot_bottom_radius) / a.slots
+    if g.tooth_width >= MAX_TOOTH_SHARE_AT_ROOT * root_pitch:
+        fail("armature.tooth_width_mm",
+             f"{a.tooth_width_mm:g} mm leaves no room for the slots at the slot bottom (slot pitch there "
+             f"{_mm(root_pitch):.3g} mm; the tooth may be at most {_mm(MAX_TOOTH_SHARE_AT_ROOT * root_pitch):.3g} mm)")
+    surface_pitch = float(g.slot_pitch)
+    if g.slot_opening >= surface_pitch - MIN_TOOTH_TIP:
+        fail("armature.slot_opening_mm",
+             f"{a.slot_opening_mm:g} mm is wider than the slot pitch at the surface allows "
+             f"(at most {_mm(surface_pitch - MIN_TOOTH_TIP):.3g} mm)")
+    slot_width_at_top = surface_pitch - float(g.tooth_width)
+    if g.slot_opening > slot_width_at_top + 1e-12:
+        fail("armature.slot_opening_mm",
+             f"{a.slot_opening_mm:g} mm is wider than the slot itself at the surface ({_mm(slot_width_at_top):.3g} mm)")
+    if w.commutator_segments % a.slots != 0:
+        fail("winding.commutator_segments",
+             f"{w.commutator_segments} is not a whole multiple of the {a.slots} slots (one, two or more coils per slot)")
+    pole_pairs = p.motor.poles // 2
+    if w.type == "wave" and pole_pairs > 1 and (
+        (w.commutator_segments + w.multiplicity) % pole_pairs and (w.commutator_segments - w.multiplicity) % pole_pairs
+    ):
+        fail("winding.commutator_segments",
+             f"{w.commutator_segments} segments cannot carry a wave winding on {p.motor.poles} poles: "
+             f"segments ± multiplicity must divide by the {pole_pairs} pole pairs")
+    if a.slots < p.motor.poles:
+        fail("armature.slots", f"{a.slots} slots is fewer than the {p.motor.poles} poles")
+    if h.max_outer_diameter_mm is not None:
+        outer = _mm(2.0 * g.housing_outer_radius)
+        if outer > h.max_outer_diameter_mm + 1e-9:
+            fail("housing.max_outer_diameter_mm",
+                 f"the housing comes out at {outer:.4g} mm across (armature + 2 × (gap + magnet + wall)), over the "
+                 f"envelope of {h.max_outer_diameter_mm:g} mm")
+
+
+def validate(data: dict) -> Project:
+    """A validated :class:`Project` from parsed TOML data: the schema, the required keys, the fit rules.
+
+    Parameters
+    ----------
+    data : dict
+        Parsed TOML.
+
+    Returns
+    -------
+    Project
+        Validated; never half a design.
+
+    Raises
+    ------
+    ProjectError
+        Naming the key and the limit.
+    """
+    if not isinstance(data, dict):
+        raise ProjectError("the project is not a table of keys")
+    version = data.get("format_version", FORMAT_VERSION)
+    if isinstance(version, int) and not isinstance(version, bool) and version > FORMAT_VERSION:
+        raise ProjectError(
+            f"format_version = {version}: this file was written by a newer pmdc-sizer (this one reads format "
+            f"version {FORMAT_VERSION}); update pmdc-sizer to open it",
+            key="format_version",
+        )
+    try:
+        project = Project.model_validate(data)
+    except ValidationError as error:
+        raise format_validation_error(error) from None
+    for spec in key_specs():
+        if spec.required_in_file and ".custom_grade." not in spec.path and spec.path != "format_version":
+            section, name = spec.path.split(".")
+            if name not in data.get(section, {}):
+                raise ProjectError(f"{spec.path}: required key is missing ({spec.description.rstrip('.')})",
+                                   key=spec.path)
+    if "format_version" not in data:
+        raise ProjectError("format_version: required key is missing (write format_version = "
+                           f"{FORMAT_VERSION} at the top of the file)", key="format_version")
+    check_fit(project)
+    return project
