@@ -1,6 +1,6 @@
 """Evaluation off the GUI thread, latest wins.
 
-One worker thread runs ``core.evaluate.evaluate``. While it is busy, new requests replace each other
+One worker thread runs ``pmdc_sizer.core.evaluate``. While it is busy, new requests replace each other
 and only the newest waits; when the worker finishes it starts that one. Results arrive in the GUI
 thread through queued signals, so the window keeps painting during a drag on a slow machine.
 """

@@ -19,7 +19,7 @@ def ferrite(request):
     from tests.conftest import DEMO_FOLDER
 
     design = project.load(DEMO_FOLDER / "appliance_ferrite_12v.toml")
-    return design, evaluate.evaluate(design)
+    return design, evaluate(design)
 
 
 def test_a_design_compared_with_itself_differs_in_nothing(demo_path):
@@ -55,7 +55,7 @@ def test_difference_is_b_minus_a_in_every_key(ferrite):
 def test_lists_of_named_items_are_matched_by_name(ferrite):
     design, results_a = ferrite
     reversing = project.with_values(design, {"supply.reversing": True})
-    nested = difference.nested_difference(results_a, evaluate.evaluate(reversing))
+    nested = difference.nested_difference(results_a, evaluate(reversing))
     names = [case["name"] for case in nested["demagnetization"]["cases"]]
     # A is never reversed, so B's reversal cases have nothing to be compared with.
     assert names == [case.name for case in results_a.demagnetization.cases]

@@ -1,4 +1,4 @@
-"""The whole chain through :func:`core.evaluate.evaluate`: identities that must hold for every design,
+"""The whole chain through :func:`pmdc_sizer.core.evaluate`: identities that must hold for every design,
 the demos' cases, and property tests over many perturbed designs."""
 
 from __future__ import annotations

@@ -19,7 +19,7 @@ def ferrite(request):
     from tests.conftest import DEMO_FOLDER
 
     design = project.load(DEMO_FOLDER / "appliance_ferrite_12v.toml")
-    return design, evaluate.evaluate(design)
+    return design, evaluate(design)
 
 
 def test_refit_ke_by_thickness_sintered_ndfeb_against_ferrite_needs_a_much_thinner_magnet(ferrite):
@@ -28,7 +28,7 @@ def test_refit_ke_by_thickness_sintered_ndfeb_against_ferrite_needs_a_much_thinn
     # at the same air-gap flux the arc is several times thinner.
     design, _ = ferrite
     design_a = project.with_values(design, {"magnets.thickness_mm": 10.0})
-    results_a = evaluate.evaluate(design_a)
+    results_a = evaluate(design_a)
     fit = refit.refit("ke", results_a, difference.with_grade(design_a, "N42"))
     assert fit.reached
     assert abs(fit.target_error_fraction) < TARGET_TOLERANCE
@@ -97,7 +97,7 @@ def test_turns_refit_scales_ke_as_the_textbook_relation_says(ferrite):
     # the no-load flux does not depend on the turns, so Ke goes exactly as the turns per coil.
     design, results_a = ferrite
     design_b = difference.with_grade(design, "N42")
-    results_b = evaluate.evaluate(design_b)
+    results_b = evaluate(design_b)
     fit = refit.refit("no-load-speed", results_a, design_b, results_b)
     assert fit.results.magnetics.flux_per_pole_Wb == pytest.approx(results_b.magnetics.flux_per_pole_Wb, rel=1e-9)
     assert_allclose(fit.results.constants.ke_V_s_per_rad / results_b.constants.ke_V_s_per_rad,
@@ -110,13 +110,13 @@ def test_thickness_refit_agrees_with_scipy_brentq(ferrite):
 
     design, _ = ferrite
     design_a = project.with_values(design, {"magnets.thickness_mm": 10.0})
-    results_a = evaluate.evaluate(design_a)
+    results_a = evaluate(design_a)
     design_b = difference.with_grade(design_a, "N42")
     fit = refit.refit("ke", results_a, design_b)
 
     def residual(thickness_mm):
         trial = project.with_values(design_b, {"magnets.thickness_mm": thickness_mm})
-        return evaluate.evaluate(trial).constants.ke_V_s_per_rad - results_a.constants.ke_V_s_per_rad
+        return evaluate(trial).constants.ke_V_s_per_rad - results_a.constants.ke_V_s_per_rad
 
     reference = brentq(residual, 0.5, 40.0, xtol=1e-7)
     assert fit.value_after == pytest.approx(reference, abs=1e-4)  # 0.1 µm: far below any magnet tolerance
