@@ -112,7 +112,7 @@ def cmd_compare(args) -> int:
 
 
 def _label(design, results) -> str:
-    return f"{design.project.name}, {results.magnet.name} ({results.magnet.family}), {design.magnets.thickness_mm:g} mm arcs"
+    return f"{design.project.name}, {results.magnet.name} ({results.magnet.family}), {from_si(results.geometry.magnet_thickness_m, 'mm'):.4g} mm arcs"
 
 
 def compare_text(args, design_a, design_b, comparison, fit) -> list[str]:

@@ -131,9 +131,9 @@ def rated(case, text: str) -> str:
     return text if case.rated_reached else NOT_REACHED
 
 
-def performance_table(project: Project, results: Results) -> Table:
+def performance_table(results: Results) -> Table:
     r = results
-    limit = project.supply.current_limit_A
+    limit = r.current_limit_A
     unit = torque_unit(r)
     cases = r.cases
     rows = [
@@ -177,14 +177,14 @@ def performance_table(project: Project, results: Results) -> Table:
                  caption="Kt equals Ke in SI units. The stall figures ignore any drive current limit.", key="performance_table")
 
 
-def electrical_table(project: Project, results: Results) -> Table:
+def electrical_table(results: Results) -> Table:
     r, c = results, results.constants
-    limit = project.supply.current_limit_A
+    limit = r.current_limit_A
     rows = [
         ("Supply voltage", q(r.supply_voltage_V, "V")),
         ("Brush drop (both brushes)", q(r.brush_drop_V, "V")),
         ("Drive current limit", q(limit, "A") if limit is not None else "none (plain supply)"),
-        ("Reversed at speed", "yes" if project.supply.reversing else "no"),
+        ("Reversed at speed", "yes" if r.reversing else "no"),
         ("Terminal resistance at 20 °C", q(r.winding.resistance_20C_ohm, "ohm")),
         ("Armature inductance (estimate)", q(c.inductance_H_estimate, "mH", ESTIMATE_DIGITS)),
         ("Electrical time constant (estimate)", q(c.electrical_time_constant_s_estimate, "ms", ESTIMATE_DIGITS)),
@@ -282,21 +282,25 @@ def thermal_table(results: Results) -> Table:
     return _kv(rows, title="Thermal", key="thermal")
 
 
-def build_tables(project: Project, results: Results) -> tuple[Table, Table, Table]:
-    r, w, g, p = results, results.winding, results.geometry, project
+def build_tables(results: Results) -> tuple[Table, Table, Table]:
+    r, w, g = results, results.winding, results.geometry
+
+    def mm(length_m: float) -> str:
+        return significant(from_si(length_m, "mm"))
+
     winding_rows = [
-        ("Poles", str(p.motor.poles)),
+        ("Poles", str(g.poles)),
         ("Winding", f"{w.type}, {w.parallel_paths} parallel paths"),
-        ("Slots, commutator segments", f"{p.armature.slots}, {w.commutator_segments}"),
+        ("Slots, commutator segments", f"{g.slots}, {w.commutator_segments}"),
         ("Turns per coil, total conductors", f"{w.turns_per_coil}, {w.conductors}"),
         ("Wire (enamel grade, IEC 60317)", f"{w.wire} (grade {w.enamel_grade})"),
         ("Slot fill, copper", percent(w.slot_fill_bare, 2)),
         ("Current density at the rated load, hot", q(w.rated_current_density_A_per_m2, "A/mm2")),
-        ("Housing outer diameter × length", f"{significant(from_si(g.housing_outer_diameter_m, 'mm'))} × {significant(p.housing.length_mm)} mm"),
-        ("Armature diameter × stack length", f"{significant(from_si(g.armature_diameter_m, 'mm'))} × {significant(p.armature.stack_length_mm)} mm"),
-        ("Air gap", f"{significant(p.airgap.length_mm)} mm"),
-        ("Magnet thickness, arc, length", f"{significant(p.magnets.thickness_mm)} mm, {significant(p.magnets.arc_deg)}°, "
-                                          f"{significant(p.magnets.length_mm)} mm"),
+        ("Housing outer diameter × length", f"{mm(g.housing_outer_diameter_m)} × {mm(g.housing_length_m)} mm"),
+        ("Armature diameter × stack length", f"{mm(g.armature_diameter_m)} × {mm(g.stack_length_m)} mm"),
+        ("Air gap", f"{mm(g.airgap_m)} mm"),
+        ("Magnet thickness, arc, length", f"{mm(g.magnet_thickness_m)} mm, "
+                                          f"{significant(from_si(g.magnet_arc_rad, 'deg'))}°, {mm(g.magnet_length_m)} mm"),
     ]
     m = r.mass
     mass_rows = [
@@ -365,14 +369,14 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
     if issued is None:
         issued = _dt.date.fromisoformat(info.revision_date) if info.revision_date else _dt.date.today()
     magnet_grade, operating_points = magnet_tables(r)
-    winding, mass, cost = build_tables(project, r)
+    winding, mass, cost = build_tables(r)
     notes = info.notes.strip()
     sections = (
         Section("performance", "Performance at three temperatures", failing_summary(r) + (
             Paragraph("Cold: the coldest ambient, motor at rest temperature. Nominal: the nominal ambient. Hot: the "
                       "hottest ambient with winding and magnets at the temperatures they reach at the rated load.",
                       "note"),
-            performance_table(project, r),
+            performance_table(r),
         )),
         Section("terminals", "Terminal markings", (
             Table(("Marking", "Meaning"), tuple(Row(t) for t in TERMINAL_ROWS), widths=(15, 85), numeric_from=99,
@@ -382,7 +386,7 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
         Section("performance_chart", "Performance chart", (
             Chart("performance", "Speed, current and output power from no load to stall; efficiency over the working "
                                  "range. Cold, nominal and hot cases."),
-            Columns((electrical_table(project, r),), (thermal_table(r),)),
+            Columns((electrical_table(r),), (thermal_table(r),)),
         ), new_page=True),
         Section("magnet", "Magnet and demagnetization", (
             Chart("magnet", "Second-quadrant curves of the grade at the three magnet temperatures with the load lines, "
@@ -401,7 +405,7 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
         ("Revision", info.revision),
         ("Issued", issued.isoformat()),
         ("Magnet", r.magnet.name),
-        ("Poles", str(project.motor.poles)),
+        ("Poles", str(r.geometry.poles)),
         ("Winding", f"{r.winding.type}, Z = {r.winding.conductors}"),
         ("Wire", r.winding.wire),
         ("Duty", r.thermal.duty),

@@ -633,7 +633,7 @@ class CompareView(QWidget):
                 title.setText(f"{side}: –")
                 continue
             chart.show_results(results)
-            title.setText(f"{side}: {results.magnet.name}, {design.magnets.thickness_mm:g} mm arcs, "
+            title.setText(f"{side}: {results.magnet.name}, {from_si(results.geometry.magnet_thickness_m, 'mm'):.4g} mm arcs, "
                           f"Pc {text_of(results, 'magnetics.permeance_coefficient')} at no load")
 
 

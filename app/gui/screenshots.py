@@ -20,6 +20,7 @@ os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 from PySide6.QtWidgets import QApplication  # noqa: E402
 
 from pmdc_sizer.app.overrides import apply_overrides  # noqa: E402
+from pmdc_sizer.core.units import from_si  # noqa: E402
 
 from .main_window import DEMO_FOLDER, MainWindow, _application, read_project, render_screenshot  # noqa: E402
 
@@ -38,7 +39,7 @@ def save_all(folder: Path, project_path: Path, prefix: str = "", overrides: list
         window.pages.setCurrentIndex(index)
         if name == "performance_curves":
             window.performance_chart.show_cursor(
-                float(window.current_project.load.torque_mNm) if window.display.system == "SI" else 0.0)
+                from_si(window.current_results.load_torque_N_m, "mN·m") if window.display.system == "SI" else 0.0)
         out = folder / f"{prefix}{name}.png"
         render_screenshot(window, out)
         QApplication.processEvents()

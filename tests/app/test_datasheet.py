@@ -351,7 +351,7 @@ def test_no_figure_shows_more_digits_than_the_model_deserves(evaluated):
     design, results = evaluated
     sheet = build(design, results, ISSUED)
     assert sheet.headline
-    tables = (performance_table(design, results), electrical_table(design, results), thermal_table(results))
+    tables = (performance_table(results), electrical_table(results), thermal_table(results))
     for table in tables:
         for row in table.rows:
             if row.kind == "group":
