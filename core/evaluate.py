@@ -53,6 +53,7 @@ from .performance import (
     OperatingPoints,
     SpeedTorqueCurve,
     current_limit_torque,
+    electrical_time_constant,
     iron_loss_terms,
     loss_torque,
     mechanical_time_constant,
@@ -81,6 +82,7 @@ from .units import from_si
 from .winding import (
     armature_inductance_estimate,
     armature_resistance,
+    back_emf_constant,
     coil_span_slots,
     conductors_per_slot,
     current_density,
@@ -160,7 +162,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
             d.losses.iron_loss_build_factor,
         )
         return MotorModel(voltage=d.supply_voltage, brush_drop=d.brush_drop, resistance=resistance_at(winding_C),
-                          constant=constant * flux, friction_torque=d.losses.friction_torque,
+                          constant=back_emf_constant(constant, flux), friction_torque=d.losses.friction_torque,
                           viscous_coeff=d.losses.viscous_coeff, iron=iron)
 
     # 6. Thermal: the hot case's temperatures at the rated point and the highest ambient.
@@ -241,7 +243,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
             kt_mN_m_per_A=float(from_si(nominal_model.constant, "mN·m/A")),
             terminal_resistance_ohm=nominal_model.resistance,
             inductance_H_estimate=inductance,
-            electrical_time_constant_s_estimate=inductance / nominal_model.resistance,
+            electrical_time_constant_s_estimate=float(electrical_time_constant(inductance, nominal_model.resistance)),
             mechanical_time_constant_s=float(mechanical_time_constant(inertia, nominal_model.resistance,
                                                                       nominal_model.constant)),
             rotor_inertia_kg_m2=inertia,

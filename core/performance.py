@@ -262,3 +262,25 @@ def mechanical_time_constant(inertia, resistance, constant):
        Electric Machinery Fundamentals, ch. 9 (from memory).
     """
     return inertia * resistance / constant**2
+
+
+def electrical_time_constant(inductance, resistance):
+    """Electrical time constant τe = L/R [s].
+
+    Parameters
+    ----------
+    inductance : float
+        Armature inductance [H].
+    resistance : float
+        Terminal resistance [Ω].
+
+    Returns
+    -------
+    float
+        [s]
+
+    References
+    ----------
+    .. [1] first-order RL circuit of the armature.
+    """
+    return inductance / resistance

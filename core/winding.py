@@ -138,3 +138,26 @@ def slot_share_of_turn(stack_length, turn_length):
         2·L/l_turn [1]; the rest of the copper is in the end turns.
     """
     return 2.0 * stack_length / turn_length
+
+
+def back_emf_constant(machine_constant, flux_per_pole):
+    """Ke = Kt = K·Φ [V·s/rad], equal to the torque constant in SI units.
+
+    Parameters
+    ----------
+    machine_constant : float
+        K = p·Z/(2π·a) [1] (:func:`machine_constant`).
+    flux_per_pole : float or ndarray
+        [Wb]
+
+    Returns
+    -------
+    float or ndarray
+        [V·s/rad]
+
+    References
+    ----------
+    .. [1] textbook DC-machine relation E = K·Φ·ω, e.g. S. J. Chapman, Electric Machinery
+       Fundamentals, ch. 8 (from memory).
+    """
+    return machine_constant * flux_per_pole
