@@ -5,7 +5,7 @@ BIN := $(VENV)/bin
 STAMP := $(VENV)/.installed
 DEMO ?= demo_projects/appliance_ferrite_12v.toml
 
-.PHONY: run test bench setup clean
+.PHONY: run test lint bench setup clean
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -18,7 +18,11 @@ setup: $(STAMP)
 run: $(STAMP)
 	$(BIN)/pmdc-sizer gui $(DEMO)
 
-test: $(STAMP)
+lint: $(STAMP)
+	$(BIN)/python -m ruff check core app tests benchmarks
+	$(BIN)/python -m mypy core
+
+test: $(STAMP) lint
 	QT_QPA_PLATFORM=offscreen $(BIN)/python -m pytest -q
 
 bench: $(STAMP)

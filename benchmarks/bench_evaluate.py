@@ -13,9 +13,9 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from pmdc_sizer.core import project  # noqa: E402
-from pmdc_sizer.core.design import design_from_project  # noqa: E402
-from pmdc_sizer.core.evaluate import evaluate  # noqa: E402
+from pmdc_sizer.core import project
+from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.evaluate import evaluate
 
 DEMOS = sorted((Path(__file__).resolve().parents[1] / "demo_projects").glob("*.toml"))
 

@@ -17,9 +17,9 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from pmdc_sizer.core import magnetic_circuit as mc  # noqa: E402
-from pmdc_sizer.core import project  # noqa: E402
-from pmdc_sizer.core.design import design_from_project  # noqa: E402
+from pmdc_sizer.core import magnetic_circuit as mc
+from pmdc_sizer.core import project
+from pmdc_sizer.core.design import design_from_project
 
 DEMO = Path(__file__).resolve().parents[1] / "demo_projects" / "appliance_ferrite_12v.toml"
 SWEEP_SIZE = 100_000

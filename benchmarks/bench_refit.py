@@ -15,8 +15,8 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from pmdc_sizer.core import difference, project, refit  # noqa: E402
-from pmdc_sizer.core.evaluate import evaluate  # noqa: E402
+from pmdc_sizer.core import difference, project, refit
+from pmdc_sizer.core.evaluate import evaluate
 
 DEMO_FOLDER = Path(__file__).resolve().parents[1] / "demo_projects"
 #: (demo, grade of B): a weaker ferrite, sintered NdFeB in a ferrite frame, and a hot-rated NdFeB swap.

@@ -9,8 +9,8 @@ from dataclasses import dataclass
 
 from . import library
 from .conductors import Wire, wire
-from .geometry import Geometry
 from .errors import ProjectError
+from .geometry import Geometry
 from .magnets import MagnetGrade
 from .schema import Project
 from .steel import Steel
@@ -25,40 +25,48 @@ INSULATION_CLASS_LIMIT_C = {
 
 @dataclass(frozen=True)
 class WindingData:
+    """The armature winding as the project states it, with its wire resolved."""
+
     kind: str  #: "lap" or "wave"
-    multiplicity: int
-    commutator_segments: int
-    turns_per_coil: int
-    wire: Wire
-    insulation_class: str
+    multiplicity: int  #: simplex 1, duplex 2, triplex 3 [1]
+    commutator_segments: int  #: one coil per segment [1]
+    turns_per_coil: int  #: [1]
+    wire: Wire  #: bare and overall diameters [m]
+    insulation_class: str  #: IEC 60085 thermal class, e.g. "155 (F)"
     insulation_limit_C: float  #: IEC 60085 class temperature [°C]
-    end_turn_factor: float
+    end_turn_factor: float  #: multiplier on the estimated end-turn length [1]
 
 
 @dataclass(frozen=True)
 class LossData:
-    friction_torque: float  #: [N·m]
-    viscous_coeff: float  #: [N·m·s/rad]
-    iron_loss_build_factor: float  #: [1]
+    """Mechanical and iron-loss inputs of a design, SI."""
+
+    friction_torque: float  #: constant friction torque of bearings and brushes [N·m]
+    viscous_coeff: float  #: torque per speed of the viscous drag [N·m·s/rad]
+    iron_loss_build_factor: float  #: multiplies the catalogue core loss for punching and rotation [1]
 
 
 @dataclass(frozen=True)
 class ThermalData:
-    winding_to_housing: float  #: [K/W]
+    """Thermal network and duty inputs of a design, SI."""
+
+    winding_to_housing: float  #: thermal resistance winding to housing [K/W]
     housing_to_ambient: float | None  #: [K/W], None to estimate from the surface
-    convection_coeff: float  #: [W/(m²·K)]
-    time_constant: float  #: [s]
-    duty: str  #: "S1" or "S2"
-    duty_time: float  #: [s]
+    convection_coeff: float  #: heat transfer coefficient of the housing surface [W/(m²·K)]
+    time_constant: float  #: thermal time constant of the motor [s]
+    duty: str  #: IEC 60034-1 duty type, "S1" or "S2"
+    duty_time: float  #: length of the S2 short-time run [s]
 
 
 @dataclass(frozen=True)
 class Prices:
-    currency: str
-    magnet: float  #: per kg
-    copper: float
-    housing_steel: float
-    lamination: float
+    """Material prices per kilogram that the user sets."""
+
+    currency: str  #: e.g. "EUR"
+    magnet: float  #: [currency/kg]
+    copper: float  #: [currency/kg]
+    housing_steel: float  #: [currency/kg]
+    lamination: float  #: [currency/kg]
 
 
 @dataclass(frozen=True)
@@ -72,34 +80,54 @@ class Design:
     reversing: bool  #: the application plugs the motor at speed
     load_torque: float  #: rated shaft torque [N·m]
     load_speed: float  #: required speed at the rated torque [rad/s]
-    ambient_min_C: float
-    ambient_nominal_C: float
-    ambient_max_C: float
-    geometry: Geometry
-    magnet: MagnetGrade
-    housing_steel: Steel
-    lamination_steel: Steel
-    winding: WindingData
-    losses: LossData
-    thermal: ThermalData
-    extra_inertia: float  #: [kg·m²]
-    prices: Prices
+    ambient_min_C: float  #: lowest ambient [°C]
+    ambient_nominal_C: float  #: nominal ambient [°C]
+    ambient_max_C: float  #: highest ambient [°C]
+    geometry: Geometry  #: cross-section and lengths [m, rad]
+    magnet: MagnetGrade  #: the grade, resolved from the library or the project's own
+    housing_steel: Steel  #: steel of the housing (the return yoke)
+    lamination_steel: Steel  #: steel of the armature stack
+    winding: WindingData  #: the armature winding
+    losses: LossData  #: friction, drag and iron-loss inputs
+    thermal: ThermalData  #: thermal network and duty
+    extra_inertia: float  #: what the commutator, fan and other parts add to the rotor [kg·m²]
+    prices: Prices  #: material prices per kg
     magnetization: str = "radial"  #: "radial" or "parallel", for the field solution
     shaft_magnetic: bool = True  #: a steel shaft (housing steel's B(H)) or a non-magnetic one
     max_outer_diameter: float | None = None  #: envelope limit on the housing diameter [m]
 
     @property
     def name(self) -> str:
+        """The design's name, from the project file."""
         return self.project.project.name
 
 
 def magnet_grade_of(project: Project) -> MagnetGrade:
+    """The magnet grade a project names, or its own inline grade.
+
+    Parameters
+    ----------
+    project : Project
+        A validated project (it has exactly one of ``magnets.grade`` and ``magnets.custom_grade``).
+
+    Returns
+    -------
+    MagnetGrade
+        The grade in SI.
+
+    Raises
+    ------
+    ProjectError
+        Naming the key, if the named grade is not in the library or the inline grade's curve cannot be
+        built.
+    """
     if project.magnets.custom_grade is not None:
         try:
             return library.grade_from_spec(project.magnets.custom_grade, custom=True)
         except ValueError as error:
-
             raise ProjectError(f"magnets.custom_grade: {error}", key="magnets.custom_grade.squareness") from None
+    if project.magnets.grade is None:
+        raise ProjectError("magnets: give magnets.grade or magnets.custom_grade", key="magnets.grade")
     return library.magnet_grade(project.magnets.grade)
 
 
@@ -137,7 +165,23 @@ def geometry_of(project: Project) -> Geometry:
 
 
 def design_from_project(project: Project) -> Design:
-    """Resolve materials and convert every quantity to SI. Raises ``ProjectError`` naming the key."""
+    """A project in SI with its materials resolved: what the chain computes on.
+
+    Parameters
+    ----------
+    project : Project
+        A validated project, in the file's engineering units.
+
+    Returns
+    -------
+    Design
+        Every quantity in SI (temperatures in °C), the grade, steels and wire resolved.
+
+    Raises
+    ------
+    ProjectError
+        Naming the key, if the wire size, the grade or a steel cannot be resolved.
+    """
     p = project
     try:
         winding_wire = wire(p.winding.wire, p.winding.enamel_grade)

@@ -5,6 +5,9 @@ magnets glued to the housing bore, housing wall. The armature diameter, gap, mag
 fix the housing: D_housing = D_armature + 2·(gap + magnet + wall).
 
 Fields may be floats or numpy arrays of the same shape (a sweep); every derived property broadcasts.
+
+The areas and volumes are plane and solid geometry of that idealized section (parallel-sided teeth,
+tooth tips ignored, magnets as annular sectors), not taken from a source.
 """
 
 from __future__ import annotations
@@ -16,37 +19,47 @@ import numpy as np
 
 @dataclass(frozen=True)
 class Geometry:
+    """The cross-section and axial lengths of one motor (or of a sweep: arrays of one shape), SI.
+
+    The derived radii, pitches, areas and volumes are properties, so a changed field (a
+    ``dataclasses.replace``) changes all that follows from it.
+    """
+
     poles: int | np.ndarray  #: number of magnet poles [1]
-    magnet_thickness: float | np.ndarray  #: radial [m]
+    magnet_thickness: float | np.ndarray  #: radial thickness of a magnet [m]
     magnet_arc: float | np.ndarray  #: mechanical arc of one magnet [rad]
-    magnet_length: float | np.ndarray  #: axial [m]
+    magnet_length: float | np.ndarray  #: axial length of a magnet [m]
     airgap: float | np.ndarray  #: radial clearance armature to magnet [m]
-    housing_wall: float | np.ndarray  #: [m]
-    housing_length: float | np.ndarray  #: axial [m]
+    housing_wall: float | np.ndarray  #: radial thickness of the housing wall [m]
+    housing_length: float | np.ndarray  #: axial length of the housing tube [m]
     armature_radius: float | np.ndarray  #: outer radius of the lamination stack [m]
-    stack_length: float | np.ndarray  #: axial [m]
+    stack_length: float | np.ndarray  #: axial length of the lamination stack [m]
     stacking_factor: float | np.ndarray  #: steel fraction of the stack [1]
-    slots: int | np.ndarray  #: [1]
-    slot_opening: float | np.ndarray  #: [m]
-    tooth_width: float | np.ndarray  #: parallel-sided [m]
-    slot_depth: float | np.ndarray  #: radial, from the armature surface [m]
-    shaft_radius: float | np.ndarray  #: [m]
+    slots: int | np.ndarray  #: number of armature slots [1]
+    slot_opening: float | np.ndarray  #: width of the slot opening at the armature surface [m]
+    tooth_width: float | np.ndarray  #: width of a parallel-sided tooth [m]
+    slot_depth: float | np.ndarray  #: radial depth of a slot from the armature surface [m]
+    shaft_radius: float | np.ndarray  #: radius of the shaft (the stack's bore) [m]
 
     # --- radii
     @property
     def magnet_inner_radius(self):
+        """Radius of the magnets' inner (air-gap) face, armature radius plus gap [m]."""
         return self.armature_radius + self.airgap
 
     @property
     def housing_inner_radius(self):
+        """Radius of the housing bore, where the magnets' outer faces sit [m]."""
         return self.magnet_inner_radius + self.magnet_thickness
 
     @property
     def housing_outer_radius(self):
+        """Outer radius of the housing [m]: D_housing = D_armature + 2·(gap + magnet + wall)."""
         return self.housing_inner_radius + self.housing_wall
 
     @property
     def slot_bottom_radius(self):
+        """Radius of the slot bottoms, armature radius less slot depth [m]."""
         return self.armature_radius - self.slot_depth
 
     @property
@@ -57,6 +70,7 @@ class Geometry:
     # --- angles and pitches
     @property
     def pole_pitch_angle(self):
+        """Mechanical angle of one pole pitch, 2π/p [rad]."""
         return 2.0 * np.pi / self.poles
 
     @property
@@ -89,6 +103,7 @@ class Geometry:
 
     @property
     def housing_volume(self):
+        """Volume of the housing tube over its length [m³]."""
         return np.pi * (self.housing_outer_radius**2 - self.housing_inner_radius**2) * self.housing_length
 
     @property
@@ -99,8 +114,10 @@ class Geometry:
 
     @property
     def teeth_volume(self):
+        """Steel volume of the teeth: S parallel-sided teeth over the slot depth, times stacking factor [m³]."""
         return self.slots * self.tooth_width * self.slot_depth * self.stack_length * self.stacking_factor
 
     @property
     def core_volume(self):
+        """Steel volume of the back iron between slot bottoms and shaft, times stacking factor [m³]."""
         return np.pi * (self.slot_bottom_radius**2 - self.shaft_radius**2) * self.stack_length * self.stacking_factor

@@ -15,7 +15,7 @@ import tomllib
 from functools import lru_cache
 from importlib import resources
 from pathlib import Path
-from typing import Literal
+from typing import Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
@@ -27,6 +27,8 @@ from .units import from_si, to_si
 
 
 class SteelSpec(BaseModel):
+    """One ``[[steel]]`` table of a library file, in the file's units, validated (see :class:`Steel`)."""
+
     model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
 
     name: str = Field(..., min_length=1)
@@ -55,23 +57,53 @@ GRADE_KEYS = {
 
 
 def _unit_of(key: str) -> str:
-    return (CustomGrade.model_fields[key].json_schema_extra or {}).get("unit", "")
+    extra = CustomGrade.model_fields[key].json_schema_extra
+    return str(extra.get("unit", "")) if isinstance(extra, dict) else ""
 
 
 def grade_from_spec(spec: CustomGrade, custom: bool = False) -> MagnetGrade:
-    """A :class:`MagnetGrade` in SI from the file-unit schema."""
-    values = {}
+    """A magnet grade in SI from a grade table in the file's units.
+
+    Parameters
+    ----------
+    spec : CustomGrade
+        The validated table (kA/m, kJ/m³, %/K, ...; see the project-file schema).
+    custom : bool, optional
+        True for a user's grade (a project's inline grade or a user library file).
+
+    Returns
+    -------
+    MagnetGrade
+        The grade in SI, its curve model already built.
+
+    Raises
+    ------
+    ValueError
+        Naming the grade, if its squareness cannot be reached with its recoil permeability.
+    """
+    values: dict[str, Any] = {}
     for key, attribute in GRADE_KEYS.items():
         value = getattr(spec, key)
         values[attribute] = to_si(value, _unit_of(key)) if isinstance(value, float) else value
     grade = MagnetGrade(**values, custom=custom)
-    grade.knee_width_ratio  # fails early, with the grade's name, if the curve cannot be built
+    _ = grade.knee_width_ratio  # builds the curve now, so a grade that cannot have one fails here, by name
     return grade
 
 
-def grade_table(grade: MagnetGrade) -> dict:
-    """The inverse of :func:`grade_from_spec`: a grade as a table in the file's units (6 figures)."""
-    table = {}
+def grade_table(grade: MagnetGrade) -> dict[str, Any]:
+    """A grade as a table in the file's units: the inverse of :func:`grade_from_spec`.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The grade, in SI.
+
+    Returns
+    -------
+    dict
+        File key → value in the file's unit, numbers to 6 significant figures.
+    """
+    table: dict[str, Any] = {}
     for key, attribute in GRADE_KEYS.items():
         value = getattr(grade, attribute)
         table[key] = float(f"{from_si(value, _unit_of(key)):.6g}") if isinstance(value, float) else value
@@ -79,6 +111,23 @@ def grade_table(grade: MagnetGrade) -> dict:
 
 
 def steel_from_spec(spec: SteelSpec) -> Steel:
+    """A steel from a validated library table.
+
+    Parameters
+    ----------
+    spec : SteelSpec
+        The table (its units are already SI: A/m, T, kg/m³, W/kg coefficients).
+
+    Returns
+    -------
+    Steel
+        The steel, with its B(H) curve checked.
+
+    Raises
+    ------
+    ValueError
+        Naming the steel, if its B(H) points do not start at 0, increase, and keep a slope of μ0 or more.
+    """
     return Steel(
         name=spec.name,
         kind=spec.kind,
@@ -95,6 +144,14 @@ def steel_from_spec(spec: SteelSpec) -> Steel:
 
 
 def user_library_folder() -> Path:
+    """The folder of the user's own library files.
+
+    Returns
+    -------
+    Path
+        ``$PMDC_SIZER_LIBRARY`` if set, else ``platformdirs.user_data_dir("pmdc-sizer")/library``; the
+        folder need not exist.
+    """
     override = os.environ.get("PMDC_SIZER_LIBRARY")
     if override:
         return Path(override)
@@ -106,7 +163,8 @@ def user_library_folder() -> Path:
 def _entries(data: dict, source: str):
     unknown = set(data) - {"grade", "steel"}
     if unknown:
-        raise ProjectError(f"{source}: unknown table {sorted(unknown)[0]!r} (a library file holds [[grade]] and [[steel]])")
+        raise ProjectError(
+            f"{source}: unknown table {sorted(unknown)[0]!r} (a library file holds [[grade]] and [[steel]])")
     for index, entry in enumerate(data.get("grade", [])):
         try:
             yield "grade", grade_from_spec(CustomGrade.model_validate(entry), custom=source != "built-in")
@@ -135,7 +193,8 @@ def _read_toml(text: str, source: str) -> dict:
 def _builtin() -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
     grades: dict[str, MagnetGrade] = {}
     steels: dict[str, Steel] = {}
-    data_folder = resources.files("core") / "data"
+    # the package this module is in: pmdc_sizer.core once installed (never a bare "core")
+    data_folder = resources.files(__name__.rpartition(".")[0]) / "data"
     for filename in ("magnets.toml", "steels.toml"):
         data = _read_toml((data_folder / filename).read_text(encoding="utf-8"), "built-in")
         for kind, item in _entries(data, "built-in"):
@@ -164,11 +223,34 @@ def _library(folder: str) -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
 
 
 def magnet_grades() -> dict[str, MagnetGrade]:
-    """Every grade by name: built-in first, the user's own after (replacing a built-in of the same name)."""
+    """Every magnet grade of the library.
+
+    Returns
+    -------
+    dict of str to MagnetGrade
+        Grades by name: built-in first, the user's own after (replacing a built-in of the same name).
+
+    Raises
+    ------
+    ProjectError
+        Naming the file and the entry, if a library file cannot be read or an entry is not valid.
+    """
     return _library(str(user_library_folder()))[0]
 
 
 def steels() -> dict[str, Steel]:
+    """Every steel of the library, housing and lamination alike.
+
+    Returns
+    -------
+    dict of str to Steel
+        Steels by name: built-in first, the user's own after (replacing a built-in of the same name).
+
+    Raises
+    ------
+    ProjectError
+        Naming the file and the entry, if a library file cannot be read or an entry is not valid.
+    """
     return _library(str(user_library_folder()))[1]
 
 
@@ -178,6 +260,25 @@ def reload() -> None:
 
 
 def magnet_grade(name: str, key: str = "magnets.grade") -> MagnetGrade:
+    """One magnet grade of the library, by name.
+
+    Parameters
+    ----------
+    name : str
+        The grade's name, e.g. ``"Y30BH"``.
+    key : str, optional
+        The project-file key the name came from, for the error message.
+
+    Returns
+    -------
+    MagnetGrade
+        The grade.
+
+    Raises
+    ------
+    ProjectError
+        Naming the key and the value, if the library has no such grade.
+    """
     grades = magnet_grades()
     if name not in grades:
         raise ProjectError(f"{key} = {name!r}: not in the magnet library (`pmdc-sizer grades` lists them)", key=key)
@@ -185,6 +286,27 @@ def magnet_grade(name: str, key: str = "magnets.grade") -> MagnetGrade:
 
 
 def steel(name: str, kind: str, key: str) -> Steel:
+    """One steel of the library, by name, of the kind the part needs.
+
+    Parameters
+    ----------
+    name : str
+        The steel's name.
+    kind : str
+        ``"housing"`` or ``"lamination"``.
+    key : str
+        The project-file key the name came from, for the error message.
+
+    Returns
+    -------
+    Steel
+        The steel.
+
+    Raises
+    ------
+    ProjectError
+        Naming the key, if there is no such steel (listing those of the kind) or it is of the other kind.
+    """
     library = steels()
     if name not in library:
         names = ", ".join(sorted(s for s, v in library.items() if v.kind == kind))

@@ -36,10 +36,25 @@ from .steel import Steel
 from .units import MU_0
 
 
-def carter_coefficient(slot_pitch, slot_opening, gap):
+def carter_coefficient(slot_pitch: float | np.ndarray, slot_opening: float | np.ndarray,
+                       gap: float | np.ndarray):
     """Carter's coefficient kc ≥ 1 for slots of opening ``slot_opening`` facing a smooth surface.
 
-    kc = τs / (τs - γ·g),  γ = (4/π)·[x·arctan(x) - ln√(1 + x²)],  x = w/(2g)   (all lengths in m)
+    kc = τs / (τs - γ·g),  γ = (4/π)·[x·arctan(x) - ln√(1 + x²)],  x = w/(2g)
+
+    Parameters
+    ----------
+    slot_pitch : float or ndarray
+        Slot pitch τs at the armature surface [m].
+    slot_opening : float or ndarray
+        Width w of the slot opening [m].
+    gap : float or ndarray
+        The magnetic gap g the slotting is seen across [m] (here the air gap plus lm/μrec).
+
+    Returns
+    -------
+    float or ndarray
+        kc [1]: the gap is effectively kc times longer than the smooth one.
 
     References
     ----------
@@ -52,10 +67,27 @@ def carter_coefficient(slot_pitch, slot_opening, gap):
     return slot_pitch / (slot_pitch - gamma * gap)
 
 
-def magnet_leakage_permeance(axial_length, gap, embrace, pole_pitch_arc):
-    """Permeance of the leakage between the edges of two adjacent magnets [H].
+def magnet_leakage_permeance(axial_length: float | np.ndarray, gap: float | np.ndarray,
+                             embrace: float | np.ndarray, pole_pitch_arc: float | np.ndarray):
+    """Permeance of the leakage between the edges of two adjacent magnets.
 
     P = (μ0·L/π)·ln(1 + π·g / ((1 - α)·τp)), flux tubes of circular arcs across the interpolar space.
+
+    Parameters
+    ----------
+    axial_length : float or ndarray
+        Axial length L of the magnets that carries the leakage [m].
+    gap : float or ndarray
+        Air gap g [m].
+    embrace : float or ndarray
+        Magnet arc over pole pitch α [1].
+    pole_pitch_arc : float or ndarray
+        Pole pitch τp as an arc length at the magnets' inner face [m].
+
+    Returns
+    -------
+    float or ndarray
+        Leakage permeance [H] (Wb per A of MMF across the interpolar space).
 
     References
     ----------
@@ -68,27 +100,51 @@ def magnet_leakage_permeance(axial_length, gap, embrace, pole_pitch_arc):
 
 @dataclass(frozen=True)
 class PoleCircuit:
-    """The lumped per-pole circuit (SI). Any field may be an array; a steel of None is ideal iron."""
+    """The lumped per-pole circuit (SI): what :func:`solve` needs of the cross-section.
 
-    magnet_area: np.ndarray  #: area of the magnet face carrying the pole's flux [m²]
-    magnet_thickness: np.ndarray  #: lm, in the direction of magnetization [m]
-    gap_area: np.ndarray  #: air-gap area with fringing [m²]
-    effective_gap: np.ndarray  #: g + (kc - 1)·(g + lm/μrec) [m]
-    leakage_permeance: np.ndarray  #: magnet-to-magnet leakage seen by one pole [H]
-    housing_area: np.ndarray  #: cross-section carrying half the magnet flux [m²]
-    housing_path: np.ndarray  #: per-pole path in the housing [m]
-    tooth_flux_ratio: np.ndarray  #: B_tooth / B_gap [1]
-    tooth_path: np.ndarray  #: slot depth [m]
-    core_area: np.ndarray  #: cross-section carrying half the gap flux [m²]
-    core_path: np.ndarray  #: per-pole path in the core [m]
-    carter_factor: np.ndarray  #: kc [1]
+    Each field is a float for one design or an array for a batch (they broadcast together).
+    """
+
+    magnet_area: np.ndarray | float  #: area of the magnet face carrying the pole's flux [m²]
+    magnet_thickness: np.ndarray | float  #: lm, in the direction of magnetization [m]
+    gap_area: np.ndarray | float  #: air-gap area with fringing [m²]
+    effective_gap: np.ndarray | float  #: g + (kc - 1)·(g + lm/μrec) [m]
+    leakage_permeance: np.ndarray | float  #: magnet-to-magnet leakage seen by one pole [H]
+    housing_area: np.ndarray | float  #: cross-section carrying half the magnet flux [m²]
+    housing_path: np.ndarray | float  #: per-pole path in the housing [m]
+    tooth_flux_ratio: np.ndarray | float  #: B_tooth / B_gap [1]
+    tooth_path: np.ndarray | float  #: slot depth [m]
+    core_area: np.ndarray | float  #: cross-section carrying half the gap flux [m²]
+    core_path: np.ndarray | float  #: per-pole path in the core [m]
+    carter_factor: np.ndarray | float  #: kc [1]
     #: the part of ``leakage_permeance`` that runs from the magnets' inner-face edges across the gap to
     #: the next magnet; it depends on the armature being there (see core.demagnetization)
     edge_leakage_permeance: np.ndarray | float = 0.0
 
 
 def pole_circuit(geometry: Geometry, recoil_permeability: float) -> PoleCircuit:
-    """The per-pole circuit of a motor's cross-section (conventions in the module docstring)."""
+    """The per-pole circuit of a motor's cross-section (conventions in the module docstring).
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section and lengths (floats, or arrays for a batch).
+    recoil_permeability : float
+        The magnet's relative recoil permeability μrec [1], which sets the magnetic gap g + lm/μrec
+        that Carter's coefficient applies to.
+
+    Returns
+    -------
+    PoleCircuit
+        Areas [m²], paths [m], permeances [H] and ratios [1] of one pole.
+
+    References
+    ----------
+    .. [1] Carter's coefficient (see :func:`carter_coefficient`); magnet-to-magnet leakage after
+       Hanselman 2006 (:func:`magnet_leakage_permeance`, from memory).
+    .. [2] fringing of one gap length, the useful overhang, the side-face leakage tubes and the
+       half-path yoke drops are our estimates (common practice, no source).
+    """
     g = geometry
     gap_radius = g.armature_radius + 0.5 * g.airgap
     magnet_radius = g.magnet_inner_radius + 0.5 * g.magnet_thickness
@@ -146,7 +202,7 @@ class MagneticOperatingPoint:
     core_flux_density: np.ndarray  #: peak, between poles [T]
     leakage_factor: np.ndarray  #: Φm/Φ [1]
     carter_factor: np.ndarray  #: kc [1]
-    mmf_drops: dict  #: per-pole MMF [A] in "gap", "teeth", "core", "housing"
+    mmf_drops: dict[str, np.ndarray]  #: per-pole MMF [A] in "gap", "teeth", "core", "housing"
     converged: np.ndarray  #: False where the solve failed (see :func:`solve`)
 
 
@@ -158,11 +214,11 @@ def _drop(steel: Steel | None, flux_density_in_iron, path):
 
 def solve(
     grade: MagnetGrade,
-    temperature_C,
+    temperature_C: float | np.ndarray,
     circuit: PoleCircuit,
     housing_steel: Steel | None,
     lamination_steel: Steel | None,
-    magnet_on_recoil_line=False,
+    magnet_on_recoil_line: bool | np.ndarray = False,
 ) -> MagneticOperatingPoint:
     """Solve the per-pole circuit for the magnet's no-load operating point.
 
@@ -175,9 +231,35 @@ def solve(
     with the knee. (On the full curve, a point past the knee slides down with the collapsing curve and
     no longer says how far past it the circuit drives the magnet.) It may be an array of booleans that
     broadcasts with the rest, to solve both kinds in one call.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The magnet grade.
+    temperature_C : float or ndarray
+        Magnet temperature [°C].
+    circuit : PoleCircuit
+        The per-pole circuit (see :func:`pole_circuit`).
+    housing_steel, lamination_steel : Steel or None
+        The steels of the housing and of the armature (teeth and core); None is ideal iron.
+    magnet_on_recoil_line : bool or ndarray of bool, optional
+        Use the straight recoil line instead of the full curve (see above).
+
+    Returns
+    -------
+    MagneticOperatingPoint
+        Bm [T], Hm [A/m], Pc [1], the fluxes [Wb], flux densities [T] and MMF drops [A], arrays of the
+        broadcast shape.
+
+    References
+    ----------
+    .. [1] Ampère's circuital law round one pole of the lumped circuit (module docstring); the
+       per-pole formulation and its conventions are the project's own.
+    .. [2] Chandrupatla 1997, the bracketed root finder (:func:`core.solvers.find_root`).
     """
     c = circuit
     curve = curve_at(grade, np.asarray(temperature_C, dtype=float))
+    recoil_mask: bool | np.ndarray | None
     if np.ndim(magnet_on_recoil_line) == 0:
         recoil_mask = True if bool(magnet_on_recoil_line) else None
     else:
@@ -225,7 +307,7 @@ def solve(
     lower = np.where(residual(tight) > 0.0, tight, lower)
     result = find_root(residual, lower, upper, xtol=1e-6, rtol=1e-9, first_guess=linear_guess)
     field = result.root
-    magnet_mmf, magnet_flux, housing_mmf, gap_flux, gap_b, gap_mmf, tooth_b, tooth_mmf, core_b, core_mmf = parts(field)
+    _, magnet_flux, housing_mmf, gap_flux, gap_b, gap_mmf, tooth_b, tooth_mmf, core_b, core_mmf = parts(field)
     bm = magnet_flux / c.magnet_area
     with np.errstate(divide="ignore", invalid="ignore"):
         permeance = np.where(field < 0.0, -bm / (MU_0 * field), np.inf)
@@ -248,7 +330,20 @@ def solve(
 
 
 def require_converged(point: MagneticOperatingPoint, what: str = "the magnetic circuit") -> None:
-    """Raise :class:`MagneticCircuitError` naming the reason if any element failed."""
+    """Stop with a reason if any element of a solution failed to converge.
+
+    Parameters
+    ----------
+    point : MagneticOperatingPoint
+        A solution from :func:`solve`.
+    what : str, optional
+        What was solved, for the message (e.g. "the magnetic circuit in the sweep of magnets.thickness_mm").
+
+    Raises
+    ------
+    MagneticCircuitError
+        Naming ``what`` and the likely cause, if any element has ``converged`` False.
+    """
     if not np.all(point.converged):
         raise MagneticCircuitError(
             f"{what} has no solution: the magnet's operating point could not be bracketed between "
@@ -256,8 +351,30 @@ def require_converged(point: MagneticOperatingPoint, what: str = "the magnetic c
         )
 
 
-def load_line(point: MagneticOperatingPoint, field_min, samples: int = 2):
-    """The load line B = -μ0·Pc·H from H = 0 to ``field_min`` (negative) [A/m], as plot data (H, B)."""
+def load_line(point: MagneticOperatingPoint, field_min: float, samples: int = 2):
+    """The load line B = -μ0·Pc·H of an operating point, as plot data.
+
+    Parameters
+    ----------
+    point : MagneticOperatingPoint
+        A solution of one design (its permeance coefficient Pc).
+    field_min : float
+        Where the line ends [A/m], negative.
+    samples : int, optional
+        Points on the line [1] (two draw a straight line).
+
+    Returns
+    -------
+    h : ndarray
+        Field strength from 0 to ``field_min`` [A/m].
+    b : ndarray
+        Flux density on the line [T].
+
+    References
+    ----------
+    .. [1] the definition of the permeance coefficient, Pc = -Bm/(μ0·Hm), as in Campbell 1994, ch. 2
+       (from memory)
+    """
     h = np.linspace(0.0, field_min, samples)
     return h, -MU_0 * point.permeance_coefficient * h
 

@@ -4,9 +4,9 @@ Each swept value is validated like a file (so a sweep never computes a motor who
 the resulting cross-sections are stacked into one :class:`~core.geometry.Geometry` of arrays, and the
 circuit is solved once for all of them::
 
-    from pmdc_sizer.core import project, sweep
-    design = project.load("demo_projects/appliance_ferrite_12v.toml")
-    points = sweep.magnetics_sweep(design, "magnets.thickness_mm", [4, 5, 6, 7, 8])
+    from pmdc_sizer.core import load, magnetics_sweep
+    motor = load("demo_projects/appliance_ferrite_12v.toml")
+    points = magnetics_sweep(motor, "magnets.thickness_mm", [4, 5, 6, 7, 8])
     points.airgap_flux_density   # one value per thickness [T]
 
 Only keys that change the cross-section or the temperature are meaningful here; a change of grade or
@@ -16,29 +16,67 @@ steel is refused, since one solve takes one grade and one pair of steels.
 from __future__ import annotations
 
 import dataclasses
-from typing import Sequence
+from collections.abc import Sequence
 
 import numpy as np
 
 from . import magnetic_circuit as mc
 from .design import design_from_project
-from .geometry import Geometry
 from .edits import with_values
 from .errors import ProjectError
+from .geometry import Geometry
 from .schema import Project
 
 
 def stack_geometries(geometries: Sequence[Geometry]) -> Geometry:
-    """One Geometry whose every field is an array, element i from ``geometries[i]``."""
+    """One geometry of arrays from several geometries of floats.
+
+    Parameters
+    ----------
+    geometries : sequence of Geometry
+        The cross-sections, each with float fields.
+
+    Returns
+    -------
+    Geometry
+        Every field an array, element i from ``geometries[i]`` (in the fields' units, m and rad).
+    """
     return Geometry(**{
         f.name: np.array([getattr(g, f.name) for g in geometries]) for f in dataclasses.fields(Geometry)
     })
 
 
-def magnetics_sweep(project: Project, key: str, values, temperature_C=None) -> mc.MagneticOperatingPoint:
-    """The no-load operating point for each value of ``key`` (one vectorised solve).
+def magnetics_sweep(project: Project, key: str, values: Sequence[object],
+                    temperature_C: float | np.ndarray | None = None) -> mc.MagneticOperatingPoint:
+    """The no-load operating point for each value of one project key, in one vectorised solve.
 
-    ``temperature_C`` defaults to the project's nominal ambient; it may be an array of the same length.
+    Parameters
+    ----------
+    project : Project
+        The design to vary, in the file's units.
+    key : str
+        A project-file key that changes the cross-section, e.g. ``"magnets.thickness_mm"``.
+    values : sequence
+        The values of ``key``, in the key's file unit (mm, deg, ...); each is validated like a file.
+    temperature_C : float or ndarray, optional
+        Magnet temperature [°C]; the project's nominal ambient if not given, or one per value.
+
+    Returns
+    -------
+    MagneticOperatingPoint
+        One element per value: Bm [T], Hm [A/m], flux per pole [Wb], flux densities [T], ...
+
+    Raises
+    ------
+    ProjectError
+        Naming the key, if a value is refused by the schema or the fit rules, or changes the grade or a
+        steel.
+    MagneticCircuitError
+        If the circuit has no solution for some value.
+
+    References
+    ----------
+    .. [1] the per-pole circuit of :func:`core.magnetic_circuit.solve`
     """
     base = design_from_project(project)
     designs = [design_from_project(with_values(project, {key: value})) for value in values]

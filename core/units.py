@@ -230,11 +230,7 @@ US_CUSTOMARY: dict[str, str] = {
 _TO_SI["oz·in/A"] = _TO_SI["oz·in"]
 
 
-@overload
-def convert(value: float, from_unit: str, to_unit: str) -> float: ...
-@overload
-def convert(value: np.ndarray, from_unit: str, to_unit: str) -> np.ndarray: ...
-def convert(value: float | np.ndarray, from_unit: str, to_unit: str) -> float | np.ndarray:
+def convert(value: float | np.ndarray, from_unit: str, to_unit: str):
     """Convert between two engineering units of the same quantity, through SI.
 
     Parameters
@@ -253,11 +249,7 @@ def convert(value: float | np.ndarray, from_unit: str, to_unit: str) -> float | 
     return from_si(to_si(value, from_unit), to_unit)
 
 
-@overload
-def temperature_difference_to_si(value: float, unit: str) -> float: ...
-@overload
-def temperature_difference_to_si(value: np.ndarray, unit: str) -> np.ndarray: ...
-def temperature_difference_to_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
+def temperature_difference_to_si(value: float | np.ndarray, unit: str):
     """A temperature difference in K, from °C or °F (a difference has no offset).
 
     Parameters
@@ -275,11 +267,7 @@ def temperature_difference_to_si(value: float | np.ndarray, unit: str) -> float 
     return value * (5.0 / 9.0 if unit == "°F" else 1.0)
 
 
-@overload
-def rpm_to_rad_per_s(speed_rpm: float) -> float: ...
-@overload
-def rpm_to_rad_per_s(speed_rpm: np.ndarray) -> np.ndarray: ...
-def rpm_to_rad_per_s(speed_rpm: float | np.ndarray) -> float | np.ndarray:
+def rpm_to_rad_per_s(speed_rpm: float | np.ndarray):
     """A rotational speed in rad/s from rpm.
 
     Parameters
@@ -295,11 +283,7 @@ def rpm_to_rad_per_s(speed_rpm: float | np.ndarray) -> float | np.ndarray:
     return speed_rpm * _TO_SI["rpm"]
 
 
-@overload
-def rad_per_s_to_rpm(speed_rad_per_s: float) -> float: ...
-@overload
-def rad_per_s_to_rpm(speed_rad_per_s: np.ndarray) -> np.ndarray: ...
-def rad_per_s_to_rpm(speed_rad_per_s: float | np.ndarray) -> float | np.ndarray:
+def rad_per_s_to_rpm(speed_rad_per_s: float | np.ndarray):
     """A rotational speed in rpm from rad/s: the inverse of :func:`rpm_to_rad_per_s`.
 
     Parameters

@@ -14,8 +14,32 @@ from .geometry import Geometry
 from .units import MU_0
 
 
-def parallel_paths(kind: str, poles, multiplicity=1):
-    """Parallel paths a: lap a = m·p, wave a = 2·m (Fitzgerald et al., ch. 7)."""
+def parallel_paths(kind: str, poles: int | np.ndarray, multiplicity: int = 1):
+    """Parallel paths between the brushes: lap a = m·p, wave a = 2·m.
+
+    Parameters
+    ----------
+    kind : str
+        ``"lap"`` or ``"wave"``.
+    poles : int or ndarray
+        Number of poles p [1].
+    multiplicity : int, optional
+        Multiplicity m of the winding [1] (1 for simplex).
+
+    Returns
+    -------
+    ndarray
+        Parallel paths a [1].
+
+    Raises
+    ------
+    ValueError
+        If ``kind`` is neither.
+
+    References
+    ----------
+    .. [1] textbook relation (Fitzgerald, Kingsley and Umans, ch. 7, from memory)
+    """
     if kind == "lap":
         return multiplicity * np.asarray(poles)
     if kind == "wave":
@@ -23,36 +47,97 @@ def parallel_paths(kind: str, poles, multiplicity=1):
     raise ValueError(f"winding type {kind!r} is not 'lap' or 'wave'")
 
 
-def total_conductors(commutator_segments, turns_per_coil):
-    """Z = 2·C·N: one coil per segment, two coil sides per turn."""
-    return 2 * np.asarray(commutator_segments) * np.asarray(turns_per_coil)
+def total_conductors(commutator_segments: int | np.ndarray, turns_per_coil: int | np.ndarray):
+    """Total active conductors Z = 2·C·N: one coil per segment, two coil sides per turn.
 
+    Parameters
+    ----------
+    commutator_segments : int or ndarray
+        Commutator segments C [1], one coil each.
+    turns_per_coil : int or ndarray
+        Turns N of each coil [1].
 
-def machine_constant(poles, conductors, paths):
-    """K = p·Z/(2π·a) [1]: E = K·Φ·ω and T = K·Φ·I (Fitzgerald et al., ch. 7)."""
-    return np.asarray(poles) * np.asarray(conductors) / (2.0 * np.pi * np.asarray(paths))
-
-
-def back_emf_constant(flux_per_pole, poles, conductors, paths):
-    """Back-EMF constant Ke [V·s/rad], equal to the torque constant Kt [N·m/A] in SI.
+    Returns
+    -------
+    ndarray
+        Conductors Z [1].
 
     References
     ----------
-    .. [1] textbook DC-machine relation E = K·Φ·ω, K = p·Z/(2π·a) (Fitzgerald et al., ch. 7)
+    .. [1] textbook relation for a winding with as many coils as segments (Fitzgerald et al., ch. 7,
+       from memory)
     """
-    return machine_constant(poles, conductors, paths) * flux_per_pole
+    return 2 * np.asarray(commutator_segments) * np.asarray(turns_per_coil)
 
 
-def coil_span_slots(slots, poles):
-    """Coil pitch in slots: the nearest whole number at or below full pitch S/p (common practice)."""
+def machine_constant(poles: int | np.ndarray, conductors: int | np.ndarray, paths: int | np.ndarray):
+    """The winding's machine constant K = p·Z/(2π·a), so that E = K·Φ·ω and T = K·Φ·I.
+
+    Parameters
+    ----------
+    poles : int or ndarray
+        Number of poles p [1].
+    conductors : int or ndarray
+        Total conductors Z [1].
+    paths : int or ndarray
+        Parallel paths a [1].
+
+    Returns
+    -------
+    ndarray
+        K [1] (with Φ in Wb, K·Φ is in V·s/rad).
+
+    References
+    ----------
+    .. [1] textbook DC-machine relation (Fitzgerald, Kingsley and Umans, "Electric Machinery", 6th ed.,
+       2003, ch. 7, from memory)
+    """
+    return np.asarray(poles) * np.asarray(conductors) / (2.0 * np.pi * np.asarray(paths))
+
+
+def coil_span_slots(slots: int | np.ndarray, poles: int | np.ndarray):
+    """Coil pitch in slots: the nearest whole number at or below full pitch S/p, at least 1.
+
+    Parameters
+    ----------
+    slots : int or ndarray
+        Number of slots S [1].
+    poles : int or ndarray
+        Number of poles p [1].
+
+    Returns
+    -------
+    ndarray
+        Coil span [slots].
+
+    References
+    ----------
+    .. [1] common practice, no source (a short-pitched or full-pitched coil)
+    """
     return np.maximum(np.floor(np.asarray(slots) / np.asarray(poles)), 1)
 
 
-def mean_turn_length(geometry: Geometry, end_turn_factor=1.0):
-    """Mean length of one turn [m]: two stack lengths plus two end turns.
+def mean_turn_length(geometry: Geometry, end_turn_factor: float = 1.0):
+    """Mean length of one turn: two stack lengths plus two end turns.
 
     Each end turn is taken as a half circle over the chord of the coil span at mid-slot radius
     (our estimate, common practice, no source), scaled by ``end_turn_factor`` for a measured coil.
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section and stack length.
+    end_turn_factor : float, optional
+        Multiplier on the estimated end-turn length [1], to match a measured coil.
+
+    Returns
+    -------
+    float or ndarray
+        Mean turn length [m].
+
+    References
+    ----------
+    .. [1] our estimate (common practice, no source)
     """
     g = geometry
     mid_slot_radius = g.armature_radius - 0.5 * g.slot_depth
@@ -62,36 +147,123 @@ def mean_turn_length(geometry: Geometry, end_turn_factor=1.0):
     return 2.0 * g.stack_length + 2.0 * end_turn
 
 
-def winding_length(conductors, turn_length):
-    """Total length of wire [m]: Z/2 turns of the mean turn length."""
+def winding_length(conductors: int | np.ndarray, turn_length: float | np.ndarray):
+    """Total length of wire in the winding: Z/2 turns of the mean turn length.
+
+    Parameters
+    ----------
+    conductors : int or ndarray
+        Total conductors Z [1].
+    turn_length : float or ndarray
+        Mean turn length [m].
+
+    Returns
+    -------
+    float or ndarray
+        Wire length [m].
+    """
     return 0.5 * np.asarray(conductors) * turn_length
 
 
-def armature_resistance(conductors, turn_length, paths, copper_area, temperature_C):
-    """Resistance between the brushes [Ω]: a paths in parallel, each of Z/(2a) turns.
+def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.ndarray,
+                        paths: int | np.ndarray, copper_area: float | np.ndarray,
+                        temperature_C: float | np.ndarray):
+    """Resistance between the brushes: a paths in parallel, each of Z/(2a) turns.
 
     R = ρ(T)·(Z/2·l_turn)/(a²·A_cu), with ρ(T) of annealed copper per IEC 60028.
+
+    Parameters
+    ----------
+    conductors : int or ndarray
+        Total conductors Z [1].
+    turn_length : float or ndarray
+        Mean turn length [m].
+    paths : int or ndarray
+        Parallel paths a [1].
+    copper_area : float or ndarray
+        Copper cross-section of the wire [m²].
+    temperature_C : float or ndarray
+        Winding temperature [°C].
+
+    Returns
+    -------
+    float or ndarray
+        Armature resistance [Ω], brushes not included.
+
+    References
+    ----------
+    .. [1] IEC 60028 (resistivity of annealed copper and its temperature coefficient); the series and
+       parallel combination of the paths is elementary circuit theory.
     """
     length = winding_length(conductors, turn_length)
     return copper_resistivity(temperature_C) * length / (np.asarray(paths) ** 2 * copper_area)
 
 
-def conductors_per_slot(conductors, slots):
+def conductors_per_slot(conductors: int | np.ndarray, slots: int | np.ndarray):
+    """Conductors in each slot, Z/S.
+
+    Parameters
+    ----------
+    conductors : int or ndarray
+        Total conductors Z [1].
+    slots : int or ndarray
+        Number of slots S [1].
+
+    Returns
+    -------
+    ndarray
+        Conductors per slot [1] (not rounded).
+    """
     return np.asarray(conductors) / np.asarray(slots)
 
 
-def slot_fill(conductors, slots, wire_diameter, slot_area):
-    """Fill factor [1]: area of the round wires (bare or with enamel, as given) over the slot area."""
+def slot_fill(conductors: int | np.ndarray, slots: int | np.ndarray, wire_diameter: float | np.ndarray,
+              slot_area: float | np.ndarray):
+    """Slot fill factor: the area of the round wires in a slot over the slot area.
+
+    Parameters
+    ----------
+    conductors : int or ndarray
+        Total conductors Z [1].
+    slots : int or ndarray
+        Number of slots S [1].
+    wire_diameter : float or ndarray
+        Wire diameter [m], bare (copper fill) or with enamel (gross fill).
+    slot_area : float or ndarray
+        Cross-section of one slot [m²].
+
+    Returns
+    -------
+    ndarray
+        Fill factor [1].
+    """
     return conductors_per_slot(conductors, slots) * np.pi / 4.0 * wire_diameter**2 / slot_area
 
 
-def current_density(current, paths, copper_area):
-    """Current density in the wire [A/m²]: each path carries I/a."""
+def current_density(current: float | np.ndarray, paths: int | np.ndarray, copper_area: float | np.ndarray):
+    """Current density in the wire: each path carries I/a.
+
+    Parameters
+    ----------
+    current : float or ndarray
+        Armature current I [A].
+    paths : int or ndarray
+        Parallel paths a [1].
+    copper_area : float or ndarray
+        Copper cross-section of the wire [m²].
+
+    Returns
+    -------
+    ndarray
+        Current density [A/m²].
+    """
     return np.asarray(current) / (np.asarray(paths) * copper_area)
 
 
-def armature_inductance_estimate(geometry: Geometry, conductors, paths, recoil_permeability, effective_gap, turn_length):
-    """Armature inductance between the brushes [H]: an ESTIMATE (±50 %).
+def armature_inductance_estimate(geometry: Geometry, conductors: int | np.ndarray, paths: int | np.ndarray,
+                                 recoil_permeability: float, effective_gap: float | np.ndarray,
+                                 turn_length: float | np.ndarray):
+    """Armature inductance between the brushes: an ESTIMATE (±50 %).
 
     Two parts, each from the stored magnetic energy W = L·I²/2 (our derivation, no source):
 
@@ -102,6 +274,33 @@ def armature_inductance_estimate(geometry: Geometry, conductors, paths, recoil_p
       L_slot = S·n²·λ/a²;
     * air gap: the triangular armature MMF F(θ) = A·R·θ under the magnet arc, over the magnetic gap
       g_e + lm/μrec: L_gap = 2·p·μ0·L·R³·(Z/(2π·a·R))²·(θm/2)³/(3·g_m).
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section and stack length.
+    conductors : int or ndarray
+        Total conductors Z [1].
+    paths : int or ndarray
+        Parallel paths a [1].
+    recoil_permeability : float
+        The magnet's relative recoil permeability μrec [1].
+    effective_gap : float or ndarray
+        Air gap with Carter's coefficient g_e [m].
+    turn_length : float or ndarray
+        Mean turn length [m], for the end-winding part.
+
+    Returns
+    -------
+    float or ndarray
+        Inductance [H].
+
+    References
+    ----------
+    .. [1] our derivation from the stored energy, no source; slot-leakage permeance in the textbook
+       form, e.g. Hendershot and Miller, "Design of Brushless Permanent-Magnet Machines", 2010 (from
+       memory); the tooth-tip height of 0.5 mm and the end-winding 0.3·μ0 per metre are common
+       practice, no source.
     """
     g = geometry
     z = np.asarray(conductors, dtype=float)
@@ -148,12 +347,12 @@ def back_emf_constant(machine_constant, flux_per_pole):
     machine_constant : float
         K = p·Z/(2π·a) [1] (:func:`machine_constant`).
     flux_per_pole : float or ndarray
-        [Wb]
+        Flux crossing the gap per pole Φ [Wb].
 
     Returns
     -------
     float or ndarray
-        [V·s/rad]
+        Ke [V·s/rad] = Kt [N·m/A].
 
     References
     ----------

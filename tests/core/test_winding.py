@@ -41,7 +41,7 @@ def test_textbook_worked_example_of_the_machine_constant():
     assert paths == 2 and conductors == 2880
     constant = float(winding.machine_constant(12, conductors, paths))
     assert_allclose(constant, 2750.2, rtol=2e-5)  # the book prints 2750.2
-    back_emf = float(winding.back_emf_constant(0.05, 12, conductors, paths)) * rpm_to_rad_per_s(200.0)
+    back_emf = float(winding.back_emf_constant(constant, 0.05)) * rpm_to_rad_per_s(200.0)
     assert_allclose(back_emf, 2880.0, rtol=1e-12)  # an exact 2880 V in the book
     # Resistance: choose a turn length and wire so that one turn has 0.011 Ω at 20 °C.
     copper_area = 1e-6
@@ -55,7 +55,7 @@ def test_a_lap_example_by_hand():
     # with 1.2 mWb per pole Ke = 0.073338 V·s/rad = 7.680 V/krpm (hand arithmetic, 5 digits).
     conductors = int(winding.total_conductors(24, 8))
     paths = int(winding.parallel_paths("lap", 4))
-    ke = float(winding.back_emf_constant(1.2e-3, 4, conductors, paths))
+    ke = float(winding.back_emf_constant(winding.machine_constant(4, conductors, paths), 1.2e-3))
     assert_allclose(winding.machine_constant(4, conductors, paths), 61.115, rtol=1e-5)
     assert_allclose(ke, 0.073338, rtol=1e-5)
     assert_allclose(from_si(ke, "V/krpm"), 7.6798, rtol=1e-4)
@@ -63,7 +63,8 @@ def test_a_lap_example_by_hand():
 
 def test_constant_broadcasts():
     flux = np.array([1e-3, 2e-3])
-    assert_allclose(winding.back_emf_constant(flux, 2, 400, 2), 400 / (2 * math.pi) * flux, rtol=1e-15)
+    constant = winding.machine_constant(2, 400, 2)
+    assert_allclose(winding.back_emf_constant(constant, flux), 400 / (2 * math.pi) * flux, rtol=1e-15)
 
 
 def test_resistance_scales_with_iec_60028_copper():
