@@ -25,6 +25,12 @@ errs toward safety. Locally, at the magnets' edges, the field solution is 20 % t
 its mean: a small rotor-removed margin is no margin.
 
 A case passes when its field stays above the knee at its temperature: margin = H - H_knee > 0.
+
+References
+----------
+.. [1] D. Hanselman, Brushless Permanent Magnet Motor Design, 2nd ed., 2006, ch. 5 (armature reaction
+   and the local load line at the magnet tip; from memory).
+.. [2] OPEN_BORE_PATH_FACTOR: the project's own calibration against its 2-D field solution (above).
 """
 
 from __future__ import annotations
@@ -41,8 +47,35 @@ from .performance import MotorModel, plugging_current, stall_current
 from .results import DemagnetizationCase, DemagnetizationResult
 
 
-def armature_reaction_field(current, conductors, paths, magnet_arc, magnet_thickness, recoil_permeability, effective_gap):
-    """ΔH at the magnet tip [A/m], negative (demagnetizing), for armature current ``current`` [A]."""
+def armature_reaction_field(current: float | np.ndarray, conductors: int | np.ndarray, paths: int | np.ndarray,
+                            magnet_arc: float | np.ndarray, magnet_thickness: float | np.ndarray,
+                            recoil_permeability: float | np.ndarray, effective_gap: float | np.ndarray):
+    """The armature reaction's extra field at the magnet tip, negative (demagnetizing).
+
+    Parameters
+    ----------
+    current : float or ndarray
+        Armature current I [A]; its sign does not matter (one tip or the other is opposed).
+    conductors, paths : int or ndarray
+        Total conductors Z and parallel paths a [1].
+    magnet_arc : float or ndarray
+        Mechanical arc of one magnet θm [rad].
+    magnet_thickness : float or ndarray
+        Radial magnet thickness lm [m].
+    recoil_permeability : float or ndarray
+        Relative recoil permeability μrec [1].
+    effective_gap : float or ndarray
+        Gap with Carter's coefficient g_e [m].
+
+    Returns
+    -------
+    float or ndarray
+        ΔH = -F_tip/(lm + μrec·g_e) with F_tip = Z·(|I|/a)·θm/(4π) [A/m].
+
+    References
+    ----------
+    .. [1] Hanselman 2006, ch. 5 (from memory); see the module docstring.
+    """
     tip_mmf = np.asarray(conductors) * (np.abs(current) / np.asarray(paths)) * magnet_arc / (4.0 * np.pi)
     return -tip_mmf / (magnet_thickness + recoil_permeability * effective_gap)
 
@@ -51,7 +84,26 @@ OPEN_BORE_PATH_FACTOR = 1.4  #: calibrated against a 2-D field solution (see the
 
 
 def rotor_removed_circuit(geometry: Geometry, circuit: PoleCircuit) -> PoleCircuit:
-    """The per-pole circuit with the armature taken out of the housing (see the module docstring)."""
+    """The per-pole circuit with the armature taken out of the housing (see the module docstring).
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section (magnet inner radius, arc and length; poles) [m, rad].
+    circuit : PoleCircuit
+        The per-pole circuit with the rotor in (:func:`magnetic_circuit.pole_circuit`).
+
+    Returns
+    -------
+    PoleCircuit
+        The same housing and magnet; gap, teeth and core replaced by an air path of
+        OPEN_BORE_PATH_FACTOR·π·R/p [m] across the magnet's inner face [m²]; the edge-to-edge leakage
+        removed.
+
+    References
+    ----------
+    .. [1] the project's own estimate, calibrated against its 2-D field solution (module docstring).
+    """
     g = geometry
     open_path = OPEN_BORE_PATH_FACTOR * np.pi * g.magnet_inner_radius / g.poles
     face_area = g.magnet_arc * g.magnet_inner_radius * g.magnet_length
@@ -122,6 +174,11 @@ def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C
     -----
     The knee is where irreversible loss begins (``core.magnets.knee_field_at``: J has fallen 1 % of Br
     below its recoil line, our definition); a case passes while its field stays above it.
+
+    References
+    ----------
+    .. [1] the project's own knee criterion on its own curve model (:func:`magnets.knee_field_at`); no
+       published source.
     """
     knee = float(knee_field_at(grade, temperature_C))
     return DemagnetizationCase(

@@ -33,22 +33,23 @@ class FigureDifference:
     """One number both designs have, and how B differs from A."""
 
     key: str  #: dotted path into the results, e.g. "constants.ke_V_s_per_rad" (the unit is in the name)
-    a: float
-    b: float
+    a: float  #: A's figure, in the unit of the key (SI)
+    b: float  #: B's figure, in the unit of the key (SI)
     difference: float  #: B − A, in the unit of the key
     fraction: float | None  #: (B − A)/|A|; None where A is zero or the key is a temperature in °C
 
     @property
     def percent(self) -> float | None:
+        """(B − A)/|A| in per cent [%]; None where :attr:`fraction` is None."""
         return None if self.fraction is None else 100.0 * self.fraction
 
 
-def _is_number(value) -> bool:
+def _is_number(value: Any) -> bool:
     return (isinstance(value, (int, float, np.integer, np.floating)) and not isinstance(value, (bool, np.bool_))
             and math.isfinite(float(value)))
 
 
-def _children(value) -> dict | None:
+def _children(value: Any) -> dict[str, Any] | None:
     """The named parts of a dataclass or mapping; plot arrays are not figures and are left out."""
     if is_dataclass(value) and not isinstance(value, type):
         return {f.name: getattr(value, f.name) for f in fields(value)
@@ -84,16 +85,16 @@ def _pair(a, b, key: str, leaf: Callable[[str, Any, Any], Any]):
         names_a = [_name_of(item) for item in a]
         if all(isinstance(n, str) for n in names_a):
             by_name = {_name_of(item): item for item in b}
-            out = []
-            for name, item in zip(names_a, a):
+            matched = []
+            for name, item in zip(names_a, a, strict=True):
                 if name in by_name:
                     paired = _pair(item, by_name[name], key, leaf)
                     if paired is not _SKIP:
-                        out.append({"name": name, **paired})
-            return out or _SKIP
+                        matched.append({"name": name, **paired})
+            return matched or _SKIP
         if len(a) == len(b):
-            out = [p for p in (_pair(x, y, key, leaf) for x, y in zip(a, b)) if p is not _SKIP]
-            return out or _SKIP
+            in_order = [p for p in (_pair(x, y, key, leaf) for x, y in zip(a, b, strict=True)) if p is not _SKIP]
+            return in_order or _SKIP
     return _SKIP
 
 
@@ -104,14 +105,23 @@ def _fraction(key: str, a, b) -> float | None:
     return (float(b) - float(a)) / abs(float(a))
 
 
-def nested_difference(a, b, relative: bool = False):
+def nested_difference(a: Any, b: Any, relative: bool = False) -> Any:
     """B − A (or (B − A)/|A| when ``relative``) for every number two nested structures share.
 
-    ``a`` and ``b`` are results dataclasses or their JSON dicts; the answer keeps their nesting and
-    keys, holds numbers only (plus the ``name`` of matched list items) and leaves out what is not a
-    number on both sides.
+    Parameters
+    ----------
+    a, b : Results, dict or any nesting of dataclasses, dicts, lists and numbers
+        Results dataclasses or their JSON dicts (SI, temperatures in °C).
+    relative : bool, optional
+        Give (B − A)/|A| [1] instead of B − A; keys in °C and figures where A is 0 are then left out.
+
+    Returns
+    -------
+    dict
+        The nesting and keys of ``a``, numbers only (plus the ``name`` of matched list items), in the
+        unit of each key ([1] when ``relative``); what is not a number on both sides is left out.
     """
-    def leaf(key, x, y):
+    def leaf(key: str, x: Any, y: Any) -> Any:
         if relative:
             value = _fraction(key, x, y)
             return _SKIP if value is None else value
@@ -121,8 +131,21 @@ def nested_difference(a, b, relative: bool = False):
     return {} if result is _SKIP else result
 
 
-def flatten(nested, prefix: str = "") -> Iterator[tuple[str, Any]]:
-    """(dotted key, value) for every leaf of a :func:`nested_difference`; list items by name."""
+def flatten(nested: Any, prefix: str = "") -> Iterator[tuple[str, Any]]:
+    """(dotted key, value) for every leaf of a :func:`nested_difference`; list items by name.
+
+    Parameters
+    ----------
+    nested : dict, list or number
+        A :func:`nested_difference` or a part of it.
+    prefix : str, optional
+        Dotted key of ``nested`` itself ("" at the top).
+
+    Yields
+    ------
+    tuple of (str, Any)
+        The dotted key (list items as ``cases[stall, cold]``) and the leaf's value.
+    """
     if isinstance(nested, dict):
         for name, value in nested.items():
             if name == "name" and prefix.endswith("]"):
@@ -137,7 +160,18 @@ def flatten(nested, prefix: str = "") -> Iterator[tuple[str, Any]]:
 
 
 def difference(a: Results, b: Results) -> tuple[FigureDifference, ...]:
-    """Every number the two results share, flattened to dotted keys, with B − A."""
+    """Every number the two results share, flattened to dotted keys, with B − A.
+
+    Parameters
+    ----------
+    a, b : Results
+        The two evaluations (SI, temperatures in °C).
+
+    Returns
+    -------
+    tuple of FigureDifference
+        In A's order; plot arrays are left out.
+    """
     pairs = _pair(a, b, "", lambda key, x, y: (key, x, y))
     if pairs is _SKIP:
         return ()
@@ -166,6 +200,7 @@ class Comparison:
         Returns
         -------
         FigureDifference
+            A's and B's figure and their difference, in the unit the key names.
 
         Raises
         ------
@@ -180,14 +215,50 @@ class Comparison:
 
 def compare(project_a: Project, project_b: Project, results_a: Results | None = None,
             results_b: Results | None = None) -> Comparison:
-    """Evaluate both designs (unless their results are given) and difference them."""
+    """Evaluate both designs (unless their results are given) and difference them.
+
+    Parameters
+    ----------
+    project_a, project_b : Project
+        The two designs.
+    results_a, results_b : Results or None, optional
+        Their evaluations, when the caller has them already.
+
+    Returns
+    -------
+    Comparison
+        Both results and every difference.
+
+    Raises
+    ------
+    MagneticCircuitError
+        When a design that has to be evaluated has no magnetic solution.
+    """
     results_a = evaluate(project_a) if results_a is None else results_a
     results_b = evaluate(project_b) if results_b is None else results_b
     return Comparison(a=results_a, b=results_b, figures=difference(results_a, results_b))
 
 
 def with_grade(project: Project, grade_name: str) -> Project:
-    """The same design with a library magnet grade (an inline custom grade is dropped)."""
+    """The same design with a library magnet grade (an inline custom grade is dropped).
+
+    Parameters
+    ----------
+    project : Project
+        The design.
+    grade_name : str
+        A grade of the library (:func:`library.magnet_grades`).
+
+    Returns
+    -------
+    Project
+        The changed design, validated.
+
+    Raises
+    ------
+    ProjectError
+        Naming ``magnets.grade`` when there is no such grade.
+    """
     from .library import magnet_grade
 
     magnet_grade(grade_name)  # an unknown name is a ProjectError naming magnets.grade

@@ -7,7 +7,7 @@ from typing import Any
 
 from .errors import ProjectError
 from .fit_rules import validate
-from .schema import Project, to_dict
+from .schema import UNION_ORIGINS, Project, to_dict
 
 
 def get_value(project: Project, path: str) -> Any:
@@ -74,7 +74,7 @@ def with_values(project: Project, changes: dict[str, Any]) -> Project:
                     node[part] = value
             else:
                 annotation = fields[part].annotation
-                if typing.get_origin(annotation) is typing.Union:
+                if typing.get_origin(annotation) in UNION_ORIGINS:
                     annotation = next(a for a in typing.get_args(annotation) if a is not type(None))
                 model = annotation
                 node = node.setdefault(part, {})

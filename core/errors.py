@@ -7,9 +7,17 @@ from __future__ import annotations
 
 
 class ProjectError(ValueError):
-    """A project file, key or value that cannot be used; the message names the key and the limit."""
+    """A project file, key or value that cannot be used; the message names the key and the limit.
 
-    def __init__(self, message: str, key: str = ""):
+    Parameters
+    ----------
+    message : str
+        One line for the user: the file or key, the value and the limit.
+    key : str, optional
+        The dotted key at fault, kept as ``key`` ("" when the file as a whole is at fault).
+    """
+
+    def __init__(self, message: str, key: str = "") -> None:
         super().__init__(message)
         self.key = key
 

@@ -47,7 +47,7 @@ from .magnets import (
     remanence_at,
     require_ambient_inside_model,
 )
-from .mass import Masses, material_cost, masses, rotor_inertia
+from .mass import Masses, masses, material_cost, rotor_inertia
 from .performance import (
     MotorModel,
     OperatingPoints,
@@ -61,15 +61,14 @@ from .performance import (
     speed_torque_curve,
     stall_torque,
 )
-from .schema import Project
 from .results import (
     CaseResult,
     ConstantsResult,
     CostResult,
     CurveData,
     GeometryResult,
-    MagneticsResult,
     MagnetChartCase,
+    MagneticsResult,
     MagnetResult,
     MassResult,
     PointResult,
@@ -77,6 +76,7 @@ from .results import (
     ThermalResult,
     WindingResult,
 )
+from .schema import Project
 from .thermal import duty_rise_fraction, flux_grid_temperatures, hot_state, housing_to_ambient_resistance
 from .units import from_si
 from .winding import (
@@ -264,8 +264,8 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
                     and hot.magnet_C <= grade.max_working_temperature_C),
         ),
         mass=_mass_result(part_masses),
-        cost=CostResult(currency=d.prices.currency, magnet=cost.magnet, copper=cost.copper,
-                        housing=cost.housing, lamination=cost.lamination, total=cost.total),
+        cost=CostResult(currency=d.prices.currency, magnet=float(cost.magnet), copper=float(cost.copper),
+                        housing=float(cost.housing), lamination=float(cost.lamination), total=float(cost.total)),
         checks=(),
         magnet_chart=tuple(
             MagnetChartCase(
@@ -389,10 +389,10 @@ def _winding_result(d: Design, paths: int, conductors: int, turn_length: float, 
     )
 
 
-def _mass_result(part_masses: Masses) -> MassResult:
+def _mass_result(m: Masses) -> MassResult:
     return MassResult(
-        magnet_kg=part_masses.magnet, copper_kg=part_masses.copper, housing_kg=part_masses.housing,
-        lamination_kg=part_masses.lamination, shaft_kg=part_masses.shaft, total_kg=part_masses.total,
+        magnet_kg=float(m.magnet), copper_kg=float(m.copper), housing_kg=float(m.housing),
+        lamination_kg=float(m.lamination), shaft_kg=float(m.shaft), total_kg=float(m.total),
     )
 
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
 from pydantic import ValidationError
 
 from .design import geometry_of
@@ -17,12 +18,12 @@ from .schema import FORMAT_VERSION, Project, format_validation_error, key_specs
 from .units import from_si
 
 MIN_CORE_DEPTH = 1.0e-3  #: back iron between slot bottoms and shaft, at least [m] (our rule)
-MAX_TOOTH_SHARE_AT_ROOT = 0.9  #: a tooth may take at most this share of the slot pitch at the slot bottom
-MIN_TOOTH_TIP = 0.2e-3  #: the slot opening leaves at least this much tooth tip at the surface [m]
-MAX_EMBRACE = 0.98  #: adjacent magnets would touch beyond this share of the pole pitch
+MAX_TOOTH_SHARE_AT_ROOT = 0.9  #: a tooth may take at most this share of the slot pitch at the slot bottom (our rule)
+MIN_TOOTH_TIP = 0.2e-3  #: the slot opening leaves at least this much tooth tip at the surface [m] (our rule)
+MAX_EMBRACE = 0.98  #: adjacent magnets would touch beyond this share of the pole pitch (our rule)
 
 
-def _mm(length: float) -> float:
+def _mm(length: float | np.ndarray) -> float:
     return float(from_si(length, "mm"))
 
 
@@ -38,6 +39,13 @@ def check_fit(project: Project) -> None:
     ------
     ProjectError
         On the first rule broken.
+
+    References
+    ----------
+    .. [1] wave winding: the commutator pitch (C ± m)/(p/2) must be a whole number (textbook relation,
+       from memory).
+    .. [2] the clearances (MIN_CORE_DEPTH, MAX_TOOTH_SHARE_AT_ROOT, MIN_TOOTH_TIP, MAX_EMBRACE): our
+       rules, no source.
     """
     p = project
 
@@ -67,7 +75,8 @@ def check_fit(project: Project) -> None:
         c = m.custom_grade
         if c.coercivity_HcB_kA_per_m > c.coercivity_HcJ_kA_per_m:
             fail("magnets.custom_grade.coercivity_HcB_kA_per_m",
-                 f"{c.coercivity_HcB_kA_per_m:g} kA/m exceeds HcJ ({c.coercivity_HcJ_kA_per_m:g} kA/m); HcB ≤ HcJ always")
+                 f"{c.coercivity_HcB_kA_per_m:g} kA/m exceeds HcJ ({c.coercivity_HcJ_kA_per_m:g} kA/m); "
+                 "HcB ≤ HcJ always")
     g = geometry_of(p)
     core_depth = float(g.core_depth)
     if core_depth < MIN_CORE_DEPTH:
@@ -91,7 +100,8 @@ def check_fit(project: Project) -> None:
              f"{a.slot_opening_mm:g} mm is wider than the slot itself at the surface ({_mm(slot_width_at_top):.3g} mm)")
     if w.commutator_segments % a.slots != 0:
         fail("winding.commutator_segments",
-             f"{w.commutator_segments} is not a whole multiple of the {a.slots} slots (one, two or more coils per slot)")
+             f"{w.commutator_segments} is not a whole multiple of the {a.slots} slots "
+             "(one, two or more coils per slot)")
     pole_pairs = p.motor.poles // 2
     if w.type == "wave" and pole_pairs > 1 and (
         (w.commutator_segments + w.multiplicity) % pole_pairs and (w.commutator_segments - w.multiplicity) % pole_pairs

@@ -38,7 +38,7 @@ def armature_loadings(geometry: Geometry, conductors: int, paths: int, current: 
     electromagnetic_torque : float
         Shaft torque plus the loss torque at that point, K·I [N·m].
     flux_per_pole : float
-        [Wb]
+        Flux crossing the gap per pole Φ [Wb].
 
     Returns
     -------
@@ -47,7 +47,8 @@ def armature_loadings(geometry: Geometry, conductors: int, paths: int, current: 
 
     References
     ----------
-    See the module docstring.
+    .. [1] Miller 1989, ch. 1, and Say, ch. on main dimensions (both from memory); see the module
+       docstring.
     """
     g = geometry
     rotor_volume = float(np.pi * g.armature_radius**2 * g.stack_length)

@@ -65,8 +65,25 @@ def parse(text: str, source: str = "project") -> Project:
     return validate(data)
 
 
-def load(path: str | os.PathLike) -> Project:
-    """Read and validate a project file. Raises :class:`ProjectError`; never returns half a design."""
+def load(path: str | os.PathLike[str]) -> Project:
+    """Read and validate a project file; never returns half a design.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The project file (UTF-8 TOML).
+
+    Returns
+    -------
+    Project
+        Validated.
+
+    Raises
+    ------
+    ProjectError
+        Naming the file, and the key and the limit where a value is at fault: a file that cannot be
+        read, is binary or not UTF-8, is not TOML, or does not validate.
+    """
     path = Path(path)
     try:
         raw = path.read_bytes()
@@ -109,8 +126,21 @@ def dumps(project: Project) -> str:
     return _HEADER + tomli_w.dumps(to_dict(project))
 
 
-def save(project: Project, path: str | os.PathLike) -> None:
-    """Write atomically: a temporary file in the same folder, flushed, then renamed over ``path``."""
+def save(project: Project, path: str | os.PathLike[str]) -> None:
+    """Write a project file atomically: a temporary file in the same folder, flushed, renamed over ``path``.
+
+    Parameters
+    ----------
+    project : Project
+        A validated project.
+    path : str or os.PathLike
+        The file to write; an existing file is replaced only once the new one is complete.
+
+    Raises
+    ------
+    ProjectError
+        Naming the file, when the folder or the file cannot be written (no temporary file is left).
+    """
     path = Path(path)
     text = dumps(project)
     folder = path.parent if str(path.parent) else Path(".")

@@ -51,10 +51,11 @@ class RefitTarget:
     figure_key: str  #: where the figure is in the results
     figure_unit: str  #: unit for messages
     parameter: str  #: the project key that changes
-    parameter_title: str
-    need_more: str  #: what B needs when the figure asks for more than the upper limit gives, e.g. "a magnet thicker than"
-    need_less: str
-    integer: bool = False
+    parameter_title: str  #: e.g. "magnet thickness"
+    #: what B needs when the figure asks for more than the upper limit gives, e.g. "a magnet thicker than"
+    need_more: str
+    need_less: str  #: the same below the lower limit, e.g. "a magnet thinner than"
+    integer: bool = False  #: the parameter takes whole numbers (turns)
 
 
 TARGETS: dict[str, RefitTarget] = {
@@ -72,10 +73,12 @@ TARGETS: dict[str, RefitTarget] = {
 
 @dataclass(frozen=True)
 class ParameterChange:
+    """One input of B that a re-fit changed."""
+
     key: str  #: project key
     before: float  #: in the project file's unit
-    after: float
-    reason: str = ""
+    after: float  #: in the project file's unit
+    reason: str = ""  #: why it changed, when it follows the parameter ("" for the parameter itself)
 
 
 @dataclass(frozen=True)
@@ -83,7 +86,7 @@ class Refit:
     """B re-fitted to one of A's figures (or brought as close as its limits allow)."""
 
     target: str  #: key of :data:`TARGETS`
-    title: str
+    title: str  #: the figure's name for messages, e.g. "Ke"
     figure_unit: str  #: unit the figure is shown in (the values below are SI)
     target_value: float  #: A's figure [SI]
     figure_before: float  #: B's figure before the re-fit [SI]
@@ -92,21 +95,21 @@ class Refit:
     parameter: str  #: project key that changed
     parameter_unit: str  #: "mm" or "" for turns
     value_before: float  #: in the file's unit
-    value_after: float
+    value_after: float  #: in the file's unit
     search_range: tuple[float, float]  #: the bracket searched, after narrowing to what fits
     range_limits: tuple[str, str]  #: what sets each end of the bracket
     reached: bool  #: the target lies inside the bracket (for whole turns: the nearest whole number was taken)
     message: str  #: one paragraph for people: what changed, or what B would need
     changes: tuple[ParameterChange, ...]  #: every key that changed, the parameter first
-    notes: tuple[str, ...]
+    notes: tuple[str, ...]  #: sentences on what the reader should know (whole turns, mixed currencies)
     new_failures: tuple[str, ...]  #: checks that fail after the re-fit but did not before
     magnet_mass_difference_kg: float  #: B after − A
     magnet_cost_difference: float  #: B after − A, in ``currency``
     material_cost_difference: float  #: B after − A, all materials
-    currency: str
+    currency: str  #: B's currency
     evaluations: int  #: chain evaluations the re-fit took
     project: Project = field(repr=False, compare=False)  #: B after the re-fit
-    results: Results = field(repr=False, compare=False)
+    results: Results = field(repr=False, compare=False)  #: B's results after the re-fit
 
 
 class _Unusable(Exception):
@@ -176,7 +179,8 @@ class _Trial:
         return _lookup(self.results(value)[1], self.target.figure_key)
 
 
-def _usable_end(usable: Callable[[float], bool], inside: float, outside: float, integer: bool) -> tuple[float, float]:
+def _usable_end(usable: Callable[[float], bool], inside: float, outside: float,
+                integer: bool) -> tuple[float, float]:
     """The last usable value from ``inside`` (usable) toward ``outside`` (not), by bisection, and the
     first unusable one found beyond it."""
     span = abs(outside - inside)
@@ -229,6 +233,33 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
 
     Never raises for a target out of reach: the result's ``reached`` is False, B is left at the
     nearest limit, and ``message`` says what B would need and why it cannot have it.
+
+    Parameters
+    ----------
+    target_name : str
+        ``"ke"``, ``"no-load-speed"`` or ``"stall-torque"``.
+    results_a : Results
+        A's evaluation, which holds the figure to meet (SI).
+    project_b : Project
+        The design to re-fit.
+    results_b : Results or None, optional
+        B's evaluation, when the caller has it already.
+
+    Returns
+    -------
+    Refit
+        B after the re-fit, its figure before and after (SI), the parameter before and after (in the
+        file's unit), the bracket searched and what limits it, and the mass and cost differences to A.
+
+    Raises
+    ------
+    ValueError
+        When ``target_name`` is not a key of :data:`TARGETS`.
+
+    References
+    ----------
+    .. [1] bracketed root solve: :func:`solvers.find_root`; whole turns by bisection on the integers,
+       opened at the estimate that the no-load speed falls as 1/turns (E = K·Φ·ω).
     """
     if target_name not in TARGETS:
         raise ValueError(f"re-fit target {target_name!r}: choose one of {', '.join(TARGETS)}")
@@ -316,7 +347,7 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
     )
 
 
-def _whole_turns(trial: _Trial, low: int, high: int, goal: float, shown_goal: str):
+def _whole_turns(trial: _Trial, low: float, high: float, goal: float, shown_goal: str) -> tuple[float, str, str]:
     """The whole number of turns whose figure is closest to ``goal`` (which lies between the ends)."""
     start = get_value(trial.project_b, trial.target.parameter)
     figure_start = trial.figure(start)
@@ -326,7 +357,7 @@ def _whole_turns(trial: _Trial, low: int, high: int, goal: float, shown_goal: st
 
     # Bisection on whole numbers, opened at the estimate that the speed falls as 1/turns (E = Ke·ω).
     a, b = low, high
-    guess = int(round(start * figure_start / goal))
+    guess = round(start * figure_start / goal)
     lower_side = below(a)
     for candidate in (guess, guess + 1, guess - 1):
         if a < candidate < b:

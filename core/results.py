@@ -300,21 +300,21 @@ class Results:
     brush_drop_V: float  #: both brushes [V]
     load_torque_N_m: float  #: rated shaft torque [N·m]
     load_speed_rad_per_s: float  #: required speed at the rated torque [rad/s]
-    magnet: MagnetResult
-    geometry: GeometryResult
-    magnetics: MagneticsResult  #: nominal case
-    winding: WindingResult
-    constants: ConstantsResult
-    cold: CaseResult
-    nominal: CaseResult
-    hot: CaseResult
-    demagnetization: DemagnetizationResult
-    thermal: ThermalResult
-    mass: MassResult
-    cost: CostResult
-    checks: tuple[Check, ...]
-    magnet_chart: tuple[MagnetChartCase, ...] = field(repr=False)
-    sizing: SizingResult | None = None
+    magnet: MagnetResult  #: the grade as used, at the nominal ambient
+    geometry: GeometryResult  #: the cross-section and lengths
+    magnetics: MagneticsResult  #: no-load magnetic circuit, nominal case
+    winding: WindingResult  #: the winding as built
+    constants: ConstantsResult  #: Ke, Kt, resistance, inductance, time constants, inertia
+    cold: CaseResult  #: performance at the coldest ambient
+    nominal: CaseResult  #: performance at the nominal ambient
+    hot: CaseResult  #: performance at the hottest ambient, winding and magnets at the hot state
+    demagnetization: DemagnetizationResult  #: every case against the knee
+    thermal: ThermalResult  #: the hot case's temperatures
+    mass: MassResult  #: masses of the parts
+    cost: CostResult  #: raw-material cost
+    checks: tuple[Check, ...]  #: pass / warning / fail, with the reasons
+    magnet_chart: tuple[MagnetChartCase, ...] = field(repr=False)  #: cold, nominal and hot curves and points
+    sizing: SizingResult | None = None  #: loadings at the nominal rated point
     current_limit_A: float | None = None  #: the drive's current limit, if the project sets one [A]
     reversing: bool = False  #: the application reverses (plugs) the motor at speed
     ambient_min_C: float = 20.0  #: coldest ambient [°C]

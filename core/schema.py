@@ -13,10 +13,11 @@ writing files in :mod:`project`, what-if edits in :mod:`edits`.
 from __future__ import annotations
 
 import datetime
+import types
 import typing
 from collections.abc import Iterator
 from dataclasses import dataclass
-from typing import Any, Literal, Optional
+from typing import Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
 
@@ -24,9 +25,33 @@ from .errors import ProjectError
 
 FORMAT_VERSION = 1
 
+#: What ``typing.get_origin`` gives for an optional key's annotation, ``X | None`` or ``Optional[X]``
+#: (different objects at run time on Python 3.11).
+UNION_ORIGINS = (types.UnionType, typing.Union)
 
-def quantity(default, unit: str, minimum=None, maximum=None, description: str = "", **kwargs):
-    """A numeric field with its engineering unit, inclusive limits and a one-sentence description."""
+
+def quantity(default: Any, unit: str, minimum: float | None = None, maximum: float | None = None,
+             description: str = "", **kwargs: Any) -> Any:
+    """A numeric field with its engineering unit, inclusive limits and a one-sentence description.
+
+    Parameters
+    ----------
+    default : float, int, None or Ellipsis
+        The default in the key's unit; ``...`` for a required key, None for an optional one.
+    unit : str
+        The key's engineering unit as written in the file (``"mm"``, ``"°C"``; ``""`` for a count).
+    minimum, maximum : float or None, optional
+        Inclusive limits in the key's unit; None for no limit.
+    description : str, optional
+        One sentence for the docs table, the GUI's tooltip and the messages.
+    **kwargs
+        Passed on to :func:`pydantic.Field`.
+
+    Returns
+    -------
+    pydantic.fields.FieldInfo
+        The field (typed ``Any``, as :func:`pydantic.Field` is, so that it can stand as a default).
+    """
     return Field(
         default,
         ge=minimum,
@@ -37,19 +62,41 @@ def quantity(default, unit: str, minimum=None, maximum=None, description: str = 
     )
 
 
-def choice(default, description: str):
+def choice(default: Any, description: str) -> Any:
+    """A field that takes one of a fixed set of values (its annotation's ``Literal``), without a unit.
+
+    Parameters
+    ----------
+    default : str or int
+        The default choice.
+    description : str
+        One sentence for the docs table, the GUI's tooltip and the messages.
+
+    Returns
+    -------
+    pydantic.fields.FieldInfo
+        The field (typed ``Any``, as :func:`pydantic.Field` is).
+    """
     return Field(default, description=description, json_schema_extra={"unit": ""})
 
 
 class _Section(BaseModel):
+    """A table of the file: unknown keys refused, values strictly typed, frozen."""
+
     model_config = ConfigDict(extra="forbid", strict=True, frozen=True, validate_default=True)
 
 
 class ProjectInfo(_Section):
-    name: str = Field("Untitled motor", min_length=1, max_length=120, description="Name of the design, shown on the datasheet.")
+    """``[project]``: the design's name, revision and notes, as the datasheet shows them."""
+
+    name: str = Field("Untitled motor", min_length=1, max_length=120,
+                      description="Name of the design, shown on the datasheet.")
     description: str = Field("", max_length=2000, description="What the motor is for, in a sentence or two.")
     revision: str = Field("A", min_length=1, max_length=20, description="Design revision shown on the datasheet.")
-    revision_date: Optional[str] = Field(None, pattern=r"^\d{4}-\d{2}-\d{2}$", description="Date of this revision as YYYY-MM-DD, shown on the datasheet as its issue date; leave out to use the export date.")
+    revision_date: str | None = Field(
+        None, pattern=r"^\d{4}-\d{2}-\d{2}$",
+        description="Date of this revision as YYYY-MM-DD, shown on the datasheet as its issue date; leave out to "
+                    "use the export date.")
     notes: str = Field("", max_length=4000, description="Free notes printed on the datasheet.")
 
     @field_validator("revision_date")
@@ -64,24 +111,36 @@ class ProjectInfo(_Section):
 
 
 class Supply(_Section):
+    """``[supply]``: the DC supply at the motor terminals, the brushes and the drive."""
+
     voltage_V: float = quantity(12.0, "V", 1.0, 600.0, "DC supply voltage at the motor terminals.")
     brush_drop_V: float = quantity(1.0, "V", 0.0, 10.0, "Total voltage drop across both brushes at rated current.")
-    current_limit_A: Optional[float] = quantity(None, "A", 0.01, 5000.0, "Current limit of the drive, if it has one; leave out for a plain supply.")
-    reversing: bool = Field(True, description="Whether the application reverses the motor at speed (plugging); if so the reversal current is checked.", json_schema_extra={"unit": ""})
+    current_limit_A: float | None = quantity(
+        None, "A", 0.01, 5000.0, "Current limit of the drive, if it has one; leave out for a plain supply.")
+    reversing: bool = Field(
+        True, description="Whether the application reverses the motor at speed (plugging); if so the reversal "
+                          "current is checked.", json_schema_extra={"unit": ""})
 
 
 class Load(_Section):
+    """``[load]``: the rated point the motor must meet."""
+
     torque_mNm: float = quantity(50.0, "mN·m", 0.0, 1.0e5, "Shaft torque at the rated point.")
-    speed_rpm: float = quantity(3000.0, "rpm", 0.0, 60000.0, "Lowest acceptable speed at the rated torque, at every temperature.")
+    speed_rpm: float = quantity(3000.0, "rpm", 0.0, 60000.0,
+                                "Lowest acceptable speed at the rated torque, at every temperature.")
 
 
 class Temperatures(_Section):
+    """``[temperatures]``: the ambient range, which sets the cold, nominal and hot cases."""
+
     ambient_min_C: float = quantity(-20.0, "°C", -70.0, 60.0, "Coldest ambient the motor must work and survive in.")
     ambient_nominal_C: float = quantity(25.0, "°C", -40.0, 80.0, "Ambient of the nominal case.")
     ambient_max_C: float = quantity(40.0, "°C", -20.0, 150.0, "Hottest ambient the motor must work in.")
 
 
 class CustomGrade(_Section):
+    """``[magnets.custom_grade]``: a grade's data from a supplier's certificate, in the file's units."""
+
     name: str = Field(..., min_length=1, max_length=60, description="Grade name as the supplier gives it.")
     family: Literal[
         "sintered NdFeB", "bonded NdFeB", "SmCo 1:5", "SmCo 2:17",
@@ -93,38 +152,62 @@ class CustomGrade(_Section):
     energy_product_kJ_per_m3: float = quantity(..., "kJ/m3", 1.0, 480.0, "(BH)max at 20 °C.")
     recoil_permeability: float = quantity(1.05, "1", 1.0, 8.0, "Relative recoil permeability μrec.")
     squareness: float = quantity(0.9, "1", 0.3, 0.999, "Hk/HcJ, where Hk is the field at which J = 0.9·Br.")
-    remanence_temp_coeff_pct_per_K: float = quantity(..., "%/K", -0.5, 0.1, "Reversible temperature coefficient of Br.")
-    coercivity_temp_coeff_pct_per_K: float = quantity(..., "%/K", -1.5, 1.0, "Reversible temperature coefficient of HcJ.")
+    remanence_temp_coeff_pct_per_K: float = quantity(..., "%/K", -0.5, 0.1,
+                                                     "Reversible temperature coefficient of Br.")
+    coercivity_temp_coeff_pct_per_K: float = quantity(..., "%/K", -1.5, 1.0,
+                                                      "Reversible temperature coefficient of HcJ.")
     max_working_temperature_C: float = quantity(..., "°C", 20.0, 550.0, "Supplier's maximum working temperature.")
     density_kg_per_m3: float = quantity(..., "kg/m3", 1000.0, 10000.0, "Density.")
-    source: str = Field("user data", max_length=400, description="Where the numbers come from (certificate, datasheet).")
+    source: str = Field("user data", max_length=400,
+                        description="Where the numbers come from (certificate, datasheet).")
 
 
 class Magnets(_Section):
-    grade: Optional[str] = Field(None, min_length=1, max_length=60, description="Magnet grade from the library (see `pmdc-sizer grades`); leave out when custom_grade is given.")
-    custom_grade: Optional[CustomGrade] = Field(None, description="Inline grade data from a supplier's certificate, used instead of a library grade.")
+    """``[magnets]``: the grade and the arc magnets' dimensions."""
+
+    grade: str | None = Field(
+        None, min_length=1, max_length=60,
+        description="Magnet grade from the library (see `pmdc-sizer grades`); leave out when custom_grade is given.")
+    custom_grade: CustomGrade | None = Field(
+        None, description="Inline grade data from a supplier's certificate, used instead of a library grade.")
     thickness_mm: float = quantity(5.0, "mm", 0.5, 40.0, "Radial thickness of each arc magnet.")
-    arc_deg: float = quantity(130.0, "deg", 15.0, 178.0, "Mechanical arc of each magnet; at most the pole pitch, 360°/poles.")
-    length_mm: float = quantity(30.0, "mm", 3.0, 300.0, "Axial length of each magnet; at least the armature stack length.")
-    magnetization: Literal["radial", "parallel"] = choice("radial", "Direction of magnetization: radial (along every radius) or parallel (along the magnet's centre line); used by the field solution.")
+    arc_deg: float = quantity(130.0, "deg", 15.0, 178.0,
+                              "Mechanical arc of each magnet; at most the pole pitch, 360°/poles.")
+    length_mm: float = quantity(30.0, "mm", 3.0, 300.0,
+                                "Axial length of each magnet; at least the armature stack length.")
+    magnetization: Literal["radial", "parallel"] = choice(
+        "radial", "Direction of magnetization: radial (along every radius) or parallel (along the magnet's centre "
+                  "line); used by the field solution.")
 
 
 class Motor(_Section):
-    poles: Literal[2, 4, 6] = Field(2, description="Number of magnet poles: 2, 4 or 6.", json_schema_extra={"unit": ""})
+    """``[motor]``: the number of poles."""
+
+    poles: Literal[2, 4, 6] = Field(2, description="Number of magnet poles: 2, 4 or 6.",
+                                    json_schema_extra={"unit": ""})
 
 
 class Housing(_Section):
-    wall_mm: float = quantity(2.5, "mm", 0.3, 25.0, "Wall thickness of the steel housing, which carries the return flux.")
-    length_mm: float = quantity(45.0, "mm", 5.0, 400.0, "Axial length of the housing tube; at least the magnet length.")
+    """``[housing]``: the steel tube that holds the magnets and carries the return flux."""
+
+    wall_mm: float = quantity(2.5, "mm", 0.3, 25.0,
+                              "Wall thickness of the steel housing, which carries the return flux.")
+    length_mm: float = quantity(45.0, "mm", 5.0, 400.0,
+                                "Axial length of the housing tube; at least the magnet length.")
     steel: str = Field("low-carbon steel 1010", min_length=1, description="Housing steel from the library.")
-    max_outer_diameter_mm: Optional[float] = quantity(None, "mm", 5.0, 500.0, "Envelope limit on the housing diameter, if there is one.")
+    max_outer_diameter_mm: float | None = quantity(
+        None, "mm", 5.0, 500.0, "Envelope limit on the housing diameter, if there is one.")
 
 
 class Airgap(_Section):
+    """``[airgap]``: the radial clearance between armature and magnets."""
+
     length_mm: float = quantity(0.5, "mm", 0.05, 5.0, "Radial clearance between armature and magnet faces.")
 
 
 class Armature(_Section):
+    """``[armature]``: the slotted lamination stack and the shaft."""
+
     outer_diameter_mm: float = quantity(30.0, "mm", 5.0, 300.0, "Outer diameter of the armature lamination stack.")
     stack_length_mm: float = quantity(30.0, "mm", 3.0, 300.0, "Axial length of the lamination stack.")
     stacking_factor: float = quantity(0.95, "1", 0.8, 1.0, "Fraction of the stack length that is steel.")
@@ -133,52 +216,82 @@ class Armature(_Section):
     tooth_width_mm: float = quantity(3.0, "mm", 0.3, 40.0, "Width of each tooth (parallel-sided teeth).")
     slot_depth_mm: float = quantity(7.0, "mm", 0.5, 100.0, "Radial depth of each slot from the armature surface.")
     shaft_diameter_mm: float = quantity(5.0, "mm", 1.0, 80.0, "Diameter of the steel shaft through the stack.")
-    shaft_magnetic: bool = Field(True, description="True for a steel shaft that carries flux like the housing steel (the usual case); false for a stainless or non-magnetic shaft. Used by the field solution.", json_schema_extra={"unit": ""})
+    shaft_magnetic: bool = Field(
+        True, description="True for a steel shaft that carries flux like the housing steel (the usual case); false "
+                          "for a stainless or non-magnetic shaft. Used by the field solution.",
+        json_schema_extra={"unit": ""})
     steel: str = Field("M400-50A", min_length=1, description="Lamination steel from the library.")
 
 
 class Winding(_Section):
-    type: Literal["lap", "wave"] = choice("lap", "Lap (parallel paths = poles × multiplicity) or wave (parallel paths = 2 × multiplicity).")
+    """``[winding]``: the armature winding, its wire and its insulation class."""
+
+    type: Literal["lap", "wave"] = choice(
+        "lap", "Lap (parallel paths = poles × multiplicity) or wave (parallel paths = 2 × multiplicity).")
     multiplicity: int = quantity(1, "", 1, 3, "Simplex 1, duplex 2, triplex 3.")
     commutator_segments: int = quantity(12, "", 3, 240, "Number of commutator segments, one coil each.")
     turns_per_coil: int = quantity(20, "", 1, 2000, "Turns in each armature coil.")
-    wire: str = Field("AWG 24", min_length=2, description="Wire size: 'AWG n' or a metric bare diameter such as '0.50 mm'.", json_schema_extra={"unit": ""})
-    enamel_grade: Literal[1, 2, 3] = Field(2, description="Enamel film grade per IEC 60317: 1 thin, 2 medium, 3 thick.", json_schema_extra={"unit": ""})
-    insulation_class: Literal["105 (A)", "120 (E)", "130 (B)", "155 (F)", "180 (H)", "200 (N)", "220 (R)"] = choice("155 (F)", "Thermal class of the insulation system per IEC 60085.")
-    end_turn_factor: float = quantity(1.0, "1", 0.5, 2.0, "Scales the estimated end-turn length (1 is the estimate; measure and adjust).")
+    wire: str = Field("AWG 24", min_length=2,
+                      description="Wire size: 'AWG n' or a metric bare diameter such as '0.50 mm'.",
+                      json_schema_extra={"unit": ""})
+    enamel_grade: Literal[1, 2, 3] = Field(2, description="Enamel film grade per IEC 60317: 1 thin, 2 medium, 3 thick.",
+                                           json_schema_extra={"unit": ""})
+    insulation_class: Literal["105 (A)", "120 (E)", "130 (B)", "155 (F)", "180 (H)", "200 (N)", "220 (R)"] = choice(
+        "155 (F)", "Thermal class of the insulation system per IEC 60085.")
+    end_turn_factor: float = quantity(1.0, "1", 0.5, 2.0,
+                                      "Scales the estimated end-turn length (1 is the estimate; measure and adjust).")
 
 
 class Losses(_Section):
+    """``[losses]``: the mechanical losses and the iron loss's build factor."""
+
     friction_torque_mNm: float = quantity(2.0, "mN·m", 0.0, 1.0e4, "Constant friction torque of bearings and brushes.")
     viscous_mNm_per_krpm: float = quantity(0.5, "mN·m/krpm", 0.0, 1.0e4, "Viscous (windage) torque per 1000 rpm.")
-    iron_loss_build_factor: float = quantity(1.5, "1", 1.0, 4.0, "Multiplies the catalogue core loss for punching and rotation (1.5 is common practice).")
+    iron_loss_build_factor: float = quantity(
+        1.5, "1", 1.0, 4.0, "Multiplies the catalogue core loss for punching and rotation (1.5 is common practice).")
 
 
 class Thermal(_Section):
-    winding_to_housing_K_per_W: float = quantity(1.5, "K/W", 0.0, 100.0, "Thermal resistance from the winding to the housing.")
-    housing_to_ambient_K_per_W: Optional[float] = quantity(None, "K/W", 0.01, 500.0, "Thermal resistance from the housing to ambient; leave out to estimate it from the surface.")
-    convection_W_per_m2K: float = quantity(12.0, "W/(m2·K)", 1.0, 500.0, "Heat-transfer coefficient of the housing surface, used when no housing resistance is given.")
-    thermal_time_constant_min: float = quantity(15.0, "min", 0.1, 600.0, "Thermal time constant of the motor as a whole.")
+    """``[thermal]``: the thermal network's resistances, the time constant and the duty type."""
+
+    winding_to_housing_K_per_W: float = quantity(1.5, "K/W", 0.0, 100.0,
+                                                 "Thermal resistance from the winding to the housing.")
+    housing_to_ambient_K_per_W: float | None = quantity(
+        None, "K/W", 0.01, 500.0,
+        "Thermal resistance from the housing to ambient; leave out to estimate it from the surface.")
+    convection_W_per_m2K: float = quantity(
+        12.0, "W/(m2·K)", 1.0, 500.0,
+        "Heat-transfer coefficient of the housing surface, used when no housing resistance is given.")
+    thermal_time_constant_min: float = quantity(15.0, "min", 0.1, 600.0,
+                                                "Thermal time constant of the motor as a whole.")
     duty: Literal["S1", "S2"] = choice("S1", "IEC 60034-1 duty type: S1 continuous or S2 short-time.")
     duty_minutes: float = quantity(10.0, "min", 1.0, 600.0, "Length of the S2 short-time run.")
 
 
 class Rotor(_Section):
-    extra_inertia_gcm2: float = quantity(0.0, "g·cm2", 0.0, 1.0e7, "Inertia of the commutator, fan and anything else on the shaft.")
+    """``[rotor]``: what else turns with the armature."""
+
+    extra_inertia_gcm2: float = quantity(0.0, "g·cm2", 0.0, 1.0e7,
+                                         "Inertia of the commutator, fan and anything else on the shaft.")
 
 
 class Prices(_Section):
-    currency: str = Field("EUR", min_length=1, max_length=8, description="Currency of the prices below.", json_schema_extra={"unit": ""})
+    """``[prices]``: material prices per kilogram, for the material cost."""
+
+    currency: str = Field("EUR", min_length=1, max_length=8, description="Currency of the prices below.",
+                          json_schema_extra={"unit": ""})
     magnet_per_kg: float = quantity(10.0, "/kg", 0.0, 1.0e4, "Price of magnet material.")
     copper_per_kg: float = quantity(10.0, "/kg", 0.0, 1.0e4, "Price of enamelled copper wire.")
     housing_steel_per_kg: float = quantity(1.5, "/kg", 0.0, 1.0e4, "Price of the housing tube steel.")
-    lamination_per_kg: float = quantity(2.5, "/kg", 0.0, 1.0e4, "Price of lamination steel (as punched, scrap included).")
+    lamination_per_kg: float = quantity(2.5, "/kg", 0.0, 1.0e4,
+                                        "Price of lamination steel (as punched, scrap included).")
 
 
 class Project(_Section):
     """A complete design as stored in a file, in the file's engineering units."""
 
-    format_version: int = Field(FORMAT_VERSION, ge=1, le=FORMAT_VERSION, description="Version of this file format.")
+    format_version: int = Field(FORMAT_VERSION, ge=1, le=FORMAT_VERSION,
+                                description="Version of this file format.")
     project: ProjectInfo = ProjectInfo()
     supply: Supply = Supply()
     load: Load = Load()
@@ -214,14 +327,16 @@ MAY_BE_LEFT_OUT = frozenset({
 
 @dataclass(frozen=True)
 class KeySpec:
+    """One scalar key of the file: what the validator, the GUI editor, the docs and ``--set`` know of it."""
+
     path: str  #: dotted key, e.g. "magnets.thickness_mm"
     unit: str  #: engineering unit as in the file ("" for counts, names and choices)
-    minimum: Any
-    maximum: Any
-    default: Any
-    description: str
+    minimum: Any  #: inclusive lower limit in ``unit``, or None
+    maximum: Any  #: inclusive upper limit in ``unit``, or None
+    default: Any  #: in ``unit``; None for a required key or an optional key left out
+    description: str  #: one sentence
     kind: str  #: "float", "int", "str", "choice" or "bool"
-    choices: tuple = ()
+    choices: tuple[Any, ...] = ()  #: the allowed values of a "choice"
     optional: bool = False  #: the value may be absent (None): the tool then does what the description says
     required_in_file: bool = True  #: a file that leaves the key out is refused
 
@@ -230,7 +345,7 @@ def _spec_of(path: str, info) -> KeySpec:
     annotation = info.annotation
     optional = False
     origin = typing.get_origin(annotation)
-    if origin is typing.Union:
+    if origin in UNION_ORIGINS:
         args = [a for a in typing.get_args(annotation) if a is not type(None)]
         optional = True
         annotation = args[0]
@@ -252,10 +367,17 @@ def _spec_of(path: str, info) -> KeySpec:
 
 
 def key_specs() -> Iterator[KeySpec]:
-    """Every scalar key of the file, in file order (the inline custom grade's keys included)."""
+    """Every scalar key of the file, in file order (the inline custom grade's keys included).
+
+    Yields
+    ------
+    KeySpec
+        One per key, ``format_version`` first.
+    """
     yield _spec_of("format_version", Project.model_fields["format_version"])
     for section in SECTIONS:
-        model = Project.model_fields[section].annotation
+        # every field of Project but format_version is a section, a model of its own
+        model = typing.cast("type[_Section]", Project.model_fields[section].annotation)
         for name, info in model.model_fields.items():
             if name == "custom_grade":
                 for sub, sub_info in CustomGrade.model_fields.items():
@@ -265,11 +387,27 @@ def key_specs() -> Iterator[KeySpec]:
 
 
 def key_spec(path: str) -> KeySpec:
+    """What the schema knows of one key.
+
+    Parameters
+    ----------
+    path : str
+        Dotted key, e.g. ``"magnets.thickness_mm"``.
+
+    Returns
+    -------
+    KeySpec
+        Its unit, limits, default and description.
+
+    Raises
+    ------
+    ProjectError
+        When there is no such key.
+    """
     for spec in key_specs():
         if spec.path == path:
             return spec
     raise ProjectError(f"{path}: no such key (see docs/project-file.md for the keys)", key=path)
-
 
 
 def format_validation_error(error: ValidationError) -> ProjectError:
@@ -310,7 +448,7 @@ def format_validation_error(error: ValidationError) -> ProjectError:
     return ProjectError(f"{path} = {shown}: {message[0].lower() + message[1:]}{limits}", key=path)
 
 
-def to_dict(project: Project) -> dict:
+def to_dict(project: Project) -> dict[str, Any]:
     """The project as plain TOML-ready data, in schema order, with absent optional keys left out.
 
     Parameters

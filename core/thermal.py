@@ -13,6 +13,12 @@ magnet remanence per its coefficient), so the network is iterated to a fixed poi
 Duty types per IEC 60034-1: S1 continuous (the steady state), S2 short-time (the winding's rise after
 t minutes from ambient with one thermal time constant: ΔT(t) = ΔT_ss·(1 - exp(-t/τ))).
 Thermal classes per IEC 60085: the class number is the limiting temperature in °C.
+
+References
+----------
+.. [1] IEC 60034-1, rating and performance: duty types S1 (continuous) and S2 (short-time).
+.. [2] IEC 60085, electrical insulation: thermal evaluation and designation.
+.. [3] IEC 60028, international standard of resistance for copper (temperature coefficient).
 """
 
 from __future__ import annotations
@@ -26,32 +32,106 @@ from .geometry import Geometry
 
 
 def housing_surface_area(geometry: Geometry):
-    """Outer surface of the housing tube with both end faces [m²]."""
+    """Outer surface of the housing tube with both end faces.
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section and lengths (housing outer radius and length) [m].
+
+    Returns
+    -------
+    float or ndarray
+        2π·r·L + 2π·r² [m²].
+    """
     r = geometry.housing_outer_radius
     return 2.0 * np.pi * r * geometry.housing_length + 2.0 * np.pi * r**2
 
 
-def housing_to_ambient_resistance(geometry: Geometry, convection_coeff):
-    """R_ha = 1/(h·A) [K/W]."""
+def housing_to_ambient_resistance(geometry: Geometry, convection_coeff: float | np.ndarray):
+    """Thermal resistance from the housing to ambient, estimated from its surface: R_ha = 1/(h·A).
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section and lengths [m].
+    convection_coeff : float or ndarray
+        Heat-transfer coefficient h of the housing surface [W/(m²·K)].
+
+    Returns
+    -------
+    float or ndarray
+        R_ha [K/W].
+
+    References
+    ----------
+    .. [1] Newton's law of cooling over the housing surface (:func:`housing_surface_area`); the
+       coefficient is the user's (the schema's default, 12 W/(m²·K), is common practice, no source).
+    """
     return 1.0 / (convection_coeff * housing_surface_area(geometry))
 
 
 @dataclass(frozen=True)
 class Temperatures:
-    housing_C: float
-    winding_C: float
-    magnet_C: float
+    """The two-node network's temperatures [°C]."""
+
+    housing_C: float  #: [°C]
+    winding_C: float  #: [°C]
+    magnet_C: float  #: taken as the housing's [°C]
 
 
-def steady_temperatures(ambient_C, rotor_loss, total_loss, winding_to_housing, housing_to_ambient) -> Temperatures:
-    """The two-node network's steady state for given losses [W]."""
+def steady_temperatures(ambient_C: float, rotor_loss: float, total_loss: float, winding_to_housing: float,
+                        housing_to_ambient: float) -> Temperatures:
+    """The two-node network's steady state for given losses.
+
+    Parameters
+    ----------
+    ambient_C : float
+        Ambient temperature [°C].
+    rotor_loss : float
+        Copper, brush and iron losses, which flow from the winding to the housing [W].
+    total_loss : float
+        Every loss, all of which flows from the housing to ambient [W].
+    winding_to_housing, housing_to_ambient : float
+        Thermal resistances R_wh and R_ha [K/W].
+
+    Returns
+    -------
+    Temperatures
+        Housing, winding and magnet temperatures [°C].
+
+    References
+    ----------
+    .. [1] the two-node network of the module docstring (our model, common practice, no source).
+    """
     housing = ambient_C + total_loss * housing_to_ambient
     winding = housing + rotor_loss * winding_to_housing
     return Temperatures(housing_C=housing, winding_C=winding, magnet_C=housing)
 
 
-def short_time_rise(steady_rise, duration, time_constant):
-    """Temperature rise after ``duration`` [s] from cold with one time constant [s] (IEC 60034-1 S2)."""
+def short_time_rise(steady_rise: float | np.ndarray, duration: float | np.ndarray,
+                    time_constant: float | np.ndarray):
+    """Temperature rise after a run of ``duration`` from cold, with one thermal time constant.
+
+    Parameters
+    ----------
+    steady_rise : float or ndarray
+        The steady-state rise ΔT_ss [K].
+    duration : float or ndarray
+        Length of the run t [s].
+    time_constant : float or ndarray
+        Thermal time constant τ of the motor [s].
+
+    Returns
+    -------
+    float or ndarray
+        ΔT(t) = ΔT_ss·(1 - exp(-t/τ)) [K].
+
+    References
+    ----------
+    .. [1] IEC 60034-1, duty type S2; the single exponential is the first-order thermal model (common
+       practice, no source).
+    """
     return steady_rise * (1.0 - np.exp(-duration / time_constant))
 
 
@@ -70,7 +150,7 @@ def duty_rise_fraction(duty: str, duty_time: float, time_constant: float) -> flo
     Returns
     -------
     float
-        [1]
+        The share of the steady rise [1].
 
     References
     ----------
@@ -104,6 +184,10 @@ def flux_grid_temperatures(ambient_min_C: float, ambient_nominal_C: float, ambie
     -------
     ndarray
         The coldest and nominal ambient, then ``GRID_POINTS`` rising temperatures [°C].
+
+    References
+    ----------
+    .. [1] our choice of range (see above), no source.
     """
     top = min(max(ambient_max_C + 250.0, max_working_C + 50.0), model_high_C)
     return np.concatenate(([ambient_min_C, ambient_nominal_C], np.linspace(ambient_min_C, top, GRID_POINTS)))
@@ -152,18 +236,19 @@ def hot_state(
         The insulation class temperature [°C].
     model_high_C : float
         Where the magnet grade's temperature model ends [°C].
-    max_iterations : int
-        Give up after this many iterations.
-    tolerance : float
+    max_iterations : int, optional
+        Give up after this many iterations [1].
+    tolerance : float, optional
         Converged when winding and housing together change less than this [K].
 
     Returns
     -------
     HotState
-        When no steady state exists (thermal runaway, the rated load stalls the hot motor, or the
-        magnets would pass ``model_high_C``), the hot case is put at the insulation class limit, the
-        hottest the winding may run, with the magnets at the matching share of the rise (capped at
-        ``model_high_C``), and ``converged`` is False: the thermal check then fails and says so.
+        Temperatures [°C], losses [W] and how the iteration ended. When no steady state exists
+        (thermal runaway, the rated load stalls the hot motor, or the magnets would pass
+        ``model_high_C``), the hot case is put at the insulation class limit, the hottest the winding
+        may run, with the magnets at the matching share of the rise (capped at ``model_high_C``), and
+        ``converged`` is False: the thermal check then fails and says so.
 
     References
     ----------
@@ -173,7 +258,8 @@ def hot_state(
     converged = False
     iterations = 0
     rotor_loss = total_loss = 0.0
-    for iterations in range(1, max_iterations + 1):
+    while iterations < max_iterations:
+        iterations += 1
         rotor_loss, total_loss, rated_reached = losses_at(winding_C, magnet_C)
         steady = steady_temperatures(ambient_C, rotor_loss, total_loss, winding_to_housing, housing_to_ambient)
         new_winding = ambient_C + rise_fraction * (steady.winding_C - ambient_C)
