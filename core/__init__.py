@@ -24,10 +24,11 @@ from .difference import Comparison, compare, with_grade
 from .edits import get_value, with_values
 from .errors import MagneticCircuitError, ProjectError
 from .evaluate import evaluate
+from .keys import key_spec, key_specs
 from .library import magnet_grade, magnet_grades, steels
 from .project import dumps, load, parse, save
 from .results import Results
-from .schema import Project, key_spec, key_specs
+from .schema import Project
 from .sweep import magnetics_sweep
 
 __all__ = [

@@ -14,7 +14,8 @@ from pydantic import ValidationError
 
 from .design import geometry_of
 from .errors import ProjectError
-from .schema import FORMAT_VERSION, Project, format_validation_error, key_specs
+from .keys import format_validation_error, key_specs
+from .schema import FORMAT_VERSION, Project
 from .units import from_si
 
 MIN_CORE_DEPTH = 1.0e-3  #: back iron between slot bottoms and shaft, at least [m] (our rule)

@@ -20,8 +20,9 @@ from typing import Any, Literal
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from .errors import ProjectError
+from .keys import format_validation_error
 from .magnets import MagnetGrade
-from .schema import CustomGrade, format_validation_error
+from .schema import CustomGrade
 from .steel import Steel
 from .units import from_si, to_si
 

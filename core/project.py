@@ -5,7 +5,7 @@ refused with one line naming the file, the key and the limit; a file from a newe
 refused with a clear message. Saving writes a temporary file in the same folder and renames it over
 the target.
 
-The schema (:mod:`schema`), the fit rules (:mod:`fit_rules`) and what-if edits (:mod:`edits`) live in
+The schema (:mod:`schema`, its flat key list in :mod:`keys`), the fit rules (:mod:`fit_rules`) and what-if edits (:mod:`edits`) live in
 modules of their own; their public names are re-exported here so that ``project.load``,
 ``project.with_values`` and ``project.Project`` read naturally at the call site.
 """
@@ -22,16 +22,13 @@ import tomli_w
 from .edits import get_value, with_values
 from .errors import ProjectError
 from .fit_rules import check_fit, validate
+from .keys import KeySpec, format_validation_error, key_spec, key_specs
 from .schema import (
     FORMAT_VERSION,
     MAY_BE_LEFT_OUT,
     SECTIONS,
     CustomGrade,
-    KeySpec,
     Project,
-    format_validation_error,
-    key_spec,
-    key_specs,
     to_dict,
 )
 

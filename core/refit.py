@@ -36,8 +36,9 @@ from .checks import FAIL, SLOT_FILL_GROSS_FAIL
 from .edits import get_value, with_values
 from .errors import MagneticCircuitError, ProjectError
 from .evaluate import evaluate
+from .keys import key_spec
 from .results import Results
-from .schema import Project, key_spec
+from .schema import Project
 from .solvers import find_root
 from .units import from_si
 

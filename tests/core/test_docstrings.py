@@ -40,6 +40,7 @@ COMPLETE_MODULES = (
     "pmdc_sizer.core.errors",
     "pmdc_sizer.core.evaluate",
     "pmdc_sizer.core.fit_rules",
+    "pmdc_sizer.core.keys",
     "pmdc_sizer.core.geometry",
     "pmdc_sizer.core.library",
     "pmdc_sizer.core.loadings",

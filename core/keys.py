@@ -1,0 +1,141 @@
+"""The schema as a flat list of keys, for the GUI editor, the docs table, ``--set`` and messages.
+
+Each :class:`KeySpec` reads the schema (:mod:`schema`): the dotted key, its engineering unit, limits,
+default, description and kind; :func:`format_validation_error` turns pydantic's first complaint into
+one line that names the key and its allowed range.
+"""
+
+from __future__ import annotations
+
+import typing
+from collections.abc import Iterator
+from dataclasses import dataclass
+from typing import Any, Literal
+
+from pydantic import BaseModel, ValidationError
+
+from .errors import ProjectError
+from .schema import MAY_BE_LEFT_OUT, SECTIONS, UNION_ORIGINS, CustomGrade, Project
+
+
+@dataclass(frozen=True)
+class KeySpec:
+    """One scalar key of the file: what the validator, the GUI editor, the docs and ``--set`` know of it."""
+
+    path: str  #: dotted key, e.g. "magnets.thickness_mm"
+    unit: str  #: engineering unit as in the file ("" for counts, names and choices)
+    minimum: Any  #: inclusive lower limit in ``unit``, or None
+    maximum: Any  #: inclusive upper limit in ``unit``, or None
+    default: Any  #: in ``unit``; None for a required key or an optional key left out
+    description: str  #: one sentence
+    kind: str  #: "float", "int", "str", "choice" or "bool"
+    choices: tuple[Any, ...] = ()  #: the allowed values of a "choice"
+    optional: bool = False  #: the value may be absent (None): the tool then does what the description says
+    required_in_file: bool = True  #: a file that leaves the key out is refused
+
+
+def _spec_of(path: str, info) -> KeySpec:
+    annotation = info.annotation
+    optional = False
+    origin = typing.get_origin(annotation)
+    if origin in UNION_ORIGINS:
+        args = [a for a in typing.get_args(annotation) if a is not type(None)]
+        optional = True
+        annotation = args[0]
+    minimum = maximum = None
+    for meta in info.metadata:
+        minimum = getattr(meta, "ge", minimum)
+        maximum = getattr(meta, "le", maximum)
+    extra = info.json_schema_extra or {}
+    if typing.get_origin(annotation) is Literal:
+        kind, choices = "choice", typing.get_args(annotation)
+    else:
+        kind, choices = {float: "float", int: "int", str: "str", bool: "bool"}[annotation], ()
+    default = None if info.is_required() else info.default
+    required_in_file = not optional and path not in MAY_BE_LEFT_OUT and ".custom_grade." not in path
+    if ".custom_grade." in path:
+        required_in_file = info.is_required()
+    return KeySpec(path, extra.get("unit", ""), minimum, maximum, default, info.description or "", kind,
+                   choices, optional, required_in_file)
+
+
+def key_specs() -> Iterator[KeySpec]:
+    """Every scalar key of the file, in file order (the inline custom grade's keys included).
+
+    Yields
+    ------
+    KeySpec
+        One per key, ``format_version`` first.
+    """
+    yield _spec_of("format_version", Project.model_fields["format_version"])
+    for section in SECTIONS:
+        # every field of Project but format_version is a section, a model of its own
+        model = typing.cast("type[BaseModel]", Project.model_fields[section].annotation)
+        for name, info in model.model_fields.items():
+            if name == "custom_grade":
+                for sub, sub_info in CustomGrade.model_fields.items():
+                    yield _spec_of(f"{section}.custom_grade.{sub}", sub_info)
+                continue
+            yield _spec_of(f"{section}.{name}", info)
+
+
+def key_spec(path: str) -> KeySpec:
+    """What the schema knows of one key.
+
+    Parameters
+    ----------
+    path : str
+        Dotted key, e.g. ``"magnets.thickness_mm"``.
+
+    Returns
+    -------
+    KeySpec
+        Its unit, limits, default and description.
+
+    Raises
+    ------
+    ProjectError
+        When there is no such key.
+    """
+    for spec in key_specs():
+        if spec.path == path:
+            return spec
+    raise ProjectError(f"{path}: no such key (see docs/project-file.md for the keys)", key=path)
+
+
+def format_validation_error(error: ValidationError) -> ProjectError:
+    """The first problem pydantic found, as one line naming the key, the value and the allowed range.
+
+    Parameters
+    ----------
+    error : pydantic.ValidationError
+        From validating a project or a library table.
+
+    Returns
+    -------
+    ProjectError
+        With ``key`` set to the dotted key.
+    """
+    first = error.errors()[0]
+    path = ".".join(str(part) for part in first["loc"])
+    kind = first["type"]
+    value = first.get("input")
+    if kind == "extra_forbidden":
+        return ProjectError(f"{path}: unknown key (check the spelling; see docs/project-file.md)", key=path)
+    if kind == "missing":
+        return ProjectError(f"{path}: required key is missing", key=path)
+    message = first["msg"].removeprefix("Value error, ")
+    if kind == "string_pattern_mismatch" and path.endswith("_date"):
+        message = "is not a date written YYYY-MM-DD"
+    try:
+        spec = key_spec(path)
+    except ProjectError:
+        spec = None
+    limits = ""
+    if spec is not None and (spec.minimum is not None or spec.maximum is not None):
+        unit = f" {spec.unit}" if spec.unit and spec.unit not in ("1",) else ""
+        limits = f" (allowed {spec.minimum:g} to {spec.maximum:g}{unit})"
+    elif spec is not None and spec.choices:
+        limits = " (allowed: " + ", ".join(repr(c) for c in spec.choices) + ")"
+    shown = repr(value) if not isinstance(value, dict) else "a table"
+    return ProjectError(f"{path} = {shown}: {message[0].lower() + message[1:]}{limits}", key=path)
