@@ -5,8 +5,8 @@ refused with one line naming the file, the key and the limit; a file from a newe
 refused with a clear message. Saving writes a temporary file in the same folder and renames it over
 the target.
 
-The schema (:mod:`schema`, its flat key list in :mod:`keys`), the fit rules (:mod:`fit_rules`) and what-if edits (:mod:`edits`) live in
-modules of their own; their public names are re-exported here so that ``project.load``,
+The schema (:mod:`schema`, its flat key list in :mod:`keys`), the fit rules (:mod:`fit_rules`) and
+what-if edits (:mod:`edits`) live in modules of their own; their public names are re-exported here so that ``project.load``,
 ``project.with_values`` and ``project.Project`` read naturally at the call site.
 """
 
