@@ -21,7 +21,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from .errors import ProjectError
 from .keys import format_validation_error
-from .magnets import MagnetGrade
+from .magnets import MagnetGrade, knee_width_ratio
 from .schema import CustomGrade
 from .steel import Steel
 from .units import from_si, to_si
@@ -87,7 +87,7 @@ def grade_from_spec(spec: CustomGrade, custom: bool = False) -> MagnetGrade:
         value = getattr(spec, key)
         values[attribute] = to_si(value, _unit_of(key)) if isinstance(value, float) else value
     grade = MagnetGrade(**values, custom=custom)
-    _ = grade.knee_width_ratio  # builds the curve now, so a grade that cannot have one fails here, by name
+    knee_width_ratio(grade)  # builds the curve now, so a grade that cannot have one fails here, by name
     return grade
 
 

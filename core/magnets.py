@@ -1,4 +1,4 @@
-"""Permanent-magnet grades and their demagnetization curves at any temperature.
+"""The demagnetization curves of a permanent-magnet grade at any temperature.
 
 Model
 -----
@@ -14,10 +14,8 @@ is fixed once per grade so that J(-Hk) = 0.9 Br at the reference temperature, wi
 is then held constant, so the knee keeps its shape as HcJ moves with temperature. The normal curve is
 B(H) = μ0 H + J(H).
 
-Temperature: Br(T) = Br20 (1 + α (T - 20 °C)) and HcJ(T) = HcJ20 (1 + β (T - 20 °C)), the reversible
-coefficients as suppliers state them (IEC 60404-8-1 gives them per grade family). Hard ferrite has
-β > 0, so its knee moves toward the operating region when cold; NdFeB has β < 0 and loses its knee
-margin when hot.
+Temperature enters through Br(T) and HcJ(T) (:mod:`magnet_grades`, whose grade type and temperature
+functions are re-exported here for the callers that need both).
 
 The knee reported for the demagnetization checks is the onset of irreversible loss: the field at which
 J has fallen 1 % of Br(T) below its recoil line (see ``knee_field_at``); Hk itself is kept for reference.
@@ -35,158 +33,66 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from functools import cached_property, lru_cache
 
 import numpy as np
 from scipy.optimize import brentq
 
-from .errors import MagneticCircuitError
+from .magnet_grades import (
+    FAMILIES,
+    REFERENCE_TEMPERATURE_C,
+    MagnetGrade,
+    intrinsic_coercivity_at,
+    model_temperature_range_C,
+    remanence_at,
+    require_ambient_inside_model,
+)
 from .solvers import find_root
 from .units import MU_0
-
-REFERENCE_TEMPERATURE_C = 20.0
-
-FAMILIES = (
-    "sintered NdFeB",
-    "bonded NdFeB",
-    "SmCo 1:5",
-    "SmCo 2:17",
-    "hard ferrite, isotropic",
-    "hard ferrite, anisotropic",
-    "AlNiCo",
-)
 
 _MAX_EXPONENT = 50.0  # keeps exp() finite far past the knee, where the curve is never used
 
 
-@dataclass(frozen=True)
-class MagnetGrade:
-    """A magnet grade's typical properties at 20 °C, in SI units.
-
-    Equality and hashing ignore ``custom``, so a user's copy of a built-in grade is the same grade.
-    """
-
-    name: str  #: the grade designation, e.g. "Y30BH"
-    family: str  #: one of :data:`FAMILIES`
-    remanence: float  #: Br [T]
-    coercivity_hcb: float  #: HcB, normal coercivity [A/m], positive
-    coercivity_hcj: float  #: HcJ, intrinsic coercivity [A/m], positive
-    energy_product: float  #: (BH)max [J/m³]
-    recoil_permeability: float  #: μrec, relative [1]
-    squareness: float  #: Hk/HcJ [1]
-    remanence_temp_coeff: float  #: α of Br [1/K], reversible
-    coercivity_temp_coeff: float  #: β of HcJ [1/K], reversible
-    max_working_temperature_C: float  #: supplier's maximum working temperature [°C]
-    density: float  #: [kg/m³]
-    source: str = ""  #: where the values come from ("from memory" where they are recalled)
-    custom: bool = field(default=False, compare=False)  #: a user's grade rather than a built-in one
-
-    @cached_property
-    def knee_width_ratio(self) -> float:
-        """Knee width over HcJ, h/HcJ [1], fixed so that J(-Hk) = 0.9·Br at 20 °C (raises ValueError if
-        the squareness cannot be reached with this recoil permeability)."""
-        br, hcj, hk = self.remanence, self.coercivity_hcj, self.squareness * self.coercivity_hcj
-        recoil_slope = MU_0 * (self.recoil_permeability - 1.0)
-        j_recoil_at_hk = br - recoil_slope * hk
-        if j_recoil_at_hk <= 0.9 * br:
-            raise ValueError(
-                f"magnet grade {self.name!r}: squareness {self.squareness:g} is too low for its recoil "
-                f"permeability {self.recoil_permeability:g}; the recoil line alone falls below 0.9·Br "
-                "before Hk (raise squareness or lower recoil_permeability)"
-            )
-        amplitude = br - recoil_slope * hcj
-
-        def miss(ratio: float) -> float:
-            return float(_knee_drop(hk, hcj, amplitude, ratio * hcj)) - (j_recoil_at_hk - 0.9 * br)
-
-        return float(brentq(miss, 1e-4, 10.0, xtol=1e-14))
-
-
-def remanence_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
-    """Remanence at a temperature, Br(T) = Br20·(1 + α·(T - 20 °C)), with the reversible coefficient α.
-
-    Parameters
-    ----------
-    grade : MagnetGrade
-        The grade, with Br at 20 °C and α.
-    temperature_C : float or ndarray
-        Magnet temperature [°C].
-
-    Returns
-    -------
-    float or ndarray
-        Br [T].
-
-    References
-    ----------
-    .. [1] IEC 60404-8-1 (the linear reversible temperature coefficient, stated per grade family).
-    """
-    return grade.remanence * (1.0 + grade.remanence_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C))
-
-
-def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
-    """Intrinsic coercivity at a temperature, HcJ(T) = HcJ20·(1 + β·(T - 20 °C)).
-
-    β is positive for hard ferrite (its knee moves in when cold) and negative for NdFeB and SmCo.
-
-    Parameters
-    ----------
-    grade : MagnetGrade
-        The grade, with HcJ at 20 °C and β.
-    temperature_C : float or ndarray
-        Magnet temperature [°C].
-
-    Returns
-    -------
-    float or ndarray
-        HcJ [A/m], positive.
-
-    References
-    ----------
-    .. [1] IEC 60404-8-1 (the linear reversible temperature coefficient, stated per grade family).
-    """
-    return grade.coercivity_hcj * (
-        1.0 + grade.coercivity_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C)
-    )
-
-
 @lru_cache(maxsize=256)
-def model_temperature_range_C(grade: MagnetGrade) -> tuple[float, float]:  # noqa: N802 - unit suffix (°C)
-    """Temperatures between which the curve model means something.
-
-    The bound is ours: the linear reversible coefficients keep Br and HcJ above a quarter of their 20 °C
-    values, and the recoil line still stands clear of zero at -HcJ (A = Br - μ0·(μrec - 1)·HcJ at
-    least 5 % of Br), so the knee exists.
+def knee_width_ratio(grade: MagnetGrade) -> float:
+    """Knee width over HcJ, h/HcJ, fixed so that J(-Hk) = 0.9·Br at 20 °C.
 
     Parameters
     ----------
     grade : MagnetGrade
-        The grade.
+        The grade (Br, HcJ, squareness, recoil permeability).
 
     Returns
     -------
-    tuple of float
-        Lowest and highest temperature [°C], on a 0.5 K grid, of the interval around 20 °C where the
-        bound holds.
+    float
+        h/HcJ [1], held constant with temperature so the knee keeps its shape.
+
+    Raises
+    ------
+    ValueError
+        When the squareness cannot be reached with this recoil permeability (the recoil line alone
+        falls below 0.9·Br before Hk).
 
     References
     ----------
-    .. [1] the project's own bound on its curve model (no published source)
+    .. [1] the curve model of this module (the project's own construction).
     """
-    temperatures = np.arange(-273.0, 1000.5, 0.5)
-    br = remanence_at(grade, temperatures)
-    hcj = intrinsic_coercivity_at(grade, temperatures)
-    amplitude = br - MU_0 * (grade.recoil_permeability - 1.0) * hcj
-    valid = (br > 0.25 * grade.remanence) & (hcj > 0.25 * grade.coercivity_hcj) & (amplitude > 0.05 * br)
-    reference = int(np.searchsorted(temperatures, REFERENCE_TEMPERATURE_C))
-    low_index = reference
-    while low_index > 0 and valid[low_index - 1]:
-        low_index -= 1
-    high_index = reference
-    while high_index < temperatures.size - 1 and valid[high_index + 1]:
-        high_index += 1
-    return float(temperatures[low_index]), float(temperatures[high_index])
+    br, hcj, hk = grade.remanence, grade.coercivity_hcj, grade.squareness * grade.coercivity_hcj
+    recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
+    j_recoil_at_hk = br - recoil_slope * hk
+    if j_recoil_at_hk <= 0.9 * br:
+        raise ValueError(
+            f"magnet grade {grade.name!r}: squareness {grade.squareness:g} is too low for its recoil "
+            f"permeability {grade.recoil_permeability:g}; the recoil line alone falls below 0.9·Br "
+            "before Hk (raise squareness or lower recoil_permeability)"
+        )
+    amplitude = br - recoil_slope * hcj
+
+    def miss(ratio: float) -> float:
+        return float(_knee_drop(hk, hcj, amplitude, ratio * hcj)) - (j_recoil_at_hk - 0.9 * br)
+
+    return float(brentq(miss, 1e-4, 10.0, xtol=1e-14))
 
 
 #: The knee used by the demagnetization checks: where the intrinsic curve has fallen this fraction of
@@ -350,12 +256,12 @@ def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTe
     Raises
     ------
     ValueError
-        If the grade's squareness cannot be reached (see :attr:`MagnetGrade.knee_width_ratio`).
+        If the grade's squareness cannot be reached (see :func:`knee_width_ratio`).
     """
     br = remanence_at(grade, temperature_C)
     hcj = intrinsic_coercivity_at(grade, temperature_C)
     recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
-    return CurveAtTemperature(br, hcj, recoil_slope, br - recoil_slope * hcj, grade.knee_width_ratio * hcj)
+    return CurveAtTemperature(br, hcj, recoil_slope, br - recoil_slope * hcj, knee_width_ratio(grade) * hcj)
 
 
 def polarization(grade: MagnetGrade, field_strength: float | np.ndarray,
@@ -537,23 +443,10 @@ def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: in
     )
 
 
-def require_ambient_inside_model(grade: MagnetGrade, ambient_min_C: float, ambient_max_C: float) -> None:
-    """Refuse an ambient range that reaches past where the grade's temperature coefficients hold.
-
-    Parameters
-    ----------
-    grade : MagnetGrade
-        The magnet grade.
-    ambient_min_C, ambient_max_C : float
-        The ambient range [°C].
-
-    Raises
-    ------
-    MagneticCircuitError
-        Naming the range and the grade's model range (:func:`model_temperature_range_C`).
-    """
-    low_C, high_C = model_temperature_range_C(grade)
-    if not (low_C < ambient_min_C and ambient_max_C < high_C):
-        raise MagneticCircuitError(
-            f"the ambient range {ambient_min_C:g} to {ambient_max_C:g} °C is outside the range where "
-            f"{grade.name}'s temperature coefficients hold ({low_C:.0f} to {high_C:.0f} °C)")
+__all__ = [
+    "FAMILIES", "KNEE_LOSS_FRACTION", "REFERENCE_TEMPERATURE_C", "CurveAtTemperature", "DemagnetizationCurves",
+    "MagnetGrade", "curve_at", "demagnetization_curves", "energy_product_of_curve", "flux_density",
+    "intrinsic_coercivity_at", "knee_field_at", "knee_width_ratio", "linear_energy_product",
+    "model_temperature_range_C", "normal_coercivity_at", "polarization", "remanence_at",
+    "require_ambient_inside_model", "squareness_field_at",
+]

@@ -45,6 +45,7 @@ COMPLETE_MODULES = (
     "pmdc_sizer.core.library",
     "pmdc_sizer.core.loadings",
     "pmdc_sizer.core.magnetic_circuit",
+    "pmdc_sizer.core.magnet_grades",
     "pmdc_sizer.core.magnets",
     "pmdc_sizer.core.mass",
     "pmdc_sizer.core.performance",

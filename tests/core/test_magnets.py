@@ -211,7 +211,7 @@ def test_model_temperature_range():
 def test_squareness_too_low_for_the_recoil_line_is_refused():
     grade = dataclasses.replace(LINEAR, recoil_permeability=1.3, squareness=0.9)
     with pytest.raises(ValueError, match="squareness"):
-        grade.knee_width_ratio
+        mg.knee_width_ratio(grade)
 
 
 def test_demagnetization_curves_for_charts():

@@ -1,0 +1,167 @@
+"""Permanent-magnet grades: their typical data at 20 °C and how Br and HcJ move with temperature.
+
+Temperature: Br(T) = Br20 (1 + α (T - 20 °C)) and HcJ(T) = HcJ20 (1 + β (T - 20 °C)), the reversible
+coefficients as suppliers state them (IEC 60404-8-1 gives them per grade family). Hard ferrite has
+β > 0, so its knee moves toward the operating region when cold; NdFeB has β < 0 and loses its knee
+margin when hot. The demagnetization curves built from these are in :mod:`magnets`.
+
+References
+----------
+.. [1] IEC 60404-5, Magnetic materials, part 5: permanent magnet (magnetically hard) materials, methods
+   of measurement of magnetic properties (the quantities Br, HcB, HcJ, (BH)max, μrec).
+.. [2] IEC 60404-8-1, Magnetic materials, part 8-1: specifications for individual materials,
+   magnetically hard materials (grade families and their reversible temperature coefficients).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from functools import lru_cache
+
+import numpy as np
+
+from .errors import MagneticCircuitError
+from .units import MU_0
+
+REFERENCE_TEMPERATURE_C = 20.0
+
+FAMILIES = (
+    "sintered NdFeB",
+    "bonded NdFeB",
+    "SmCo 1:5",
+    "SmCo 2:17",
+    "hard ferrite, isotropic",
+    "hard ferrite, anisotropic",
+    "AlNiCo",
+)
+
+
+@dataclass(frozen=True)
+class MagnetGrade:
+    """A magnet grade's typical properties at 20 °C, in SI units.
+
+    Equality and hashing ignore ``custom``, so a user's copy of a built-in grade is the same grade.
+    """
+
+    name: str  #: the grade designation, e.g. "Y30BH"
+    family: str  #: one of :data:`FAMILIES`
+    remanence: float  #: Br [T]
+    coercivity_hcb: float  #: HcB, normal coercivity [A/m], positive
+    coercivity_hcj: float  #: HcJ, intrinsic coercivity [A/m], positive
+    energy_product: float  #: (BH)max [J/m³]
+    recoil_permeability: float  #: μrec, relative [1]
+    squareness: float  #: Hk/HcJ [1]
+    remanence_temp_coeff: float  #: α of Br [1/K], reversible
+    coercivity_temp_coeff: float  #: β of HcJ [1/K], reversible
+    max_working_temperature_C: float  #: supplier's maximum working temperature [°C]
+    density: float  #: [kg/m³]
+    source: str = ""  #: where the values come from ("from memory" where they are recalled)
+    custom: bool = field(default=False, compare=False)  #: a user's grade rather than a built-in one
+
+
+def remanence_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
+    """Remanence at a temperature, Br(T) = Br20·(1 + α·(T - 20 °C)), with the reversible coefficient α.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The grade, with Br at 20 °C and α.
+    temperature_C : float or ndarray
+        Magnet temperature [°C].
+
+    Returns
+    -------
+    float or ndarray
+        Br [T].
+
+    References
+    ----------
+    .. [1] IEC 60404-8-1 (the linear reversible temperature coefficient, stated per grade family).
+    """
+    return grade.remanence * (1.0 + grade.remanence_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C))
+
+
+def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
+    """Intrinsic coercivity at a temperature, HcJ(T) = HcJ20·(1 + β·(T - 20 °C)).
+
+    β is positive for hard ferrite (its knee moves in when cold) and negative for NdFeB and SmCo.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The grade, with HcJ at 20 °C and β.
+    temperature_C : float or ndarray
+        Magnet temperature [°C].
+
+    Returns
+    -------
+    float or ndarray
+        HcJ [A/m], positive.
+
+    References
+    ----------
+    .. [1] IEC 60404-8-1 (the linear reversible temperature coefficient, stated per grade family).
+    """
+    return grade.coercivity_hcj * (
+        1.0 + grade.coercivity_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C)
+    )
+
+
+@lru_cache(maxsize=256)
+def model_temperature_range_C(grade: MagnetGrade) -> tuple[float, float]:  # noqa: N802 - unit suffix (°C)
+    """Temperatures between which the curve model means something.
+
+    The bound is ours: the linear reversible coefficients keep Br and HcJ above a quarter of their 20 °C
+    values, and the recoil line still stands clear of zero at -HcJ (A = Br - μ0·(μrec - 1)·HcJ at
+    least 5 % of Br), so the knee exists.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The grade.
+
+    Returns
+    -------
+    tuple of float
+        Lowest and highest temperature [°C], on a 0.5 K grid, of the interval around 20 °C where the
+        bound holds.
+
+    References
+    ----------
+    .. [1] the project's own bound on its curve model (no published source)
+    """
+    temperatures = np.arange(-273.0, 1000.5, 0.5)
+    br = remanence_at(grade, temperatures)
+    hcj = intrinsic_coercivity_at(grade, temperatures)
+    amplitude = br - MU_0 * (grade.recoil_permeability - 1.0) * hcj
+    valid = (br > 0.25 * grade.remanence) & (hcj > 0.25 * grade.coercivity_hcj) & (amplitude > 0.05 * br)
+    reference = int(np.searchsorted(temperatures, REFERENCE_TEMPERATURE_C))
+    low_index = reference
+    while low_index > 0 and valid[low_index - 1]:
+        low_index -= 1
+    high_index = reference
+    while high_index < temperatures.size - 1 and valid[high_index + 1]:
+        high_index += 1
+    return float(temperatures[low_index]), float(temperatures[high_index])
+
+
+def require_ambient_inside_model(grade: MagnetGrade, ambient_min_C: float, ambient_max_C: float) -> None:
+    """Refuse an ambient range that reaches past where the grade's temperature coefficients hold.
+
+    Parameters
+    ----------
+    grade : MagnetGrade
+        The magnet grade.
+    ambient_min_C, ambient_max_C : float
+        The ambient range [°C].
+
+    Raises
+    ------
+    MagneticCircuitError
+        Naming the range and the grade's model range (:func:`model_temperature_range_C`).
+    """
+    low_C, high_C = model_temperature_range_C(grade)
+    if not (low_C < ambient_min_C and ambient_max_C < high_C):
+        raise MagneticCircuitError(
+            f"the ambient range {ambient_min_C:g} to {ambient_max_C:g} °C is outside the range where "
+            f"{grade.name}'s temperature coefficients hold ({low_C:.0f} to {high_C:.0f} °C)")
