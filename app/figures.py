@@ -51,8 +51,9 @@ class Figure:
         return number_text(value_si, unit or self.unit, self.digits if digits is None else digits)
 
     def label(self, unit: str | None = None) -> str:
-        """The title with the unit, e.g. "Stall torque [mN·m]"."""
-        return f"{self.title} [{unit_label(unit or self.unit)}]"
+        """The title with the unit, e.g. "Stall torque [mN·m]"; a pure number's title alone."""
+        unit = unit or self.unit
+        return self.title if unit == "1" else f"{self.title} [{unit_label(unit)}]"
 
 
 _UNITS = frozenset(known_units())
@@ -106,7 +107,7 @@ FIGURES: dict[str, Figure] = {
     "brush_drop_V": _f("Brush drop (both brushes)", "V"),
     "load_torque_N_m": _f("Rated torque", "mN·m"),
     "load_speed_rad_per_s": _f("Required speed at rated torque", "rpm"),
-    "drive_current_limit_A": _f("Drive current limit", "A"),
+    "current_limit_A": _f("Drive current limit", "A"),
     # Each temperature case
     "case.ambient_C": _f("Ambient", "°C"),
     "case.winding_temperature_C": _f("Winding temperature", "°C"),
@@ -152,6 +153,7 @@ FIGURES: dict[str, Figure] = {
     "magnet.knee_field_A_per_m": _f("Knee field", "kA/m"),
     "magnet.max_working_temperature_C": _f("Maximum working temperature", "°C"),
     # Magnetic circuit (nominal, no load)
+    "magnetics.temperature_C": _f("Magnet temperature", "°C"),
     "magnetics.flux_per_pole_Wb": _f("Flux per pole", "mWb"),
     "magnetics.airgap_flux_density_T": _f("Air-gap flux density", "T"),
     "magnetics.magnet_flux_density_T": _f("Operating point Bm", "T"),
@@ -168,8 +170,8 @@ FIGURES: dict[str, Figure] = {
     "magnet_chart_case.operating_field_A_per_m": _f("Operating point Hm", "kA/m"),
     "magnet_chart_case.permeance_coefficient": _f("Permeance coefficient", "1"),
     "magnet_chart_case.curves.knee_field": _f("Knee field", "kA/m"),
-    "magnet_chart.field_strength_A_per_m": _f("Field strength H", "kA/m"),
-    "magnet_chart.flux_density_T": _f("Flux density B, polarization J", "T"),
+    "magnet_chart_case.curves.field_strength": _f("Field strength H", "kA/m"),
+    "magnet_chart_case.curves.flux_density": _f("Flux density B, polarization J", "T"),
     # Demagnetization
     "demagnetization.worst_margin_A_per_m": _f("Least margin to the knee", "kA/m"),
     "demagnetization_case.temperature_C": _f("Magnet temperature", "°C"),
@@ -236,6 +238,7 @@ LABELS: dict[str, str] = {
     "thermal.duty": "Duty type (IEC 60034-1)",
     "thermal.insulation_class": "Insulation class (IEC 60085)",
     "thermal.converged": "Thermal solution",
+    "reversing": "Reversed at speed",
     "demagnetization_case.name": "Case",
     "demagnetization_case.ok": "Result",
 }
@@ -360,6 +363,10 @@ MARKERS: dict[str, tuple[str, str]] = {
 }
 
 
+#: A line sample of each dash, written as text (for keys and legends in rich text).
+DASH_GLYPHS: dict[str, str] = {"solid": "━━━", "dash": "╍╍╍", "dot": "┈┈┈", "dash_dot": "━·━"}
+
+
 @dataclass(frozen=True)
 class LineStyle:
     title: str
@@ -441,14 +448,17 @@ STATUSES: dict[str, StatusStyle] = {
 class SideStyle:
     colour: str
     dash: str
-    line_glyph: str  #: a line sample written as text
     size: float  #: of its marks: A's larger, so B's at the same point still lets it show
+
+    @property
+    def line_glyph(self) -> str:
+        return DASH_GLYPHS[self.dash]
 
 
 #: A solid in slate, B dashed in teal: told apart by colour and by line, also in grey print.
 SIDES: dict[str, SideStyle] = {
-    "A": SideStyle("#334155", "solid", "━━━", 1.25),
-    "B": SideStyle("#0d9488", "dash", "╍╍╍", 0.8),
+    "A": SideStyle("#334155", "solid", 1.25),
+    "B": SideStyle("#0d9488", "dash", 0.8),
 }
 
 
@@ -462,8 +472,8 @@ CASE_POINTS: dict[str, str] = {"rated": "rated", "best_efficiency": "max_efficie
 
 
 def drive_current_limit(results) -> float | None:
-    """The drive's current limit [A], as the demagnetization case at that limit carries it; None without."""
-    return next((c.current_A for c in results.demagnetization.cases if c.kind == "current limit"), None)
+    """The drive's current limit [A], or None for a plain supply."""
+    return results.current_limit_A
 
 
 def qt_pen_style(dash: str):
@@ -472,3 +482,20 @@ def qt_pen_style(dash: str):
 
     return {"solid": Qt.PenStyle.SolidLine, "dash": Qt.PenStyle.DashLine, "dot": Qt.PenStyle.DotLine,
             "dash_dot": Qt.PenStyle.DashDotLine}[dash]
+
+
+# ----------------------------------------------------------------------------------------------
+# The field solution's picture (app/field_picture.py): the same colours on screen, in --png and on paper.
+
+#: |B| in the iron, from white through straw and orange to a deep red at saturation, so that the
+#: saturated parts stand out and the picture still reads in grey.
+FIELD_MAX_FLUX_DENSITY_T = 2.2
+FIELD_FLUX_DENSITY_STOPS: tuple[tuple[float, str], ...] = (
+    (0.0, "#fbfbf6"), (0.35, "#f3e3a1"), (0.6, "#e8a34a"), (0.8, "#c8532c"), (1.0, "#6e1423"),
+)
+#: Magnets by their margin to the knee as a share of |H_knee|: past the knee in the failure colour,
+#: little margin amber, ample margin the safe green.
+FIELD_KNEE_MARGIN_STOPS: tuple[tuple[float, str], ...] = (
+    (0.0, FAIL_COLOUR), (0.12, WARNING_COLOUR), (0.4, "#8fbf8f"), (1.0, SAFE_COLOUR),
+)
+FIELD_FLUX_LINE_COLOUR = "#1f2a44"

@@ -9,7 +9,7 @@ Extension points (names kept stable for other modules):
 ``MainWindow.current_project``
     The design shown, a ``core.project.Project`` (includes a spin-box drag in progress).
 ``MainWindow.current_results``
-    The ``core.evaluate.Results`` of the last evaluation, or None while the design has no solution.
+    The ``pmdc_sizer.core.results.Results`` of the last evaluation, or None while the design has no solution.
 ``MainWindow.results_ready``
     Qt signal ``(project, results)`` emitted after every successful evaluation, once the window's own
     views show it (from the event loop, right after their paint).
@@ -29,6 +29,7 @@ offscreen to that PNG and returns (2 with one line on stderr when the file canno
 
 from __future__ import annotations
 
+import html
 import os
 import sys
 from pathlib import Path
@@ -48,11 +49,12 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from pmdc_sizer.app.safety import CAUTIONS
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import Project, ProjectError
 
-from . import compare_view, export_dialog
+from . import compare_view, export_dialog, field_view
 from .cross_section import CrossSection
 from .display_units import DisplayUnits
 from .editor import DesignEditor
@@ -72,22 +74,7 @@ PAGE_MAGNET = "Magnet operating chart"
 PAGE_PERFORMANCE = "Performance curves"
 PAGE_SECTION = "Cross-section"
 PAGE_COMPARE = "Compare designs"
-
-SAFETY_CAUTIONS = (
-    "<ul>"
-    "<li><b>Strong magnets</b> pull together hard enough to pinch fingers and can shatter, throwing sharp "
-    "fragments; wear eye protection, keep them apart, and keep them away from anyone with a pacemaker or "
-    "other implanted medical device, and from magnetic media.</li>"
-    "<li><b>A stalled motor overheats</b>: stall current flows with no cooling air; fuse or limit it.</li>"
-    "<li><b>Batteries and supplies deliver currents that burn</b>: short circuits weld tools, heat wires and "
-    "start fires. Fuse the supply and insulate before you connect.</li>"
-    "<li><b>Results are engineering estimates</b> from typical material data and simplified models; confirm "
-    "every design by test on real parts before you rely on it.</li>"
-    "<li>Follow your local codes and standards and defer to licensed professional practice for any "
-    "installation, certification or safety decision.</li>"
-    "</ul>"
-)
-
+PAGE_FIELD = "Field solution"
 
 def demo_templates() -> list[Path]:
     return sorted(DEMO_FOLDER.glob("*.toml")) if DEMO_FOLDER.is_dir() else []
@@ -175,6 +162,8 @@ class MainWindow(QMainWindow):
         self.setCentralWidget(splitter)
         self.compare_view = compare_view.CompareView(self)
         self.add_page(PAGE_COMPARE, self.compare_view)
+        self.field_view = field_view.FieldView(self)
+        self.add_page(PAGE_FIELD, self.field_view)
 
     @staticmethod
     def _titled(title: str, widget: QWidget) -> QWidget:
@@ -515,7 +504,9 @@ def about_text() -> str:
         "<p>Sizing of brushed permanent-magnet DC motors: the magnet's load line and demagnetization "
         "margins, flux per pole, Ke and Kt, speed-torque curves at the coldest, nominal and hottest "
         "temperatures, winding temperature, mass and material cost.</p>"
-        f"<p><b>Safety</b></p>{SAFETY_CAUTIONS}"
+        "<p><b>Safety</b></p><ul>"
+        + "".join(f"<li><b>{html.escape(lead)}</b> {html.escape(rest)}</li>" for lead, rest in CAUTIONS)
+        + "</ul>"
     )
 
 
