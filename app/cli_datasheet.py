@@ -5,7 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from .cli_inputs import evaluate_project, load_project
-from .errors import CommandError
+from .errors import EXIT_NO_SOLUTION, CommandError
 
 
 def cmd_datasheet(args) -> int:
@@ -16,7 +16,17 @@ def cmd_datasheet(args) -> int:
         raise CommandError(f"{args.charts}: the chart folder does not exist")
     project = load_project(args.file, args.set)
     results = evaluate_project(project)
-    kind = datasheet.export(project, results, args.output)
+    appendix = ()
+    if args.with_field:
+        from pmdc_sizer.core.field import FieldConvergenceError, FieldInputError
+
+        try:
+            appendix = datasheet.field_appendix(project, results)
+        except FieldInputError as error:
+            raise CommandError(f"--with-field: {error}") from None
+        except FieldConvergenceError as error:
+            raise CommandError(f"--with-field: {error}", status=EXIT_NO_SOLUTION) from None
+    kind = datasheet.export(project, results, args.output, appendix=appendix)
     print(f"wrote the {kind} datasheet to {args.output}")
     if args.charts is not None:
         for path in datasheet.write_charts(results, args.charts, Path(args.output).stem):
@@ -32,6 +42,9 @@ def register(subparsers) -> None:
     p.add_argument("-o", "--output", required=True, metavar="OUT.pdf|OUT.html", help="the datasheet file to write")
     p.add_argument("--charts", metavar="DIR",
                    help="also write the performance and magnet charts as PNG and SVG into this folder")
+    p.add_argument("--with-field", action="store_true",
+                   help="add an appendix page with the built-in field solution (no load and the worst "
+                        "demagnetization case) and its agreement with the sheet's figures")
     p.add_argument("--set", action="append", default=[], metavar="KEY=VALUE",
                    help="override a key for this run, e.g. --set magnets.thickness_mm=4.5 (repeatable)")
     p.set_defaults(handler=cmd_datasheet)

@@ -4,7 +4,8 @@
     datasheet.export(project, results, "motor.pdf")          # or .html
     datasheet.write_charts(results, "charts/", "motor")      # motor_performance.png/.svg, motor_magnet.png/.svg
 
-Every file is written atomically: to a temporary file in the same folder, then renamed over the
+Every file is written atomically and checked before it replaces anything (``app/files.py``,
+``app/export_checks.py``): to a temporary file in the same folder, read back and parsed, then renamed over the
 target, so a failure leaves no partial file. Errors are :class:`app.errors.CommandError` with one line.
 """
 
@@ -14,10 +15,11 @@ import datetime as _dt
 import os
 from pathlib import Path
 
-from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.project import Project
+from pmdc_sizer.core.results import Results
 
 from ..errors import CommandError
+from ..export_checks import check_html, check_pdf, check_png, check_svg
 from ..files import atomic_output, write_bytes_atomically, write_text_atomically
 
 FORMATS = {".pdf": "PDF", ".html": "HTML", ".htm": "HTML"}
@@ -45,32 +47,45 @@ def format_of(path: str | os.PathLike) -> str:
     return FORMATS[suffix]
 
 
-def build(project: Project, results: Results, issued: _dt.date | None = None):
+def build(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = ()):
     from .content import build as build_content
 
-    return build_content(project, results, issued)
+    return build_content(project, results, issued, appendix)
 
 
-def html_text(project: Project, results: Results, issued: _dt.date | None = None) -> str:
+def html_text(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = ()) -> str:
     ensure_qt()
     from .document import browser_html
 
-    return browser_html(build(project, results, issued), results)
+    return browser_html(build(project, results, issued, appendix), results)
 
 
-def export(project: Project, results: Results, path: str | os.PathLike, issued: _dt.date | None = None) -> str:
-    """Write the datasheet to ``path`` as PDF or HTML (from the extension); returns the format."""
+def export(project: Project, results: Results, path: str | os.PathLike, issued: _dt.date | None = None,
+           appendix: tuple = ()) -> str:
+    """Write the datasheet to ``path`` as PDF or HTML (from the extension); returns the format.
+
+    ``appendix``: sections added at the end (:func:`field_appendix` makes the field solution's).
+    """
     kind = format_of(path)
     ensure_qt()
     if kind == "HTML":
-        write_text_atomically(path, html_text(project, results, issued))
+        write_text_atomically(path, html_text(project, results, issued, appendix), verify=check_html)
         return kind
     from .document import write_pdf_file
 
-    sheet = build(project, results, issued)
-    with atomic_output(path) as temporary:
-        write_pdf_file(sheet, results, temporary)
+    sheet = build(project, results, issued, appendix)
+    pages: list[int] = []  # the written file must parse, with as many pages as were painted
+    with atomic_output(path, verify=lambda written: check_pdf(written, pages[0] if pages else None)) as temporary:
+        pages.append(write_pdf_file(sheet, results, temporary))
     return kind
+
+
+def field_appendix(project: Project, results: Results) -> tuple:
+    """The field-solution appendix of a design (solves no load and the worst demagnetization case)."""
+    ensure_qt()
+    from .field_appendix import appendix_section, field_solutions
+
+    return (appendix_section(results, field_solutions(project, results)),)
 
 
 def preview_pages(project: Project, results: Results, dots_per_inch: float = 96.0, issued: _dt.date | None = None):
@@ -89,9 +104,9 @@ def write_chart(results: Results, name: str, path: str | os.PathLike) -> None:
 
     suffix = Path(path).suffix.lower()
     if suffix == ".svg":
-        write_text_atomically(path, charts.chart_svg(name, results, f"{results.name}: {name} chart"))
+        write_text_atomically(path, charts.chart_svg(name, results, f"{results.name}: {name} chart"), verify=check_svg)
     elif suffix == ".png":
-        write_bytes_atomically(path, charts.chart_png(name, results))
+        write_bytes_atomically(path, charts.chart_png(name, results), verify=check_png)
     else:
         raise CommandError(f"{path}: unknown chart format {suffix or '(no extension)'!r}; use .png or .svg")
 

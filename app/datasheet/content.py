@@ -1,7 +1,7 @@
 """What the datasheet says, as plain tables of formatted text; the HTML and PDF writers only lay it out.
 
-Every number is formatted here through :mod:`app.formatting`: three significant figures, two for the
-estimates (inductance and time constants), temperatures to the degree. Nothing is computed here
+Every figure's title, unit and significant figures come from :mod:`app.figures` (two figures for the
+estimates, temperatures to the degree), the cautions from :mod:`app.safety`. Nothing is computed here
 except unit conversions and picking values out of the results.
 """
 
@@ -10,31 +10,14 @@ from __future__ import annotations
 import datetime as _dt
 from dataclasses import dataclass, field
 
-from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.magnets import KNEE_LOSS_FRACTION
 from pmdc_sizer.core.project import Project
-from pmdc_sizer.core.units import from_si
+from pmdc_sizer.core.results import Results
 
-from ..formatting import money, percent, quantity as q, ratio, significant, temperature
-from .charts import demagnetization_point_labels, torque_unit
-
-ESTIMATE_DIGITS = 2
-
-STATUS_WORDS = {"pass": "pass", "warning": "warning", "fail": "FAIL"}
-
-CAUTIONS = (
-    "Strong permanent magnets pinch fingers and can shatter into sharp splinters when they snap together; "
-    "their fields can disturb pacemakers and other implanted medical devices. Handle magnetized parts with "
-    "care, keep them apart, and keep them away from people with implants.",
-    "A stalled motor draws its stall current and overheats within seconds to minutes: fit overcurrent and "
-    "overtemperature protection sized for the stall current given on this sheet.",
-    "Batteries and supplies can deliver currents that burn skin, melt conductors and start fires. Size "
-    "wiring, fuses and switches for the stall current, and insulate terminals before connecting.",
-    "Every figure on this sheet is an engineering estimate from a model of the design; confirm it by test "
-    "on a prototype before release.",
-    "Installation, protection and safety must follow local codes and licensed practice, which take "
-    "precedence over anything on this sheet.",
-)
+from ..figures import LABELS, STATUSES, figure, text_of, unit_for, value_of
+from ..formatting import unit_label
+from ..safety import caution_sentences
+from .charts import demagnetization_point_labels
 
 TERMINAL_ROWS = (
     ("A1", "armature terminal; positive for the rotation stated below"),
@@ -83,6 +66,15 @@ class Chart:
 
 
 @dataclass(frozen=True)
+class Picture:
+    """A picture made elsewhere (the field solution's), carried as PNG bytes."""
+
+    name: str  #: unique within the sheet; the resource name in the paged document
+    png: bytes = field(repr=False)
+    caption: str = ""
+
+
+@dataclass(frozen=True)
 class Paragraph:
     text: str
     kind: str = ""  #: "", "note", "strong", "caution"
@@ -116,11 +108,11 @@ def _kv(rows, caption: str = "", title: str = "", key: str = "") -> Table:
 
 
 def _case_header(results: Results) -> tuple[str, ...]:
-    return ("",) + tuple(c.name for c in results.cases)
+    return ("", *tuple(c.name for c in results.cases))
 
 
 def _per_case(label: str, values) -> Row:
-    return Row((label,) + tuple(values))
+    return Row((label, *tuple(values)))
 
 
 NOT_REACHED = "stalls"
@@ -131,122 +123,130 @@ def rated(case, text: str) -> str:
     return text if case.rated_reached else NOT_REACHED
 
 
+def _shown(source, key: str, results: Results, unit: str | None = None) -> str:
+    return text_of(source, key, unit or unit_for(key, results))
+
+
+def _case_rows(results: Results, *keys: str) -> list[Row]:
+    """A row per key of a temperature case (and one per further unit the figure is given in)."""
+    rows = []
+    for key in keys:
+        item = figure(key)
+        is_rated = key.startswith("case.rated.")
+        for unit in (unit_for(key, results), *item.also):
+            title = item.title if unit == unit_for(key, results) else f"{item.title} in {unit_label(unit)}"
+            rows.append(_per_case(title, (rated(c, _shown(c, key, results, unit)) if is_rated
+                                          else _shown(c, key, results, unit) for c in results.cases)))
+    return rows
+
+
+def _figure_rows(results: Results, *keys: str, source=None) -> list[tuple[str, str]]:
+    """(title, text) for each key of the results (or of ``source``)."""
+    return [(figure(key).title, _shown(results if source is None else source, key, results)) for key in keys]
+
+
 def performance_table(results: Results) -> Table:
     r = results
     limit = r.current_limit_A
-    unit = torque_unit(r)
-    cases = r.cases
     rows = [
         Row(("Temperatures",), "group"),
-        _per_case("Ambient", (temperature(c.ambient_C) for c in cases)),
-        _per_case("Winding", (temperature(c.winding_temperature_C) for c in cases)),
-        _per_case("Magnet", (temperature(c.magnet_temperature_C) for c in cases)),
+        *_case_rows(r, "case.ambient_C", "case.winding_temperature_C", "case.magnet_temperature_C"),
         Row(("No load",), "group"),
-        _per_case("No-load speed", (q(c.no_load_speed_rad_per_s, "rpm") for c in cases)),
-        _per_case("No-load current", (q(c.no_load_current_A, "A") for c in cases)),
-        Row((f"Rated load, {q(r.load_torque_N_m, unit)} (required speed {q(r.load_speed_rad_per_s, 'rpm')} or more)",),
-            "group"),
-        _per_case("Speed", (rated(c, q(c.rated.speed_rad_per_s, "rpm")) for c in cases)),
-        _per_case("Current", (rated(c, q(c.rated.current_A, "A")) for c in cases)),
-        _per_case("Output power", (rated(c, q(c.rated.output_power_W, "W")) for c in cases)),
-        _per_case("Efficiency", (rated(c, percent(c.rated.efficiency)) for c in cases)),
-        _per_case("Load met", ("yes" if c.meets_load else "NO" for c in cases)),
+        *_case_rows(r, "case.no_load_speed_rad_per_s", "case.no_load_current_A"),
+        Row((f"Rated load, {_shown(r, 'load_torque_N_m', r)} (required speed {_shown(r, 'load_speed_rad_per_s', r)} "
+             "or more)",), "group"),
+        *_case_rows(r, "case.rated.speed_rad_per_s", "case.rated.current_A", "case.rated.output_power_W",
+                    "case.rated.efficiency"),
+        _per_case("Load met", ("yes" if c.meets_load else "NO" for c in r.cases)),
         Row(("At stall" if limit is None else "At stall, and where the drive limits the current",), "group"),
-        _per_case("Stall torque", (q(c.stall_torque_N_m, unit) for c in cases)),
-        _per_case("Stall current", (q(c.stall_current_A, "A") for c in cases)),
+        *_case_rows(r, "case.stall_torque_N_m", "case.stall_current_A"),
     ]
     if limit is not None:
-        rows.append(_per_case(f"Torque at the {q(limit, 'A')} drive limit", (
-            q(c.current_limit_torque_N_m, unit) if c.current_limit_torque_N_m is not None else "limit above stall"
-            for c in cases)))
+        key = "case.current_limit_torque_N_m"
+        rows.append(_per_case(f"{figure(key).title} ({_shown(r, 'current_limit_A', r)})", (
+            _shown(c, key, r) if c.current_limit_torque_N_m is not None else "limit above stall" for c in r.cases)))
     rows += [
         Row(("Best points",), "group"),
-        _per_case("Maximum efficiency", (percent(c.max_efficiency) for c in cases)),
-        _per_case("Torque at maximum efficiency", (q(c.max_efficiency_point.torque_N_m, unit) for c in cases)),
-        _per_case("Maximum output power", (q(c.max_output_power_W, "W") for c in cases)),
-        _per_case("Torque at maximum power", (q(c.max_power_point.torque_N_m, unit) for c in cases)),
+        *_case_rows(r, "case.max_efficiency", "case.max_efficiency_point.torque_N_m", "case.max_output_power_W",
+                    "case.max_power_point.torque_N_m"),
         Row(("Constants",), "group"),
-        _per_case("Back-EMF constant Ke", (q(c.ke_V_s_per_rad, "V/krpm") for c in cases)),
-        _per_case("Ke", (q(c.ke_V_s_per_rad, "V·s/rad") for c in cases)),
-        _per_case("Torque constant Kt", (q(c.ke_V_s_per_rad, "mN·m/A") for c in cases)),
-        _per_case("Terminal resistance", (q(c.terminal_resistance_ohm, "ohm") for c in cases)),
-        _per_case("Speed-torque gradient", (ratio(c.speed_torque_gradient_rad_per_s_per_N_m, "rpm", unit) for c in cases)),
-        _per_case("Flux per pole", (q(c.flux_per_pole_Wb, "mWb") for c in cases)),
+        *_case_rows(r, "case.ke_V_s_per_rad", "case.kt_N_m_per_A", "case.terminal_resistance_ohm",
+                    "case.speed_torque_gradient_rad_per_s_per_N_m", "case.flux_per_pole_Wb"),
     ]
     return Table(_case_header(r), tuple(rows), widths=(40, 20, 20, 20),
-                 caption="Kt equals Ke in SI units. The stall figures ignore any drive current limit.", key="performance_table")
+                 caption="Kt equals Ke in SI units. The stall figures ignore any drive current limit.",
+                 key="performance_table")
 
 
 def electrical_table(results: Results) -> Table:
-    r, c = results, results.constants
+    r = results
     limit = r.current_limit_A
     rows = [
-        ("Supply voltage", q(r.supply_voltage_V, "V")),
-        ("Brush drop (both brushes)", q(r.brush_drop_V, "V")),
-        ("Drive current limit", q(limit, "A") if limit is not None else "none (plain supply)"),
-        ("Reversed at speed", "yes" if r.reversing else "no"),
-        ("Terminal resistance at 20 °C", q(r.winding.resistance_20C_ohm, "ohm")),
-        ("Armature inductance (estimate)", q(c.inductance_H_estimate, "mH", ESTIMATE_DIGITS)),
-        ("Electrical time constant (estimate)", q(c.electrical_time_constant_s_estimate, "ms", ESTIMATE_DIGITS)),
-        ("Mechanical time constant (estimate)", q(c.mechanical_time_constant_s, "ms", ESTIMATE_DIGITS)),
-        ("Rotor inertia", q(c.rotor_inertia_kg_m2, "g·cm2")),
+        *_figure_rows(r, "supply_voltage_V", "brush_drop_V"),
+        (figure("current_limit_A").title, _shown(r, "current_limit_A", r) if limit is not None
+         else "none (plain supply)"),
+        (LABELS["reversing"], "yes" if r.reversing else "no"),
+        *_figure_rows(r, "winding.resistance_20C_ohm", "constants.inductance_H_estimate",
+                      "constants.electrical_time_constant_s_estimate", "constants.mechanical_time_constant_s",
+                      "constants.rotor_inertia_kg_m2"),
     ]
     return _kv(rows, caption="Time constants at the nominal temperature.", title="Electrical and mechanical",
                key="electrical")
 
 
 def magnet_tables(results: Results) -> tuple[Table, Table]:
-    m, mg = results.magnet, results.magnetics
+    r, m = results, results.magnet
+    at = f"at {_shown(r, 'magnetics.temperature_C', r)}"
     grade_rows = [
-        ("Grade", m.name),
-        ("Family", m.family),
-        ("Remanence Br at 20 °C", q(m.remanence_20C_T, "T")),
-        ("Intrinsic coercivity HcJ at 20 °C", q(m.coercivity_HcJ_20C_A_per_m, "kA/m")),
-        (f"Br at {temperature(m.temperature_C)}", q(m.remanence_T, "T")),
-        (f"HcB at {temperature(m.temperature_C)}", q(m.coercivity_HcB_A_per_m, "kA/m")),
-        (f"HcJ at {temperature(m.temperature_C)}", q(m.coercivity_HcJ_A_per_m, "kA/m")),
-        (f"Knee field at {temperature(m.temperature_C)}", q(m.knee_field_A_per_m, "kA/m")),
-        ("Maximum working temperature", temperature(m.max_working_temperature_C)),
-        ("Air-gap flux density (nominal)", q(mg.airgap_flux_density_T, "T")),
-        ("Leakage factor (nominal)", significant(mg.leakage_factor)),
+        (LABELS["magnet.name"], m.name),
+        (LABELS["magnet.family"], m.family),
+        *_figure_rows(r, "magnet.remanence_20C_T", "magnet.coercivity_HcJ_20C_A_per_m"),
+        *((f"{title} {at}", text) for title, text in _figure_rows(
+            r, "magnet.remanence_T", "magnet.coercivity_HcB_A_per_m", "magnet.coercivity_HcJ_A_per_m",
+            "magnet.knee_field_A_per_m")),
+        *_figure_rows(r, "magnet.max_working_temperature_C"),
+        *((f"{title} (nominal)", text) for title, text in _figure_rows(
+            r, "magnetics.airgap_flux_density_T", "magnetics.leakage_factor")),
     ]
-    chart = results.magnet_chart
-    point_rows = (
-        _per_case("Magnet [°C]", (f"{c.curves.temperature_C:.0f}" for c in chart)),
-        _per_case("Bm [T]", (significant(c.operating_flux_density_T) for c in chart)),
-        _per_case("Hm [kA/m]", (significant(from_si(c.operating_field_A_per_m, "kA/m")) for c in chart)),
-        _per_case("Permeance coeff.", (significant(c.permeance_coefficient) for c in chart)),
-        _per_case("Knee [kA/m]", (significant(from_si(c.curves.knee_field, "kA/m")) for c in chart)),
+    chart = r.magnet_chart
+    point_rows = tuple(
+        _per_case(figure(key).label(), (figure(key).number(value_of(c, key)) for c in chart))
+        for key in ("magnet_chart_case.curves.temperature_C", "magnet_chart_case.operating_flux_density_T",
+                    "magnet_chart_case.operating_field_A_per_m", "magnet_chart_case.permeance_coefficient",
+                    "magnet_chart_case.curves.knee_field")
     )
-    points = Table(("",) + tuple(c.name for c in chart), point_rows, widths=(37, 21, 21, 21),
+    points = Table(("", *tuple(c.name for c in chart)), point_rows, widths=(37, 21, 21, 21),
                    title="No-load operating point", key="operating_point")
     grade = _kv(grade_rows, title="Magnet grade", key="magnet_grade",
                 caption=f"Grade data: {m.source}. Confirm with the supplier's certified curves.")
     return grade, points
 
 
+DEMAGNETIZATION_KEYS = tuple(f"demagnetization_case.{name}" for name in (
+    "temperature_C", "current_A", "magnet_field_A_per_m", "knee_field_A_per_m", "margin_A_per_m"))
+
+
 def demagnetization_table(results: Results) -> Table:
     dm = results.demagnetization
     labels = demagnetization_point_labels(results)
     rows = []
-    for label, case in zip(labels, dm.cases):
+    for label, case in zip(labels, dm.cases, strict=True):
         kind = "fail" if not case.ok else ("worst" if case.name == dm.worst_case else "")
-        rows.append(Row((
-            label, case.name, temperature(case.temperature_C), q(case.current_A, "A"),
-            q(case.magnet_field_A_per_m, "kA/m"), q(case.knee_field_A_per_m, "kA/m"),
-            q(case.margin_A_per_m, "kA/m"), "safe" if case.ok else "DEMAGNETIZES",
-        ), kind))
-    return Table(("No.", "Case", "Magnet", "Current", "Tip field", "Knee", "Margin", "Status"), tuple(rows),
-                 widths=(5, 25, 9, 9, 12, 12, 12, 16), numeric_from=2, numeric_until=7, key="demagnetization",
-                 caption="Margin is the field at the magnet's most exposed tip minus the knee field; positive is safe. "
-                         "The knee is where the magnet starts to lose flux for good: its intrinsic curve has fallen "
-                         f"{KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
+        rows.append(Row((label, case.name, *(_shown(case, key, results) for key in DEMAGNETIZATION_KEYS),
+                         "safe" if case.ok else "DEMAGNETIZES"), kind))
+    header = ("No.", LABELS["demagnetization_case.name"], *(figure(key).title for key in DEMAGNETIZATION_KEYS),
+              LABELS["demagnetization_case.ok"])
+    return Table(header, tuple(rows),
+                 widths=(4, 26, 14, 8, 13, 11, 13, 11), numeric_from=2, numeric_until=8, key="demagnetization",
+                 caption="The margin is the field at the magnet's most exposed tip minus the knee field; positive is "
+                         "safe. The knee is where the magnet starts to lose flux for good: its intrinsic curve has "
+                         f"fallen {KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
                          "The numbers mark the cases on the magnet chart.")
 
 
 def worst_case_sentence(results: Results) -> str:
     dm = results.demagnetization
-    margin = q(dm.worst_margin_A_per_m, "kA/m")
+    margin = _shown(results, "demagnetization.worst_margin_A_per_m", results)
     if dm.ok:
         return f"Worst case: {dm.worst_case}, margin {margin} to the knee. Every case is safe."
     failing = sum(1 for c in dm.cases if not c.ok)
@@ -255,70 +255,50 @@ def worst_case_sentence(results: Results) -> str:
 
 
 def thermal_table(results: Results) -> Table:
-    t = results.thermal
+    r, t = results, results.thermal
     duty = "S1, continuous" if t.duty == "S1" else f"S2, {t.duty_minutes:g} min"
-    winding_label = "Winding temperature, steady" if t.duty == "S1" else "Winding temperature, end of run"
+    winding = figure("thermal.winding_temperature_C").title
+    winding_label = f"{winding}, steady" if t.duty == "S1" else f"{winding}, end of the run"
     if not t.converged:
-        winding_label = "Winding temperature (no steady state: shown at the class limit)"
+        winding_label = f"{winding} (no steady state: shown at the class limit)"
     rows = [
-        ("Highest ambient", temperature(t.ambient_C)),
-        ("Duty type (IEC 60034-1)", duty),
-        ("Losses at the rated load, hot", q(t.losses_W, "W")),
-        (winding_label, temperature(t.winding_temperature_C)),
+        *_figure_rows(r, "thermal.ambient_C"),
+        (LABELS["thermal.duty"], duty),
+        *_figure_rows(r, "thermal.losses_W"),
+        (winding_label, _shown(r, "thermal.winding_temperature_C", r)),
     ]
     if t.duty != "S1":
-        rows.append(("Winding temperature if run on (S1)", temperature(t.steady_winding_temperature_C)))
+        rows += _figure_rows(r, "thermal.steady_winding_temperature_C")
     rows += [
-        ("Housing temperature", temperature(t.housing_temperature_C)),
-        ("Magnet temperature", temperature(t.magnet_temperature_C)),
-        ("Magnet working limit", temperature(t.magnet_limit_C)),
-        ("Insulation class (IEC 60085)", t.insulation_class),
-        ("Insulation temperature limit", temperature(t.insulation_limit_C)),
-        ("Thermal resistance winding to housing", q(t.winding_to_housing_K_per_W, "K/W")),
-        ("Thermal resistance housing to ambient", q(t.housing_to_ambient_K_per_W, "K/W")),
-        ("Thermal time constant", q(t.thermal_time_constant_s, "min")),
-        ("Thermal solution", "converged" if t.converged else "NO STEADY STATE"),
+        *_figure_rows(r, "thermal.housing_temperature_C", "thermal.magnet_temperature_C", "thermal.magnet_limit_C"),
+        (LABELS["thermal.insulation_class"], t.insulation_class),
+        *_figure_rows(r, "thermal.insulation_limit_C", "thermal.winding_to_housing_K_per_W",
+                      "thermal.housing_to_ambient_K_per_W", "thermal.thermal_time_constant_s"),
+        (LABELS["thermal.converged"], "converged" if t.converged else "NO STEADY STATE"),
     ]
     return _kv(rows, title="Thermal", key="thermal")
 
 
 def build_tables(results: Results) -> tuple[Table, Table, Table]:
     r, w, g = results, results.winding, results.geometry
-
-    def mm(length_m: float) -> str:
-        return significant(from_si(length_m, "mm"))
-
     winding_rows = [
-        ("Poles", str(g.poles)),
-        ("Winding", f"{w.type}, {w.parallel_paths} parallel paths"),
-        ("Slots, commutator segments", f"{g.slots}, {w.commutator_segments}"),
-        ("Turns per coil, total conductors", f"{w.turns_per_coil}, {w.conductors}"),
-        ("Wire (enamel grade, IEC 60317)", f"{w.wire} (grade {w.enamel_grade})"),
-        ("Slot fill, copper", percent(w.slot_fill_bare, 2)),
-        ("Current density at the rated load, hot", q(w.rated_current_density_A_per_m2, "A/mm2")),
-        ("Housing outer diameter × length", f"{mm(g.housing_outer_diameter_m)} × {mm(g.housing_length_m)} mm"),
-        ("Armature diameter × stack length", f"{mm(g.armature_diameter_m)} × {mm(g.stack_length_m)} mm"),
-        ("Air gap", f"{mm(g.airgap_m)} mm"),
-        ("Magnet thickness, arc, length", f"{mm(g.magnet_thickness_m)} mm, "
-                                          f"{significant(from_si(g.magnet_arc_rad, 'deg'))}°, {mm(g.magnet_length_m)} mm"),
+        (LABELS["geometry.poles"], str(g.poles)),
+        (LABELS["winding.type"], f"{w.type}, {w.parallel_paths} parallel paths"),
+        (LABELS["geometry.slots"], str(g.slots)),
+        (LABELS["winding.commutator_segments"], str(w.commutator_segments)),
+        (LABELS["winding.turns_per_coil"], str(w.turns_per_coil)),
+        (LABELS["winding.conductors"], str(w.conductors)),
+        (LABELS["winding.wire"], f"{w.wire} (grade {w.enamel_grade})"),
+        *_figure_rows(r, "winding.slot_fill_bare", "winding.rated_current_density_A_per_m2",
+                      "geometry.housing_outer_diameter_m", "geometry.housing_length_m", "geometry.armature_diameter_m",
+                      "geometry.stack_length_m", "geometry.airgap_m", "geometry.magnet_thickness_m",
+                      "geometry.magnet_arc_rad", "geometry.magnet_length_m"),
     ]
-    m = r.mass
-    mass_rows = [
-        ("Magnets", q(m.magnet_kg, "g")),
-        ("Copper", q(m.copper_kg, "g")),
-        ("Housing steel", q(m.housing_kg, "g")),
-        ("Lamination steel", q(m.lamination_kg, "g")),
-        ("Shaft", q(m.shaft_kg, "g")),
-        ("Total of these", q(m.total_kg, "g")),
-    ]
-    c = r.cost
-    cost_rows = [
-        ("Magnets", money(c.magnet, c.currency)),
-        ("Copper", money(c.copper, c.currency)),
-        ("Housing steel", money(c.housing, c.currency)),
-        ("Lamination steel", money(c.lamination, c.currency)),
-        ("Material cost", money(c.total, c.currency)),
-    ]
+    mass_rows = _figure_rows(r, "mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg",
+                             "mass.shaft_kg", "mass.total_kg")
+    currency = r.cost.currency
+    cost_rows = [(figure(key).title, text_of(r, key, currency))
+                 for key in ("cost.magnet", "cost.copper", "cost.housing", "cost.lamination", "cost.total")]
     return (_kv(winding_rows, title="Winding and construction", key="winding"),
             _kv(mass_rows, caption="Active parts and shaft; brushes, commutator and end caps not included.",
                 title="Masses", key="mass"),
@@ -328,8 +308,8 @@ def build_tables(results: Results) -> tuple[Table, Table, Table]:
 
 def checks_table(results: Results) -> Table:
     rows = tuple(
-        Row((STATUS_WORDS[c.status], c.title, c.message + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice else "")),
-            c.status)
+        Row((STATUSES[c.status].word, c.title,
+             c.message + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice else "")), c.status)
         for c in results.checks
     )
     return Table(("Status", "Check", "Finding"), rows, widths=(10, 19, 71), numeric_from=99, key="checks")
@@ -344,25 +324,21 @@ def failing_summary(results: Results) -> tuple[Paragraph, ...]:
                       "it is not ready for release.", "fail"),)
 
 
+#: The tiles at the head of the sheet.
+HEADLINE_KEYS = ("supply_voltage_V", "load_torque_N_m", "nominal.rated.speed_rad_per_s",
+                 "nominal.no_load_speed_rad_per_s", "nominal.stall_torque_N_m", "constants.ke_V_s_per_rad",
+                 "constants.kt_N_m_per_A", "nominal.max_efficiency", "nominal.max_output_power_W",
+                 "demagnetization.worst_margin_A_per_m")
+
+
 def headline(project: Project, results: Results) -> tuple[tuple[str, str], ...]:
-    n, c, dm = results.nominal, results.constants, results.demagnetization
-    unit = torque_unit(results)
-    return (
-        ("Supply", q(results.supply_voltage_V, "V")),
-        ("Rated torque", q(results.load_torque_N_m, unit)),
-        ("Rated speed, nominal", rated(n, q(n.rated.speed_rad_per_s, "rpm"))),
-        ("No-load speed", q(n.no_load_speed_rad_per_s, "rpm")),
-        ("Stall torque", q(n.stall_torque_N_m, unit)),
-        ("Ke", q(c.ke_V_s_per_rad, "V/krpm")),
-        ("Kt", q(c.kt_N_m_per_A, "mN·m/A")),
-        ("Max. efficiency", percent(n.max_efficiency)),
-        ("Max. output power", q(n.max_output_power_W, "W")),
-        ("Least demag. margin", q(dm.worst_margin_A_per_m, "kA/m")),
-    )
+    return tuple((figure(key).title, rated(results.nominal, _shown(results, key, results)) if ".rated." in key
+                  else _shown(results, key, results)) for key in HEADLINE_KEYS)
 
 
-def build(project: Project, results: Results, issued: _dt.date | None = None) -> Datasheet:
-    """The complete datasheet content of one evaluated design."""
+def build(project: Project, results: Results, issued: _dt.date | None = None,
+          appendix: tuple[Section, ...] = ()) -> Datasheet:
+    """The complete datasheet content of one evaluated design; ``appendix`` sections come last."""
     r = results
     info = project.project
     # The sheet is issued on its revision's date when the project gives one, else on the day of export.
@@ -372,16 +348,12 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
     winding, mass, cost = build_tables(r)
     notes = info.notes.strip()
     sections = (
-        Section("performance", "Performance at three temperatures", failing_summary(r) + (
+        Section("performance", "Performance at three temperatures", (
+            *failing_summary(r),
             Paragraph("Cold: the coldest ambient, motor at rest temperature. Nominal: the nominal ambient. Hot: the "
                       "hottest ambient with winding and magnets at the temperatures they reach at the rated load.",
                       "note"),
             performance_table(r),
-        )),
-        Section("terminals", "Terminal markings", (
-            Table(("Marking", "Meaning"), tuple(Row(t) for t in TERMINAL_ROWS), widths=(15, 85), numeric_from=99,
-                  key="terminal_markings"),
-            Paragraph(ROTATION_CONVENTION, "note"),
         )),
         Section("performance_chart", "Performance chart", (
             Chart("performance", "Speed, current and output power from no load to stall; efficiency over the working "
@@ -396,10 +368,15 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
             Columns((magnet_grade,), (operating_points,)),
         ), new_page=True),
         Section("construction", "Construction, masses and cost", (Columns((winding,), (mass, cost)),), new_page=True),
-        Section("checks", "Design checks", (checks_table(r),)),
+        Section("terminals", "Terminal markings", (
+            Table(("Marking", "Meaning"), tuple(Row(t) for t in TERMINAL_ROWS), widths=(15, 85), numeric_from=99,
+                  key="terminal_markings"),
+            Paragraph(ROTATION_CONVENTION, "note"),
+        )),
+        Section("checks", "Design checks", (checks_table(r),), new_page=True),
         Section("notes", "Notes", tuple(Paragraph(line.strip()) for line in notes.splitlines() if line.strip())
                 or (Paragraph("No notes."),)),
-        Section("cautions", "Cautions", tuple(Paragraph(text, "caution") for text in CAUTIONS)),
+        Section("cautions", "Cautions", tuple(Paragraph(text, "caution") for text in caution_sentences())),
     )
     identity = (
         ("Revision", info.revision),
@@ -414,4 +391,4 @@ def build(project: Project, results: Results, issued: _dt.date | None = None) ->
     subtitle = "Brushed permanent-magnet DC motor: design datasheet (engineering estimates)"
     return Datasheet(title=info.name, description=info.description.strip(), revision=info.revision,
                      issued=issued.isoformat(), subtitle=subtitle, identity=identity,
-                     headline=headline(project, r), sections=sections)
+                     headline=headline(project, r), sections=sections + tuple(appendix))

@@ -7,24 +7,28 @@ header and footer painted on each; the same routine paints PDF pages (QPdfWriter
 
 from __future__ import annotations
 
+import base64
 import html
 import re
 
-from PySide6.QtCore import QMarginsF, QPointF, QRectF, QSizeF, QUrl, Qt
+from PySide6.QtCore import QMarginsF, QPointF, QRectF, QSizeF, Qt, QUrl
 from PySide6.QtGui import QColor, QImage, QPageLayout, QPageSize, QPainter, QPdfWriter, QPen, QTextDocument
 
 from pmdc_sizer.core.results import Results
 
+from ..figures import STATUSES
+from ..safety import DEFER_NOTE, ESTIMATES_NOTE
 from . import charts
-from .content import Chart, Columns, Datasheet, Paragraph, Table
+from .content import Chart, Columns, Datasheet, Paragraph, Picture, Table
 
 PAGE_MARGINS_MM = (17.0, 16.0, 17.0, 17.0)  #: left, top, right, bottom
 HEADER_MM = 7.0  #: band above the body for the running header
 FOOTER_MM = 8.0  #: band below the body for the footer
 BODY_FONT_PT = 8.6
 ACCENT = "#24476b"
-STATUS_COLOURS = {"pass": "#1e7b34", "warning": "#9a6200", "fail": "#c0001a", "worst": "#24476b"}
-ROW_SHADES = {"fail": "#fbe3e6", "warning": "#fff3d6", "worst": "#e4edf7"}
+STATUS_COLOURS = {**{name: style.colour for name, style in STATUSES.items()}, "worst": ACCENT}
+ROW_SHADES = {"fail": STATUSES["fail"].shade, "warning": STATUSES["warning"].shade, "worst": "#e4edf7"}
+FAIL = STATUS_COLOURS["fail"]
 
 _e = html.escape
 
@@ -54,12 +58,14 @@ th { background: ACCENT; color: white; text-align: left; padding: 1.2mm 2mm; fon
 td { padding: 1mm 2mm; border-bottom: 1px solid #e3e7ec; vertical-align: top; }
 td.num, th.num { text-align: right; white-space: nowrap; }
 tr.group td { background: #eef2f6; font-weight: 700; color: ACCENT; }
-tr.fail td { background: #fbe3e6; } tr.warning td { background: #fff3d6; } tr.worst td { background: #e4edf7; }
-tr.fail td.status, p.fail { color: #c0001a; font-weight: 700; }
-tr.warning td.status { color: #9a6200; font-weight: 700; } tr.pass td.status { color: #1e7b34; font-weight: 700; }
+tr.fail td { background: SHADE_fail; } tr.warning td { background: SHADE_warning; }
+tr.worst td { background: SHADE_worst; }
+tr.fail td.status, p.fail { color: COLOUR_fail; font-weight: 700; }
+tr.warning td.status { color: COLOUR_warning; font-weight: 700; }
+tr.pass td.status { color: COLOUR_pass; font-weight: 700; }
 p.caption, p.note { color: #5b6470; font-size: 8.5pt; margin: 1mm 0 3mm 0; }
 p.strong { font-weight: 700; }
-p.caution { border-left: 3px solid #c0001a; padding-left: 3mm; margin: 1.5mm 0; }
+p.caution { border-left: 3px solid COLOUR_fail; padding-left: 3mm; margin: 1.5mm 0; }
 figure { margin: 3mm 0; } figure svg { width: 100%; height: auto; display: block; }
 figcaption { color: #5b6470; font-size: 8.5pt; }
 footer.sheet { margin-top: 8mm; border-top: 1px solid #c9d3de; padding-top: 2mm; color: #5b6470; font-size: 8pt; }
@@ -69,7 +75,10 @@ div.columns { display: grid; grid-template-columns: 1fr 1fr; gap: 6mm; }
 dl.identity { grid-template-columns: repeat(4, auto 1fr); }
 section.headline { grid-template-columns: repeat(5, 1fr); }
 @media print { body { padding: 0; } h2 { break-after: avoid; } tr, figure { break-inside: avoid; } }
-""".replace("ACCENT", ACCENT)
+"""
+for _name, _value in (*((f"COLOUR_{k}", v) for k, v in STATUS_COLOURS.items()),
+                      *((f"SHADE_{k}", v) for k, v in ROW_SHADES.items()), ("ACCENT", ACCENT)):
+    BROWSER_CSS = BROWSER_CSS.replace(_name, _value)
 
 
 def _strip_xml_prolog(svg: str) -> str:
@@ -111,7 +120,12 @@ def _browser_block(block, svgs: dict[str, str]) -> str:
     if isinstance(block, Table):
         return _browser_table(block)
     if isinstance(block, Chart):
-        return f'<figure id="chart-{block.name}">{svgs[block.name]}<figcaption>{_e(block.caption)}</figcaption></figure>'
+        return (f'<figure id="chart-{block.name}">{svgs[block.name]}'
+                f'<figcaption>{_e(block.caption)}</figcaption></figure>')
+    if isinstance(block, Picture):
+        data = base64.b64encode(block.png).decode("ascii")
+        return (f'<figure id="picture-{block.name}"><img src="data:image/png;base64,{data}" alt="{_e(block.caption)}"'
+                f' style="width: 100%;"/><figcaption>{_e(block.caption)}</figcaption></figure>')
     if isinstance(block, Columns):
         halves = ("\n".join(_browser_block(b, svgs) for b in side) for side in (block.left, block.right))
         return '<div class="columns">' + "".join(f"<div>{half}</div>" for half in halves) + "</div>"
@@ -143,7 +157,7 @@ def browser_html(sheet: Datasheet, results: Results) -> str:
         f'<section class="headline" id="headline">{headline}</section>\n'
         + "\n".join(body)
         + f'\n<footer class="sheet">{_e(sheet.title)}, revision {_e(sheet.revision)}, issued {_e(sheet.issued)}. '
-        "Made with pmdc-sizer. Engineering estimates: confirm by test.</footer>\n</body></html>\n"
+        f"Made with pmdc-sizer. {_e(ESTIMATES_NOTE)} {_e(DEFER_NOTE)}</footer>\n</body></html>\n"
     )
 
 
@@ -158,14 +172,16 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
     pad = f"{0.42 * px_per_mm:.0f}"
     out = []
     if table.title:
-        out.append(f'<p style="font-weight: 700; font-size: {BODY_FONT_PT + 0.8}pt; margin-top: 6pt; margin-bottom: 2pt;">'
+        out.append(f'<p style="font-weight: 700; font-size: {BODY_FONT_PT + 0.8}pt; margin-top: 6pt; '
+                   'margin-bottom: 2pt;">'
                    f"{_e(table.title)}</p>")
     out.append(f'<table width="100%" cellspacing="0" cellpadding="{pad}" style="border-collapse: collapse;">')
     if any(table.header):
         out.append("<thead><tr>" + "".join(
-            f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" align="{"right" if table.is_numeric(i) else "left"}">'
+            f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" '
+            f'align="{"right" if table.is_numeric(i) else "left"}">'
             f'<span style="color: white; font-weight: 600;">{_e(h)}</span></th>'
-            for i, (h, w) in enumerate(zip(table.header, widths))) + "</tr></thead>")
+            for i, (h, w) in enumerate(zip(table.header, widths, strict=False))) + "</tr></thead>")
     shade = False
     for index, row in enumerate(table.rows):
         if row.kind == "group":
@@ -190,7 +206,8 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
         out.append("<tr>" + "".join(cells) + "</tr>")
     out.append("</table>")
     if table.caption:
-        out.append(f'<p style="color: #5b6470; font-size: {BODY_FONT_PT - 0.8}pt; margin-top: 1pt;">{_e(table.caption)}</p>')
+        out.append(f'<p style="color: #5b6470; font-size: {BODY_FONT_PT - 0.8}pt; margin-top: 1pt;">'
+                   f'{_e(table.caption)}</p>')
     return "".join(out)
 
 
@@ -198,10 +215,15 @@ def _qt_block(block, body_width_px: float, px_per_mm: float) -> str:
     if isinstance(block, Table):
         return _qt_table(block, px_per_mm)
     if isinstance(block, Columns):
-        halves = ["".join(_qt_block(b, body_width_px / 2, px_per_mm) for b in side) for side in (block.left, block.right)]
+        halves = ["".join(_qt_block(b, body_width_px / 2, px_per_mm) for b in side)
+                  for side in (block.left, block.right)]
         return ('<table width="100%" cellspacing="0" cellpadding="0"><tr>'
                 f'<td width="48%" valign="top">{halves[0]}</td><td width="4%"></td>'
                 f'<td width="48%" valign="top">{halves[1]}</td></tr></table>')
+    if isinstance(block, Picture):
+        return (f'<p align="center" style="margin-top: 4pt; margin-bottom: 0;"><img src="picture:{block.name}" '
+                f'width="{body_width_px:.0f}"/></p>'
+                f'<p style="color: #5b6470; font-size: {BODY_FONT_PT - 0.8}pt; margin-top: 0;">{_e(block.caption)}</p>')
     if isinstance(block, Chart):
         return (f'<p align="center" style="margin-top: 4pt; margin-bottom: 0;"><img src="chart:{block.name}" '
                 f'width="{body_width_px:.0f}"/></p>'
@@ -210,9 +232,9 @@ def _qt_block(block, body_width_px: float, px_per_mm: float) -> str:
         style = {
             "note": f"color: #5b6470; font-size: {BODY_FONT_PT - 0.6}pt;",
             "strong": "font-weight: 700;",
-            "fail": "font-weight: 700; color: #c0001a;",
+            "fail": f"font-weight: 700; color: {FAIL};",
         }.get(block.kind, "")
-        prefix = '<span style="color: #c0001a; font-weight: 700;">⚠ </span>' if block.kind == "caution" else ""
+        prefix = f'<span style="color: {FAIL}; font-weight: 700;">⚠ </span>' if block.kind == "caution" else ""
         return f'<p style="{style} margin-top: 3pt; margin-bottom: 3pt;">{prefix}{_e(block.text)}</p>'
     raise TypeError(f"unknown datasheet block {block!r}")
 
@@ -275,6 +297,11 @@ class PagedDatasheet:
         for name in charts.CHART_NAMES:
             image = charts.chart_image(name, results, width_px=max(1200, int(chart_width * 1.25)))
             self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl(f"chart:{name}"), image)
+        for section in sheet.sections:
+            for block in section.blocks:
+                if isinstance(block, Picture):
+                    self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl(f"picture:{block.name}"),
+                                              QImage.fromData(block.png, "PNG"))
         self.document.setHtml(self._with_pixel_sizes(qt_html(sheet, chart_width, mm)))
         self.document.setPageSize(QSizeF(self.body.width(), self.body.height()))
 
@@ -306,8 +333,7 @@ class PagedDatasheet:
         painter.drawLine(footer.topLeft(), footer.topRight())
         painter.setPen(QColor("#5b6470"))
         painter.drawText(footer, Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter,
-                         f"Issued {self.sheet.issued}. Engineering estimates: confirm by test. "
-                         "Follow local codes and licensed practice.")
+                         f"Issued {self.sheet.issued}. {ESTIMATES_NOTE} {DEFER_NOTE}")
         painter.drawText(footer, Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter,
                          f"page {index + 1} of {self.page_count}")
         # The body: the document's slice for this page.
@@ -351,5 +377,6 @@ def write_pdf_file(sheet: Datasheet, results: Results, path: str) -> int:
         if index:
             writer.newPage()
         paged.paint_page(painter, index)
-    painter.end()
+    if not painter.end():  # the PDF engine writes as it goes: a full disk shows only here
+        raise OSError(f"{path}: the PDF writer could not finish the file")
     return paged.page_count
