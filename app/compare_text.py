@@ -10,8 +10,8 @@ import math
 from dataclasses import dataclass
 
 from pmdc_sizer.core.difference import Comparison
-from pmdc_sizer.core.refit import TARGETS, Refit
 from pmdc_sizer.core.keys import key_spec
+from pmdc_sizer.core.refit import TARGETS, Refit
 from pmdc_sizer.core.units import from_si
 
 from .figures import COMPARE_KEYS, STATUSES, figure, shown_value, title_of
@@ -101,7 +101,8 @@ def refit_lines(fit: Refit) -> list[str]:
     for change in fit.changes:
         unit = key_spec(change.key).unit
         why = f" ({change.reason})" if change.reason else ""
-        lines.append(f"  {change.key}: {parameter_text(change.before, unit)} → {parameter_text(change.after, unit)}{why}")
+        lines.append(f"  {change.key}: {parameter_text(change.before, unit)} → "
+                     f"{parameter_text(change.after, unit)}{why}")
     lines += [f"  {note}" for note in fit.notes]
     target = figure(TARGETS[fit.target].figure_key)
 

@@ -31,7 +31,8 @@ def significant(value: float, digits: int = 3) -> str:
 
 #: How a unit key of core.units is printed for people, where the key is spelt in plain ASCII.
 UNIT_LABELS = {"ohm": "Ω", "mohm": "mΩ", "mm2": "mm²", "m2": "m²", "A/mm2": "A/mm²", "g·cm2": "g·cm²",
-               "kg·m2": "kg·m²", "kJ/m3": "kJ/m³", "kg/m3": "kg/m³", "W/(m2·K)": "W/(m²·K)", "uWb": "µWb"}
+               "kg·m2": "kg·m²", "kJ/m3": "kJ/m³", "kN·m/m3": "kN·m/m³", "kg/m3": "kg/m³", "W/(m2·K)": "W/(m²·K)",
+               "uWb": "µWb", "oz·in2": "oz·in²"}
 
 
 def unit_label(unit: str) -> str:

@@ -2,11 +2,14 @@
 
 from __future__ import annotations
 
+import textwrap
+
 from pmdc_sizer.core.results import Results
 
-from .formatting import percent, quantity as q, significant, temperature
+from .figures import LABELS, STATUSES, figure, text_of, unit_for, value_of
+from .safety import SHORT_CAUTION
 
-_STATUS = {"pass": "ok  ", "warning": "WARN", "fail": "FAIL"}
+NOT_REACHED = "stalls"  #: a rated figure where the rated torque is beyond the stall torque
 
 
 def summary_text(r: Results) -> str:
@@ -18,67 +21,67 @@ def summary_text(r: Results) -> str:
         lines.append("-" * len(title))
 
     def row(label: str, *values: str):
-        lines.append(f"  {label:<34}" + "  ".join(f"{v:>14}" for v in values))
+        lines.append(f"  {label:<38}" + "  ".join(f"{v:>14}" for v in values))
+
+    def shown(source, key: str, unit: str | None = None) -> str:
+        return text_of(source, key, unit or unit_for(key, r))
+
+    def figures(*keys: str):
+        """A row per key of the results, with the figure's further units beside it."""
+        for key in keys:
+            item = figure(key)
+            row(item.title, shown(r, key), *(item.text(value_of(r, key), unit) for unit in item.also))
+
+    def per_case(*keys: str):
+        for key in keys:
+            rated = key.startswith("case.rated.")
+            row(figure(key).title, *(NOT_REACHED if rated and not case.rated_reached else shown(case, key)
+                                     for case in r.cases))
 
     lines.append(f"{r.name}")
-    lines.append(f"Supply {q(r.supply_voltage_V, 'V')}, rated load {q(r.load_torque_N_m, 'mN·m')} "
-                 f"at {q(r.load_speed_rad_per_s, 'rpm')} or faster")
+    lines.append(f"Supply {shown(r, 'supply_voltage_V')}, rated load {shown(r, 'load_torque_N_m')} "
+                 f"at {shown(r, 'load_speed_rad_per_s')} or faster")
 
-    m, mg = r.magnet, r.magnetics
-    section(f"Magnet {m.name} ({m.family}) at {temperature(m.temperature_C)}")
-    row("Br, HcJ", q(m.remanence_T, "T"), q(m.coercivity_HcJ_A_per_m, "kA/m"))
-    row("Operating point Bm, Hm", q(mg.magnet_flux_density_T, "T"), q(mg.magnet_field_A_per_m, "kA/m"))
-    row("Permeance coefficient", significant(mg.permeance_coefficient))
-    row("Flux per pole", q(mg.flux_per_pole_Wb, "mWb"))
-    row("Air-gap flux density", q(mg.airgap_flux_density_T, "T"))
-    row("Tooth, core, housing flux density", q(mg.tooth_flux_density_T, "T"), q(mg.core_flux_density_T, "T"),
-        q(mg.housing_flux_density_T, "T"))
-    row("Leakage factor, Carter factor", significant(mg.leakage_factor, 4), significant(mg.carter_factor, 4))
+    m = r.magnet
+    section(f"Magnet {m.name} ({m.family}) at {shown(r, 'magnetics.temperature_C')}")
+    figures("magnet.remanence_T", "magnet.coercivity_HcJ_A_per_m", "magnetics.magnet_flux_density_T",
+            "magnetics.magnet_field_A_per_m", "magnetics.permeance_coefficient", "magnetics.flux_per_pole_Wb",
+            "magnetics.airgap_flux_density_T", "magnetics.tooth_flux_density_T", "magnetics.core_flux_density_T",
+            "magnetics.housing_flux_density_T", "magnetics.leakage_factor", "magnetics.carter_factor")
 
-    w, c = r.winding, r.constants
+    w = r.winding
     section("Winding and constants")
-    row("Winding", f"{w.type}, a = {w.parallel_paths}", f"Z = {w.conductors}")
-    row("Wire, slot fill (copper)", w.wire, percent(w.slot_fill_bare, 2))
-    row("Ke", q(c.ke_V_s_per_rad, "V/krpm"), q(c.ke_V_s_per_rad, "V·s/rad", 4))
-    row("Kt", q(c.kt_N_m_per_A, "mN·m/A"))
-    row("Terminal resistance", q(c.terminal_resistance_ohm, "ohm"))
-    row("Inductance (estimate)", q(c.inductance_H_estimate, "mH", 2))
-    row("Mechanical time constant", q(c.mechanical_time_constant_s, "ms"))
-
+    row(LABELS["winding.type"], f"{w.type}, a = {w.parallel_paths}", f"Z = {w.conductors}")
+    row(LABELS["winding.wire"], f"{w.wire} (grade {w.enamel_grade})")
+    figures("winding.slot_fill_bare", "constants.ke_V_s_per_rad", "constants.kt_N_m_per_A",
+            "constants.terminal_resistance_ohm", "constants.inductance_H_estimate",
+            "constants.mechanical_time_constant_s")
     if r.sizing is not None:
-        row("Electric loading, TRV (rated)", q(r.sizing.electric_loading_A_per_m, "kA/m"),
-            q(r.sizing.torque_per_rotor_volume_N_m_per_m3, "kN·m/m3"))
+        figures("sizing.electric_loading_A_per_m", "sizing.torque_per_rotor_volume_N_m_per_m3")
 
     section("Performance")
-    row("", *(f"{case.name} {temperature(case.winding_temperature_C)}" for case in r.cases))
-    row("No-load speed", *(q(case.no_load_speed_rad_per_s, "rpm") for case in r.cases))
-    row("No-load current", *(q(case.no_load_current_A, "A") for case in r.cases))
-    row("Stall torque", *(q(case.stall_torque_N_m, "mN·m") for case in r.cases))
-    row("Stall current", *(q(case.stall_current_A, "A") for case in r.cases))
-    row("Max efficiency", *(percent(case.max_efficiency) for case in r.cases))
-    row("Max output power", *(q(case.max_output_power_W, "W") for case in r.cases))
-    row("Rated speed", *(q(case.rated.speed_rad_per_s, "rpm") for case in r.cases))
-    row("Rated current", *(q(case.rated.current_A, "A") for case in r.cases))
-    row("Rated efficiency", *(percent(case.rated.efficiency) for case in r.cases))
+    row("", *(f"{case.name} {shown(case, 'case.winding_temperature_C')}" for case in r.cases))
+    per_case("case.no_load_speed_rad_per_s", "case.no_load_current_A", "case.stall_torque_N_m", "case.stall_current_A",
+             "case.max_efficiency", "case.max_output_power_W", "case.rated.speed_rad_per_s", "case.rated.current_A",
+             "case.rated.efficiency")
 
     section("Demagnetization (margin to the knee; positive is safe)")
     for case in r.demagnetization.cases:
-        row(case.name, q(case.current_A, "A"), q(case.margin_A_per_m, "kA/m"), "ok" if case.ok else "FAILS")
+        row(case.name, *(shown(case, f"demagnetization_case.{name}") for name in ("current_A", "margin_A_per_m")),
+            "ok" if case.ok else "FAILS")
 
     t = r.thermal
-    section(f"Thermal at {temperature(t.ambient_C)} ambient, duty {t.duty}")
-    row("Winding, magnet temperature", temperature(t.winding_temperature_C), temperature(t.magnet_temperature_C))
-    row("Insulation class (IEC 60085)", t.insulation_class)
+    section(f"Thermal at {shown(r, 'thermal.ambient_C')} ambient, duty {t.duty}")
+    figures("thermal.winding_temperature_C", "thermal.magnet_temperature_C")
+    row(LABELS["thermal.insulation_class"], t.insulation_class)
 
     section("Mass and material cost")
-    row("Magnet, copper, steel", q(r.mass.magnet_kg, "g"), q(r.mass.copper_kg, "g"),
-        q(r.mass.housing_kg + r.mass.lamination_kg, "g"))
-    row("Material cost", f"{significant(r.cost.total)} {r.cost.currency}")
+    figures("mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg", "mass.total_kg")
+    row(figure("cost.total").title, figure("cost.total").text(r.cost.total, r.cost.currency))
 
     section("Checks")
     for check in r.checks:
-        lines.append(f"  [{_STATUS[check.status]}] {check.sentence}")
+        lines.append(f"  [{STATUSES[check.status].tag:<4}] {check.sentence}")
     lines.append("")
-    lines.append("Engineering estimates: confirm by test. Strong magnets pinch and can harm implanted medical devices;")
-    lines.append("a stalled motor overheats. Follow local codes and licensed practice.")
+    lines += textwrap.wrap(SHORT_CAUTION, 100)
     return "\n".join(lines)

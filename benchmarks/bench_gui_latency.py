@@ -26,10 +26,10 @@ os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 os.environ.setdefault("PMDC_SIZER_CONFIG_DIR", tempfile.mkdtemp(prefix="pmdc-sizer-bench-"))
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from PySide6.QtCore import QEvent, QEventLoop, QObject  # noqa: E402
-from PySide6.QtWidgets import QApplication  # noqa: E402
+from PySide6.QtCore import QEvent, QEventLoop, QObject
+from PySide6.QtWidgets import QApplication
 
-from pmdc_sizer.app.gui.main_window import MainWindow, read_project  # noqa: E402
+from pmdc_sizer.app.gui.main_window import MainWindow, read_project
 
 DEMO_FOLDER = Path(__file__).resolve().parents[1] / "demo_projects"
 TARGET_MS, AIM_MS = 33.0, 16.0

@@ -3,7 +3,8 @@
 No window is needed: the same drawing goes to a QImage for PNG and the PDF, and to a QSvgGenerator
 for SVG and the HTML. The charts only plot the arrays and points the core returns; the one line they
 add, the load line, is the straight line from the origin through the operating point that the
-permeance coefficient defines.
+permeance coefficient defines. Titles, units, colours and marker shapes come from ``app.figures``, as
+on screen, so the same point looks the same in both.
 
 Every chart is drawn in a fixed logical canvas (``CANVAS_WIDTH`` wide, in "chart units"), scaled to
 the device, so text and lines keep their proportions at any resolution.
@@ -11,16 +12,31 @@ the device, so text and lines keep their proportions at any resolution.
 
 from __future__ import annotations
 
+import itertools
 import math
 from dataclasses import dataclass, field
 
 import numpy as np
-from PySide6.QtCore import QByteArray, QBuffer, QIODevice, QPointF, QRectF, QSize, Qt
+from PySide6.QtCore import QBuffer, QByteArray, QIODevice, QPointF, QRectF, QSize, Qt
 from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF, QImage, QPainter, QPainterPath, QPen, QPolygonF
 from PySide6.QtSvg import QSvgGenerator
 
 from pmdc_sizer.core.results import Results
 from pmdc_sizer.core.units import from_si
+
+from ..figures import (
+    CASE_POINTS,
+    CASES,
+    CURVE_QUANTITIES,
+    LINES,
+    POINTS,
+    demagnetization_case_colour,
+    demagnetization_point,
+    drive_current_limit,
+    figure,
+    qt_pen_style,
+    torque_unit,
+)
 
 CANVAS_WIDTH = 1000.0
 PERFORMANCE_ASPECT = 0.78  #: height over width of the performance chart
@@ -29,17 +45,23 @@ MAGNET_ASPECT = 0.56
 FONT_FAMILY = "DejaVu Sans"
 TEXT = QColor("#1b1f24")
 GRID = QColor("#d9dde3")
-AXIS = QColor("#5b6470")
-FAIL = QColor("#c0001a")
-REQUIRED = QColor("#6a2c91")
-LIMIT = QColor("#2e8b57")
+AXIS = QColor("#5b6470")  #: axes, notes, and the legend's samples of marks that take their case's colour
+PERFORMANCE_MARKER = 9.0  #: a marker of relative size 1 on the performance chart, in chart units
+MAGNET_MARKER = 12.0  #: ... and on the magnet chart, which has the whole width
 
-#: One colour and one dash per temperature case, so the cases differ in print and in grey scale too.
-CASE_STYLE = {
-    "cold": (QColor("#1d5fb4"), Qt.PenStyle.DashLine),
-    "nominal": (QColor("#1b1f24"), Qt.PenStyle.SolidLine),
-    "hot": (QColor("#d0451b"), Qt.PenStyle.DashDotLine),
-}
+
+def case_colour(name: str) -> QColor:
+    return QColor(CASES[name].colour)
+
+
+def point_marker(point: str, x: float, y: float, case: str = "", base_size: float = PERFORMANCE_MARKER,
+                 colour: str | None = None, label: str = "") -> Marker:
+    """The named point ``point`` of :data:`app.figures.POINTS` at (x, y), in its case's colour if it takes one."""
+    style = POINTS[point]
+    shown = style.colour or colour or (CASES[case].colour if case else None)
+    if shown is None:
+        raise ValueError(f"{point}: a point coloured by its temperature case needs the case")
+    return Marker(x, y, style.marker, QColor(shown), style.filled, base_size * style.size, label, point, case)
 
 CHART_NAMES = ("performance", "magnet")
 
@@ -55,6 +77,7 @@ class Series:
     colour: QColor
     dash: Qt.PenStyle = Qt.PenStyle.SolidLine
     width: float = 2.2
+    line: str = ""  #: what it draws: a key of app.figures.LINES, or "case:<name>" for a case's curve
 
 
 @dataclass
@@ -66,6 +89,8 @@ class Marker:
     filled: bool = True
     size: float = 9.0
     label: str = ""
+    point: str = ""  #: the key of app.figures.POINTS it marks
+    case: str = ""  #: the temperature case or demagnetization case it belongs to
 
 
 @dataclass
@@ -136,7 +161,8 @@ def _pen(colour: QColor, width: float, dash: Qt.PenStyle = Qt.PenStyle.SolidLine
     return pen
 
 
-def draw_marker(painter: QPainter, centre: QPointF, shape: str, colour: QColor, size: float, filled: bool = True) -> None:
+def draw_marker(painter: QPainter, centre: QPointF, shape: str, colour: QColor, size: float,
+                filled: bool = True) -> None:
     painter.save()
     if shape in ("cross", "plus"):
         painter.setPen(_pen(colour, 3.0))
@@ -154,9 +180,11 @@ def draw_marker(painter: QPainter, centre: QPointF, shape: str, colour: QColor, 
     elif shape == "circle":
         painter.drawEllipse(centre, h * 1.1, h * 1.1)
     elif shape == "triangle":
-        painter.drawPolygon(QPolygonF([QPointF(x, y - h * 1.25), QPointF(x + h * 1.2, y + h), QPointF(x - h * 1.2, y + h)]))
+        painter.drawPolygon(QPolygonF([QPointF(x, y - h * 1.25), QPointF(x + h * 1.2, y + h),
+                                       QPointF(x - h * 1.2, y + h)]))
     elif shape == "diamond":
-        painter.drawPolygon(QPolygonF([QPointF(x, y - h * 1.3), QPointF(x + h, y), QPointF(x, y + h * 1.3), QPointF(x - h, y)]))
+        painter.drawPolygon(QPolygonF([QPointF(x, y - h * 1.3), QPointF(x + h, y), QPointF(x, y + h * 1.3),
+                                       QPointF(x - h, y)]))
     elif shape == "cross":
         painter.drawLine(QPointF(x - h, y - h), QPointF(x + h, y + h))
         painter.drawLine(QPointF(x - h, y + h), QPointF(x + h, y - h))
@@ -190,7 +218,7 @@ def clipped_path(points: list[QPointF], box: QRectF) -> QPainterPath:
     """A polyline cut to ``box`` in our own code, since not every paint device (SVG) honours a clip."""
     path = QPainterPath()
     last_end: QPointF | None = None
-    for p, q in zip(points, points[1:]):
+    for p, q in itertools.pairwise(points):
         piece = _clip_segment(p, q, box)
         if piece is None:
             last_end = None
@@ -233,7 +261,8 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
         painter.setPen(_pen(GRID, 1.0))
         painter.drawLine(QPointF(p.x(), plot.top()), QPointF(p.x(), plot.bottom()))
         painter.setPen(TEXT)
-        painter.drawText(QRectF(p.x() - 50, plot.bottom() + 4, 100, 18), Qt.AlignmentFlag.AlignHCenter, tick_label(t, x_ticks))
+        painter.drawText(QRectF(p.x() - 50, plot.bottom() + 4, 100, 18), Qt.AlignmentFlag.AlignHCenter,
+                         tick_label(t, x_ticks))
     left_ticks = nice_ticks(*panel.left_range)
     for t in left_ticks:
         p = to_point(x0, t)
@@ -249,18 +278,20 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
     painter.drawRect(plot)
     painter.setFont(label_font)
     painter.setPen(TEXT)
-    painter.drawText(QRectF(plot.left(), plot.bottom() + 24, plot.width(), 22), Qt.AlignmentFlag.AlignHCenter, panel.x_label)
+    painter.drawText(QRectF(plot.left(), plot.bottom() + 24, plot.width(), 22), Qt.AlignmentFlag.AlignHCenter,
+                     panel.x_label)
     painter.save()
     painter.translate(frame.left() + 12, plot.center().y())
     painter.rotate(-90)
-    painter.drawText(QRectF(-plot.height() / 2, -10, plot.height(), 22), Qt.AlignmentFlag.AlignHCenter, panel.left_label)
+    painter.drawText(QRectF(-plot.height() / 2, -10, plot.height(), 22), Qt.AlignmentFlag.AlignHCenter,
+                     panel.left_label)
     painter.restore()
 
     # Curves cut to the plot, then markers inside it.
     painter.setBrush(Qt.BrushStyle.NoBrush)
     for s in panel.series:
         finite = np.isfinite(s.x) & np.isfinite(s.y)
-        points = [to_point(float(x), float(y)) for x, y in zip(s.x[finite], s.y[finite])]
+        points = [to_point(float(x), float(y)) for x, y in zip(s.x[finite], s.y[finite], strict=False)]
         if len(points) < 2:
             continue
         painter.setPen(_pen(s.colour, s.width, s.dash))
@@ -356,11 +387,6 @@ def draw_legend(painter: QPainter, frame: QRectF, rows: list[list[LegendItem]]) 
 # The two charts
 
 
-def torque_unit(results: Results) -> str:
-    """mN·m for small motors, N·m once the stall torque reaches 10 N·m (the whole sheet uses one)."""
-    return "N·m" if max(c.stall_torque_N_m for c in results.cases) >= 10.0 else "mN·m"
-
-
 def case_label(case) -> str:
     return (f"{case.name}: ambient {case.ambient_C:.0f} °C, winding {case.winding_temperature_C:.0f} °C, "
             f"magnet {case.magnet_temperature_C:.0f} °C")
@@ -374,61 +400,86 @@ def working_torque_limit(results: Results) -> float:
     return min(stall, span) if span > 0 else stall
 
 
-def drive_current_limit(results: Results) -> float | None:
-    """The drive's current limit [A], as the demagnetization case at that limit carries it; None without one."""
-    return next((c.current_A for c in results.demagnetization.cases if c.kind == "current limit"), None)
+def _vertical(x: float, panel: Panel, colour: str, dash: str, line: str, width: float = 1.4) -> Series:
+    """A vertical line across the panel at ``x``."""
+    return Series(np.array([x, x]), np.array(panel.left_range), QColor(colour), qt_pen_style(dash), width, line)
 
 
 def performance_panels(results: Results) -> list[Panel]:
     unit = torque_unit(results)
+    torque = figure("curve.torque_N_m")
     stall = max(c.stall_torque_N_m for c in results.cases)
-    top = from_si(stall, unit)
-    speed_top = max(from_si(c.no_load_speed_rad_per_s, "rpm") for c in results.cases)
-    current_top = max(c.stall_current_A for c in results.cases)
-    power_top = max(c.max_output_power_W for c in results.cases)
+    tops = {
+        "speed_rad_per_s": max(from_si(c.no_load_speed_rad_per_s, "rpm") for c in results.cases) * 1.02,
+        "current_A": max(c.stall_current_A for c in results.cases) * 1.02,
+        "output_power_W": max(c.max_output_power_W for c in results.cases) * 1.08,
+    }
     working = working_torque_limit(results)
-    x_full = nice_range(0.0, top)
+    x_full = nice_range(0.0, from_si(stall, unit))
     x_work = nice_range(0.0, from_si(working, unit))
-    panels = [
-        Panel("Speed", f"Shaft torque [{unit}]", "Speed [rpm]", x_full, nice_range(0.0, speed_top * 1.02)),
-        Panel("Current", f"Shaft torque [{unit}]", "Armature current [A]", x_full, nice_range(0.0, current_top * 1.02)),
-        Panel("Output power", f"Shaft torque [{unit}]", "Output power [W]", x_full, nice_range(0.0, power_top * 1.08)),
-        Panel("Efficiency, working range", f"Shaft torque [{unit}]", "Efficiency [%]", x_work, (0.0, 100.0),
-              note="range narrowed to the working region" if working < stall * 0.999 else ""),
-    ]
-    quantities = (("speed_rad_per_s", "rpm"), ("current_A", "A"), ("output_power_W", "W"), ("efficiency", "%"))
+    panels = []
+    for name in CURVE_QUANTITIES:
+        quantity = figure(f"curve.{name}")
+        if name == "efficiency":
+            panels.append(Panel(f"{quantity.title}, working range", torque.label(unit), quantity.label(), x_work,
+                                (0.0, 100.0),
+                                note="range narrowed to the working region" if working < stall * 0.999 else ""))
+        else:
+            panels.append(Panel(quantity.title, torque.label(unit), quantity.label(), x_full,
+                                nice_range(0.0, tops[name])))
     for case in results.cases:
-        colour, dash = CASE_STYLE[case.name]
-        torque = from_si(case.curve.torque_N_m, unit)
-        for panel, (name, q_unit) in zip(panels, quantities):
-            panel.series.append(Series(torque, from_si(getattr(case.curve, name), q_unit), colour, dash))
-            points = (
-                (case.rated, "square"),
-                (case.max_efficiency_point, "circle"),
-                (case.max_power_point, "triangle"),
-            )
-            for point, shape in points:
-                value = {"speed_rad_per_s": point.speed_rad_per_s, "current_A": point.current_A,
-                         "output_power_W": point.output_power_W, "efficiency": point.efficiency}[name]
-                panel.markers.append(Marker(from_si(point.torque_N_m, unit), from_si(value, q_unit), shape, colour))
+        style = CASES[case.name]
+        torque_shown = from_si(case.curve.torque_N_m, unit)
+        for panel, name in zip(panels, CURVE_QUANTITIES, strict=True):
+            q_unit = figure(f"curve.{name}").unit
+            panel.series.append(Series(torque_shown, from_si(getattr(case.curve, name), q_unit), QColor(style.colour),
+                                       qt_pen_style(style.dash), line=f"case:{case.name}"))
+            for point, field_name in CASE_POINTS.items():
+                if point == "rated" and not case.rated_reached:
+                    continue  # the motor stalls before the rated torque: there is no rated point
+                at = getattr(case, field_name)
+                panel.markers.append(point_marker(point, from_si(at.torque_N_m, unit),
+                                                  from_si(getattr(at, name), q_unit), case.name))
+    rated, limit_style = LINES["rated_torque"], LINES["drive_limit"]
+    for panel in panels:
+        panel.series.insert(0, _vertical(from_si(results.load_torque_N_m, unit), panel, rated.colour, rated.dash,
+                                         "rated_torque", 1.0))
     limit = drive_current_limit(results)
+    limit_torque = results.nominal.current_limit_torque_N_m
     if limit is not None:
         # Above this line the current panel's curves are out of the drive's reach.
-        panels[1].series.append(Series(np.array(x_full), np.array([limit, limit]), LIMIT, Qt.PenStyle.DotLine, 2.4))
-    required = Marker(from_si(results.load_torque_N_m, unit), from_si(results.load_speed_rad_per_s, "rpm"), "plus",
-                      REQUIRED, size=16)
-    panels[0].markers.append(required)
+        current = panels[CURVE_QUANTITIES.index("current_A")]
+        current.series.append(Series(np.array(x_full), np.array([limit, limit]), QColor(limit_style.colour),
+                                     qt_pen_style(limit_style.dash), 1.6, "drive_limit"))
+    if limit_torque is not None:
+        for panel in panels:
+            panel.series.append(_vertical(from_si(limit_torque, unit), panel, limit_style.colour, limit_style.dash,
+                                          "drive_limit", 1.6))
+    speed = panels[CURVE_QUANTITIES.index("speed_rad_per_s")]
+    speed.markers.append(point_marker("required", from_si(results.load_torque_N_m, unit),
+                                      from_si(results.load_speed_rad_per_s, "rpm")))
     return panels
 
 
+def _legend_point(point: str) -> LegendItem:
+    style = POINTS[point]
+    return LegendItem(style.title, QColor(style.colour) if style.colour else AXIS, shape=style.marker,
+                      filled=style.filled)
+
+
+def _legend_line(line: str, text: str = "") -> LegendItem:
+    style = LINES[line]
+    return LegendItem(text or style.title, QColor(style.colour), qt_pen_style(style.dash))
+
+
 def performance_legend(results: Results) -> list[list[LegendItem]]:
+    limit = drive_current_limit(results)
     return [
-        [LegendItem(f"{name}", colour, dash) for name, (colour, dash) in CASE_STYLE.items()]
-        + [LegendItem("rated point", AXIS, shape="square"), LegendItem("best efficiency", AXIS, shape="circle"),
-           LegendItem("maximum power", AXIS, shape="triangle"),
-           LegendItem("required speed at rated torque", REQUIRED, shape="plus")]
-        + ([LegendItem(f"drive current limit, {drive_current_limit(results):g} A", LIMIT, Qt.PenStyle.DotLine)]
-           if drive_current_limit(results) is not None else []),
+        [LegendItem(style.title, QColor(style.colour), qt_pen_style(style.dash)) for style in CASES.values()]
+        + [_legend_point(point) for point in CASE_POINTS] + [_legend_point("required"), _legend_line("rated_torque")]
+        + ([_legend_line("drive_limit", f"{LINES['drive_limit'].title}, {figure('current_limit_A').text(limit)} "
+                                        "(its torque: nominal case)")]
+           if limit is not None else []),
         [LegendItem(case_label(c), AXIS) for c in results.cases],
     ]
 
@@ -460,63 +511,63 @@ def demagnetization_point_labels(results: Results) -> list[str]:
     return [str(i + 1) for i in range(len(results.demagnetization.cases))]
 
 
-def _demagnetization_colour(case) -> QColor:
-    """Cold cases in the cold colour, the others (hot) in the hot colour, as their names say."""
-    return CASE_STYLE["cold" if "cold" in case.name else "hot"][0]
-
-
 def magnet_panel(results: Results) -> Panel:
     chart = results.magnet_chart
     cases = results.demagnetization.cases
-    fields = [from_si(c.curves.field_strength, "kA/m") for c in chart]
+    field_figure = figure("magnet_chart_case.curves.field_strength")
+    density = figure("magnet_chart_case.curves.flux_density")
+    field_unit = field_figure.unit
+    fields = [from_si(c.curves.field_strength, field_unit) for c in chart]
     x_low = min(float(np.min(f)) for f in fields)
-    x_low = min([x_low] + [from_si(c.magnet_field_A_per_m, "kA/m") * 1.05 for c in cases])
+    x_low = min([x_low] + [from_si(c.magnet_field_A_per_m, field_unit) * 1.05 for c in cases])
     b_top = max(c.curves.remanence for c in chart)
     b_low = min([0.0] + [c.curves.knee_flux_density for c in chart] + [c.magnet_flux_density_T for c in cases])
     y_range = nice_range(b_low - (0.05 * b_top if b_low < 0 else 0.0), b_top * 1.08)
-    panel = Panel(f"Magnet {results.magnet.name}: second quadrant", "Field strength H [kA/m]",
-                  "Flux density B, polarization J [T]", nice_range(x_low, 0.0), y_range)
+    panel = Panel(f"Magnet {results.magnet.name}: second quadrant", field_figure.label(), density.label(),
+                  nice_range(x_low, 0.0), y_range)
+    load_dash = qt_pen_style(LINES["load_line"].dash)
     for c in chart:
-        colour, _ = CASE_STYLE[c.name]
-        h = from_si(c.curves.field_strength, "kA/m")
-        panel.series.append(Series(h, c.curves.flux_density, colour, Qt.PenStyle.SolidLine, 2.4))
-        panel.series.append(Series(h, c.curves.polarization, colour, Qt.PenStyle.DashLine, 2.0))
+        colour = case_colour(c.name)
+        h = from_si(c.curves.field_strength, field_unit)
+        panel.series.append(Series(h, c.curves.flux_density, colour, Qt.PenStyle.SolidLine, 2.4, f"case:{c.name}"))
+        panel.series.append(Series(h, c.curves.polarization, colour, Qt.PenStyle.DashLine, 2.0, f"case:{c.name}"))
         # Load line: from the origin through the operating point (slope −μ0·Pc).
-        hm = from_si(c.operating_field_A_per_m, "kA/m")
+        hm = from_si(c.operating_field_A_per_m, field_unit)
         scale = panel.x_range[0] / hm if hm < 0 else 1.0
         panel.series.append(Series(np.array([0.0, hm * scale]), np.array([0.0, c.operating_flux_density_T * scale]),
-                                   colour, Qt.PenStyle.DotLine, 1.6))
-        panel.markers.append(Marker(hm, c.operating_flux_density_T, "circle", colour, size=12))
-        panel.markers.append(Marker(from_si(c.curves.knee_field, "kA/m"), c.curves.knee_flux_density, "diamond", colour,
-                                    filled=False, size=12))
+                                   colour, load_dash, 1.6, "load_line"))
+        panel.markers.append(point_marker("operating_point", hm, c.operating_flux_density_T, c.name, MAGNET_MARKER))
+        knee_h = from_si(c.curves.knee_field, field_unit)
+        # The knee on both curves, as on screen: where J falls off, and the B it takes there.
+        knee_j = float(np.interp(c.curves.knee_field, c.curves.field_strength, c.curves.polarization))
+        for knee_b in (c.curves.knee_flux_density, knee_j):
+            panel.markers.append(point_marker("knee", knee_h, knee_b, c.name, MAGNET_MARKER))
     labels = demagnetization_point_labels(results)
-    groups: dict[tuple[float, float], list[int]] = {}
+    groups: dict[tuple[float, float, bool], list[int]] = {}
     for index, case in enumerate(cases):
         key = (round(case.magnet_field_A_per_m, -2), round(case.magnet_flux_density_T, 3), case.ok)
         groups.setdefault(key, []).append(index)
-    for key, members in groups.items():
+    for members in groups.values():
         case = cases[members[0]]
-        colour = _demagnetization_colour(case)
         text = ",".join(labels[i] for i in members)
-        if case.ok:
-            panel.markers.append(Marker(from_si(case.magnet_field_A_per_m, "kA/m"), case.magnet_flux_density_T, "triangle",
-                                        colour, filled=False, size=12, label=text))
-        else:
-            panel.markers.append(Marker(from_si(case.magnet_field_A_per_m, "kA/m"), case.magnet_flux_density_T, "cross",
-                                        FAIL, size=18, label=f"{text} FAILS"))
+        panel.markers.append(point_marker(
+            demagnetization_point(case), from_si(case.magnet_field_A_per_m, field_unit), case.magnet_flux_density_T,
+            case.name, MAGNET_MARKER, demagnetization_case_colour(case), text if case.ok else f"{text} FAILS"))
     return panel
 
 
 def magnet_legend(results: Results) -> list[list[LegendItem]]:
     temperatures = {c.name: c.curves.temperature_C for c in results.magnet_chart}
     return [
-        [LegendItem(f"{name} (magnet {temperatures[name]:.0f} °C)", colour, Qt.PenStyle.SolidLine)
-         for name, (colour, _) in CASE_STYLE.items()],
-        [LegendItem("normal curve B", AXIS, Qt.PenStyle.SolidLine), LegendItem("intrinsic curve J", AXIS, Qt.PenStyle.DashLine),
-         LegendItem("load line", AXIS, Qt.PenStyle.DotLine), LegendItem("no-load operating point", AXIS, shape="circle")],
-        [LegendItem("knee", AXIS, shape="diamond", filled=False),
-         LegendItem("demagnetization case n, safe", AXIS, shape="triangle", filled=False),
-         LegendItem("case past the knee: demagnetizes", FAIL, shape="cross")],
+        [LegendItem(f"{name} (magnet {temperatures[name]:.0f} °C)", QColor(style.colour), Qt.PenStyle.SolidLine)
+         for name, style in CASES.items()],
+        [LegendItem("normal curve B", AXIS, Qt.PenStyle.SolidLine),
+         LegendItem("intrinsic curve J", AXIS, Qt.PenStyle.DashLine),
+         _legend_line("load_line"), _legend_point("operating_point")],
+        [_legend_point("knee"), LegendItem(f"{POINTS['demagnetization_safe'].title}, numbered", AXIS,
+                                           shape=POINTS["demagnetization_safe"].marker,
+                                           filled=POINTS["demagnetization_safe"].filled),
+         _legend_point("demagnetization_fails")],
     ]
 
 

@@ -365,7 +365,8 @@ class CompareView(QWidget):
         self._update_later()
 
     def _choose_b_file(self) -> None:
-        path, _filter = QFileDialog.getOpenFileName(self, "Open a project file as B", "", "pmdc-sizer projects (*.toml)")
+        path, _filter = QFileDialog.getOpenFileName(self, "Open a project file as B", "",
+                                                    "pmdc-sizer projects (*.toml)")
         if path:
             self.load_b_file(path)
 
@@ -452,7 +453,8 @@ class CompareView(QWidget):
         self._reset_grade_combo()
         self.b_mode = "refit"
         self.b_source = (f"re-fitted to A's {fit.title} ({'reached' if fit.reached else 'out of reach'}): "
-                         f"{refit.TARGETS[fit.target].parameter_title} {parameter_text(fit.value_before, fit.parameter_unit)}"
+                         f"{refit.TARGETS[fit.target].parameter_title} "
+                         f"{parameter_text(fit.value_before, fit.parameter_unit)}"
                          f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
         self.project_b, self.results_b = fit.project, fit.results
         self._show_refit(fit)
@@ -626,14 +628,15 @@ class CompareView(QWidget):
                 plot.enableAutoRange(axis="y")
 
     def _draw_magnets(self) -> None:
-        for side, results, design in (("A", self.results_a, self.project_a), ("B", self.results_b, self.project_b)):
+        for side, results, _design in (("A", self.results_a, self.project_a), ("B", self.results_b, self.project_b)):
             chart, title = self.magnet_charts[side], self.magnet_titles[side]
             if results is None:
                 chart.clear()
                 title.setText(f"{side}: –")
                 continue
             chart.show_results(results)
-            title.setText(f"{side}: {results.magnet.name}, {from_si(results.geometry.magnet_thickness_m, 'mm'):.4g} mm arcs, "
+            thickness_mm = from_si(results.geometry.magnet_thickness_m, "mm")
+            title.setText(f"{side}: {results.magnet.name}, {thickness_mm:.4g} mm arcs, "
                           f"Pc {text_of(results, 'magnetics.permeance_coefficient')} at no load")
 
 

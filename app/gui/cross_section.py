@@ -204,10 +204,7 @@ class CrossSection(QWidget):
 
     def _scale_bar(self, housing_out: float) -> None:
         unit = self.display.screen_unit("mm")
-        if unit == "mm":
-            shown = 10.0 if housing_out > 12 else 5.0
-        else:
-            shown = 0.5 if housing_out > 15 else 0.25
+        shown = (10.0 if housing_out > 12 else 5.0) if unit == "mm" else 0.5 if housing_out > 15 else 0.25
         length = float(convert(shown, unit, "mm"))
         y = -housing_out - 0.08 * housing_out
         x = -housing_out

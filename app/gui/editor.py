@@ -365,7 +365,8 @@ class MagnetGradePicker(QWidget):
         self.source_box = ChoiceBox()
         self.source_box.addItem("From the library", self.LIBRARY)
         self.source_box.addItem("Custom (supplier's certified data)", self.CUSTOM)
-        self.source_box.setToolTip("Use a typical library grade, or enter the numbers from your supplier's certificate.")
+        self.source_box.setToolTip("Use a typical library grade, or enter the numbers from your supplier's "
+                                   "certificate.")
         self.source_box.activated.connect(self._on_source)
         layout.addWidget(self.source_box)
         self.grade_box = ChoiceBox()
@@ -438,12 +439,15 @@ def grade_summary(grade) -> str:
     """The grade's catalogue data at 20 °C in three short lines that wrap in a narrow column."""
     return (
         f"<b>{grade.name}</b>, {grade.family}, typical at 20 °C:<br>"
-        f"Br <b>{format_quantity(grade.remanence, 'T')}</b>, HcB <b>{format_quantity(grade.coercivity_hcb, 'kA/m')}</b>, "
+        f"Br <b>{format_quantity(grade.remanence, 'T')}</b>, "
+        f"HcB <b>{format_quantity(grade.coercivity_hcb, 'kA/m')}</b>, "
         f"HcJ <b>{format_quantity(grade.coercivity_hcj, 'kA/m')}</b>, "
         f"(BH)max <b>{format_quantity(grade.energy_product, 'kJ/m3')}</b><br>"
         f"μrec <b>{significant(grade.recoil_permeability, 3)}</b>, Hk/HcJ <b>{significant(grade.squareness, 2)}</b>; "
-        f"per K: Br <b>{100 * grade.remanence_temp_coeff:+.2g} %</b>, HcJ <b>{100 * grade.coercivity_temp_coeff:+.2g} %</b><br>"
-        f"max. working <b>{grade.max_working_temperature_C:.0f} °C</b>, density <b>{format_quantity(grade.density, 'kg/m3')}</b><br>"
+        f"per K: Br <b>{100 * grade.remanence_temp_coeff:+.2g} %</b>, "
+        f"HcJ <b>{100 * grade.coercivity_temp_coeff:+.2g} %</b><br>"
+        f"max. working <b>{grade.max_working_temperature_C:.0f} °C</b>, "
+        f"density <b>{format_quantity(grade.density, 'kg/m3')}</b><br>"
         f"<small>Source: {grade.source}</small>"
     )
 
@@ -500,4 +504,4 @@ class DesignEditor(QScrollArea):
         return self.editors[key]
 
 
-__all__ = ["DesignEditor", "FieldEditor", "label_for", "custom_grade_from_library"]
+__all__ = ["DesignEditor", "FieldEditor", "custom_grade_from_library", "label_for"]

@@ -9,25 +9,44 @@ cases with their margins, the worst first.
 
 from __future__ import annotations
 
+import textwrap
+
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QBrush, QColor, QFont
 from PySide6.QtWidgets import QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget
 
-from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.app.figures import (
+    CASES,
+    LABELS,
+    LINES,
+    POINTS,
+    STATUSES,
+    demagnetization_case_colour,
+    demagnetization_point,
+    figure,
+    text_of,
+)
 from pmdc_sizer.core.units import from_si
 
-from .style import CASE_COLOURS, KNEE_COLOUR, PAST_KNEE_COLOUR, SAFE_COLOUR
+from .style import line_pen, mark_style
 
-FIELD_UNIT = "kA/m"
+FIELD = figure("magnet_chart_case.curves.field_strength")
+FIELD_UNIT = FIELD.unit
+#: The colour of a legend's sample for marks that take their case's colour (as on paper).
+SAMPLE_COLOUR = "#5b6470"
+SAFE_COLOUR, PAST_KNEE_COLOUR = STATUSES["pass"].colour, STATUSES["fail"].colour
 
 
-def _pen(colour, width=2.0, dashed=False):
-    pen = pg.mkPen(colour, width=width)
-    if dashed:
-        pen.setStyle(Qt.PenStyle.DashLine)
-    return pen
+def _header(title: str, unit: str = "") -> str:
+    """A column header in short lines, so the table's columns stay narrow."""
+    return "\n".join(textwrap.wrap(title, 12) + ([f"[{unit}]"] if unit else []))
+
+
+def _scatter_of(point: str) -> pg.ScatterPlotItem:
+    """A scatter item whose own style (the legend's sample) is the named point's, in the sample colour."""
+    return pg.ScatterPlotItem(**mark_style(point, SAMPLE_COLOUR))
 
 
 class MagnetChart(QWidget):
@@ -46,8 +65,9 @@ class MagnetChart(QWidget):
         self.plot.setObjectName("magnet_plot")
         item = self.plot.getPlotItem()
         item.showGrid(x=True, y=True, alpha=0.25)
-        item.setLabel("bottom", "Field strength in the magnet H", units=FIELD_UNIT)
-        item.setLabel("left", "Flux density B (solid) and polarization J (dashed)", units="T")
+        item.setLabel("bottom", f"{FIELD.title} in the magnet", units=FIELD_UNIT)
+        density = figure("magnet_chart_case.curves.flux_density")
+        item.setLabel("left", f"{density.title} (B solid, J dashed)", units=density.unit)
         for axis in ("bottom", "left"):
             item.getAxis(axis).enableAutoSIPrefix(False)
             item.getAxis(axis).setTextPen("k")
@@ -57,35 +77,35 @@ class MagnetChart(QWidget):
         self.legend = item.addLegend(offset=(10, 10), labelTextColor="k", brush=pg.mkBrush(255, 255, 255, 220))
         # Plain curve and scatter items (not PlotDataItem): every edit redraws them, so they must be light.
         self.normal_curves, self.intrinsic_curves, self.load_lines = {}, {}, {}
-        for name, colour in CASE_COLOURS.items():
-            self.normal_curves[name] = self._curve(item, _pen(colour, 2.4))
+        load_dash = LINES["load_line"].dash
+        for name, style in CASES.items():
+            self.normal_curves[name] = self._curve(item, line_pen(style.colour, "solid", 2.4))
             self.legend.addItem(self.normal_curves[name], name)
-            self.intrinsic_curves[name] = self._curve(item, _pen(colour, 1.6, dashed=True))
-            load_pen = pg.mkPen(colour, width=1.3)
-            load_pen.setStyle(Qt.PenStyle.DotLine)
-            self.load_lines[name] = self._curve(item, load_pen)
-        self.operating_item = self._scatter(item, symbol="o", size=11, brush=CASE_COLOURS["nominal"],
-                                            pen=pg.mkPen("w", width=1.5))
-        self._case_brushes = [pg.mkBrush(colour) for colour in CASE_COLOURS.values()]
-        self.knee_item = self._scatter(item, symbol="t", size=11, brush=KNEE_COLOUR, pen=None)
-        self.legend.addItem(self.knee_item, "knee: irreversible loss begins (on B and J)")
-        self.legend.addItem(self.operating_item, "no-load operating point, on its load line (dotted)")
-        self.safe_item = self._scatter(item, symbol="o", size=12, brush=None, pen=pg.mkPen(SAFE_COLOUR, width=2.2))
-        self.legend.addItem(self.safe_item, "demagnetization case: safe")
-        self.failed_item = self._scatter(item, symbol="x", size=20, brush=PAST_KNEE_COLOUR,
-                                         pen=pg.mkPen(PAST_KNEE_COLOUR, width=1.5))
-        self.legend.addItem(self.failed_item, "demagnetization case: PAST THE KNEE")
+            self.intrinsic_curves[name] = self._curve(item, line_pen(style.colour, "dash", 1.6))
+            self.load_lines[name] = self._curve(item, line_pen(style.colour, load_dash, 1.3))
+        # Every named point in its own item, styled per spot from app.figures as the datasheet's chart is.
+        self.operating_item = self._add(item, _scatter_of("operating_point"))
+        self.knee_item = self._add(item, _scatter_of("knee"))
+        self.legend.addItem(self.knee_item, f"{POINTS['knee'].title} (on B and J)")
+        self.legend.addItem(self.operating_item, f"{POINTS['operating_point'].title} (dotted)")
+        self.safe_item = self._add(item, _scatter_of("demagnetization_safe"))
+        self.legend.addItem(self.safe_item, POINTS["demagnetization_safe"].title)
+        self.failed_item = self._add(item, _scatter_of("demagnetization_fails"))
+        self.legend.addItem(self.failed_item, POINTS["demagnetization_fails"].title)
         self.legend.setColumnCount(2)
         self._legend_texts: dict[str, str] = {}
-        self._failed_background = QBrush(QColor("#fbe3ef"))
+        self._failed_background = QBrush(QColor(STATUSES["fail"].shade))
         self._failed_foreground = QBrush(QColor(PAST_KNEE_COLOUR))
         self.case_labels: list[pg.TextItem] = []
         splitter.addWidget(self.plot)
         self.table = QTableWidget(0, 7)
         self.table.setObjectName("demagnetization_table")
         self.table.setHorizontalHeaderLabels(
-            ["Demagnetization case", "Magnet temp.", "Current", f"H in magnet ({FIELD_UNIT})",
-             f"Knee ({FIELD_UNIT})", f"Margin ({FIELD_UNIT})", "Result"])
+            ["Demagnetization case"]
+            + [_header(figure(f"demagnetization_case.{name}").title) for name in ("temperature_C", "current_A")]
+            + [_header(figure(f"demagnetization_case.{name}").title, FIELD_UNIT)
+               for name in ("magnet_field_A_per_m", "knee_field_A_per_m", "margin_A_per_m")]
+            + [LABELS["demagnetization_case.ok"]])
         self.table.verticalHeader().hide()
         self.table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
         # Column widths are measured once, on the first results: measuring every cell on every edit
@@ -103,45 +123,45 @@ class MagnetChart(QWidget):
         return curve
 
     @staticmethod
-    def _scatter(plot_item, symbol, size, brush, pen) -> pg.ScatterPlotItem:
-        scatter = pg.ScatterPlotItem(symbol=symbol, size=size, brush=brush, pen=pen)
+    def _add(plot_item, scatter: pg.ScatterPlotItem) -> pg.ScatterPlotItem:
         plot_item.addItem(scatter)
         return scatter
 
     def operating_points(self) -> dict[str, tuple[float, float]]:
         """The drawn no-load operating points, (H [kA/m], B [T]) by case name."""
-        x, y = self.operating_item.getData()
-        return {name: (float(h), float(b)) for name, h, b in zip(CASE_COLOURS, x, y)}
+        return {spot.data()[1]: (float(spot.pos().x()), float(spot.pos().y())) for spot in self.operating_item.points()}
 
     def show_results(self, results) -> None:
         chart = results.magnet_chart
-        knees_h, knees_b, operating_h, operating_b = [], [], [], []
+        knees, operating = [], []
         for case in chart:
+            colour = CASES[case.name].colour
             c = case.curves
             h = from_si(c.field_strength, FIELD_UNIT)
             self.normal_curves[case.name].setData(h, c.flux_density)
             self.intrinsic_curves[case.name].setData(h, c.polarization)
             knee_h = from_si(c.knee_field, FIELD_UNIT)
-            knees_h += [knee_h, knee_h]
-            knees_b += [c.knee_flux_density, float(np.interp(c.knee_field, c.field_strength, c.polarization))]
+            knee_style = mark_style("knee", colour)
+            for knee_b in (c.knee_flux_density, float(np.interp(c.knee_field, c.field_strength, c.polarization))):
+                knees.append({"pos": (knee_h, knee_b), "data": ("knee", case.name), **knee_style})
             op_h, op_b = from_si(case.operating_field_A_per_m, FIELD_UNIT), case.operating_flux_density_T
             reach = c.remanence / op_b if op_b > 0 else 1.0
             self.load_lines[case.name].setData([0.0, op_h * reach], [0.0, op_b * reach])
-            operating_h.append(op_h)
-            operating_b.append(op_b)
-            text = f"{case.name}: magnet at {c.temperature_C:.0f} °C, Pc = {significant(case.permeance_coefficient, 3)}"
+            operating.append({"pos": (op_h, op_b), "data": ("operating_point", case.name),
+                              **mark_style("operating_point", colour)})
+            pc = figure("magnet_chart_case.permeance_coefficient").text(case.permeance_coefficient)
+            text = f"{case.name}: magnet at {c.temperature_C:.0f} °C, Pc = {pc}"
             if self._legend_texts.get(case.name) != text:  # relaying out the legend costs more than the curves
                 self._legend_texts[case.name] = text
                 self.legend.getLabel(self.normal_curves[case.name]).setText(text)
-        self.operating_item.setData(operating_h, operating_b, brush=self._case_brushes)
-        self.knee_item.setData(knees_h, knees_b)
+        self.operating_item.setData(operating)
+        self.knee_item.setData(knees)
         cases = results.demagnetization.cases
-        safe = [c for c in cases if c.ok]
-        failed = [c for c in cases if not c.ok]
-        self.safe_item.setData([from_si(c.magnet_field_A_per_m, FIELD_UNIT) for c in safe],
-                               [c.magnet_flux_density_T for c in safe])
-        self.failed_item.setData([from_si(c.magnet_field_A_per_m, FIELD_UNIT) for c in failed],
-                                 [c.magnet_flux_density_T for c in failed])
+        for ok, scatter in ((True, self.safe_item), (False, self.failed_item)):
+            scatter.setData([{"pos": (from_si(c.magnet_field_A_per_m, FIELD_UNIT), c.magnet_flux_density_T),
+                              "data": (demagnetization_point(c), c.name),
+                              **mark_style(demagnetization_point(c), demagnetization_case_colour(c))}
+                             for c in cases if c.ok == ok])
         self._label_cases(cases)
         self._fill_table(cases)
         self._headline(results)
@@ -180,11 +200,10 @@ class MagnetChart(QWidget):
         for row, case in enumerate(ordered):
             cells = (
                 case.name,
-                f"{case.temperature_C:.0f} °C",
-                f"{significant(case.current_A, 3)} A" if case.current_A else "–",
-                significant(from_si(case.magnet_field_A_per_m, FIELD_UNIT), 3),
-                significant(from_si(case.knee_field_A_per_m, FIELD_UNIT), 3),
-                significant(from_si(case.margin_A_per_m, FIELD_UNIT), 3),
+                text_of(case, "demagnetization_case.temperature_C"),
+                text_of(case, "demagnetization_case.current_A") if case.current_A else "–",
+                *(figure(f"demagnetization_case.{name}").number(getattr(case, name))
+                  for name in ("magnet_field_A_per_m", "knee_field_A_per_m", "margin_A_per_m")),
                 "safe" if case.ok else "PAST THE KNEE",
             )
             for column, text in enumerate(cells):
@@ -210,16 +229,17 @@ class MagnetChart(QWidget):
 
     def _headline(self, results) -> None:
         d = results.demagnetization
-        margin = significant(from_si(d.worst_margin_A_per_m, FIELD_UNIT), 3)
+        margin = text_of(results, "demagnetization.worst_margin_A_per_m")
         if d.ok:
             self.headline.setText(
                 f"<span style='color:{SAFE_COLOUR}'><b>No demagnetization</b></span>: every case stays right of its "
-                f"knee. Least margin {margin} {FIELD_UNIT} ({d.worst_case}).")
+                f"knee. Least margin {margin} ({d.worst_case}).")
         else:
             failed = sum(not c.ok for c in d.cases)
             self.headline.setText(
-                f"<span style='color:{PAST_KNEE_COLOUR}'><b>{failed} case{'s' if failed > 1 else ''} past the knee</b></span>: "
-                f"the magnet loses flux for good. Worst: {d.worst_case}, {margin} {FIELD_UNIT} beyond the knee.")
+                f"<span style='color:{PAST_KNEE_COLOUR}'><b>{failed} case{'s' if failed > 1 else ''} past the knee"
+                "</b></span>: "
+                f"the magnet loses flux for good. Worst: {d.worst_case}, {margin} beyond the knee.")
 
     def _fit_view(self, results) -> None:
         cases = results.demagnetization.cases

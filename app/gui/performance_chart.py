@@ -1,9 +1,10 @@
-"""The performance chart: speed, current, efficiency and output power against shaft torque.
+"""The performance chart: speed, current, output power and efficiency against shaft torque.
 
-Four stacked plots share the torque axis, one per quantity so each keeps its own readable axis; each
-shows the cold, nominal and hot cases with the rated, maximum-efficiency and maximum-power points. A
-vertical cursor follows the mouse and the readout above the plots gives every case's values at that
-torque, read from the curves the core returned.
+Four plots share the torque axis, one per quantity so each keeps its own readable axis, in the order
+the datasheet prints them; each shows the cold, nominal and hot cases with the rated, best-efficiency
+and maximum-power points, marked as on paper (``app.figures``). A vertical cursor follows the mouse
+and the readout above the plots gives every case's values at that torque, read from the curves the
+core returned.
 """
 
 from __future__ import annotations
@@ -13,21 +14,38 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 
-from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.app.figures import (
+    CASE_POINTS,
+    CASES,
+    CURVE_QUANTITIES,
+    DASH_GLYPHS,
+    LINES,
+    POINTS,
+    drive_current_limit,
+    figure,
+)
+from pmdc_sizer.app.figures import torque_unit as design_torque_unit
 from pmdc_sizer.core.units import from_si
 
 from .display_units import DisplayUnits
-from .style import CASE_COLOURS, LIMIT_COLOUR
+from .style import line_pen, mark_style
 
-# (attribute of CurveData and PointResult, title, unit)
-QUANTITIES = (
-    ("speed_rad_per_s", "Speed", "rpm"),
-    ("current_A", "Current", "A"),
-    ("efficiency", "Efficiency", "%"),
-    ("output_power_W", "Output power", "W"),
-)
-MARKS = (("rated", "star", 15, "rated point"), ("max_efficiency_point", "d", 12, "maximum efficiency"),
-         ("max_power_point", "s", 10, "maximum output power"))
+#: (attribute of CurveData and PointResult, title, unit), in the order of the plots.
+QUANTITIES = tuple((name, figure(f"curve.{name}").title, figure(f"curve.{name}").unit) for name in CURVE_QUANTITIES)
+TORQUE = figure("curve.torque_N_m")
+
+
+def _key_html() -> str:
+    """The chart's key, from the same table as its marks."""
+    cases = "".join(f"<span style='color:{style.colour}'>{DASH_GLYPHS[style.dash]} {style.title}</span>"
+                    "&nbsp;&nbsp;&nbsp;" for style in CASES.values())
+    marks = "&nbsp;&nbsp;&nbsp;".join(f"{POINTS[p].glyph} {POINTS[p].title}" for p in CASE_POINTS)
+    required, rated, limit = POINTS["required"], LINES["rated_torque"], LINES["drive_limit"]
+    return (cases + "&nbsp;&nbsp;" + marks
+            + f"&nbsp;&nbsp;&nbsp;<span style='color:{required.colour}'><b>{required.glyph}</b> {required.title}</span>"
+            f"&nbsp;&nbsp;&nbsp;<span style='color:{rated.colour}'>{DASH_GLYPHS[rated.dash]} {rated.title}</span>"
+            f"&nbsp;&nbsp;&nbsp;<span style='color:{limit.colour}'>{DASH_GLYPHS[limit.dash]} {limit.title} "
+            "(its torque: nominal case)</span>")
 
 
 class PerformanceChart(QWidget):
@@ -48,10 +66,11 @@ class PerformanceChart(QWidget):
         layout.addWidget(self.canvas, 1)
         self.plots: dict[str, pg.PlotItem] = {}
         self.curves: dict[tuple[str, str], pg.PlotCurveItem] = {}
-        self.marks: dict[str, pg.ScatterPlotItem] = {}  #: per quantity: every case's marked points
+        self.marks: dict[str, pg.ScatterPlotItem] = {}  #: per quantity: every case's named points
         self.cursors: list[pg.InfiniteLine] = []
         self.rated_lines: list[pg.InfiniteLine] = []
         self.limit_lines: list[pg.InfiniteLine] = []  # torque at the drive's current limit, when it has one
+        limit_style = LINES["drive_limit"]
         first = None
         for index, (attribute, title, unit) in enumerate(QUANTITIES):
             plot = self.canvas.addPlot(row=index // 2, col=index % 2)
@@ -69,17 +88,18 @@ class PerformanceChart(QWidget):
             else:
                 plot.setXLink(first)
             # Plain curve and scatter items (not PlotDataItem): every edit redraws them, so they must be light.
-            for case, colour in CASE_COLOURS.items():
-                curve = pg.PlotCurveItem(pen=pg.mkPen(colour, width=2.2), skipFiniteCheck=True)
+            for case, style in CASES.items():
+                curve = pg.PlotCurveItem(pen=line_pen(style.colour, style.dash, 2.2), skipFiniteCheck=True)
                 plot.addItem(curve)
                 self.curves[(attribute, case)] = curve
-            marks = pg.ScatterPlotItem(pen=pg.mkPen("w", width=1))
+            marks = pg.ScatterPlotItem()
             plot.addItem(marks)
             self.marks[attribute] = marks
-            rated = pg.InfiniteLine(angle=90, pen=pg.mkPen("#777", width=1, style=Qt.PenStyle.DashLine))
+            rated_style = LINES["rated_torque"]
+            rated = pg.InfiniteLine(angle=90, pen=line_pen(rated_style.colour, rated_style.dash, 1.0))
             plot.addItem(rated, ignoreBounds=True)
             self.rated_lines.append(rated)
-            limit = pg.InfiniteLine(angle=90, pen=pg.mkPen(LIMIT_COLOUR, width=1.4, style=Qt.PenStyle.DashDotLine))
+            limit = pg.InfiniteLine(angle=90, pen=line_pen(limit_style.colour, limit_style.dash, 1.6))
             limit.hide()
             plot.addItem(limit, ignoreBounds=True)
             self.limit_lines.append(limit)
@@ -88,59 +108,58 @@ class PerformanceChart(QWidget):
             plot.addItem(cursor, ignoreBounds=True)
             self.cursors.append(cursor)
             self.plots[attribute] = plot
-        self.required_mark = pg.ScatterPlotItem(symbol="+", size=22, pen=pg.mkPen("#000", width=2.5), brush=None)
+        # Above this line the current plot's curves are out of the drive's reach (drawn so on paper too).
+        self.limit_current_line = pg.InfiniteLine(angle=0, pen=line_pen(limit_style.colour, limit_style.dash, 1.6))
+        self.limit_current_line.hide()
+        self.plots["current_A"].addItem(self.limit_current_line, ignoreBounds=True)
+        self.required_mark = pg.ScatterPlotItem(**mark_style("required"))
         self.plots["speed_rad_per_s"].addItem(self.required_mark)
-        self._brushes = {name: pg.mkBrush(colour) for name, colour in CASE_COLOURS.items()}
         self._x_range = None
-        self.key = QLabel(
-            "".join(f"<span style='color:{colour}'>━━ {case}</span>&nbsp;&nbsp;&nbsp;" for case, colour in CASE_COLOURS.items())
-            + "&nbsp;&nbsp;★ rated point&nbsp;&nbsp;&nbsp;◆ maximum efficiency&nbsp;&nbsp;&nbsp;■ maximum output power"
-            "&nbsp;&nbsp;&nbsp;<b>+</b> required: rated torque at this speed or faster&nbsp;&nbsp;&nbsp;"
-            "<span style='color:#777'>┆ rated torque</span>&nbsp;&nbsp;&nbsp;"
-            f"<span style='color:{LIMIT_COLOUR}'>┆ drive current limit (nominal case)</span>")
+        self.key = QLabel(_key_html())
         self.key.setObjectName("performance_key")
         self.key.setWordWrap(True)
         self.key.setStyleSheet("padding: 2px 4px;")
         layout.insertWidget(1, self.key)
         self._results = None
         self.canvas.scene().sigMouseMoved.connect(self._on_mouse_moved)
+        self._labelled_unit = None
         self.set_torque_unit()
 
     @property
     def torque_unit(self) -> str:
-        return self.display.screen_unit("mN·m")
+        """The torque axis's unit on screen: the design's (mN·m, N·m for big motors) in the display units."""
+        unit = design_torque_unit(self._results) if self._results is not None else TORQUE.unit
+        return self.display.screen_unit(unit)
 
     def set_torque_unit(self) -> None:
-        if getattr(self, "_labelled_unit", None) == self.torque_unit:
+        if self._labelled_unit == self.torque_unit:
             return  # relabelling relays out all four plots
         self._labelled_unit = self.torque_unit
         for plot in self.plots.values():
-            plot.setLabel("bottom", "Shaft torque", units=self.torque_unit)
+            plot.setLabel("bottom", TORQUE.title, units=self.torque_unit)
 
     def _to_screen(self, attribute: str, values):
-        unit = dict((a, u) for a, _t, u in QUANTITIES)[attribute]
+        unit = figure(f"curve.{attribute}").unit
         return from_si(np.asarray(values, dtype=float), unit)
 
     def show_results(self, results) -> None:
         self._results = results
         self.set_torque_unit()
         torque_unit = self.torque_unit
-        brushes = self._brushes
         for attribute, _title, _unit in QUANTITIES:
-            xs, ys, symbols, sizes, case_brushes = [], [], [], [], []
+            spots = []
             for case in results.cases:
                 torque = from_si(case.curve.torque_N_m, torque_unit)
-                self.curves[(attribute, case.name)].setData(torque, self._to_screen(attribute, getattr(case.curve, attribute)))
-                for mark, symbol, size, _label in MARKS:
-                    if mark == "rated" and not case.rated_reached:
+                values = self._to_screen(attribute, getattr(case.curve, attribute))
+                self.curves[(attribute, case.name)].setData(torque, values)
+                for point, field in CASE_POINTS.items():
+                    if point == "rated" and not case.rated_reached:
                         continue  # the motor stalls before the rated torque: there is no rated point
-                    point = getattr(case, mark)
-                    xs.append(from_si(point.torque_N_m, torque_unit))
-                    ys.append(float(self._to_screen(attribute, getattr(point, attribute))))
-                    symbols.append(symbol)
-                    sizes.append(size)
-                    case_brushes.append(brushes[case.name])
-            self.marks[attribute].setData(xs, ys, symbol=symbols, size=sizes, brush=case_brushes)
+                    at = getattr(case, field)
+                    spots.append({"pos": (from_si(at.torque_N_m, torque_unit),
+                                          float(self._to_screen(attribute, getattr(at, attribute)))),
+                                  "data": (point, case.name), **mark_style(point, CASES[case.name].colour)})
+            self.marks[attribute].setData(spots)
         load_torque = from_si(results.load_torque_N_m, torque_unit)
         for line in self.rated_lines:
             line.setValue(load_torque)
@@ -152,6 +171,10 @@ class PerformanceChart(QWidget):
             else:
                 line.setValue(from_si(limit_torque, torque_unit))
                 line.show()
+        limit_current = drive_current_limit(results)
+        self.limit_current_line.setVisible(limit_current is not None)
+        if limit_current is not None:
+            self.limit_current_line.setValue(limit_current)
         highest_stall = max(from_si(c.stall_torque_N_m, torque_unit) for c in results.cases)
         x_range = (0.0, highest_stall * 1.02)
         if self._x_range is None or abs(self._x_range[1] - x_range[1]) > 1e-3 * x_range[1]:
@@ -161,14 +184,15 @@ class PerformanceChart(QWidget):
             self.show_cursor(self.cursors[0].value())
 
     def marked_points(self, attribute: str) -> list[tuple[float, float]]:
-        """The drawn rated, maximum-efficiency and maximum-power points of one quantity (screen units)."""
+        """The drawn rated, best-efficiency and maximum-power points of one quantity (screen units)."""
         x, y = self.marks[attribute].getData()
-        return list(zip(map(float, x), map(float, y)))
+        return list(zip(map(float, x), map(float, y), strict=True))
 
     def clear(self) -> None:
         self._results = None
         for item in list(self.curves.values()) + list(self.marks.values()):
             item.setData([], [])
+        self.limit_current_line.hide()
         self._x_range = None
         self.readout.setText("No curves: the design has no solution (see the status line).")
 
@@ -186,9 +210,9 @@ class PerformanceChart(QWidget):
         if self._results is None:
             return
         unit = self.torque_unit
-        header = f"At {significant(torque_on_screen, 3)} {unit}"
+        header = f"At {TORQUE.number(torque_on_screen, '1')} {unit}"
         rows = [f"<b>{header:<24}</b>" + "".join(
-            f"<span style='color:{CASE_COLOURS[c.name]}'>{c.name + f' ({c.ambient_C:.0f} °C)':>22}</span>"
+            f"<span style='color:{CASES[c.name].colour}'>{c.name + f' ({c.ambient_C:.0f} °C)':>22}</span>"
             for c in self._results.cases)]
         for attribute, title, quantity_unit in QUANTITIES:
             cells = []
@@ -197,7 +221,8 @@ class PerformanceChart(QWidget):
                 if torque_on_screen < 0 or torque_on_screen > torque[-1]:
                     cells.append(f"{'beyond stall':>22}")
                     continue
-                value = float(np.interp(torque_on_screen, torque, self._to_screen(attribute, getattr(case.curve, attribute))))
-                cells.append(f"<span style='color:{CASE_COLOURS[case.name]}'>{significant(value, 3) + ' ' + quantity_unit:>22}</span>")
+                value = float(np.interp(torque_on_screen, torque, getattr(case.curve, attribute)))
+                text = figure(f"curve.{attribute}").text(value, quantity_unit)
+                cells.append(f"<span style='color:{CASES[case.name].colour}'>{text:>22}</span>")
             rows.append(f"{title:<24}" + "".join(cells))
         self.readout.setText("<pre style='margin:0'>" + "\n".join(rows) + "</pre>")

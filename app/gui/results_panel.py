@@ -1,10 +1,12 @@
 """Key figures of the evaluated design, with units, and the design checks in words.
 
-Only formats what ``core.evaluate.Results`` holds; the screen unit of each figure follows the display
+Only formats what ``pmdc_sizer.core.results.Results`` holds; the screen unit of each figure follows the display
 unit system (the underlying values are SI).
 """
 
 from __future__ import annotations
+
+from typing import ClassVar
 
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
@@ -19,98 +21,87 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from pmdc_sizer.app.formatting import percent, significant
-from pmdc_sizer.app.formatting import quantity as format_quantity
+from pmdc_sizer.app.figures import LABELS, STATUSES, figure, unit_for, value_of
 
 from .display_units import DisplayUnits
-from .style import CASE_COLOURS, PAST_KNEE_COLOUR, SAFE_COLOUR, STATUS_COLOURS, STATUS_MARKS, STATUS_WORDS, WARNING_COLOUR
 
 
 class Figures:
-    """Formats SI values in the screen unit chosen for their engineering unit."""
+    """Shows a figure of the results as ``app.figures`` says, in the screen unit of the display system."""
 
     def __init__(self, display: DisplayUnits):
         self.display = display
 
-    def __call__(self, value_si, unit: str, digits: int = 3) -> str:
-        shown = self.display.screen_unit(unit)
-        if shown in ("°C", "°F"):
-            from pmdc_sizer.core.units import from_si
+    def __call__(self, source, key: str, results) -> str:
+        """``key``'s value in ``source`` (the results, or one case of them) as text."""
+        unit = self.display.screen_unit(unit_for(key, results))
+        return figure(key).text(value_of(source, key), unit)
 
-            return f"{from_si(value_si, shown):.0f} {shown}"
-        return format_quantity(value_si, shown, digits).replace(" ohm", " Ω")
+    def title(self, key: str) -> str:
+        return figure(key).title
 
 
-def _case_rows(f: Figures):
+#: The rows of the table of temperature cases.
+CASE_KEYS = (
+    "case.magnet_temperature_C",
+    "case.winding_temperature_C",
+    "case.no_load_speed_rad_per_s",
+    "case.no_load_current_A",
+    "case.stall_torque_N_m",
+    "case.stall_current_A",
+    "case.rated.speed_rad_per_s",
+    "case.rated.current_A",
+    "case.rated.efficiency",
+    "case.rated.output_power_W",
+    "case.max_efficiency",
+    "case.max_output_power_W",
+    "case.kt_N_m_per_A",
+    "case.terminal_resistance_ohm",
+)
+#: Where the rated torque is beyond the stall torque there is no rated point to show.
+NOT_REACHED = "stalls"
+
+
+def _case_rows(f: Figures, results):
     """(label, function of a CaseResult giving its text)"""
-    return (
-        ("Magnet temperature", lambda c: f(c.magnet_temperature_C, "°C")),
-        ("Winding temperature", lambda c: f(c.winding_temperature_C, "°C")),
-        ("No-load speed", lambda c: f(c.no_load_speed_rad_per_s, "rpm")),
-        ("No-load current", lambda c: f(c.no_load_current_A, "A")),
-        # N·m once the stall torque reaches 10 N·m, so big motors' figures fit their column
-        ("Stall torque", lambda c: f(c.stall_torque_N_m, "N·m" if c.stall_torque_N_m >= 10.0 else "mN·m")),
-        ("Stall current", lambda c: f(c.stall_current_A, "A")),
-        ("Speed at rated torque", lambda c: f(c.rated.speed_rad_per_s, "rpm") if c.rated_reached else "stalls"),
-        ("Current at rated torque", lambda c: f(c.rated.current_A, "A")),
-        ("Efficiency at rated torque", lambda c: percent(c.rated.efficiency)),
-        ("Output power at rated torque", lambda c: f(c.rated.output_power_W, "W")),
-        ("Maximum efficiency", lambda c: percent(c.max_efficiency)),
-        ("Maximum output power", lambda c: f(c.max_output_power_W, "W")),
-        ("Ke = Kt", lambda c: f(c.ke_V_s_per_rad, "mN·m/A")),
-        ("Terminal resistance", lambda c: f(c.terminal_resistance_ohm, "ohm")),
-    )
+    def text_of(key):
+        if key.startswith("case.rated."):
+            return lambda c: f(c, key, results) if c.rated_reached else NOT_REACHED
+        return lambda c: f(c, key, results)
+
+    return tuple((f.title(key), text_of(key)) for key in CASE_KEYS)
 
 
 def _design_groups(f: Figures, r):
-    m, k, w, t, mass, cost = r.magnetics, r.constants, r.winding, r.thermal, r.mass, r.cost
-    return (
+    """(group title, ((label, text), ...)); an entry given as a key is a figure of the results."""
+    w, t, cost = r.winding, r.thermal, r.cost
+    groups = (
         ("Constants (nominal)", (
-            ("Ke", f(k.ke_V_s_per_rad, "V/krpm")),
-            ("Kt", f(k.kt_N_m_per_A, "mN·m/A")),
-            ("Terminal resistance", f(k.terminal_resistance_ohm, "ohm")),
-            ("Inductance (estimate)", f(k.inductance_H_estimate, "mH", 2)),
-            ("Electrical time constant (estimate)", f(k.electrical_time_constant_s_estimate, "ms", 2)),
-            ("Mechanical time constant", f(k.mechanical_time_constant_s, "ms")),
-            ("Rotor inertia", f(k.rotor_inertia_kg_m2, "g·cm2")),
-        )),
-        (f"Magnetic circuit at {m.temperature_C:.0f} °C", (
-            ("Flux per pole", f(m.flux_per_pole_Wb, "mWb")),
-            ("Air-gap flux density", f(m.airgap_flux_density_T, "T")),
-            ("Magnet operating point B", f(m.magnet_flux_density_T, "T")),
-            ("Magnet operating point H", f(m.magnet_field_A_per_m, "kA/m")),
-            ("Permeance coefficient", significant(m.permeance_coefficient, 3)),
-            ("Leakage factor", significant(m.leakage_factor, 3)),
-            ("Carter factor", significant(m.carter_factor, 3)),
-            ("Housing flux density", f(m.housing_flux_density_T, "T")),
-            ("Tooth flux density", f(m.tooth_flux_density_T, "T")),
-            ("Armature core flux density", f(m.core_flux_density_T, "T")),
-        )),
+            "constants.ke_V_s_per_rad", "constants.kt_N_m_per_A", "constants.terminal_resistance_ohm",
+            "constants.inductance_H_estimate", "constants.electrical_time_constant_s_estimate",
+            "constants.mechanical_time_constant_s", "constants.rotor_inertia_kg_m2")),
+        (f"Magnetic circuit at {f(r, 'magnetics.temperature_C', r)}", (
+            "magnetics.flux_per_pole_Wb", "magnetics.airgap_flux_density_T", "magnetics.magnet_flux_density_T",
+            "magnetics.magnet_field_A_per_m", "magnetics.permeance_coefficient", "magnetics.leakage_factor",
+            "magnetics.carter_factor", "magnetics.housing_flux_density_T", "magnetics.tooth_flux_density_T",
+            "magnetics.core_flux_density_T")),
         ("Winding", (
-            ("Winding", f"{w.type}, {w.parallel_paths} parallel paths"),
-            ("Conductors", f"{w.conductors} ({significant(w.conductors_per_slot, 3)} per slot)"),
-            ("Wire", f"{w.wire}, enamel grade {w.enamel_grade}"),
-            ("Slot fill (copper / enamelled)", f"{percent(w.slot_fill_bare, 2)} / {percent(w.slot_fill_gross, 2)}"),
-            ("Current density, rated, hot", f(w.rated_current_density_A_per_m2, "A/mm2")),
-            ("Resistance at 20 °C", f(w.resistance_20C_ohm, "ohm")),
-            ("Wire length", f(w.wire_length_m, "m")),
-        )),
-        (f"Thermal at {t.ambient_C:.0f} °C ambient, {t.duty}", (
-            ("Winding temperature", f(t.winding_temperature_C, "°C")),
-            ("Insulation limit", f"{f(t.insulation_limit_C, '°C')} (class {t.insulation_class})"),
-            ("Magnet temperature", f(t.magnet_temperature_C, "°C")),
-            ("Losses at rated torque", f(t.losses_W, "W")),
-            ("Housing to ambient", f(t.housing_to_ambient_K_per_W, "K/W")),
-        )),
+            (LABELS["winding.type"], f"{w.type}, {w.parallel_paths} parallel paths"),
+            (LABELS["winding.conductors"], f"{w.conductors} ({f(r, 'winding.conductors_per_slot', r)} per slot)"),
+            (LABELS["winding.wire"], f"{w.wire}, enamel grade {w.enamel_grade}"),
+            "winding.slot_fill_bare", "winding.slot_fill_gross", "winding.rated_current_density_A_per_m2",
+            "winding.resistance_20C_ohm", "winding.wire_length_m")),
+        (f"Thermal at {f(r, 'thermal.ambient_C', r)} ambient, {t.duty}", (
+            "thermal.winding_temperature_C",
+            (f.title("thermal.insulation_limit_C"),
+             f"{f(r, 'thermal.insulation_limit_C', r)} (class {t.insulation_class})"),
+            "thermal.magnet_temperature_C", "thermal.losses_W", "thermal.housing_to_ambient_K_per_W")),
         ("Mass and material cost", (
-            ("Magnets", f(mass.magnet_kg, "g")),
-            ("Copper", f(mass.copper_kg, "g")),
-            ("Housing", f(mass.housing_kg, "g")),
-            ("Laminations", f(mass.lamination_kg, "g")),
-            ("Total (active parts and shaft)", f(mass.total_kg, "g")),
-            ("Material cost", f"{significant(cost.total, 3)} {cost.currency}"),
-        )),
+            "mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg", "mass.total_kg",
+            (f.title("cost.total"), figure("cost.total").text(cost.total, cost.currency)))),
     )
+    return tuple((title, tuple((f.title(e), f(r, e, r)) if isinstance(e, str) else e for e in entries))
+                 for title, entries in groups)
 
 
 class ResultsPanel(QWidget):
@@ -150,13 +141,13 @@ class ResultsPanel(QWidget):
 
     def show_results(self, results) -> None:
         self.values = {}
-        rows = _case_rows(self.figures)
+        rows = _case_rows(self.figures, results)
         table = self.case_table
         if table.rowCount() != len(rows):
             table.setRowCount(len(rows))
             table.setVerticalHeaderLabels([label for label, _ in rows])
         table.setHorizontalHeaderLabels(
-            [f"{c.name}\n{self.figures(c.ambient_C, '°C')}" for c in results.cases])
+            [f"{c.name}\n{self.figures(c, 'case.ambient_C', results)}" for c in results.cases])
         for column, case in enumerate(results.cases):
             for row, (label, text_of) in enumerate(rows):
                 text = text_of(case)
@@ -181,7 +172,8 @@ class ResultsPanel(QWidget):
             parent.setText(0, group)
             for label, text in entries:
                 # The plain label names the figure unless an earlier group already used it.
-                name = label if label not in self.values or label in seen_in_group else f"{group.split(' ')[0]}: {label}"
+                plain = label not in self.values or label in seen_in_group
+                name = label if plain else f"{group.split(' ')[0]}: {label}"
                 seen_in_group.add(label)
                 self.values[name] = text
                 item = self._items.get((index, label))
@@ -196,22 +188,23 @@ class ResultsPanel(QWidget):
         failed = [c for c in results.checks if c.status == "fail"]
         warned = [c for c in results.checks if c.status == "warning"]
         if failed:
-            colour, background = PAST_KNEE_COLOUR, "#fbe3ef"
+            colour, background = STATUSES["fail"].colour, STATUSES["fail"].shade
             text = (f"<b>{len(failed)} check{'s' if len(failed) > 1 else ''} fail</b>: "
                     + ", ".join(c.title.lower() for c in failed) + ". See the checks below for what to change.")
         elif warned:
-            colour, background = WARNING_COLOUR, "#fdf3dc"
+            colour, background = STATUSES["warning"].colour, STATUSES["warning"].shade
             text = (f"<b>Works, with {len(warned)} warning{'s' if len(warned) > 1 else ''}</b>: "
                     + ", ".join(c.title.lower() for c in warned) + ".")
         else:
-            colour, background = SAFE_COLOUR, "#e3f4e8"
+            colour, background = STATUSES["pass"].colour, STATUSES["pass"].shade
             text = "<b>Every check passes</b>: the motor meets the load at every temperature and does not demagnetize."
         self.verdict.setStyleSheet(f"font-size: 14px; padding: 6px; border-radius: 4px; background: {background};")
         self.verdict.setText(f"<span style='color:{colour}'>{text}</span>")
 
     def show_failure(self, message: str) -> None:
-        self.verdict.setStyleSheet(f"font-size: 14px; padding: 6px; border-radius: 4px; background: #fbe3ef;")
-        self.verdict.setText(f"<span style='color:{PAST_KNEE_COLOUR}'><b>No solution for this design</b>: {message}</span>")
+        fail = STATUSES["fail"]
+        self.verdict.setStyleSheet(f"font-size: 14px; padding: 6px; border-radius: 4px; background: {fail.shade};")
+        self.verdict.setText(f"<span style='color:{fail.colour}'><b>No solution for this design</b>: {message}</span>")
         for row in range(self.case_table.rowCount()):
             for column in range(self.case_table.columnCount()):
                 item = self.case_table.item(row, column)
@@ -229,7 +222,7 @@ class ChecksPanel(QTextBrowser):
     laying out one document is much cheaper than relaying out a column of word-wrapped labels.
     """
 
-    ORDER = {"fail": 0, "warning": 1, "pass": 2}
+    ORDER: ClassVar[dict[str, int]] = {"fail": 0, "warning": 1, "pass": 2}
 
     def __init__(self):
         super().__init__()
@@ -244,14 +237,14 @@ class ChecksPanel(QTextBrowser):
         self.shown = [c.key for c in ordered]
         entries = []
         for check in ordered:
-            colour = STATUS_COLOURS.get(check.status, "#000")
+            status = STATUSES[check.status]
             advice = (f"<br><i>What to change:</i> {check.advice[0].upper() + check.advice[1:]}."
                       if check.advice and check.status != "pass" else "")
             # Plain paragraphs: a table per check lays out several times slower on every edit.
             entries.append(
                 f"<p style='margin-top:0; margin-bottom:6px'>"
-                f"<span style='color:{colour}; font-weight:bold'>{STATUS_MARKS.get(check.status, '?')} "
-                f"{STATUS_WORDS.get(check.status, check.status)}</span>&nbsp; <b>{check.title}</b><br>"
+                f"<span style='color:{status.colour}; font-weight:bold'>{status.mark} {status.word}</span>"
+                f"&nbsp; <b>{check.title}</b><br>"
                 f"{check.message}{advice}</p>")
         scroll = self.verticalScrollBar().value()
         self.setHtml("".join(entries))
@@ -262,4 +255,4 @@ class ChecksPanel(QTextBrowser):
         self.setHtml("<i>No checks: the design has no solution (see the key figures).</i>")
 
 
-__all__ = ["ResultsPanel", "ChecksPanel", "CASE_COLOURS"]
+__all__ = ["ChecksPanel", "ResultsPanel"]

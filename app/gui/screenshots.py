@@ -17,12 +17,12 @@ from pathlib import Path
 
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 
-from PySide6.QtWidgets import QApplication  # noqa: E402
+from PySide6.QtWidgets import QApplication
 
-from pmdc_sizer.app.overrides import apply_overrides  # noqa: E402
-from pmdc_sizer.core.units import from_si  # noqa: E402
+from pmdc_sizer.app.overrides import apply_overrides
+from pmdc_sizer.core.units import from_si
 
-from .main_window import DEMO_FOLDER, MainWindow, _application, read_project, render_screenshot  # noqa: E402
+from .main_window import DEMO_FOLDER, MainWindow, _application, read_project, render_screenshot
 
 PAGES = ("magnet_chart", "performance_curves", "cross_section")
 
@@ -38,8 +38,8 @@ def save_all(folder: Path, project_path: Path, prefix: str = "", overrides: list
     for index, name in enumerate(PAGES):
         window.pages.setCurrentIndex(index)
         if name == "performance_curves":
-            window.performance_chart.show_cursor(
-                from_si(window.current_results.load_torque_N_m, "mN·m") if window.display.system == "SI" else 0.0)
+            chart = window.performance_chart
+            chart.show_cursor(from_si(window.current_results.load_torque_N_m, chart.torque_unit))
         out = folder / f"{prefix}{name}.png"
         render_screenshot(window, out)
         QApplication.processEvents()
@@ -50,7 +50,8 @@ def save_all(folder: Path, project_path: Path, prefix: str = "", overrides: list
 
 def main(argv: list[str]) -> int:
     parser = argparse.ArgumentParser(prog="python -m app.gui.screenshots")
-    parser.add_argument("folder", nargs="?", default=str(Path(__file__).resolve().parents[2] / "assets" / "screenshots"))
+    parser.add_argument("folder", nargs="?",
+                        default=str(Path(__file__).resolve().parents[2] / "assets" / "screenshots"))
     parser.add_argument("project", nargs="?", default=str(DEMO_FOLDER / "appliance_ferrite_12v.toml"))
     parser.add_argument("--set", action="append", default=[], metavar="KEY=VALUE")
     parser.add_argument("--prefix", default="")

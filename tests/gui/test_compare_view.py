@@ -5,13 +5,13 @@ from __future__ import annotations
 import pytest
 from PySide6.QtCore import QObject, Qt, Signal
 
-from pmdc_sizer.app.compare_text import KEY_FIGURES
+from pmdc_sizer.app.figures import COMPARE_KEYS, STATUSES, figure
 from pmdc_sizer.core import evaluate, project
 from tests.conftest import DEMO_FOLDER
 
 pytest.importorskip("pyqtgraph")
 
-from pmdc_sizer.app.gui.compare_view import CompareView  # noqa: E402
+from pmdc_sizer.app.gui.compare_view import CompareView
 
 FERRITE = DEMO_FOLDER / "appliance_ferrite_12v.toml"
 
@@ -24,11 +24,11 @@ class StandInWindow(QObject):
     def __init__(self, path):
         super().__init__()
         self.current_project = project.load(path)
-        self.current_results = evaluate.evaluate(self.current_project)
+        self.current_results = evaluate(self.current_project)
 
     def edit(self, changes):
         self.current_project = project.with_values(self.current_project, changes)
-        self.current_results = evaluate.evaluate(self.current_project)
+        self.current_results = evaluate(self.current_project)
         self.results_ready.emit(self.current_project, self.current_results)
 
 
@@ -60,14 +60,14 @@ def test_pinned_copy_of_a_shows_no_difference_then_follows_edits_of_a(page, qtbo
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.pin_button.click()
     table = view.figures_table
-    assert table.rowCount() == len(KEY_FIGURES)
+    assert table.rowCount() == len(COMPARE_KEYS)
     assert all(cell(table, row, 3) == "0" for row in range(table.rowCount()))
     # Editing A moves A only: the pinned B stays at 6 mm.
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         window.edit({"magnets.thickness_mm": 7.0})
     row = row_of(table, "Magnet thickness")
     assert (cell(table, row, 1), cell(table, row, 2), cell(table, row, 3)) == ("7.000", "6.000", "-1.00")
-    assert cell(table, row_of(table, "Ke = Kt"), 4).startswith("-")
+    assert cell(table, row_of(table, figure("constants.ke_V_s_per_rad").title), 4).startswith("-")
 
 
 def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page, qtbot):
@@ -76,18 +76,19 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
         view.grade_combo.setCurrentText("N42")
     assert view.results_b.magnet.name == "N42"
     table = view.figures_table
-    assert float(cell(table, row_of(table, "Br ["), 2)) > 2.5 * float(cell(table, row_of(table, "Br ["), 1))  # NdFeB against ferrite
+    # NdFeB against ferrite
+    assert float(cell(table, row_of(table, "Br ["), 2)) > 2.5 * float(cell(table, row_of(table, "Br ["), 1))
     # Each side's checks: the ferrite demo passes, N42 in its frame fails demagnetization when hot.
     checks = view.checks_table
     demag = row_of(checks, "Demagnetization")
-    assert "OK" in cell(checks, demag, 1) and "Fails" in cell(checks, demag, 2)
+    assert STATUSES["pass"].word in cell(checks, demag, 1) and STATUSES["fail"].word in cell(checks, demag, 2)
     assert "knee" in checks.item(demag, 2).toolTip()
     # Both sides drawn: speed-torque curves overlaid, both magnet charts.
     for side in ("A", "B"):
         x, y = view.curve_items[("speed_rad_per_s", side)].getData()
         assert len(x) > 10 and y[0] > y[-1]
     view.range_combo.setCurrentIndex(1)
-    left, right = view.curve_plots["speed_rad_per_s"].getViewBox().viewRange()[0]
+    _left, right = view.curve_plots["speed_rad_per_s"].getViewBox().viewRange()[0]
     assert right == pytest.approx(3 * 35.0)  # three times the rated 35 mN·m
     view.tabs.setCurrentIndex(1)  # the magnet charts are drawn when their tab is in view
     for side, grade in (("A", "Y40"), ("B", "N42")):
@@ -102,7 +103,7 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
 
 
 def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
-    window, view = page
+    _window, view = page
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.use_grade_for_b("Y25")
     with qtbot.waitSignal(view.refit_finished, timeout=10000) as blocker:
@@ -123,18 +124,19 @@ def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
 
 
 def test_out_of_reach_refit_says_why(page, qtbot):
-    window, view = page
+    _window, view = page
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.use_grade_for_b("N42")
     with qtbot.waitSignal(view.refit_finished, timeout=10000) as blocker:
         view.start_refit("ke")
     assert not blocker.args[0].reached
-    assert "Out of reach" in view.refit_report.toPlainText() and "thinner than 0.5 mm" in view.refit_report.toPlainText()
+    report = view.refit_report.toPlainText()
+    assert "Out of reach" in report and "thinner than 0.5 mm" in report
     assert "out of reach" in view.side_labels.text()
 
 
 def test_a_hidden_page_waits_and_catches_up_when_shown(page, qtbot):
-    window, view = page
+    _window, view = page
     view.hide()
     view.pin_current_as_b()
     qtbot.wait(20)
@@ -145,7 +147,7 @@ def test_a_hidden_page_waits_and_catches_up_when_shown(page, qtbot):
 
 
 def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
-    window, view = page
+    _window, view = page
     broken = tmp_path / "broken.toml"
     broken.write_text("format_version = 1\n[magnets]\nthickness_mm = -3\n", encoding="utf-8")
     assert not view.load_b_file(broken)
