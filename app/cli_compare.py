@@ -17,7 +17,9 @@ from pmdc_sizer.core.units import from_si
 from .cli_inputs import evaluate_project, load_project
 from .compare_text import check_lines, figure_rows, refit_lines, table_lines
 from .errors import EXIT_NO_SOLUTION, CommandError
+from .refit_text import refit_message, refit_notes, target_title
 from .results_json import results_json
+from .safety import SHORT_CAUTION
 
 
 def register(subparsers) -> None:
@@ -46,8 +48,9 @@ def _design_b(args, design_a):
 
 
 def refit_json(fit: refit.Refit, results_a) -> dict:
-    """The re-fit as plain data; figures in ``figure_unit`` (speeds in rpm, as in the evaluate JSON)."""
-    unit = "N·m" if fit.figure_unit == "mN·m" else fit.figure_unit  # torques in N·m, as in the evaluate JSON
+    """The re-fit as plain data; figures in ``figure_unit`` (as in the evaluate JSON: speeds in rpm, the rest SI)."""
+    unit = {"nominal.no_load_speed_rad_per_s": "rpm", "nominal.stall_torque_N_m": "N·m",
+            "constants.ke_V_s_per_rad": "V·s/rad"}[refit.TARGETS[fit.target].figure_key]
 
     def figure(value):
         return from_si(value, unit)
@@ -55,7 +58,7 @@ def refit_json(fit: refit.Refit, results_a) -> dict:
     after = results_json(fit.results)
     return {
         "target": fit.target,
-        "title": fit.title,
+        "title": target_title(fit.target),
         "figure_unit": unit,
         "target_value": figure(fit.target_value),
         "figure_before": figure(fit.figure_before),
@@ -70,8 +73,8 @@ def refit_json(fit: refit.Refit, results_a) -> dict:
         "search_range": list(fit.search_range),
         "range_limits": list(fit.range_limits),
         "changes": [{"key": c.key, "before": c.before, "after": c.after, "reason": c.reason} for c in fit.changes],
-        "message": fit.message,
-        "notes": list(fit.notes),
+        "message": refit_message(fit),
+        "notes": list(refit_notes(fit)),
         "new_failures": list(fit.new_failures),
         "magnet_mass_difference_kg": fit.magnet_mass_difference_kg,
         "magnet_cost_difference": fit.magnet_cost_difference,
@@ -106,13 +109,14 @@ def cmd_compare(args) -> int:
     else:
         print("\n".join(compare_text(args, design_a, design_b, comparison, fit)))
     if fit is not None and not fit.reached:
-        print(f"pmdc-sizer: re-fit out of reach: {fit.message}", file=sys.stderr)
+        print(f"pmdc-sizer: re-fit out of reach: {refit_message(fit)}", file=sys.stderr)
         return EXIT_NO_SOLUTION
     return 0
 
 
 def _label(design, results) -> str:
-    return f"{design.project.name}, {results.magnet.name} ({results.magnet.family}), {from_si(results.geometry.magnet_thickness_m, 'mm'):.4g} mm arcs"
+    thickness_mm = from_si(results.geometry.magnet_thickness_m, "mm")
+    return f"{design.project.name}, {results.magnet.name} ({results.magnet.family}), {thickness_mm:.4g} mm arcs"
 
 
 def compare_text(args, design_a, design_b, comparison, fit) -> list[str]:
@@ -124,10 +128,9 @@ def compare_text(args, design_a, design_b, comparison, fit) -> list[str]:
     for side, results in (("A", a), ("B", b)):
         lines += ["", f"Checks of {side}:"] + [f"  {line}" for line in check_lines(results)]
     if fit is not None:
-        lines += ["", f"Re-fit of B to A's {fit.title}:"] + refit_lines(fit)
+        lines += ["", f"Re-fit of B to A's {target_title(fit.target)}:", *refit_lines(fit)]
         after = difference.compare(design_a, fit.project, a, fit.results)
-        lines += ["", "A against re-fitted B:"] + table_lines(figure_rows(after), "A", "B re-fit")
+        lines += ["", "A against re-fitted B:", *table_lines(figure_rows(after), "A", "B re-fit")]
         lines += ["", "Checks of re-fitted B:"] + [f"  {line}" for line in check_lines(fit.results)]
-    lines += ["", "Estimates to be confirmed by test. Strong magnets pinch and shatter; handle them under your "
-                  "site's rules and defer to local codes and licensed practice."]
+    lines += ["", SHORT_CAUTION]
     return lines

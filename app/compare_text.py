@@ -16,6 +16,7 @@ from pmdc_sizer.core.units import from_si
 
 from .figures import COMPARE_KEYS, STATUSES, figure, shown_value, title_of
 from .formatting import significant, unit_label
+from .refit_text import refit_message, refit_notes
 
 #: A and B are shown to one figure more than elsewhere, so that small differences between them show.
 COMPARE_DIGITS = 4
@@ -97,13 +98,14 @@ def parameter_text(value, unit: str) -> str:
 
 def refit_lines(fit: Refit) -> list[str]:
     """The re-fit in sentences: what changed, how close it came, and what it costs against A."""
-    lines = [fit.message if fit.reached else f"Out of reach: {fit.message}"]
+    message = refit_message(fit)
+    lines = [message if fit.reached else f"Out of reach: {message}"]
     for change in fit.changes:
         unit = key_spec(change.key).unit
         why = f" ({change.reason})" if change.reason else ""
         lines.append(f"  {change.key}: {parameter_text(change.before, unit)} → "
                      f"{parameter_text(change.after, unit)}{why}")
-    lines += [f"  {note}" for note in fit.notes]
+    lines += [f"  {note}" for note in refit_notes(fit)]
     target = figure(TARGETS[fit.target].figure_key)
 
     def shown(value_si: float) -> str:

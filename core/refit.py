@@ -18,7 +18,7 @@ Usage::
     a = project.load("demo_projects/appliance_ferrite_12v.toml")
     b = difference.with_grade(a, "N42")
     fit = refit.refit("ke", evaluate(a), b)
-    fit.value_after, fit.message
+    fit.value_after, fit.reached, fit.range_limits
 
 SI throughout, like the results; the parameter values are in the project file's units (mm, turns).
 """
@@ -40,7 +40,6 @@ from .keys import key_spec
 from .results import Results
 from .schema import Project
 from .solvers import find_root
-from .units import from_si
 
 
 @dataclass(frozen=True)
@@ -48,26 +47,16 @@ class RefitTarget:
     """One of A's figures that B can be re-fitted to, and the input of B that moves it."""
 
     name: str  #: "ke", "no-load-speed" or "stall-torque"
-    title: str  #: e.g. "Ke"
     figure_key: str  #: where the figure is in the results
-    figure_unit: str  #: unit for messages
     parameter: str  #: the project key that changes
-    parameter_title: str  #: e.g. "magnet thickness"
-    #: what B needs when the figure asks for more than the upper limit gives, e.g. "a magnet thicker than"
-    need_more: str
-    need_less: str  #: the same below the lower limit, e.g. "a magnet thinner than"
     integer: bool = False  #: the parameter takes whole numbers (turns)
 
 
 TARGETS: dict[str, RefitTarget] = {
     target.name: target for target in (
-        RefitTarget("ke", "Ke", "constants.ke_V_s_per_rad", "V·s/rad", "magnets.thickness_mm",
-                    "magnet thickness", "a magnet thicker than", "a magnet thinner than"),
-        RefitTarget("no-load-speed", "no-load speed", "nominal.no_load_speed_rad_per_s", "rpm",
-                    "winding.turns_per_coil", "turns per coil", "more turns per coil than",
-                    "fewer turns per coil than", integer=True),
-        RefitTarget("stall-torque", "stall torque", "nominal.stall_torque_N_m", "mN·m",
-                    "armature.stack_length_mm", "stack length", "a stack longer than", "a stack shorter than"),
+        RefitTarget("ke", "constants.ke_V_s_per_rad", "magnets.thickness_mm"),
+        RefitTarget("no-load-speed", "nominal.no_load_speed_rad_per_s", "winding.turns_per_coil", integer=True),
+        RefitTarget("stall-torque", "nominal.stall_torque_N_m", "armature.stack_length_mm"),
     )
 }
 
@@ -84,11 +73,12 @@ class ParameterChange:
 
 @dataclass(frozen=True)
 class Refit:
-    """B re-fitted to one of A's figures (or brought as close as its limits allow)."""
+    """B re-fitted to one of A's figures (or brought as close as its limits allow).
+
+    The figures are SI; the app words them (``app/refit_text.py``) with the titles and units it shows.
+    """
 
     target: str  #: key of :data:`TARGETS`
-    title: str  #: the figure's name for messages, e.g. "Ke"
-    figure_unit: str  #: unit the figure is shown in (the values below are SI)
     target_value: float  #: A's figure [SI]
     figure_before: float  #: B's figure before the re-fit [SI]
     figure_after: float  #: B's figure after it [SI]
@@ -100,17 +90,24 @@ class Refit:
     search_range: tuple[float, float]  #: the bracket searched, after narrowing to what fits
     range_limits: tuple[str, str]  #: what sets each end of the bracket
     reached: bool  #: the target lies inside the bracket (for whole turns: the nearest whole number was taken)
-    message: str  #: one paragraph for people: what changed, or what B would need
+    limit_side: str  #: "" when reached; else "upper" or "lower": the end of the bracket B stops at
     changes: tuple[ParameterChange, ...]  #: every key that changed, the parameter first
-    notes: tuple[str, ...]  #: sentences on what the reader should know (whole turns, mixed currencies)
     new_failures: tuple[str, ...]  #: checks that fail after the re-fit but did not before
     magnet_mass_difference_kg: float  #: B after − A
     magnet_cost_difference: float  #: B after − A, in ``currency``
     material_cost_difference: float  #: B after − A, all materials
     currency: str  #: B's currency
+    currency_a: str  #: A's currency (the cost differences mean nothing when the two differ)
     evaluations: int  #: chain evaluations the re-fit took
     project: Project = field(repr=False, compare=False)  #: B after the re-fit
     results: Results = field(repr=False, compare=False)  #: B's results after the re-fit
+    solver_converged: bool = True  #: the root solve met its tolerance (always True for whole turns)
+    solver_iterations: int = 0  #: iterations of the root solve
+    alternative_value: float | None = None  #: whole turns: the other neighbour of the target, in turns
+    alternative_error_fraction: float | None = None  #: its (figure − target)/target
+    overhang_mm: float | None = None  #: stack re-fit: the magnets' overhang kept at each end [mm]
+    end_room_mm: float | None = None  #: stack re-fit: the housing's length kept beyond the magnets [mm]
+
 
 
 class _Unusable(Exception):
@@ -122,17 +119,6 @@ def _lookup(results: Results, key: str) -> float:
     for part in key.split("."):
         node = getattr(node, part)
     return float(node)
-
-
-def _show(value_si: float, unit: str) -> str:
-    value = from_si(value_si, unit)
-    return f"{value:.0f} {unit}" if abs(value) >= 1e4 else f"{value:.4g} {unit}"  # 18860 mN·m, not 1.886e+04
-
-
-def _show_parameter(value: float, target: RefitTarget, unit: str) -> str:
-    if target.integer:
-        return f"{int(value)}"
-    return f"{value:.4g} {unit}"
 
 
 class _Trial:
@@ -233,7 +219,7 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
     """Change B's input named by ``target_name`` (a key of :data:`TARGETS`) until B meets A's figure.
 
     Never raises for a target out of reach: the result's ``reached`` is False, B is left at the
-    nearest limit, and ``message`` says what B would need and why it cannot have it.
+    nearest limit (``limit_side``), and ``range_limits`` say what sets each end of the bracket.
 
     Parameters
     ----------
@@ -276,7 +262,6 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
     low_reason = f"the lower limit of {target.parameter} in the project schema"
     high_reason = f"the upper limit of {target.parameter} in the project schema"
     high_limit = spec.maximum
-    notes: list[str] = []
     if target.integer:
         # More turns of the same wire must still fit the slot: the gross fill grows with the turns.
         fill = results_b.winding.slot_fill_gross
@@ -291,65 +276,54 @@ def refit(target_name: str, results_a: Results, project_b: Project, results_b: R
     figure_low, figure_high = trial.figure(low), trial.figure(high)
     rising = figure_high >= figure_low
     reached = min(figure_low, figure_high) <= goal <= max(figure_low, figure_high)
-    shown_goal = _show(goal, target.figure_unit)
+    limit_side = ""
+    converged, iterations = True, 0
+    alternative: tuple[float | None, float | None] = (None, None)
     if not reached:
         wants_more = goal > max(figure_low, figure_high)
         at_high = wants_more == rising
         value = high if at_high else low
-        reason = high_reason if at_high else low_reason
-        need = target.need_more if at_high else target.need_less
-        message = (f"B needs {need} {_show_parameter(value, target, unit)} ({reason}) to reach A's "
-                   f"{target.title} of {shown_goal}; at {_show_parameter(value, target, unit)} its "
-                   f"{target.title} is {_show(trial.figure(value), target.figure_unit)}.")
+        limit_side = "upper" if at_high else "lower"
     elif target.integer:
-        value, message, note = _whole_turns(trial, low, high, goal, shown_goal)
-        notes.append(note)
+        value, alternative = _whole_turns(trial, low, high, goal)
     else:
         solution = find_root(lambda x: np.vectorize(trial.figure)(x) - goal, low, high,
                              xtol=1e-6 * (high - low), rtol=1e-9, max_iterations=40)
         value = float(solution.root)
-        message = ""
-        if not bool(solution.converged):
-            notes.append(f"The solve stopped after {solution.iterations} iterations before meeting its tolerance.")
+        converged, iterations = bool(solution.converged), int(solution.iterations)
 
     design, _ = trial.results(value)
     final = evaluate(design)
     after = _lookup(final, target.figure_key)
     error = (after - goal) / goal
-    if reached and not target.integer:
-        message = (f"B's {target.parameter_title} goes from {_show_parameter(start, target, unit)} to "
-                   f"{_show_parameter(value, target, unit)} to give A's {target.title} of {shown_goal} "
-                   + ("(within 0.01 %)." if abs(error) < 1e-4 else f"(off by {100.0 * error:+.2g} %)."))
-
     changes = []
     for key, new in trial.changes(value).items():
         old = get_value(project_b, key)
         if new != old:
             why = "" if key == target.parameter else "follows the stack, keeping B's overhang and end room"
             changes.append(ParameterChange(key, old, new, why))
-    if results_a.cost.currency != final.cost.currency:
-        notes.append(f"A's prices are in {results_a.cost.currency} and B's in {final.cost.currency}: the cost "
-                     "differences mix currencies and mean nothing until the prices agree.")
-    if target.name == "stall-torque" and len(changes) > 1:
-        notes.append("The magnets and the housing tube change length with the stack, so that the magnets "
-                     f"keep B's overhang of {trial.overhang_mm:.3g} mm and the housing its "
-                     f"{trial.end_room_mm:.3g} mm beyond the magnets.")
+    follows_stack = target.name == "stall-torque" and len(changes) > 1
     return Refit(
-        target=target.name, title=target.title, figure_unit=target.figure_unit,
+        target=target.name,
         target_value=goal, figure_before=_lookup(results_b, target.figure_key), figure_after=after,
         target_error_fraction=error, parameter=target.parameter, parameter_unit=unit,
         value_before=start, value_after=value, search_range=(low, high), range_limits=(low_reason, high_reason),
-        reached=reached, message=message, changes=tuple(changes), notes=tuple(notes),
+        reached=reached, limit_side=limit_side, changes=tuple(changes),
         new_failures=_new_failures(results_b, final),
         magnet_mass_difference_kg=final.mass.magnet_kg - results_a.mass.magnet_kg,
         magnet_cost_difference=final.cost.magnet - results_a.cost.magnet,
         material_cost_difference=final.cost.total - results_a.cost.total,
-        currency=final.cost.currency, evaluations=trial.evaluations + 1, project=design, results=final,
+        currency=final.cost.currency, currency_a=results_a.cost.currency, evaluations=trial.evaluations + 1,
+        project=design, results=final, solver_converged=converged, solver_iterations=iterations,
+        alternative_value=alternative[0], alternative_error_fraction=alternative[1],
+        overhang_mm=trial.overhang_mm if follows_stack else None,
+        end_room_mm=trial.end_room_mm if follows_stack else None,
     )
 
 
-def _whole_turns(trial: _Trial, low: float, high: float, goal: float, shown_goal: str) -> tuple[float, str, str]:
-    """The whole number of turns whose figure is closest to ``goal`` (which lies between the ends)."""
+def _whole_turns(trial: _Trial, low: float, high: float, goal: float) -> tuple[float, tuple[float, float]]:
+    """The whole number of turns whose figure is closest to ``goal`` (which lies between the ends), and the
+    other neighbour with its error."""
     start = get_value(trial.project_b, trial.target.parameter)
     figure_start = trial.figure(start)
 
@@ -375,9 +349,4 @@ def _whole_turns(trial: _Trial, low: float, high: float, goal: float, shown_goal
     errors = {n: (trial.figure(n) - goal) / goal for n in (a, b)}
     best = min(errors, key=lambda n: abs(errors[n]))
     other = b if best == a else a
-    unit = trial.target.figure_unit
-    message = (f"B's turns per coil go from {start} to {best}: its {trial.target.title} is "
-               f"{_show(trial.figure(best), unit)} against A's {shown_goal} ({100.0 * errors[best]:+.2g} %).")
-    note = (f"Turns are whole numbers: {other} turns would give {_show(trial.figure(other), unit)} "
-            f"({100.0 * errors[other]:+.2g} %), so {best} is the closer.")
-    return best, message, note
+    return best, (other, errors[other])

@@ -37,6 +37,7 @@ from PySide6.QtWidgets import (
 
 from pmdc_sizer.app.compare_text import figure_rows, parameter_text, refit_lines
 from pmdc_sizer.app.figures import POINTS, SIDES, STATUSES, figure, text_of
+from pmdc_sizer.app.refit_text import parameter_title, refit_message, target_title
 from pmdc_sizer.core import difference, library, refit
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
@@ -433,7 +434,7 @@ class CompareView(QWidget):
         self._refit_for_a = self.project_a
         for button in self.refit_buttons.values():
             button.setEnabled(False)
-        self.refit_report.setPlainText(f"Re-fitting B to A's {refit.TARGETS[target].title}…")
+        self.refit_report.setPlainText(f"Re-fitting B to A's {target_title(target)}…")
         self._refit_pool.start(_RefitJob(self._refit_generation, target, self.results_a, self.project_b,
                                          self.results_b, self._refit_signals))
         return True
@@ -452,8 +453,8 @@ class CompareView(QWidget):
         # B becomes the re-fitted design, pinned: it no longer follows A's edits.
         self._reset_grade_combo()
         self.b_mode = "refit"
-        self.b_source = (f"re-fitted to A's {fit.title} ({'reached' if fit.reached else 'out of reach'}): "
-                         f"{refit.TARGETS[fit.target].parameter_title} "
+        self.b_source = (f"re-fitted to A's {target_title(fit.target)} "
+                         f"({'reached' if fit.reached else 'out of reach'}): {parameter_title(fit.target)} "
                          f"{parameter_text(fit.value_before, fit.parameter_unit)}"
                          f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
         self.project_b, self.results_b = fit.project, fit.results
@@ -467,7 +468,7 @@ class CompareView(QWidget):
         colour = STATUSES["pass" if fit.reached else "fail"].colour
         lines = refit_lines(fit)
         head = "Reached" if fit.reached else "Out of reach"
-        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(fit.message)}</p><ul>"]
+        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(refit_message(fit))}</p><ul>"]
         html += [f"<li>{_escape(line.strip())}</li>" for line in lines[1:]]
         html.append(f"</ul><p style='color:#666'>{fit.evaluations} evaluations. To start again from B before the "
                     "re-fit, choose it again above; to keep this B, save it as a project file.</p>")
