@@ -8,7 +8,6 @@ import pytest
 from numpy.testing import assert_allclose
 
 from pmdc_sizer.core import difference, evaluate, project, refit
-from pmdc_sizer.core.project import ProjectError
 
 #: The issue asks re-fits to meet their target within 0.5 %.
 TARGET_TOLERANCE = 5e-3
