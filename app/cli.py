@@ -19,11 +19,12 @@ import json
 import os
 import sys
 
+from pmdc_sizer.core.keys import one_line
 from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
 from pmdc_sizer.core.project import ProjectError
 
 from . import cli_compare, cli_datasheet, cli_field
-from .cli_inputs import evaluate_project, load_project
+from .cli_inputs import add_set_option, evaluate_project, load_project
 from .crash import report_line
 from .errors import EXIT_BAD_INPUT, EXIT_INTERNAL, EXIT_NO_SOLUTION, CommandError
 from .export_checks import check_csv
@@ -109,10 +110,22 @@ def cmd_gui(args) -> int:
         if (error.name or "").split(".")[0] not in GUI_LIBRARIES:
             raise
         raise CommandError(f"the desktop tool needs the 'gui' extra (PySide6, pyqtgraph): {error}") from None
+    if args.screenshot is None and (args.page or args.size):
+        raise CommandError("--page and --size go with --screenshot OUT.png")
+    size = None
+    if args.size:
+        from .gui.pages import parse_size
+
+        try:
+            size = parse_size(args.size)
+        except ValueError as error:
+            raise CommandError(str(error)) from None
     problem = display_problem(screenshot=args.screenshot is not None)
     if problem:
         raise CommandError(problem)
-    return run(args.file, screenshot=args.screenshot)
+    if args.screenshot is None:
+        return run(args.file)
+    return run(args.file, screenshot=args.screenshot, page=args.page, **({"size": size} if size else {}))
 
 
 def display_problem(screenshot: bool = False, environ=os.environ, platform: str = sys.platform) -> str:
@@ -129,8 +142,15 @@ def display_problem(screenshot: bool = False, environ=os.environ, platform: str 
             "QT_QPA_PLATFORM=offscreen")
 
 
+class OneLineParser(argparse.ArgumentParser):
+    """argparse, but a usage error is one line (exit 2) like every other bad input; ``--help`` shows the rest."""
+
+    def error(self, message: str):  # type: ignore[override]
+        self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: {one_line(message)} (see {self.prog} --help)\n")
+
+
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    parser = OneLineParser(
         prog="pmdc-sizer",
         description="Size brushed permanent-magnet DC motors: load line, constants, curves, demagnetization, thermal.",
     )
@@ -139,8 +159,7 @@ def build_parser() -> argparse.ArgumentParser:
     p = sub.add_parser("evaluate", help="evaluate a project file and print a summary or JSON")
     p.add_argument("file")
     p.add_argument("--json", action="store_true", help="one JSON object on stdout; keys carry SI unit suffixes")
-    p.add_argument("--set", action="append", default=[], metavar="KEY=VALUE",
-                   help="override a key for this run, e.g. --set magnets.thickness_mm=4.5 (repeatable)")
+    add_set_option(p)
     p.set_defaults(handler=cmd_evaluate)
 
     p = sub.add_parser("grades", help="list the magnet library")
@@ -152,12 +171,20 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--csv", action="store_true", help="CSV (the only format; accepted for clarity)")
     p.add_argument("-o", "--output", help="write to this file instead of stdout ('-' is stdout)")
     p.add_argument("--case", choices=("all", "cold", "nominal", "hot"), default="all")
-    p.add_argument("--set", action="append", default=[], metavar="KEY=VALUE")
+    add_set_option(p)
     p.set_defaults(handler=cmd_curves)
 
     p = sub.add_parser("gui", help="open the desktop tool (the default)")
     p.add_argument("file", nargs="?")
     p.add_argument("--screenshot", metavar="OUT.png", help="render the main window offscreen to a PNG and exit")
+    from .gui.pages import PAGE_TITLES
+
+    p.add_argument("--page", choices=tuple(PAGE_TITLES), metavar="NAME",
+                   help="with --screenshot: the page to show, one of "
+                        + ", ".join(f"{name} ({title})" for name, title in PAGE_TITLES.items())
+                        + "; the field page solves its case first")
+    p.add_argument("--size", metavar="WxH", help="with --screenshot: the window size in pixels, e.g. 1366x768 "
+                                                 "(default 1600x1000)")
     p.set_defaults(handler=cmd_gui)
 
     # Subcommands that live in their own modules.
@@ -211,7 +238,7 @@ def report_library_problems() -> None:
     from pmdc_sizer.core import library
 
     for problem in library.problems():
-        print(f"pmdc-sizer: warning: user library file skipped: {problem}", file=sys.stderr)
+        print(f"pmdc-sizer: warning: user library file skipped: {one_line(str(problem))}", file=sys.stderr)
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -234,15 +261,15 @@ def main(argv: list[str] | None = None) -> int:
         sys.stdout.flush()
         return status
     except ProjectError as error:
-        print(f"pmdc-sizer: error: {error}", file=sys.stderr)
+        print(f"pmdc-sizer: error: {one_line(str(error))}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except CommandError as error:
         if isinstance(error, OutputError):
             _discard_pending_output(real_stdout)
-        print(f"pmdc-sizer: error: {error}", file=sys.stderr)
+        print(f"pmdc-sizer: error: {one_line(str(error))}", file=sys.stderr)
         return error.status
     except MagneticCircuitError as error:
-        print(f"pmdc-sizer: error: {error}", file=sys.stderr)
+        print(f"pmdc-sizer: error: {one_line(str(error))}", file=sys.stderr)
         return EXIT_NO_SOLUTION
     except BrokenPipeError:  # the reader stopped reading (``| head``): what it read was fine
         _discard_pending_output(real_stdout)

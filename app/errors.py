@@ -6,9 +6,11 @@ without importing the command line.
 
 from __future__ import annotations
 
-#: Exit statuses of the ``pmdc-sizer`` command.
-EXIT_BAD_INPUT = 2  #: a bad file, key, value, path or format
-EXIT_NO_SOLUTION = 1  #: a computation without a solution, or a re-fit out of reach
+#: Exit statuses of the ``pmdc-sizer`` command (the README states them; scripts rely on them).
+EXIT_OK = 0  #: done
+EXIT_NO_SOLUTION = 1  #: the design has no solution (the magnetic circuit, a re-fit out of reach)
+EXIT_BAD_INPUT = 2  #: a bad file, key, value, path, format or environment: one line naming it
+EXIT_INTERNAL = 3  #: a defect in pmdc-sizer: one line saying where the crash report was written
 
 
 class CommandError(Exception):

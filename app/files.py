@@ -1,11 +1,16 @@
-"""Files the app writes: every one atomically, and the speed-torque table as CSV.
+"""Files the app writes: every one through the one safe writer, and the speed-torque table as CSV.
 
-A file is written to a temporary file in the target's folder and renamed over the target only when
-the writing succeeded, so a failure (a full disk, a folder in the way, an exception while drawing)
-leaves the old file, or nothing, never half a file. Failures are :class:`CommandError` with one line.
+Every export, table, chart, settings file and recovery copy goes through
+``pmdc_sizer.core.atomic_files`` (the same writer ``core.project.save`` uses): a temporary file in the
+target's folder, flushed to disk, its size and a parse of it checked (``verify``, see
+:mod:`app.export_checks`), the old file's permissions kept, renamed over the target, the folder flushed.
+A failure (a full disk, a folder in the way, an exception while drawing, a file that does not check
+out) leaves the old file byte for byte, or nothing, never half a file. A symbolic link is written
+through; a device, pipe or folder is refused as a target (``-`` means standard output where a command
+offers it). Failures are :class:`CommandError` with one line.
 
-Project files are saved by ``core.project.save``, which keeps its own atomic write for now (it must not
-import the app).
+The folders written into are remembered in the state folder so that :func:`clean_up_stale_temporaries`
+can remove, at the next start, the temporary files of writes that were killed.
 """
 
 from __future__ import annotations
@@ -14,53 +19,103 @@ import contextlib
 import csv
 import io
 import os
-import tempfile
-from collections.abc import Iterator
+import sys
+from collections.abc import Callable, Iterable, Iterator
 from pathlib import Path
 
+from pmdc_sizer.core import atomic_files
 from pmdc_sizer.core.units import from_si
 
 from .errors import CommandError
+from .state import WRITTEN_FOLDERS_FILE, state_folder
+
+STDOUT = "-"  #: the one spelling of standard output as an output file
+MAX_REMEMBERED_FOLDERS = 200
+
+Check = Callable[[Path], None]
+
+
+def _remember_folder(target: str | os.PathLike) -> None:
+    """Note the folder of ``target`` for the clean-up at the next start (best effort, never in the way)."""
+    try:
+        folder = str(Path(os.path.realpath(target)).parent)
+        journal = state_folder() / WRITTEN_FOLDERS_FILE
+        known = journal.read_text(encoding="utf-8").splitlines() if journal.is_file() else []
+        if folder in known:
+            return
+        journal.parent.mkdir(parents=True, exist_ok=True)
+        lines = [*known, folder][-MAX_REMEMBERED_FOLDERS:]
+        atomic_files.write_bytes(journal, ("\n".join(lines) + "\n").encode("utf-8"))
+    except (OSError, UnicodeDecodeError):
+        return
+
+
+def clean_up_stale_temporaries(extra_folders: Iterable[str | os.PathLike] = ()) -> list[Path]:
+    """Remove the temporary files of killed writes (older than a minute) in every folder the tool wrote to.
+
+    Parameters
+    ----------
+    extra_folders : iterable of path-like, optional
+        Further folders to sweep (the desktop tool adds those of its recent files).
+
+    Returns
+    -------
+    list of Path
+        The files removed.
+    """
+    folders: list[str] = [str(Path(f)) for f in extra_folders]
+    with contextlib.suppress(OSError, UnicodeDecodeError):
+        journal = state_folder() / WRITTEN_FOLDERS_FILE
+        if journal.is_file():
+            folders += journal.read_text(encoding="utf-8").splitlines()
+    removed: list[Path] = []
+    for folder in dict.fromkeys(f for f in folders if f):
+        removed += atomic_files.remove_stale_temporaries(folder)
+    return removed
 
 
 @contextlib.contextmanager
-def atomic_output(path: str | os.PathLike) -> Iterator[str]:
-    """A temporary path beside ``path`` to write into, renamed over ``path`` only if the block succeeds.
+def atomic_output(path: str | os.PathLike, verify: Check | None = None, backup: bool = False,
+                  remember_folder: bool = True) -> Iterator[str]:
+    """A temporary path beside ``path`` to write into, put over ``path`` only if the block and ``verify`` succeed.
 
-    Nothing is left behind on failure. The file gets the usual permissions (0666 less the umask), not
-    the private 0600 of a temporary file, since exports are meant to be handed on.
+    Nothing is left behind on failure. A new file gets the usual permissions (0666 less the umask),
+    not the private 0600 of a temporary file, since exports are meant to be handed on; a replaced file
+    keeps its own.
     """
-    path = Path(path)
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        raise CommandError(f"{path}: the folder {folder} does not exist")
+    if remember_folder:
+        _remember_folder(path)
     try:
-        handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
-    except OSError as error:
-        raise CommandError(f"{path}: cannot write here ({error.strerror or error})") from None
-    os.close(handle)
+        with atomic_files.replacing(path, backup=backup, verify=verify) as temporary:
+            yield str(temporary)
+    except atomic_files.FileWriteError as error:
+        raise CommandError(str(error)) from None
+
+
+def write_bytes_atomically(path: str | os.PathLike, data: bytes, verify: Check | None = None,
+                           remember_folder: bool = True) -> None:
+    """Write ``data`` to ``path`` safely; the size on disk and ``verify`` are checked before the rename."""
+    if remember_folder:
+        _remember_folder(path)
     try:
-        yield temporary
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(temporary, 0o666 & ~umask)
-        os.replace(temporary, path)
-    except OSError as error:
-        raise CommandError(f"{path}: cannot write the file ({error.strerror or error})") from None
-    finally:
-        Path(temporary).unlink(missing_ok=True)
+        atomic_files.write_bytes(path, data, verify=verify)
+    except atomic_files.FileWriteError as error:
+        raise CommandError(str(error)) from None
 
 
-def write_text_atomically(path: str | os.PathLike, text: str) -> None:
-    """Write ``text`` (UTF-8, line ends as given) to ``path`` through :func:`atomic_output`."""
-    with atomic_output(path) as temporary, open(temporary, "w", encoding="utf-8", newline="") as stream:
-        stream.write(text)
+def write_text_atomically(path: str | os.PathLike, text: str, verify: Check | None = None,
+                          remember_folder: bool = True) -> None:
+    """Write ``text`` (UTF-8, line ends as given) to ``path`` through :func:`write_bytes_atomically`."""
+    write_bytes_atomically(path, text.encode("utf-8"), verify, remember_folder)
 
 
-def write_bytes_atomically(path: str | os.PathLike, data: bytes) -> None:
-    """Write ``data`` to ``path`` through :func:`atomic_output`."""
-    with atomic_output(path) as temporary:
-        Path(temporary).write_bytes(data)
+def write_text_or_stdout(path: str | os.PathLike, text: str, verify: Check | None = None) -> None:
+    """Write ``text`` to ``path``, or to standard output when ``path`` is ``-``."""
+    if str(path) == STDOUT:
+        sys.stdout.write(text)
+        sys.stdout.flush()
+    else:
+        write_text_atomically(path, text, verify)
 
 
 #: The curve table's columns: (CSV header with its unit, field of core's CurveData, unit shown).

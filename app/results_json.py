@@ -51,12 +51,46 @@ def _rename(name: str, value):
     return name, value
 
 
+#: The figures a failed check makes unusable, by check key: the JSON marks them (``flagged_values``) so
+#: a script reading, say, a slot fill of 1.6 is told the winding it describes does not fit.
+FLAGGED_BY_CHECK = {
+    "slot_fill": ("winding.slot_fill_bare", "winding.slot_fill_gross", "winding.resistance_20C_ohm",
+                  "constants.terminal_resistance_ohm"),
+    "demagnetization": ("magnetics.magnet_flux_density_T", "magnetics.magnet_field_A_per_m",
+                        "demagnetization.worst_margin_A_per_m"),
+    "housing_flux_density": ("magnetics.housing_flux_density_T", "magnetics.flux_per_pole_Wb"),
+    "tooth_flux_density": ("magnetics.tooth_flux_density_T", "magnetics.flux_per_pole_Wb"),
+    "core_flux_density": ("magnetics.core_flux_density_T", "magnetics.flux_per_pole_Wb"),
+    "thermal": ("thermal.winding_temperature_C", "thermal.magnet_temperature_C"),
+    "magnet_temperature": ("thermal.magnet_temperature_C",),
+}
+
+
+def flagged_values(data: dict, checks) -> list[dict]:
+    """The figures of ``data`` that a failed check makes unusable, each with the check and its reason."""
+    flagged: dict[str, dict] = {}
+    for check in checks:
+        if check.status != "fail":
+            continue
+        for key in FLAGGED_BY_CHECK.get(check.key, ()):
+            node = data
+            for part in key.split("."):
+                node = node.get(part) if isinstance(node, dict) else None
+            if node is not None and key not in flagged:
+                flagged[key] = {"key": key, "value": node, "check": check.key, "reason": check.sentence}
+    return list(flagged.values())
+
+
 def case_json(case: CaseResult) -> dict:
     return _plain(case)
 
 
 def results_json(results: Results) -> dict:
-    """The evaluation as one JSON object (see README: "Reading the JSON")."""
+    """The evaluation as one JSON object (see README: "Reading the JSON").
+
+    ``flagged_values`` lists every figure a failed check makes unusable (:data:`FLAGGED_BY_CHECK`), with
+    the check's key and sentence, so no absurd figure leaves unmarked.
+    """
     data = _plain(results)
     nominal = data.pop("nominal")
     cold = data.pop("cold")
@@ -68,4 +102,5 @@ def results_json(results: Results) -> dict:
         for c in results.checks
     ]
     data["warnings"] = results.warnings
+    data["flagged_values"] = flagged_values(data, results.checks)
     return data

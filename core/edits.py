@@ -5,8 +5,11 @@ from __future__ import annotations
 import typing
 from typing import Any
 
+from pydantic import BaseModel
+
 from .errors import ProjectError
 from .fit_rules import validate
+from .keys import shorten
 from .schema import UNION_ORIGINS, Project, to_dict
 
 
@@ -66,16 +69,22 @@ def with_values(project: Project, changes: dict[str, Any]) -> Project:
         for depth, part in enumerate(parts):
             fields = getattr(model, "model_fields", {})
             if part not in fields:
-                raise ProjectError(f"{path}: no such key (see docs/project-file.md)", key=path)
+                raise ProjectError(f"{shorten(path)}: no such key (see docs/project-file.md)", key=path)
+            annotation = fields[part].annotation
+            if typing.get_origin(annotation) in UNION_ORIGINS:
+                annotation = next(a for a in typing.get_args(annotation) if a is not type(None))
+            is_table = isinstance(annotation, type) and issubclass(annotation, BaseModel)
             if depth == len(parts) - 1:
                 if value is None:
                     node.pop(part, None)
+                elif is_table and not isinstance(value, dict):
+                    raise ProjectError(f"{path}: is a table of keys, not a value; set one of its keys instead "
+                                       f"(e.g. {path}.{next(iter(annotation.model_fields))})", key=path)
                 else:
                     node[part] = value
             else:
-                annotation = fields[part].annotation
-                if typing.get_origin(annotation) in UNION_ORIGINS:
-                    annotation = next(a for a in typing.get_args(annotation) if a is not type(None))
                 model = annotation
                 node = node.setdefault(part, {})
+                if not isinstance(node, dict):
+                    raise ProjectError(f"{path}: {'.'.join(parts[:depth + 1])} is not a table of keys", key=path)
     return validate(data)

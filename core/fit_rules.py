@@ -15,6 +15,7 @@ from pydantic import ValidationError
 from .design import geometry_of
 from .errors import ProjectError
 from .keys import format_validation_error, key_specs
+from .migrations import migrate
 from .schema import FORMAT_VERSION, Project
 from .units import from_si
 
@@ -53,6 +54,11 @@ def check_fit(project: Project) -> None:
     def fail(key: str, message: str):
         raise ProjectError(f"{key}: {message}", key=key)
 
+    s = p.supply
+    if s.voltage_V <= s.brush_drop_V:
+        fail("supply.voltage_V",
+             f"{s.voltage_V:g} V is not above supply.brush_drop_V ({s.brush_drop_V:g} V): nothing would be left to "
+             "drive the armature; raise the voltage or lower the brush drop")
     t = p.temperatures
     if not t.ambient_min_C <= t.ambient_nominal_C <= t.ambient_max_C:
         fail("temperatures.ambient_nominal_C",
@@ -140,6 +146,7 @@ def validate(data: dict) -> Project:
     """
     if not isinstance(data, dict):
         raise ProjectError("the project is not a table of keys")
+    data = migrate(data)
     version = data.get("format_version", FORMAT_VERSION)
     if isinstance(version, int) and not isinstance(version, bool) and version > FORMAT_VERSION:
         raise ProjectError(

@@ -7,6 +7,7 @@ one line that names the key and its allowed range.
 
 from __future__ import annotations
 
+import math
 import typing
 from collections.abc import Iterator
 from dataclasses import dataclass
@@ -103,6 +104,71 @@ def key_spec(path: str) -> KeySpec:
     raise ProjectError(f"{path}: no such key (see docs/project-file.md for the keys)", key=path)
 
 
+MAX_SHOWN_CHARACTERS = 60  #: a value longer than this is cut in messages, which stay one short line
+_RANGE_ERRORS = ("greater_than_equal", "less_than_equal", "greater_than", "less_than", "finite_number")
+
+
+def one_line(text: str) -> str:
+    """``text`` with every line break and control character written as its escape (``\\n``, ``\\x1e``).
+
+    Parameters
+    ----------
+    text : str
+        A message, or a key or value inside one.
+
+    Returns
+    -------
+    str
+        Printable text that stays one line on any terminal (and for ``str.splitlines``).
+    """
+    if text.isprintable():
+        return text
+    return "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in text)
+
+
+def shorten(text: str, limit: int = MAX_SHOWN_CHARACTERS) -> str:
+    """``text`` cut to about ``limit`` characters, saying how long it was, and on one line.
+
+    Parameters
+    ----------
+    text : str
+        A key or a value as it would be shown.
+    limit : int, optional
+        Characters kept.
+
+    Returns
+    -------
+    str
+        ``text`` itself when short enough, else its start, an ellipsis and its length.
+    """
+    text = one_line(text)
+    if len(text) <= limit:
+        return text
+    return f"{text[:limit]}… ({len(text):,} characters)"
+
+
+def shown_value(value: Any) -> str:
+    """A value as a message shows it: its repr, cut by :func:`shorten`, whatever the value.
+
+    Parameters
+    ----------
+    value : Any
+        What the file or the command line gave.
+
+    Returns
+    -------
+    str
+        One short line (an integer too long to print, or a structure nested too deeply, is described
+        rather than shown).
+    """
+    if isinstance(value, int) and not isinstance(value, bool) and value.bit_length() > 3 * MAX_SHOWN_CHARACTERS:
+        return f"an integer of about {int(value.bit_length() * 0.30103):,} digits"
+    try:
+        return shorten(repr(value))
+    except (RecursionError, ValueError):
+        return f"a {type(value).__name__} nested too deeply to show"
+
+
 def format_validation_error(error: ValidationError) -> ProjectError:
     """The first problem pydantic found, as one line naming the key, the value and the allowed range.
 
@@ -117,9 +183,12 @@ def format_validation_error(error: ValidationError) -> ProjectError:
         With ``key`` set to the dotted key.
     """
     first = error.errors()[0]
-    path = ".".join(str(part) for part in first["loc"])
+    path = shorten(".".join(str(part) for part in first["loc"]))
     kind = first["type"]
     value = first.get("input")
+    if isinstance(value, float) and not math.isfinite(value) and kind in _RANGE_ERRORS:
+        # NaN fails every comparison, so pydantic names whichever bound it tried first: say what it is
+        first = {**first, "msg": "is not a number" if math.isnan(value) else "is infinite"}
     if kind == "extra_forbidden":
         return ProjectError(f"{path}: unknown key (check the spelling; see docs/project-file.md)", key=path)
     if kind == "missing":
@@ -137,5 +206,5 @@ def format_validation_error(error: ValidationError) -> ProjectError:
         limits = f" (allowed {spec.minimum:g} to {spec.maximum:g}{unit})"
     elif spec is not None and spec.choices:
         limits = " (allowed: " + ", ".join(repr(c) for c in spec.choices) + ")"
-    shown = repr(value) if not isinstance(value, dict) else "a table"
+    shown = "a table" if isinstance(value, dict) else shown_value(value)
     return ProjectError(f"{path} = {shown}: {message[0].lower() + message[1:]}{limits}", key=path)

@@ -2,23 +2,30 @@
 
 Loading never half-succeeds: a file is read, parsed and validated (:func:`fit_rules.validate`) or
 refused with one line naming the file, the key and the limit; a file from a newer format version is
-refused with a clear message. Saving writes a temporary file in the same folder and renames it over
-the target.
+refused with a clear message; an older one is carried forward (:mod:`migrations`). Saving keeps the
+user's comments and layout (tomlkit), writes through :mod:`atomic_files` (temporary file, fsync, read
+back, permissions kept, previous version as ``NAME.toml.bak``, rename, folder fsync) and never leaves
+half a file.
 
 The schema (:mod:`schema`, its flat key list in :mod:`keys`), the fit rules (:mod:`fit_rules`) and
-what-if edits (:mod:`edits`) live in modules of their own; their public names are re-exported here so that ``project.load``,
-``project.with_values`` and ``project.Project`` read naturally at the call site.
+what-if edits (:mod:`edits`) live in modules of their own; their public names are re-exported here so
+that ``project.load``, ``project.with_values`` and ``project.Project`` read naturally at the call site.
 """
 
 from __future__ import annotations
 
+import datetime
 import os
-import tempfile
+import stat
 import tomllib
 from pathlib import Path
+from typing import Any
 
 import tomli_w
+import tomlkit
+import tomlkit.exceptions
 
+from . import atomic_files
 from .edits import get_value, with_values
 from .errors import ProjectError
 from .fit_rules import check_fit, validate
@@ -39,7 +46,7 @@ def parse(text: str, source: str = "project") -> Project:
     Parameters
     ----------
     text : str
-        TOML text.
+        TOML text (a leading UTF-8 byte-order mark is allowed, as some editors write one).
     source : str
         What to call it in messages (the file's path).
 
@@ -53,13 +60,62 @@ def parse(text: str, source: str = "project") -> Project:
     ProjectError
         Naming the file, the key and the limit.
     """
+    text = text.removeprefix(BYTE_ORDER_MARK)
     if not text.strip():
         raise ProjectError(f"{source}: the file is empty")
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
         raise ProjectError(f"{source}: not a valid TOML file ({error})") from None
-    return validate(data)
+    except RecursionError:
+        raise ProjectError(f"{source}: not a project file (its tables or arrays are nested too deeply)") from None
+    except ValueError:  # an integer past Python's int-to-string limit of 4300 digits
+        raise ProjectError(f"{source}: not a project file (it holds a number of more than 4300 digits)") from None
+    try:
+        return validate(data)
+    except RecursionError:
+        raise ProjectError(f"{source}: not a project file (its tables or arrays are nested too deeply)") from None
+
+
+def read_text(path: str | os.PathLike[str]) -> str:
+    """The text of a project file, refused before it is read if it cannot be one.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+
+    Returns
+    -------
+    str
+        Its UTF-8 text (a byte-order mark removed).
+
+    Raises
+    ------
+    ProjectError
+        Naming the file: missing or unreadable, a folder, a device or a pipe (which would block or never
+        end), larger than :data:`MAX_PROJECT_BYTES`, binary, or not UTF-8.
+    """
+    path = Path(path)
+    try:
+        mode = path.stat().st_mode
+        if stat.S_ISDIR(mode):
+            raise ProjectError(f"{path}: is a folder, not a project file")
+        if not stat.S_ISREG(mode):
+            raise ProjectError(f"{path}: is a device or a pipe, not a project file; give a .toml file")
+        with open(path, "rb") as stream:
+            raw = stream.read(MAX_PROJECT_BYTES + 1)
+    except OSError as error:
+        raise ProjectError(f"{path}: cannot read the file ({error.strerror or error})") from None
+    if len(raw) > MAX_PROJECT_BYTES:
+        raise ProjectError(f"{path}: is larger than any project file (more than {MAX_PROJECT_BYTES // 1024} kB)")
+    if b"\x00" in raw:
+        raise ProjectError(f"{path}: this is a binary file, not a project file")
+    try:
+        return raw.decode("utf-8").removeprefix(BYTE_ORDER_MARK)
+    except UnicodeDecodeError as error:
+        raise ProjectError(f"{path}: the file is not UTF-8 text (byte {error.start + 1} cannot be read as "
+                           "UTF-8; save it from your editor as UTF-8)") from None
 
 
 def load(path: str | os.PathLike[str]) -> Project:
@@ -73,25 +129,16 @@ def load(path: str | os.PathLike[str]) -> Project:
     Returns
     -------
     Project
-        Validated.
+        Validated; a file of an older format version is carried forward first (:mod:`migrations`).
 
     Raises
     ------
     ProjectError
         Naming the file, and the key and the limit where a value is at fault: a file that cannot be
-        read, is binary or not UTF-8, is not TOML, or does not validate.
+        read (see :func:`read_text`), is not TOML, or does not validate.
     """
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as error:
-        raise ProjectError(f"{path}: cannot read the file ({error.strerror or error})") from None
-    if b"\x00" in raw:
-        raise ProjectError(f"{path}: this is a binary file, not a project file")
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError:
-        raise ProjectError(f"{path}: the file is not UTF-8 text") from None
+    text = read_text(path)
     try:
         return parse(text, source=str(path))
     except ProjectError as error:
@@ -101,67 +148,131 @@ def load(path: str | os.PathLike[str]) -> Project:
         raise ProjectError(f"{path}: {message}", key=error.key) from None
 
 
+MAX_PROJECT_BYTES = 1024 * 1024  #: a project file is a few kB; anything past 1 MiB is not one
+BYTE_ORDER_MARK = "\ufeff"
+
 _HEADER = (
     "# pmdc-sizer project file. Keys carry their units in their names; every key is described in\n"
     "# docs/project-file.md. Lengths in mm, temperatures in °C, torques in mN·m, speeds in rpm.\n"
 )
 
 
-def dumps(project: Project) -> str:
-    """The text of a project file for ``project``, with a header that says where the keys are described.
+def dumps(project: Project, layout: str | None = None) -> str:
+    """The text of a project file for ``project``, keeping the comments and layout of ``layout``.
 
     Parameters
     ----------
     project : Project
         A validated project.
+    layout : str, optional
+        The text of the file the design came from. Its comments, key order, blank lines and number
+        spellings are kept (tomlkit edits the document in place): changed values are replaced, removed
+        keys deleted, new keys added at the end of their table, and optional keys the file left out
+        stay out while they hold their defaults. Without it (or when it is not TOML), a fresh file
+        with a header that says where the keys are described.
 
     Returns
     -------
     str
-        TOML text.
+        TOML text that :func:`parse` reads back as ``project``.
     """
-    return _HEADER + tomli_w.dumps(to_dict(project))
+    fresh = _HEADER + tomli_w.dumps(to_dict(project))
+    if layout is None:
+        return fresh
+    try:
+        document = tomlkit.parse(layout.removeprefix(BYTE_ORDER_MARK))
+        _merge(document, to_dict(project), "")
+        text = document.as_string()
+        if parse(text) == project:
+            return text
+    except (tomlkit.exceptions.TOMLKitError, ProjectError, ValueError, TypeError, RecursionError):
+        pass
+    return fresh  # a layout tomlkit cannot edit faithfully: the design matters more than its comments
 
 
-def save(project: Project, path: str | os.PathLike[str]) -> None:
-    """Write a project file atomically: a temporary file in the same folder, flushed, renamed over ``path``.
+def _same_value(old: Any, new: Any) -> bool:
+    """True when the file's value already says ``new`` (kept as the user wrote it: 12 for 12.0)."""
+    if isinstance(old, datetime.date) and isinstance(new, str):
+        return old.isoformat() == new
+    if isinstance(old, bool) != isinstance(new, bool):
+        return False
+    return bool(old == new)
+
+
+def _merge(table: Any, values: dict[str, Any], prefix: str) -> None:
+    """Make the tomlkit ``table`` hold ``values``, touching only what differs."""
+    for key in [k for k in table if k not in values]:
+        del table[key]
+    for key, value in values.items():
+        path = f"{prefix}{key}"
+        if isinstance(value, dict):
+            if key in table and isinstance(table[key], dict):
+                _merge(table[key], value, f"{path}.")
+            else:  # a table the file lacks: only what differs from what leaving it out would mean
+                needed = {k: v for k, v in value.items()
+                          if not (f"{path}.{k}" in MAY_BE_LEFT_OUT and v == _default_of(f"{path}.{k}"))}
+                if needed:
+                    table[key] = needed
+        elif key in table:
+            if not _same_value(table[key], value):
+                table[key] = value
+        elif not (path in MAY_BE_LEFT_OUT and value == _default_of(path)):
+            table[key] = value
+
+
+def _default_of(path: str) -> Any:
+    try:
+        return key_spec(path).default
+    except ProjectError:
+        return None
+
+
+def save(project: Project, path: str | os.PathLike[str], layout: str | None = None) -> None:
+    """Write a project file as trusted editors do, keeping the user's comments and the previous version.
+
+    The text keeps the layout of ``layout`` or, by default, of the file being replaced (see
+    :func:`dumps`); it is written through :func:`atomic_files.replacing`: a temporary file in the same
+    folder, flushed to disk and read back (it must parse as ``project``), given the old file's
+    permissions, the old file kept as ``NAME.bak``, renamed over the target, the folder flushed. A
+    symbolic link is written through to its target; a device, pipe or folder is refused.
 
     Parameters
     ----------
     project : Project
         A validated project.
     path : str or os.PathLike
-        The file to write; an existing file is replaced only once the new one is complete.
+        The file to write; an existing file is replaced only once the new one is complete and checked.
+    layout : str, optional
+        The text whose comments and layout to keep; by default the current text of ``path`` if it is
+        a readable TOML file.
 
     Raises
     ------
     ProjectError
-        Naming the file, when the folder or the file cannot be written (no temporary file is left).
+        Naming the file, when it cannot be written; the previous file is then unchanged, byte for
+        byte, and no temporary file is left.
     """
     path = Path(path)
-    text = dumps(project)
-    folder = path.parent if str(path.parent) else Path(".")
+    if layout is None:
+        try:
+            layout = read_text(path)
+        except ProjectError:
+            layout = None
+    text = dumps(project, layout)
+
+    def reads_back(written: Path) -> None:
+        again = parse(written.read_bytes().decode("utf-8"), source=str(path))
+        if again != project:
+            raise ValueError("it does not read back as the design")
+
     try:
-        handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
-    except OSError as error:
-        raise ProjectError(f"{path}: cannot write here ({error.strerror or error})") from None
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as stream:
-            stream.write(text)
-            stream.flush()
-            os.fsync(stream.fileno())
-        # mkstemp makes the file private (0600); a project file is an ordinary document
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(temporary, 0o666 & ~umask)
-        os.replace(temporary, path)
-    except OSError as error:
-        Path(temporary).unlink(missing_ok=True)
-        raise ProjectError(f"{path}: cannot write the file ({error.strerror or error})") from None
+        atomic_files.write_bytes(path, text.encode("utf-8"), backup=True, verify=reads_back)
+    except atomic_files.FileWriteError as error:
+        raise ProjectError(str(error)) from None
 
 
 __all__ = [
-    "FORMAT_VERSION", "MAY_BE_LEFT_OUT", "SECTIONS", "CustomGrade", "KeySpec", "Project", "ProjectError",
-    "check_fit", "dumps", "format_validation_error", "get_value", "key_spec", "key_specs", "load", "parse",
-    "save", "to_dict", "validate", "with_values",
+    "FORMAT_VERSION", "MAX_PROJECT_BYTES", "MAY_BE_LEFT_OUT", "SECTIONS", "CustomGrade", "KeySpec", "Project",
+    "ProjectError", "check_fit", "dumps", "format_validation_error", "get_value", "key_spec", "key_specs", "load",
+    "parse", "read_text", "save", "to_dict", "validate", "with_values",
 ]

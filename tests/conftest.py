@@ -33,6 +33,14 @@ def _isolated_user_library(tmp_path_factory, monkeypatch):
     library.reload()
 
 
+@pytest.fixture(autouse=True)
+def _isolated_state_folder(tmp_path_factory, monkeypatch):
+    """Crash reports, recovery copies and locks go to a temporary folder, never the developer's own."""
+    folder = tmp_path_factory.mktemp("state")
+    monkeypatch.setenv("PMDC_SIZER_STATE_DIR", str(folder))
+    return folder
+
+
 @pytest.fixture(params=DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
 def demo_path(request) -> Path:
     return request.param

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import os
 import tomllib
 from pathlib import Path
 
@@ -69,7 +68,8 @@ BAD_INPUTS = {
     "missing format version": ({k: v for k, v in demo_data().items() if k != "format_version"}, "format_version"),
     "missing custom-grade key": (
         {**with_custom_grade(), "magnets": {**with_custom_grade()["magnets"],
-                                            "custom_grade": {k: v for k, v in CUSTOM_GRADE.items() if k != "remanence_T"}}},
+                                            "custom_grade": {k: v for k, v in CUSTOM_GRADE.items()
+                                                             if k != "remanence_T"}}},
         "magnets.custom_grade.remanence_T"),
     "string for a number": (edited("supply.voltage_V", "12"), "supply.voltage_V"),
     "boolean for a number": (edited("magnets.thickness_mm", True), "magnets.thickness_mm"),
@@ -89,10 +89,12 @@ BAD_INPUTS = {
     "slot opening wider than the slot": (edited("armature.slot_opening_mm", 4.5), "armature.slot_opening_mm"),
     "segments not a multiple of slots": (edited("winding.commutator_segments", 18), "winding.commutator_segments"),
     "over the envelope": (edited("housing.max_outer_diameter_mm", 40.0), "housing.max_outer_diameter_mm"),
-    "nominal ambient outside the range": (edited("temperatures.ambient_nominal_C", 60.0), "temperatures.ambient_nominal_C"),
+    "nominal ambient outside the range": (edited("temperatures.ambient_nominal_C", 60.0),
+                                          "temperatures.ambient_nominal_C"),
     "grade and custom grade both": (
         {**with_custom_grade(), "magnets": {**with_custom_grade()["magnets"], "grade": "Y30"}}, "magnets.grade"),
-    "custom HcB above HcJ": (with_custom_grade(coercivity_HcB_kA_per_m=300.0), "magnets.custom_grade.coercivity_HcB_kA_per_m"),
+    "custom HcB above HcJ": (with_custom_grade(coercivity_HcB_kA_per_m=300.0),
+                             "magnets.custom_grade.coercivity_HcB_kA_per_m"),
     "unknown key": (edited("supply.voltag_V", 12.0), "supply.voltag_V"),
     "unknown section": (edited("cooling.fan", True), "cooling"),
     "unknown custom-grade key": (with_custom_grade(colour="grey"), "magnets.custom_grade.colour"),
@@ -199,7 +201,7 @@ def test_save_is_atomic_when_the_rename_fails(tmp_path, monkeypatch):
         raise OSError(28, "No space left on device")
 
     monkeypatch.setattr(pf.os, "replace", refuse)
-    with pytest.raises(ProjectError, match="design.toml"):
+    with pytest.raises(ProjectError, match=r"design\.toml"):
         pf.save(project, target)
     assert target.read_text(encoding="utf-8") == "precious old content\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["design.toml"]  # no temporary left behind
@@ -220,7 +222,7 @@ def test_save_is_atomic_when_the_write_fails(tmp_path, monkeypatch):
 
 
 def test_save_into_a_missing_folder_is_a_project_error(tmp_path):
-    with pytest.raises(ProjectError, match="cannot write"):
+    with pytest.raises(ProjectError, match="does not exist"):
         pf.save(pf.load(DEMO), tmp_path / "no" / "such" / "folder" / "design.toml")
 
 
@@ -240,11 +242,11 @@ def test_with_values_changes_and_validates():
     thinner = pf.with_values(project, {"magnets.thickness_mm": 4.5, "winding.wire": "0.40 mm"})
     assert thinner.magnets.thickness_mm == 4.5 and thinner.winding.wire == "0.40 mm"
     assert project.magnets.thickness_mm == 6.0  # the original is untouched
-    with pytest.raises(ProjectError, match="magnets.thickness_mm"):
+    with pytest.raises(ProjectError, match=r"magnets\.thickness_mm"):
         pf.with_values(project, {"magnets.thickness_mm": 0.1})
-    with pytest.raises(ProjectError, match="magnets.thicknes_mm"):
+    with pytest.raises(ProjectError, match=r"magnets\.thicknes_mm"):
         pf.with_values(project, {"magnets.thicknes_mm": 4.0})
-    with pytest.raises(ProjectError, match="magnets.arc_deg"):
+    with pytest.raises(ProjectError, match=r"magnets\.arc_deg"):
         pf.with_values(project, {"magnets.arc_deg": 177.0})
 
 

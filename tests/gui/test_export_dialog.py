@@ -83,7 +83,7 @@ def test_unwritable_file_shows_why_and_leaves_nothing(dialog, monkeypatch, tmp_p
     blocked.mkdir()
     _answer_save_dialog(monkeypatch, blocked)
     dialog.buttons["pdf"].click()
-    assert "Not saved" in dialog.status.text() and "cannot write the file" in dialog.status.text()
+    assert "Not saved" in dialog.status.text() and "is a folder, not a file" in dialog.status.text()
     assert sorted(p.name for p in tmp_path.iterdir()) == ["sheet.pdf"]
     assert blocked.is_dir()
 
@@ -102,3 +102,39 @@ def test_open_export_dialog_shows_it(qtbot, ferrite_demo):
     qtbot.addWidget(shown)
     assert shown.isVisible()
     assert shown.suggested_path("pdf").endswith(".pdf")
+
+
+def _pdf_text(path) -> str:
+    import pypdf
+
+    return " ".join(" ".join(page.extract_text().split()) for page in pypdf.PdfReader(str(path)).pages)
+
+
+def test_dialog_offers_both_editions_and_saves_the_chosen_one(dialog, monkeypatch, tmp_path):
+    assert dialog.options.edition == "customer"  # the default: what may leave the company
+    assert [dialog.edition.itemData(i) for i in range(dialog.edition.count())] == ["customer", "internal"]
+    _answer_save_dialog(monkeypatch, tmp_path / "customer.pdf")
+    dialog.buttons["pdf"].click()
+    assert "Material cost" not in _pdf_text(tmp_path / "customer.pdf")
+    customer_pages = len(dialog.page_labels)
+
+    dialog.edition.setCurrentIndex(dialog.edition.findData("internal"))
+    assert "internal edition" in dialog.heading.text()
+    assert len(dialog.page_labels) >= customer_pages  # the preview follows the choice
+    asked = _answer_save_dialog(monkeypatch, tmp_path / "internal.pdf")
+    dialog.buttons["pdf"].click()
+    assert asked[0][1].endswith("_internal.pdf")  # the suggested name says which edition it is
+    text = _pdf_text(tmp_path / "internal.pdf")
+    assert "Material cost" in text and "Model notes" in text
+
+
+def test_dialog_letter_paper_and_us_units(dialog, monkeypatch, tmp_path):
+    dialog.paper.setCurrentIndex(dialog.paper.findData("Letter"))
+    dialog.units.setCurrentIndex(dialog.units.findData("US customary"))
+    pixmap = dialog.page_labels[0].pixmap()
+    assert pixmap.height() / pixmap.width() == pytest.approx(11.0 / 8.5, rel=0.01)
+    assert "Letter pages" in dialog.heading.text()
+    _answer_save_dialog(monkeypatch, tmp_path / "us.pdf")
+    dialog.buttons["pdf"].click()
+    text = _pdf_text(tmp_path / "us.pdf")
+    assert "oz·in" in text and "°F" in text
