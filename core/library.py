@@ -5,23 +5,31 @@ form in the user library folder: ``$PMDC_SIZER_LIBRARY`` if set, else the platfo
 (``platformdirs.user_data_dir("pmdc-sizer")/library``). Each file holds ``[[grade]]`` and/or
 ``[[steel]]`` tables; every entry is validated by the same schema as an inline custom grade in a
 project file, and a user entry with a built-in's name replaces it (so a certified curve can stand in for
-the typical one).
+the typical one); its source note then says so, so every view that shows the grade's source says it.
+
+A user file is used whole or not at all: one that cannot be read (not UTF-8, a folder, a broken link,
+unreadable, too large, nested too deeply) or holds an entry that is not valid is skipped and listed,
+once, with its reason by :func:`problems`; the built-in data and the other files stay in use.
 """
 
 from __future__ import annotations
 
+import dataclasses
 import os
+import stat
 import tomllib
+from dataclasses import dataclass, field
 from functools import lru_cache
 from importlib import resources
 from pathlib import Path
-from typing import Any, Literal
+from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from .errors import ProjectError
-from .keys import format_validation_error
-from .magnets import MagnetGrade, knee_width_ratio
+from .keys import format_validation_error, shown_value
+from .magnet_grade_check import require_faithful_curve, require_modelled_family
+from .magnets import MagnetGrade
 from .schema import CustomGrade
 from .steel import Steel
 from .units import from_si, to_si
@@ -30,12 +38,16 @@ from .units import from_si, to_si
 class SteelSpec(BaseModel):
     """One ``[[steel]]`` table of a library file, in the file's units, validated (see :class:`Steel`)."""
 
-    model_config = ConfigDict(extra="forbid", strict=True, frozen=True)
+    # NaN passes every "increasing" and "slope" test of the B(H) points (comparisons with NaN are false)
+    # and would reach the interpolator: a library number must be finite.
+    model_config = ConfigDict(extra="forbid", strict=True, frozen=True, allow_inf_nan=False)
 
-    name: str = Field(..., min_length=1)
+    name: str = Field(..., min_length=1, max_length=60)
     kind: Literal["housing", "lamination"]
-    field_strength_A_per_m: list[float] = Field(..., min_length=3)
-    flux_density_T: list[float] = Field(..., min_length=3)
+    # Bounded so that no arithmetic on the points can overflow (1e308 - -1e308 is inf): 100 MA/m and 5 T
+    # are far past any steel's saturation curve (our bounds).
+    field_strength_A_per_m: list[Annotated[float, Field(ge=0.0, le=1.0e8)]] = Field(..., min_length=3, max_length=400)
+    flux_density_T: list[Annotated[float, Field(ge=0.0, le=5.0)]] = Field(..., min_length=3, max_length=400)
     density_kg_per_m3: float = Field(..., ge=1000.0, le=10000.0)
     hysteresis_coeff: float = Field(0.0, ge=0.0)
     hysteresis_exponent: float = Field(2.0, ge=1.0, le=3.0)
@@ -75,19 +87,27 @@ def grade_from_spec(spec: CustomGrade, custom: bool = False) -> MagnetGrade:
     Returns
     -------
     MagnetGrade
-        The grade in SI, its curve model already built.
+        The grade in SI, its curve model already built and checked against its data.
 
     Raises
     ------
     ValueError
-        Naming the grade, if its squareness cannot be reached with its recoil permeability.
+        If HcB exceeds HcJ. A :class:`core.magnet_grades.GradeDataError` (a ValueError whose ``key`` is
+        the table key to change), naming the grade, for a refused family (AlNiCo), a squareness its
+        recoil permeability cannot reach, or a curve that misses the stored HcB or (BH)max by more than
+        2 % (:func:`core.magnet_grade_check.require_faithful_curve`).
     """
+    require_modelled_family(spec.name, spec.family)
+    if spec.coercivity_HcB_kA_per_m > spec.coercivity_HcJ_kA_per_m:
+        # the same rule the fit rules apply to a project's inline grade (core.fit_rules.check_fit)
+        raise ValueError(f"coercivity_HcB_kA_per_m = {spec.coercivity_HcB_kA_per_m:g} exceeds "
+                         f"coercivity_HcJ_kA_per_m ({spec.coercivity_HcJ_kA_per_m:g}); HcB ≤ HcJ always")
     values: dict[str, Any] = {}
     for key, attribute in GRADE_KEYS.items():
         value = getattr(spec, key)
         values[attribute] = to_si(value, _unit_of(key)) if isinstance(value, float) else value
     grade = MagnetGrade(**values, custom=custom)
-    knee_width_ratio(grade)  # builds the curve now, so a grade that cannot have one fails here, by name
+    require_faithful_curve(grade)  # builds the curve now, so a grade that cannot have one fails here, by name
     return grade
 
 
@@ -161,12 +181,43 @@ def user_library_folder() -> Path:
     return Path(platformdirs.user_data_dir("pmdc-sizer", appauthor=False)) / "library"
 
 
+MAX_LIBRARY_FILE_BYTES = 1024 * 1024  #: a library file of a few hundred grades is well under this
+
+
+@dataclass(frozen=True)
+class LibraryProblem:
+    """A user-library file that was skipped, and why (one line for the user)."""
+
+    path: Path  #: the file
+    reason: str  #: what is wrong with it, naming the entry and key where one is at fault
+
+    def __str__(self) -> str:
+        return f"{self.path}: {self.reason}"
+
+
+@dataclass(frozen=True)
+class Library:
+    """The grades and steels in use, with what the user library added, replaced and could not load."""
+
+    grades: dict[str, MagnetGrade]  #: by name, built-in and user
+    steels: dict[str, Steel]  #: by name, built-in and user
+    problems: tuple[LibraryProblem, ...] = ()  #: user files skipped, each once, in file-name order
+    replaced: dict[str, Path] = field(default_factory=dict)  #: built-in grade or steel name → user file
+
+
+def _tables(data: dict, kind: str, source: str) -> list[dict]:
+    tables = data.get(kind, [])
+    if not isinstance(tables, list) or not all(isinstance(entry, dict) for entry in tables):
+        raise ProjectError(f"{source}: {kind} must be written as [[{kind}]] tables, not {shown_value(tables)}")
+    return tables
+
+
 def _entries(data: dict, source: str):
     unknown = set(data) - {"grade", "steel"}
     if unknown:
-        raise ProjectError(
-            f"{source}: unknown table {sorted(unknown)[0]!r} (a library file holds [[grade]] and [[steel]])")
-    for index, entry in enumerate(data.get("grade", [])):
+        raise ProjectError(f"{source}: unknown table {shown_value(sorted(unknown)[0])} (a library file holds "
+                           "[[grade]] and [[steel]])")
+    for index, entry in enumerate(_tables(data, "grade", source)):
         try:
             yield "grade", grade_from_spec(CustomGrade.model_validate(entry), custom=source != "built-in")
         except ValidationError as error:
@@ -174,7 +225,7 @@ def _entries(data: dict, source: str):
             raise ProjectError(f"{source}: grade[{index}].{message}") from None
         except ValueError as error:
             raise ProjectError(f"{source}: grade[{index}]: {error}") from None
-    for index, entry in enumerate(data.get("steel", [])):
+    for index, entry in enumerate(_tables(data, "steel", source)):
         try:
             yield "steel", steel_from_spec(SteelSpec.model_validate(entry))
         except ValidationError as error:
@@ -185,9 +236,13 @@ def _entries(data: dict, source: str):
 
 def _read_toml(text: str, source: str) -> dict:
     try:
-        return tomllib.loads(text)
+        return tomllib.loads(text.removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as error:
         raise ProjectError(f"{source}: not a valid TOML file ({error})") from None
+    except RecursionError:
+        raise ProjectError(f"{source}: not a library file (its tables or arrays are nested too deeply)") from None
+    except ValueError:  # an integer past Python's int-to-string limit
+        raise ProjectError(f"{source}: not a library file (it holds a number of more than 4300 digits)") from None
 
 
 @lru_cache(maxsize=1)
@@ -203,24 +258,90 @@ def _builtin() -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
     return grades, steels
 
 
-def _user(folder: Path) -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
-    grades: dict[str, MagnetGrade] = {}
-    steels: dict[str, Steel] = {}
-    if folder.is_dir():
-        for path in sorted(folder.glob("*.toml")):
-            data = _read_toml(path.read_text(encoding="utf-8"), str(path))
-            for kind, item in _entries(data, str(path)):
-                (grades if kind == "grade" else steels)[item.name] = item
-    return grades, steels
+def _user_file_text(path: Path) -> str:
+    """The text of one user-library file, or ProjectError with the reason it cannot be one."""
+    if path.is_symlink() and not path.exists():
+        raise ProjectError(f"{path}: is a link to a file that does not exist")
+    try:
+        mode = path.stat().st_mode
+        if not stat.S_ISREG(mode):
+            raise ProjectError(f"{path}: is {'a folder' if stat.S_ISDIR(mode) else 'not a regular file'}, "
+                               "not a library file")
+        with open(path, "rb") as stream:
+            raw = stream.read(MAX_LIBRARY_FILE_BYTES + 1)
+    except OSError as error:
+        raise ProjectError(f"{path}: cannot be read ({error.strerror or error})") from None
+    if len(raw) > MAX_LIBRARY_FILE_BYTES:
+        raise ProjectError(f"{path}: is larger than a library file can be ({MAX_LIBRARY_FILE_BYTES // 1024} kB)")
+    try:
+        return raw.decode("utf-8")
+    except UnicodeDecodeError:
+        raise ProjectError(f"{path}: is not UTF-8 text") from None
+
+
+def _user_file(path: Path) -> list[tuple[str, Any]]:
+    """Every entry of one user-library file, all or none (ProjectError naming the file and the entry)."""
+    data = _read_toml(_user_file_text(path), str(path))
+    try:
+        return list(_entries(data, str(path)))
+    except RecursionError:
+        raise ProjectError(f"{path}: not a library file (nested too deeply)") from None
+
+
+def _announced(item: Any, path: Path, kind: str) -> Any:
+    """A user entry that replaces a built-in one, with its source note saying so (every view shows it)."""
+    note = f"user library file {path.name}, replacing the built-in {kind} of this name"
+    return dataclasses.replace(item, source=f"{note}; {item.source}" if item.source else note)
 
 
 @lru_cache(maxsize=8)
-def _library(folder: str) -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
-    grades, steels = dict(_builtin()[0]), dict(_builtin()[1])
-    user_grades, user_steels = _user(Path(folder))
-    grades.update(user_grades)
-    steels.update(user_steels)
-    return grades, steels
+def _library(folder: str) -> Library:
+    builtin_grades, builtin_steels = _builtin()
+    grades, steels = dict(builtin_grades), dict(builtin_steels)
+    problems: list[LibraryProblem] = []
+    replaced: dict[str, Path] = {}
+    user_folder = Path(folder)
+    try:
+        paths = sorted(user_folder.glob("*.toml")) if user_folder.is_dir() else []
+    except OSError as error:
+        paths = []
+        problems.append(LibraryProblem(user_folder, f"cannot be read ({error.strerror or error})"))
+    for path in paths:
+        try:
+            entries = _user_file(path)
+        except ProjectError as error:
+            problems.append(LibraryProblem(path, str(error).removeprefix(f"{path}: ")))
+            continue
+        for kind, item in entries:
+            builtin = builtin_grades if kind == "grade" else builtin_steels
+            if item.name in builtin:
+                replaced[item.name] = path
+                item = _announced(item, path, kind)
+            (grades if kind == "grade" else steels)[item.name] = item
+    return Library(grades, steels, tuple(problems), replaced)
+
+
+def current() -> Library:
+    """The library in use: built-in data and the user folder's files, read once and cached.
+
+    Returns
+    -------
+    Library
+        Grades and steels by name, the user files that were skipped with their reasons, and the
+        built-in names a user file replaces.
+    """
+    return _library(str(user_library_folder()))
+
+
+def problems() -> tuple[LibraryProblem, ...]:
+    """The user-library files that could not be loaded, each once with its reason (the rest are in use).
+
+    Returns
+    -------
+    tuple of LibraryProblem
+        In file-name order; empty when every file loaded.
+    """
+    return current().problems
 
 
 def magnet_grades() -> dict[str, MagnetGrade]:
@@ -229,14 +350,11 @@ def magnet_grades() -> dict[str, MagnetGrade]:
     Returns
     -------
     dict of str to MagnetGrade
-        Grades by name: built-in first, the user's own after (replacing a built-in of the same name).
-
-    Raises
-    ------
-    ProjectError
-        Naming the file and the entry, if a library file cannot be read or an entry is not valid.
+        Grades by name: built-in first, the user's own after (replacing a built-in of the same name,
+        whose source note then says so). A user file that cannot be read or holds an entry that is not
+        valid is skipped whole and listed by :func:`problems`; it never stops the built-in grades.
     """
-    return _library(str(user_library_folder()))[0]
+    return current().grades
 
 
 def steels() -> dict[str, Steel]:
@@ -246,13 +364,9 @@ def steels() -> dict[str, Steel]:
     -------
     dict of str to Steel
         Steels by name: built-in first, the user's own after (replacing a built-in of the same name).
-
-    Raises
-    ------
-    ProjectError
-        Naming the file and the entry, if a library file cannot be read or an entry is not valid.
+        A user file that cannot be used is skipped and listed by :func:`problems`.
     """
-    return _library(str(user_library_folder()))[1]
+    return current().steels
 
 
 def reload() -> None:

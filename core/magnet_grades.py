@@ -25,6 +25,7 @@ from .units import MU_0
 
 REFERENCE_TEMPERATURE_C = 20.0
 
+#: The grade families this tool models.
 FAMILIES = (
     "sintered NdFeB",
     "bonded NdFeB",
@@ -32,8 +33,61 @@ FAMILIES = (
     "SmCo 2:17",
     "hard ferrite, isotropic",
     "hard ferrite, anisotropic",
-    "AlNiCo",
 )
+
+#: Families the project file may name but the tool refuses for radial-arc brushed DC motors, and why.
+REFUSED_FAMILIES = {
+    "AlNiCo": (
+        "AlNiCo is refused for radial-arc brushed DC motors: its HcJ (about 50-130 kA/m) is no larger than "
+        "the field the armature reaction puts on the magnet tips at stall or reversal, so it demagnetizes in "
+        "service unless it is magnetized in the assembled motor and stabilized below its working point, and "
+        "its recoil lines then start from that working point, not from Br, which this tool's curve model does "
+        "not follow "
+        "(P. Campbell, Permanent Magnet Materials and their Application, Cambridge University Press, "
+        "1994, on AlNiCo's low coercivity and recoil from the working point, from memory); choose a hard "
+        "ferrite or a rare-earth grade"),
+}
+
+
+class GradeDataError(ValueError):
+    """A grade whose data no curve of the model can follow; the message names the grade and the key.
+
+    Parameters
+    ----------
+    message : str
+        One line for the user: the grade, the values that disagree and what to change.
+    key : str
+        The grade-table key to change (``"squareness"``, ``"coercivity_HcB_kA_per_m"``, ...).
+    """
+
+    def __init__(self, message: str, key: str) -> None:
+        super().__init__(message)
+        self.key = key
+
+
+def require_modelled_family(name: str, family: str) -> None:
+    """Refuse a grade of a family in :data:`REFUSED_FAMILIES`, saying why.
+
+    Parameters
+    ----------
+    name : str
+        The grade's name, for the message.
+    family : str
+        The grade's family.
+
+    Raises
+    ------
+    GradeDataError
+        With key ``"family"``, for a refused family.
+
+    References
+    ----------
+    .. [1] P. Campbell, "Permanent Magnet Materials and their Application", Cambridge University Press,
+       1994 (AlNiCo's low coercivity and its recoil from the working point; from memory).
+    """
+    if family in REFUSED_FAMILIES:
+        raise GradeDataError(f"magnet grade {name!r}: family = {family!r}: {REFUSED_FAMILIES[family]}",
+                             key="family")
 
 
 @dataclass(frozen=True)

@@ -2,17 +2,32 @@
 
 Model
 -----
-The intrinsic (polarization) curve in the second quadrant is a straight recoil line with a knee that
-drops it to zero at H = -HcJ:
+The intrinsic (polarization) curve in the second quadrant is the recoil line less a knee that drops it
+to zero at H = -HcJ (u = -H >= 0):
 
-    J(H) = Jr(H) - A · (exp((u - HcJ)/h) - exp(-HcJ/h)) / (1 - exp(-HcJ/h)),   u = -H,
-    Jr(H) = Br + μ0 (μrec - 1) H,      A = Jr(-HcJ),
+    J(H) = Jr(H) - A·F(u/HcJ),   Jr(H) = Br + μ0 (μrec - 1) H,   A = Jr(-HcJ),
 
-so that J(0) = Br, J(-HcJ) = 0 and the slope at small fields is the recoil slope. The knee width ``h``
-is fixed once per grade so that J(-Hk) = 0.9 Br at the reference temperature, with Hk = squareness · HcJ
-(the 0.9 Br definition of Hk is the industry's, from memory of IEC 60404-5 and MMPA 0100-00); ``h/HcJ``
-is then held constant, so the knee keeps its shape as HcJ moves with temperature. The normal curve is
-B(H) = μ0 H + J(H).
+with F a logistic step from F(0) = 0 to F(1) = 1 whose centre and width, in units of HcJ, are fitted
+once per grade at 20 °C (:mod:`magnet_knee`): through Hk (J = 0.9·Br, Hk = squareness·HcJ; the 0.9·Br
+definition is the industry's, from memory of IEC 60404-5 and MMPA 0100-00) and, where the stored HcB
+lies on the knee, through HcB. They are held constant with temperature, so the knee keeps its shape as
+HcJ moves. The normal curve is B(H) = μ0 H + J(H). Br and HcJ are met exactly, at every temperature.
+
+Why this model: a straight recoil line with a one-parameter (exponential) knee fitted to Hk alone
+missed the stored HcB of every grade whose HcB lies on the knee (bonded NdFeB +6.5 %, isotropic ferrite
++7.6 %, Y25 +2.7 %): one parameter cannot pass through two points. The logistic step has two, so it
+passes through Hk and HcB; with its centre far beyond HcJ it is the old exponential knee, which is kept
+wherever HcB lies on the recoil line (the sintered NdFeB and SmCo grades, whose curves do not change).
+The alternative, a recoil permeability fitted to Br/HcB for the curve alone, was rejected: the magnetic
+circuit, the demagnetization checks and the field solution use ``grade.recoil_permeability``, and a
+grade must have one recoil line. Where the stored values themselves contradict each other (Y40's
+squareness 0.90 puts J = 0.9·Br before its HcB, where its Br and HcB put J = 0.93·Br), no curve is
+right; the data were corrected with the reason beside them (``core/data/magnets.toml``), or the grade is
+refused. AlNiCo, whose recoil lines start from the working point, is refused for this motor type
+(:data:`core.magnet_grades.REFUSED_FAMILIES`).
+
+Faithfulness: :func:`core.magnet_grade_check.require_faithful_curve` refuses a grade whose curve misses
+its stored HcB or (BH)max by more than 2 %; the library calls it on every grade it loads.
 
 Temperature enters through Br(T) and HcJ(T) (:mod:`magnet_grades`, whose grade type and temperature
 functions are re-exported here for the callers that need both).
@@ -20,8 +35,9 @@ functions are re-exported here for the callers that need both).
 The knee reported for the demagnetization checks is the onset of irreversible loss: the field at which
 J has fallen 1 % of Br(T) below its recoil line (see ``knee_field_at``); Hk itself is kept for reference.
 
-The curve model (the recoil line with its exponential knee, and the 1 % knee) is this project's own
-construction to fit a grade's data sheet values; it is not taken from a publication.
+The curve model (the recoil line with its logistic knee, and the 1 % knee) is this project's own
+construction to fit a grade's data sheet values; it is not taken from a publication (sigmoid fits of
+the knee are common in the literature, from memory, no one paper followed).
 
 References
 ----------
@@ -37,40 +53,39 @@ from dataclasses import dataclass
 from functools import cached_property, lru_cache
 
 import numpy as np
-from scipy.optimize import brentq
+from scipy.special import expit
 
 from .magnet_grades import (
     FAMILIES,
     REFERENCE_TEMPERATURE_C,
+    GradeDataError,
     MagnetGrade,
     intrinsic_coercivity_at,
     model_temperature_range_C,
     remanence_at,
     require_ambient_inside_model,
 )
+from .magnet_knee import KNEE_LOSS_FRACTION, knee_fraction_inverse, knee_shape
 from .solvers import find_root
 from .units import MU_0
 
-_MAX_EXPONENT = 50.0  # keeps exp() finite far past the knee, where the curve is never used
 
-
-@lru_cache(maxsize=256)
 def knee_width_ratio(grade: MagnetGrade) -> float:
-    """Knee width over HcJ, h/HcJ, fixed so that J(-Hk) = 0.9·Br at 20 °C.
+    """Knee width over HcJ, w/HcJ, of the grade's fitted knee (held constant with temperature).
 
     Parameters
     ----------
     grade : MagnetGrade
-        The grade (Br, HcJ, squareness, recoil permeability).
+        The grade (Br, HcB, HcJ, squareness, recoil permeability).
 
     Returns
     -------
     float
-        h/HcJ [1], held constant with temperature so the knee keeps its shape.
+        w/HcJ [1], the width of the knee's logistic step (:func:`core.magnet_knee.knee_shape`).
 
     Raises
     ------
-    ValueError
+    GradeDataError
         When the squareness cannot be reached with this recoil permeability (the recoil line alone
         falls below 0.9·Br before Hk).
 
@@ -78,36 +93,15 @@ def knee_width_ratio(grade: MagnetGrade) -> float:
     ----------
     .. [1] the curve model of this module (the project's own construction).
     """
-    br, hcj, hk = grade.remanence, grade.coercivity_hcj, grade.squareness * grade.coercivity_hcj
-    recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
-    j_recoil_at_hk = br - recoil_slope * hk
-    if j_recoil_at_hk <= 0.9 * br:
-        raise ValueError(
-            f"magnet grade {grade.name!r}: squareness {grade.squareness:g} is too low for its recoil "
-            f"permeability {grade.recoil_permeability:g}; the recoil line alone falls below 0.9·Br "
-            "before Hk (raise squareness or lower recoil_permeability)"
-        )
-    amplitude = br - recoil_slope * hcj
-
-    def miss(ratio: float) -> float:
-        return float(_knee_drop(hk, hcj, amplitude, ratio * hcj)) - (j_recoil_at_hk - 0.9 * br)
-
-    return float(brentq(miss, 1e-4, 10.0, xtol=1e-14))
-
-
-#: The knee used by the demagnetization checks: where the intrinsic curve has fallen this fraction of
-#: Br(T) below its recoil line. An operating point driven there and released comes back about this much
-#: weaker. (Our definition; the trade's Hk, where J = 0.9·Br, lies further out, at about 5 % of loss for
-#: a square sintered grade, which is too late for a safety check.)
-KNEE_LOSS_FRACTION = 0.01
+    return knee_shape(grade).width_ratio
 
 
 def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     """The knee: the field at which the intrinsic curve has fallen ``KNEE_LOSS_FRACTION``·Br(T) below
     its recoil line, the onset of irreversible loss.
 
-    With the knee term A'·(exp((u - HcJ)/h) - exp(-HcJ/h)) of the model (A' = A/(1 - exp(-HcJ/h))),
-    u_knee = HcJ + h·ln(k·Br/A' + exp(-HcJ/h)), in closed form.
+    The knee term A·F(u/HcJ) equals k·Br at u_knee = HcJ·F⁻¹(k·Br/A), in closed form
+    (:func:`core.magnet_knee.knee_fraction_inverse`).
 
     Parameters
     ----------
@@ -126,10 +120,9 @@ def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     .. [1] the project's own definition on its own curve model (module docstring); no published source
     """
     curve = curve_at(grade, np.asarray(temperature_C, dtype=float))
-    _, _, scale, shift = curve._knee_constants
-    offset = shift / scale
-    knee_depth = curve.coercivity_hcj + curve.width * np.log(KNEE_LOSS_FRACTION * curve.remanence / scale + offset)
-    return -knee_depth
+    shape = knee_shape(grade)
+    fraction = KNEE_LOSS_FRACTION * curve.remanence / curve.amplitude
+    return -curve.coercivity_hcj * knee_fraction_inverse(fraction, shape.centre_ratio, shape.width_ratio)
 
 
 def squareness_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
@@ -154,13 +147,6 @@ def squareness_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     return -grade.squareness * intrinsic_coercivity_at(grade, temperature_C)
 
 
-def _knee_drop(demag_field, hcj, amplitude, width):
-    """The knee term of the intrinsic curve at demagnetizing field ``demag_field`` = -H >= 0."""
-    exponent = np.minimum((demag_field - hcj) / width, _MAX_EXPONENT)
-    offset = np.exp(-hcj / width)
-    return amplitude * (np.exp(exponent) - offset) / (1.0 - offset)
-
-
 @dataclass(frozen=True)
 class CurveAtTemperature:
     """The constants of the curve model at one temperature, for repeated lookups.
@@ -172,14 +158,15 @@ class CurveAtTemperature:
     coercivity_hcj: float | np.ndarray  #: HcJ(T) [A/m]
     recoil_slope: float  #: μ0·(μrec - 1) [T·m/A]
     amplitude: float | np.ndarray  #: A = Jr(-HcJ) [T]
-    width: float | np.ndarray  #: knee width h [A/m]
+    width: float | np.ndarray  #: width w of the knee's logistic step [A/m]
+    centre: float | np.ndarray  #: its centre, a demagnetizing field -H [A/m]
 
     @cached_property
     def _knee_constants(self):
-        # the knee term rewritten as scale·exp(u/h - HcJ/h) - scale·exp(-HcJ/h), constants hoisted
-        offset = np.exp(-self.coercivity_hcj / self.width)
-        scale = self.amplitude / (1.0 - offset)
-        return 1.0 / self.width, self.coercivity_hcj / self.width, scale, scale * offset
+        # the knee term A·(L(u) - L(0))/(L(HcJ) - L(0)) with L the logistic step, constants hoisted
+        at_zero = expit(-self.centre / self.width)
+        scale = self.amplitude / (expit((self.coercivity_hcj - self.centre) / self.width) - at_zero)
+        return 1.0 / self.width, self.centre / self.width, scale, scale * at_zero
 
     def polarization(self, field_strength: float | np.ndarray):
         """Intrinsic curve J(H), floored at -Br far beyond -HcJ, where the model is no longer used.
@@ -198,9 +185,9 @@ class CurveAtTemperature:
         ----------
         .. [1] the project's own curve model (module docstring)
         """
-        inverse_width, hcj_over_width, scale, shift = self._knee_constants
-        exponent = np.minimum(-field_strength * inverse_width - hcj_over_width, _MAX_EXPONENT)
-        j = self.remanence + self.recoil_slope * field_strength - (scale * np.exp(exponent) - shift)
+        inverse_width, centre_over_width, scale, shift = self._knee_constants
+        step = expit(-field_strength * inverse_width - centre_over_width)
+        j = self.remanence + self.recoil_slope * field_strength - (scale * step - shift)
         return np.maximum(j, -self.remanence)
 
     def flux_density(self, field_strength: float | np.ndarray):
@@ -251,17 +238,19 @@ def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTe
     Returns
     -------
     CurveAtTemperature
-        Br(T), HcJ(T), the recoil slope, the knee amplitude and width.
+        Br(T), HcJ(T), the recoil slope, the knee amplitude, width and centre.
 
     Raises
     ------
-    ValueError
+    GradeDataError
         If the grade's squareness cannot be reached (see :func:`knee_width_ratio`).
     """
     br = remanence_at(grade, temperature_C)
     hcj = intrinsic_coercivity_at(grade, temperature_C)
     recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
-    return CurveAtTemperature(br, hcj, recoil_slope, br - recoil_slope * hcj, knee_width_ratio(grade) * hcj)
+    shape = knee_shape(grade)
+    return CurveAtTemperature(br, hcj, recoil_slope, br - recoil_slope * hcj, shape.width_ratio * hcj,
+                              shape.centre_ratio * hcj)
 
 
 def polarization(grade: MagnetGrade, field_strength: float | np.ndarray,
@@ -445,7 +434,7 @@ def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: in
 
 __all__ = [
     "FAMILIES", "KNEE_LOSS_FRACTION", "REFERENCE_TEMPERATURE_C", "CurveAtTemperature", "DemagnetizationCurves",
-    "MagnetGrade", "curve_at", "demagnetization_curves", "energy_product_of_curve", "flux_density",
+    "GradeDataError", "MagnetGrade", "curve_at", "demagnetization_curves", "energy_product_of_curve", "flux_density",
     "intrinsic_coercivity_at", "knee_field_at", "knee_width_ratio", "linear_energy_product",
     "model_temperature_range_C", "normal_coercivity_at", "polarization", "remanence_at",
     "require_ambient_inside_model", "squareness_field_at",
