@@ -1,4 +1,13 @@
-"""Demagnetization: armature reaction at the trailing magnet tip, and the rotor-removed magnet.
+"""Demagnetization: the field in every magnet segment at stall, reversal, the drive's limit and with the
+rotor removed, against the knee; the worst spot and the share of the magnet past the knee.
+
+The chain takes the fields from the pole's reluctance network (core.pole_magnetics: the magnet in
+angular segments, the armature's current as a sheet in the slots, the rotor-removed case with the
+armature's region as air), so the worst segment is wherever the network puts it, not only at a tip.
+:func:`demagnetization_cases` turns those fields into the cases and their verdicts.
+
+The lumped estimate below (the armature reaction at the magnet tip on a local load line, and the
+rotor-removed lumped circuit) stays as the simple model of core.magnetic_circuit:
 
 With the brushes on the geometric neutral, the armature MMF across one gap crossing is a triangle,
 zero at the pole centre and F(θ) = A·R·θ at an angle θ from it, where A = Z·(I/a)/(2π·R) is the
@@ -35,7 +44,7 @@ References
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -147,9 +156,21 @@ def advice_for(case: DemagnetizationCase) -> str:
     return ADVICE[case.kind]
 
 
+@dataclass(frozen=True)
+class MagnetState:
+    """The field in the magnet for one case, from the network (core.pole_magnetics.PoleState)."""
+
+    worst_field: float  #: most negative segment field [A/m]
+    worst_angle: float  #: where it is, from the pole centre [rad]
+    past_knee_fraction: float  #: share of the magnet's area past the knee [1]
+    flux_per_pole: float  #: [Wb]
+    segment_angle: np.ndarray  #: centres of the magnet segments [rad]
+    segment_field: np.ndarray  #: field in each [A/m]
+
+
 def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C: float, current: float,
-                         magnet_field: float) -> DemagnetizationCase:
-    """A case's verdict: the field the circuit demands of the magnet against the knee at its temperature.
+                         state: MagnetState) -> DemagnetizationCase:
+    """A case's verdict: the worst segment's field against the knee at the case's temperature.
 
     Parameters
     ----------
@@ -162,18 +183,18 @@ def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C
         Magnet temperature of the case [°C].
     current : float
         Armature current of the case [A].
-    magnet_field : float
-        Field in the magnet at its worst point, the no-load demand plus the armature reaction [A/m].
+    state : MagnetState
+        The magnet's field in every segment for the case.
 
     Returns
     -------
     DemagnetizationCase
-        With the margin H - H_knee [A/m]; positive is safe.
+        With the margin H - H_knee [A/m] of the worst segment; positive is safe.
 
     Notes
     -----
     The knee is where irreversible loss begins (``core.magnets.knee_field_at``: J has fallen 1 % of Br
-    below its recoil line, our definition); a case passes while its field stays above it.
+    below its recoil line, our definition); a case passes while every segment's field stays above it.
 
     References
     ----------
@@ -181,11 +202,15 @@ def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C
        published source.
     """
     knee = float(knee_field_at(grade, temperature_C))
+    field = float(state.worst_field)
     return DemagnetizationCase(
         name=name, kind=kind, temperature_C=float(temperature_C), current_A=float(current),
-        magnet_field_A_per_m=float(magnet_field),
-        magnet_flux_density_T=float(flux_density(grade, magnet_field, temperature_C)),
-        knee_field_A_per_m=knee, margin_A_per_m=float(magnet_field) - knee, ok=bool(magnet_field > knee),
+        magnet_field_A_per_m=field,
+        magnet_flux_density_T=float(flux_density(grade, field, temperature_C)),
+        knee_field_A_per_m=knee, margin_A_per_m=field - knee, ok=bool(field > knee),
+        flux_per_pole_Wb=float(state.flux_per_pole), worst_angle_rad=float(state.worst_angle),
+        magnet_area_past_knee_fraction=float(state.past_knee_fraction),
+        segment_angle_rad=np.asarray(state.segment_angle), segment_field_A_per_m=np.asarray(state.segment_field),
     )
 
 
@@ -197,13 +222,12 @@ class TemperatureCase:
     model: MotorModel  #: the motor at that case's temperatures
     no_load_speed: float  #: [rad/s]
     magnet_temperature_C: float  #: [°C]
-    no_load_magnet_field: float  #: the circuit's demand on the magnet's recoil line [A/m]
 
 
 def demagnetization_cases(
-    grade: MagnetGrade, conductors: int, paths: int, geometry: Geometry, effective_gap: float,
-    temperature_cases: Sequence[TemperatureCase], current_limit: float | None, reversing: bool,
-    rotor_removed: Sequence[tuple[str, float, float]],
+    grade: MagnetGrade, temperature_cases: Sequence[TemperatureCase], current_limit: float | None,
+    reversing: bool, magnet_state: Callable[[str, float], MagnetState],
+    rotor_removed: Sequence[tuple[str, float, MagnetState]],
 ) -> DemagnetizationResult:
     """Stall, reversal and drive-limit cases at each temperature, then the rotor removed; the worst named.
 
@@ -211,20 +235,17 @@ def demagnetization_cases(
     ----------
     grade : MagnetGrade
         The magnet grade.
-    conductors, paths : int
-        Total armature conductors Z and parallel paths a [1].
-    geometry : Geometry
-        The cross-section (magnet arc and thickness) [m, rad].
-    effective_gap : float
-        Gap with Carter's coefficient [m].
     temperature_cases : sequence of TemperatureCase
         The coldest and the hottest case.
     current_limit : float or None
         The drive's current limit [A]; it caps the stall and reversal currents.
     reversing : bool
         The application plugs the motor at speed.
-    rotor_removed : sequence of (label, temperature [°C], magnet field [A/m])
-        The rotor-removed circuit's demand on the magnet at each temperature.
+    magnet_state : callable
+        ``magnet_state(label, current)``: the magnet's field in every segment at that temperature case's
+        magnet temperature and armature current [A].
+    rotor_removed : sequence of (label, temperature [°C], MagnetState)
+        The magnet's field with the armature pulled out, at each temperature.
 
     Returns
     -------
@@ -233,16 +254,10 @@ def demagnetization_cases(
 
     References
     ----------
-    .. [1] D. Hanselman, Brushless Permanent Magnet Motor Design, 2nd ed., 2006, ch. 5 (armature
-       reaction at the magnet tip; from memory).
+    .. [1] S. J. Chapman, Electric Machinery Fundamentals, 5th ed., 2012, ch. 9 (stall current and
+       plugging; from memory); the fields from core.pole_magnetics.
     """
     cases: list[DemagnetizationCase] = []
-
-    def add(name: str, kind: str, temperature_C: float, current: float, no_load_field: float) -> None:
-        reaction = float(armature_reaction_field(current, conductors, paths, geometry.magnet_arc,
-                                                 geometry.magnet_thickness, grade.recoil_permeability,
-                                                 effective_gap))
-        cases.append(demagnetization_case(name, kind, grade, temperature_C, current, no_load_field + reaction))
 
     def limited(current: float) -> str:
         return " (drive-limited)" if current == current_limit else ""
@@ -253,14 +268,18 @@ def demagnetization_cases(
         if current_limit is not None:
             # The drive holds the current at its limit whatever the load asks for.
             stall_i, reversal_i = min(stall_i, current_limit), min(reversal_i, current_limit)
-        t, h = case.magnet_temperature_C, case.no_load_magnet_field
-        add(f"stall, {case.label}{limited(stall_i)}", "stall", t, stall_i, h)
+        t = case.magnet_temperature_C
+        cases.append(demagnetization_case(f"stall, {case.label}{limited(stall_i)}", "stall", grade, t, stall_i,
+                                          magnet_state(case.label, stall_i)))
         if reversing:
-            add(f"reversal at no-load speed, {case.label}{limited(reversal_i)}", "reversal", t, reversal_i, h)
+            cases.append(demagnetization_case(f"reversal at no-load speed, {case.label}{limited(reversal_i)}",
+                                              "reversal", grade, t, reversal_i, magnet_state(case.label, reversal_i)))
         if current_limit is not None:
-            add(f"drive current limit, {case.label}", "current limit", t, current_limit, h)
-    for label, temperature_C, magnet_field in rotor_removed:
-        add(f"rotor removed, {label}", "rotor removed", temperature_C, 0.0, magnet_field)
+            cases.append(demagnetization_case(f"drive current limit, {case.label}", "current limit", grade, t,
+                                              current_limit, magnet_state(case.label, current_limit)))
+    for label, temperature_C, state in rotor_removed:
+        cases.append(demagnetization_case(f"rotor removed, {label}", "rotor removed", grade, temperature_C, 0.0,
+                                          state))
     worst = min(cases, key=lambda c: c.margin_A_per_m)
     return DemagnetizationResult(ok=all(c.ok for c in cases), worst_case=worst.name,
                                  worst_margin_A_per_m=worst.margin_A_per_m, cases=tuple(cases))

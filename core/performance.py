@@ -11,6 +11,14 @@ iteration:
 
     (K²/R + Bv + Be)·s² + Bx·s - (K·(V - Vb)/R - Tf - Th - T) = 0.
 
+Flux that falls with current. When the model carries a table of Ke against current (the armature's
+reaction on saturating teeth and pole tips lowers the flux per pole, core.reluctance_network), the
+constant is Ke(I) = K·Φ(I), interpolated linearly in I² between the table's currents, and Kt = Ke(I) at every
+current. The speed at a torque is then no longer closed form: each point is found from its current, I
+solving K·Φ(I)·I - T_loss(ω(I)) = T with ω(I) = (V - Vb - R·I)/(K·Φ(I)), by a bracketed root finder
+between the no-load and the stall current (vectorised). Every figure follows from I, so the power
+balance V·I = T·ω + losses still closes exactly.
+
 Losses are summed per IEC 60034-2-1 (efficiency by summation of losses): input V·I equals output T·ω
 plus copper, brush, friction, viscous and iron losses, exactly.
 
@@ -23,173 +31,24 @@ References
 
 from __future__ import annotations
 
-from collections.abc import Callable, Iterable
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
 
-from .steel import Steel
-
-
-@dataclass(frozen=True)
-class IronLossTerms:
-    """Armature iron loss P = hysteresis·ω + eddy·ω² + excess·ω^1.5 [W], ω in rad/s."""
-
-    hysteresis: float | np.ndarray  #: [N·m]
-    eddy: float | np.ndarray  #: [N·m·s/rad]
-    excess: float | np.ndarray  #: [N·m·(s/rad)^0.5]
-
-    def power(self, speed: float | np.ndarray):
-        """Iron loss at a speed.
-
-        Parameters
-        ----------
-        speed : float or ndarray
-            Rotor speed ω [rad/s].
-
-        Returns
-        -------
-        float or ndarray
-            P = hysteresis·ω + eddy·ω² + excess·ω^1.5 [W].
-        """
-        return self.hysteresis * speed + self.eddy * speed**2 + self.excess * speed**1.5
-
-
-def iron_loss_terms(steel: Steel, poles: int | np.ndarray,
-                    parts: Iterable[tuple[float | np.ndarray, float | np.ndarray]],
-                    build_factor: float) -> IronLossTerms:
-    """Iron-loss coefficients of the armature, written as torques, from the steel's loss-separation law.
-
-    The armature iron sees a magnetic frequency f = (p/2)·ω/(2π) as it turns past the p poles, so each
-    term of the specific loss kh·f·B^α + kc·(f·B)² + ke·(f·B)^1.5 [W/kg] (:meth:`Steel.specific_loss`)
-    times the part's mass becomes one coefficient of ω, ω² or ω^1.5.
-
-    Parameters
-    ----------
-    steel : Steel
-        The lamination steel, with its loss coefficients.
-    poles : int or ndarray
-        Number of poles p [1].
-    parts : iterable of (float, float)
-        (mass [kg], peak flux density [T]) of each part of the stack: the teeth and the core.
-    build_factor : float
-        Multiplies the catalogue loss for punching and rotation [1].
-
-    Returns
-    -------
-    IronLossTerms
-        Hysteresis [N·m], eddy [N·m·s/rad] and excess [N·m·(s/rad)^0.5] coefficients.
-
-    References
-    ----------
-    .. [1] C. P. Steinmetz, Trans. AIEE 9 (1892) 3-64 (hysteresis term); G. Bertotti, IEEE Trans. Magn.
-       24 (1988) 621-630 (eddy and excess terms).
-    .. [2] f = p·n/2 for n revolutions per second: textbook rotating-machine relation.
-    .. [3] build factor: common practice, no source.
-    """
-    hz_per_rad_s = poles / (4.0 * np.pi)
-    hysteresis: float | np.ndarray = 0.0
-    eddy: float | np.ndarray = 0.0
-    excess: float | np.ndarray = 0.0
-    for mass, flux_density in parts:
-        b = np.abs(flux_density)
-        hysteresis = hysteresis + mass * steel.hysteresis_coeff * b**steel.hysteresis_exponent * hz_per_rad_s
-        eddy = eddy + mass * steel.eddy_coeff * b**2 * hz_per_rad_s**2
-        excess = excess + mass * steel.excess_coeff * b**1.5 * hz_per_rad_s**1.5
-    return IronLossTerms(build_factor * hysteresis, build_factor * eddy, build_factor * excess)
-
-
-@dataclass(frozen=True)
-class MotorModel:
-    """What the steady state needs at one temperature case (SI)."""
-
-    voltage: float  #: [V]
-    brush_drop: float  #: [V]
-    resistance: float  #: terminal resistance at this case's winding temperature [Ω]
-    constant: float  #: Ke = Kt [V·s/rad]
-    friction_torque: float  #: [N·m]
-    viscous_coeff: float  #: [N·m·s/rad]
-    iron: IronLossTerms
-
-
-def speed_at_torque(model: MotorModel, torque: float | np.ndarray):
-    """Speed at a shaft torque: the closed-form root of the module docstring; 0 at and beyond stall.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    torque : float or ndarray
-        Shaft torque [N·m].
-
-    Returns
-    -------
-    float or ndarray
-        Speed ω = s² [rad/s].
-
-    References
-    ----------
-    .. [1] our derivation: the circuit and torque balance of the module docstring, solved for s = √ω.
-    """
-    m = model
-    quadratic = m.constant**2 / m.resistance + m.viscous_coeff + m.iron.eddy
-    # the same arithmetic as stall_torque, so that at the stall torque the speed is exactly zero
-    available = (m.constant * stall_current(m) - m.friction_torque - m.iron.hysteresis) - torque
-    linear = m.iron.excess
-    root_s = (-linear + np.sqrt(linear**2 + 4.0 * quadratic * np.maximum(available, 0.0))) / (2.0 * quadratic)
-    return root_s**2
-
-
-def loss_torque(model: MotorModel, speed: float | np.ndarray):
-    """Torque that friction, drag and iron loss take from the shaft, T_loss(ω) of the module docstring.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    speed : float or ndarray
-        Rotor speed ω [rad/s].
-
-    Returns
-    -------
-    float or ndarray
-        Tf + Th + (Bv + Be)·ω + Bx·√ω [N·m].
-    """
-    m = model
-    return (m.friction_torque + m.iron.hysteresis + (m.viscous_coeff + m.iron.eddy) * speed
-            + m.iron.excess * np.sqrt(speed))
-
-
-def stall_current(model: MotorModel) -> float:
-    """Armature current at zero speed, with no back-EMF.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-
-    Returns
-    -------
-    float
-        (V - Vb)/R [A].
-    """
-    return (model.voltage - model.brush_drop) / model.resistance
-
-
-def stall_torque(model: MotorModel):
-    """Shaft torque at zero speed: K·I_stall less friction and hysteresis drag, never below 0.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-
-    Returns
-    -------
-    float or ndarray
-        Stall torque [N·m] (an array when the iron-loss terms are arrays).
-    """
-    return np.maximum(model.constant * stall_current(model) - model.friction_torque - model.iron.hysteresis, 0.0)
+from .motor_model import (  # noqa: F401 (re-exported: the callers import them from here)
+    IronLossTerms,
+    MotorModel,
+    constant_at,
+    current_at_torque,
+    iron_loss_terms,
+    loss_torque,
+    shaft_torque_at_current,
+    speed_at_current,
+    speed_at_torque,
+    stall_current,
+    stall_torque,
+)
 
 
 @dataclass(frozen=True)
@@ -235,12 +94,18 @@ def operating_points(model: MotorModel, torque: float | np.ndarray) -> Operating
     """
     m = model
     torque = np.asarray(torque, dtype=float)
-    speed = speed_at_torque(m, torque)
-    current = (m.voltage - m.brush_drop - m.constant * speed) / m.resistance
+    if m.constant_table is None:
+        speed = speed_at_torque(m, torque)
+        current = (m.voltage - m.brush_drop - m.constant * speed) / m.resistance
+    else:
+        current = current_at_torque(m, torque)
+        speed = speed_at_current(m, current)
+        # the torque this current gives, so that T·ω and the losses balance V·I to rounding
+        torque = np.where(speed > 0.0, np.maximum(shaft_torque_at_current(m, current), 0.0), torque)
     input_power = m.voltage * current
     output_power = torque * speed
     with np.errstate(divide="ignore", invalid="ignore"):
-        efficiency = np.where(input_power > 0.0, output_power / input_power, 0.0)
+        efficiency = np.where(input_power > 0.0, np.maximum(output_power / input_power, 0.0), 0.0)
     return OperatingPoints(
         torque=torque,
         speed=speed,
@@ -331,6 +196,26 @@ def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 20
     )
 
 
+def largest_current(model: MotorModel, current_limit: float | None = None) -> float:
+    """The most current the armature can see at this case's temperatures [A]: plugging from at most
+    the no-load speed, where the back-EMF is below V - Vb, so (V + E - Vb)/R < 2·(V - Vb)/R.
+
+    Parameters
+    ----------
+    model : MotorModel
+        The motor at the case's temperatures.
+    current_limit : float or None
+        The drive's limit [A], included when given.
+
+    Returns
+    -------
+    float
+        2·(V - Vb)/R, or the limit if larger [A].
+    """
+    bound = 2.0 * float(stall_current(model))
+    return max(bound, current_limit) if current_limit is not None else bound
+
+
 def plugging_current(model: MotorModel, speed: float | np.ndarray):
     """Armature current when the supply is reversed while the motor turns at ``speed`` (plugging).
 
@@ -344,7 +229,7 @@ def plugging_current(model: MotorModel, speed: float | np.ndarray):
     Returns
     -------
     float or ndarray
-        (V + K·ω - Vb)/R [A]: supply and back-EMF add.
+        (V + K·Φ(I)·ω - Vb)/R [A]: supply and back-EMF add (solved for I when Ke falls with current).
 
     References
     ----------
@@ -352,7 +237,18 @@ def plugging_current(model: MotorModel, speed: float | np.ndarray):
        from memory).
     """
     m = model
-    return (m.voltage + m.constant * speed - m.brush_drop) / m.resistance
+    if m.constant_table is None:
+        return (m.voltage + m.constant * speed - m.brush_drop) / m.resistance
+    from .solvers import find_root
+
+    # I = (V + K·Φ(I)·ω - Vb)/R: the flux falls with current, so the root lies below the no-load bound
+    # V + K·Φ(|I|)·ω - Vb - R·I changes sign between 0 and a little past the current with the table's
+    # largest Ke (the flux may also rise a little with current), on whichever side of zero that lies
+    speed = np.asarray(speed, dtype=float)
+    bound = (m.voltage + float(np.max(m.constant_table[1])) * speed - m.brush_drop) / m.resistance * 1.0001
+    result = find_root(lambda i: m.voltage + constant_at(m, i) * speed - m.brush_drop - m.resistance * i,
+                       np.minimum(bound, 0.0) - 1e-12, np.maximum(bound, 0.0) + 1e-12, xtol=1e-9, rtol=1e-12)
+    return result.root if np.ndim(result.root) else float(result.root)
 
 
 def current_limit_torque(model: MotorModel, current_limit: float | None) -> float | None:
@@ -378,8 +274,9 @@ def current_limit_torque(model: MotorModel, current_limit: float | None) -> floa
     if current_limit is None or current_limit >= float(stall_current(model)):
         return None
     m = model
-    limit_speed = (m.voltage - m.brush_drop - m.resistance * current_limit) / m.constant
-    return float(m.constant * current_limit - loss_torque(m, limit_speed))
+    constant = float(constant_at(m, current_limit))
+    limit_speed = (m.voltage - m.brush_drop - m.resistance * current_limit) / constant
+    return float(constant * current_limit - loss_torque(m, limit_speed))
 
 
 def mechanical_time_constant(inertia: float, resistance: float, constant: float) -> float:

@@ -24,7 +24,9 @@ import math
 
 import numpy as np
 
-from ..winding import coil_span_slots, parallel_paths, total_conductors
+from ..armature_mmf import commutation_zone as commutation_zone_angle
+from ..armature_mmf import current_share as current_pattern
+from ..winding import parallel_paths, total_conductors
 from .mesh import Region, SectionMesh
 
 
@@ -73,49 +75,6 @@ def magnetization_direction(section: SectionMesh, poles: int, kind: str) -> np.n
     else:
         direction = np.stack([np.cos(k * pitch), np.sin(k * pitch)])
     return np.asarray(direction * polarity)
-
-
-def commutation_zone_angle(poles: int, slots: int, commutator_segments: int) -> float:
-    """Width of the commutation zone about each neutral axis [rad] (see the module docstring).
-
-    Parameters
-    ----------
-    poles, slots, commutator_segments : int
-        Of the machine [1].
-
-    Returns
-    -------
-    float
-        One segment pitch plus the coils' short-pitching angle [rad].
-    """
-    slot_pitch = 2.0 * math.pi / slots
-    chording = abs(2.0 * math.pi / poles - float(coil_span_slots(slots, poles)) * slot_pitch)
-    return 2.0 * math.pi / commutator_segments + chording
-
-
-def current_pattern(angle, poles: int, zone_angle: float):
-    """Share of the path current, -1 to 1, carried by a conductor at stator angle ``angle`` [rad].
-
-    Parameters
-    ----------
-    angle : array_like
-        Conductor positions [rad], measured from the centre of magnet 0.
-    poles : int
-        Poles of the machine [1].
-    zone_angle : float
-        Width of the commutation zone [rad].
-
-    Returns
-    -------
-    numpy.ndarray
-        -1 under magnet 0 (so that positive current turns the rotor towards +θ), alternating from pole
-        to pole, falling linearly to zero across the commutation zone at each neutral axis.
-    """
-    pitch = 2.0 * math.pi / poles
-    k = np.rint(np.asarray(angle) / pitch)
-    from_neutral = 0.5 * pitch - np.abs(np.asarray(angle) - k * pitch)
-    ramp = np.clip(from_neutral / (0.5 * zone_angle), 0.0, 1.0) if zone_angle > 0.0 else np.ones_like(from_neutral)
-    return -((-1.0) ** k) * ramp
 
 
 def slot_currents(section: SectionMesh, current: float, kind: str, multiplicity: int, poles: int, slots: int,

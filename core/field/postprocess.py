@@ -7,7 +7,7 @@ axes that bound a pole (where the brushes commutate), which is what the back-EMF
 
 Stack basis. A 2-D solution has no ends: times the stack length it is the flux of a machine whose magnet
 ends with the stack. The fast model adds the magnet's overhang beyond the stack and the fringing at the
-stack ends (core.magnetic_circuit); its own ratio of the flux of the design to that of the same
+stack ends (core.pole_magnetics); its own ratio of the flux of the design to that of the same
 cross-section infinitely long is shown separately as ``end_factor``, and ``flux_per_pole_Wb`` =
 Φ_2D·L·end_factor is on the same basis as the fast model's flux per pole, so the two compare like for like.
 
@@ -19,13 +19,11 @@ Helsinki, 1987). At no load it is the cogging torque at that rotor position.
 
 from __future__ import annotations
 
-import dataclasses
 import math
 from dataclasses import dataclass
 
 import numpy as np
 
-from .. import magnetic_circuit as mc
 from ..units import MU_0
 from .cases import FieldCase
 from .materials import sheet_flux_density
@@ -34,7 +32,6 @@ from .solve import NewtonResult, Problem
 
 #: Samples of the air-gap flux density per pole pitch.
 AIRGAP_SAMPLES_PER_POLE = 180
-_LONG = 1000.0  # [m], a cross-section long enough that the fast model's end terms vanish
 
 
 @dataclass(frozen=True)
@@ -234,18 +231,13 @@ def fast_model_end_factor(design, temperature_C: float) -> float:
     -------
     float
         Φ_fast(design) / (L_stack · Φ_fast(L → ∞)/L) [1]: the magnet's overhang and the end fringing as
-        core.magnetic_circuit counts them.
+        the fast model (the pole's reluctance network, core.pole_magnetics) counts them.
     """
-    g, grade = design.geometry, design.magnet
+    from ..pole_magnetics import pole_states, two_dimensional_states
 
-    def flux(geometry):
-        circuit = mc.pole_circuit(geometry, grade.recoil_permeability)
-        point = mc.solve(grade, temperature_C, circuit, design.housing_steel, design.lamination_steel)
-        mc.require_converged(point)
-        return float(point.flux_per_pole)
-
-    long = dataclasses.replace(g, stack_length=_LONG, magnet_length=_LONG, housing_length=_LONG)
-    return float(flux(g) / (float(g.stack_length) * flux(long) / _LONG))
+    stack = float(pole_states(design, temperature_C).flux_per_pole[0])
+    per_metre = float(two_dimensional_states(design, temperature_C).flux_per_pole[0])
+    return stack / (float(design.geometry.stack_length) * per_metre)
 
 
 def _area_mean_and_peak(values: np.ndarray, areas: np.ndarray, mask: np.ndarray) -> tuple[float, float]:

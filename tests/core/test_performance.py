@@ -119,3 +119,38 @@ def test_iron_loss_terms_follow_the_lamination_loss_law():
         frequency = 4 * speed / (4.0 * math.pi)
         expected = 1.5 * sum(mass * steel.specific_loss(frequency, b) for mass, b in parts)
         assert_allclose(terms.power(speed), expected, rtol=1e-12)
+
+
+def _falling_flux_model():
+    # Ke falls by a third from no load to twice the stall current (a saturating armature reaction).
+    base = model()
+    stall = pm.stall_current(base)
+    currents = np.linspace(0.0, 2.0 * stall, 12)
+    constants = base.constant * (1.0 - currents / (6.0 * stall))
+    return pm.MotorModel(**{**vars(base), "constant_table": (currents, constants)})
+
+
+def test_falling_flux_keeps_the_balances_at_every_point():
+    # V = Vb + R·I + Ke(I)·ω and Kt(I)·I = T + T_loss(ω) with Kt = Ke at each point's own current; input
+    # power equals output plus every loss (IEC 60034-2-1 summation of losses).
+    m = _falling_flux_model()
+    curve = pm.speed_torque_curve(m, 0.0).curve
+    ke = pm.constant_at(m, curve.current)
+    assert_allclose(m.voltage, m.brush_drop + m.resistance * curve.current + ke * curve.speed, rtol=1e-9)
+    assert_allclose(ke * curve.current, curve.torque + pm.loss_torque(m, curve.speed), rtol=1e-7, atol=1e-9)
+    assert_allclose(curve.input_power, curve.output_power + curve.copper_loss + curve.brush_loss + curve.friction_loss
+                    + curve.viscous_loss + curve.iron_loss, rtol=1e-9, atol=1e-9)
+
+
+def test_falling_flux_lowers_the_stall_torque_not_the_stall_current():
+    constant, falling = model(), _falling_flux_model()
+    stall = pm.stall_current(falling)
+    assert pm.stall_current(constant) == stall  # (V - Vb)/R: no back-EMF at zero speed
+    expected = pm.constant_at(falling, stall) * stall - falling.friction_torque - falling.iron.hysteresis
+    assert_allclose(pm.stall_torque(falling), expected, rtol=1e-12)
+    assert pm.stall_torque(falling) < pm.stall_torque(constant)
+    # plugging from the no-load speed: the current solves I = (V + Ke(I)·ω - Vb)/R
+    speed = float(pm.speed_torque_curve(falling, 0.0).no_load.speed)
+    current = pm.plugging_current(falling, speed)
+    assert_allclose(current, (falling.voltage + pm.constant_at(falling, current) * speed - falling.brush_drop)
+                    / falling.resistance, rtol=1e-9)

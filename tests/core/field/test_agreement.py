@@ -27,6 +27,7 @@ def test_agreement_rows_for_the_ferrite_demo(ferrite):
             assert row.flagged == (abs(row.difference_percent) > TOLERANCE_PERCENT)
     flux = next(r for r in table.rows if r.quantity == "flux per pole")
     assert flux.field == solutions[0].flux_per_pole_Wb and flux.fast == results.magnetics.flux_per_pole_Wb
-    # the fast model is low on this demo (measured -4.8 % at the default mesh): flagged
-    assert flux.difference_percent < -TOLERANCE_PERCENT and flux in table.flagged
+    # the reluctance network agrees on this demo (+1.9 % on the 2-D basis at the default mesh,
+    # docs/network-calibration.md); the lumped circuit before it was -4.8 % and flagged
+    assert abs(flux.difference_percent) < TOLERANCE_PERCENT and flux not in table.flagged
     assert agreement(results, solutions[0]).rows == tuple(r for r in table.rows if r.case == "no-load")

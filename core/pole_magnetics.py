@@ -1,0 +1,374 @@
+"""What the chain reads off the pole's reluctance network: flux per pole, flux densities, the magnet's field.
+
+One call solves a design at several temperatures and armature currents at once (a batch), with the rotor
+in or pulled out (core.reluctance_network, core.network_elements), and reduces each solution to the
+figures an engineer reads: the flux per pole, the mean air-gap flux density under the magnet and its value
+at the pole centre, the flux densities in the teeth under the pole, in the housing and in the armature
+core at the interpolar axis, the magnet's mean operating point, and the field in every magnet segment with
+the worst of them and the share of the magnet past the knee.
+
+Definitions (the same as the field solution's, core.field.postprocess, so the two compare like for like):
+
+* flux per pole: the flux crossing the gap between the two neutral axes that bound the pole;
+* leakage factor: the magnet's flux at mid-thickness over the flux per pole;
+* magnet field of a segment: at mid-thickness, the mean of the field at the magnet's outer face (from the
+  flux entering the column from the housing) and at its inner face (from the flux leaving it across the
+  gap), on the recoil line.
+
+Axial ends. The network is per pole over the stack with the magnet's useful overhang and one gap of end
+fringing (core.network_elements); the field solution is 2-D and multiplies by the lumped circuit's end
+factor for its stack figure.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .armature_mmf import enclosed_currents
+from .network_elements import Element, NetworkElements, ParallelPair, TipPath, magnet_segment_mask, network_elements
+from .reluctance_network import NetworkSolution, solve_network
+from .units import MU_0
+
+
+@dataclass(frozen=True)
+class PoleState:
+    """The pole's magnetic state for each entry of a batch (SI arrays of the batch's shape, (B,))."""
+
+    temperature_C: np.ndarray  #: magnet temperature [°C]
+    current: np.ndarray  #: armature current [A]
+    flux_per_pole: np.ndarray  #: crossing the gap between the neutral axes [Wb]
+    magnet_flux: np.ndarray  #: through the magnet at mid-thickness [Wb]
+    magnet_flux_density: np.ndarray  #: mean B in the magnet [T]
+    magnet_field: np.ndarray  #: mean H in the magnet (negative) [A/m]
+    permeance_coefficient: np.ndarray  #: -Bm/(μ0·Hm) of the mean operating point [1]
+    airgap_flux_density_mean: np.ndarray  #: mean over the magnet's arc at the gap [T]
+    airgap_flux_density_centre: np.ndarray  #: at the pole centre [T]
+    tooth_flux_density: np.ndarray  #: in the steel of the teeth at the pole centre [T]
+    housing_flux_density: np.ndarray  #: in the housing wall at the interpolar axis [T]
+    core_flux_density: np.ndarray  #: in the armature core at the interpolar axis [T]
+    outside_flux: np.ndarray  #: in the air outside the housing at the interpolar axis [Wb]
+    leakage_factor: np.ndarray  #: magnet flux over flux per pole [1]
+    carter_factor: np.ndarray  #: kc [1]
+    gap_mmf: np.ndarray  #: across the gap at the pole centre [A]
+    teeth_mmf: np.ndarray  #: along the teeth at the pole centre [A]
+    core_mmf: np.ndarray  #: along the core, pole centre to interpolar axis [A]
+    housing_mmf: np.ndarray  #: along the housing, pole centre to interpolar axis [A]
+    segment_angle: np.ndarray  #: (B, m) centre of each magnet segment from the pole centre [rad]
+    segment_share: np.ndarray  #: (B, m) each magnet segment's share of the magnet's area [1]
+    segment_field: np.ndarray  #: (B, m) H at mid-thickness in each magnet segment [A/m]
+    worst_field: np.ndarray  #: the most negative segment field [A/m]
+    worst_angle: np.ndarray  #: where it is, from the pole centre [rad]
+    knee_field: np.ndarray  #: at the temperature (negative) [A/m]
+    past_knee_fraction: np.ndarray  #: share of the magnet's area whose field is past the knee [1]
+
+
+def _reduce(solution: NetworkSolution, e: NetworkElements, temperature, current) -> PoleState:
+    magnet = magnet_segment_mask() > 0.0
+    centre = e.column_area.shape[-1] // 2
+    columns = e.column_area[..., magnet]
+    area = columns.sum(axis=-1)
+    field = 0.5 * (solution.magnet_field_outer + solution.magnet_field_inner)[..., magnet]
+    share = columns / area[..., None]
+    mean_field = (field * share).sum(axis=-1)
+    magnet_b = solution.magnet_flux / area
+    worst = np.argmin(field, axis=-1)
+    rows = np.arange(field.shape[0])
+    knee = solution.knee_field
+    gap_flux = solution.lower_flux
+    housing = e.housing.first.drop(solution.housing_steel_flux)[0]
+    core = e.core.first.drop(solution.core_steel_flux)[0]
+    right = slice(centre, None)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        permeance = np.where(mean_field < 0.0, -magnet_b / (MU_0 * mean_field), np.inf)
+    return PoleState(
+        temperature_C=np.broadcast_to(np.asarray(temperature, dtype=float), area.shape),
+        current=np.broadcast_to(np.asarray(current, dtype=float), area.shape),
+        flux_per_pole=solution.flux_per_pole, magnet_flux=solution.magnet_flux,
+        magnet_flux_density=magnet_b, magnet_field=mean_field, permeance_coefficient=permeance,
+        airgap_flux_density_mean=gap_flux[..., magnet].sum(axis=-1) / e.gap_area[..., magnet].sum(axis=-1),
+        airgap_flux_density_centre=gap_flux[..., centre] / e.gap_area[..., centre],
+        tooth_flux_density=solution.tooth_steel_flux[..., centre] / e.tooth_series[0].first.area[..., centre],
+        housing_flux_density=solution.housing_steel_flux[..., -1] / e.housing.first.area[..., -1],
+        core_flux_density=solution.core_steel_flux[..., -1] / e.core.first.area[..., -1],
+        outside_flux=solution.housing_flux[..., -1] - solution.housing_steel_flux[..., -1],
+        leakage_factor=solution.magnet_flux / solution.flux_per_pole,
+        carter_factor=e.carter_factor,
+        gap_mmf=solution.gap_drop[..., centre], teeth_mmf=solution.teeth_drop[..., centre],
+        core_mmf=core[..., right].sum(axis=-1), housing_mmf=housing[..., right].sum(axis=-1),
+        segment_angle=e.centre_angle[..., magnet], segment_share=share, segment_field=field,
+        worst_field=field[rows, worst], worst_angle=e.centre_angle[..., magnet][rows, worst],
+        knee_field=knee, past_knee_fraction=(share * (field < knee[..., None])).sum(axis=-1),
+    )
+
+
+def design_network(design, rotor_present: bool = True) -> NetworkElements:
+    """The network of a design's cross-section.
+
+    Parameters
+    ----------
+    design : Design
+        The design (SI).
+    rotor_present : bool
+        False: the armature pulled out.
+
+    Returns
+    -------
+    NetworkElements
+        Batch of one.
+    """
+    return network_elements(design.geometry, design.magnet.recoil_permeability, design.housing_steel,
+                            design.lamination_steel, design.shaft_magnetic, rotor_present)
+
+
+def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True,
+                what: str = "the magnetic circuit") -> PoleState:
+    """Solve a design's network at each (temperature, current) pair at once.
+
+    Parameters
+    ----------
+    design : Design
+        The design (SI): geometry, grade, steels, winding, shaft.
+    temperatures_C : float or ndarray
+        Magnet temperatures [°C], shape (B,) or broadcasting with ``currents``.
+    currents : float or ndarray
+        Armature currents [A], brushes on neutral (0: no load).
+    rotor_present : bool
+        False: the armature pulled out (no current then).
+    what : str
+        For the error message.
+
+    Returns
+    -------
+    PoleState
+        Arrays of shape (B,).
+
+    Raises
+    ------
+    MagneticCircuitError
+        When the network does not converge.
+
+    References
+    ----------
+    .. [1] core.reluctance_network (Ostović 1989; Derbas et al. 2009); core.armature_mmf (the armature's
+       current sheet).
+    """
+    from .winding import parallel_paths, total_conductors
+
+    temperature, current = np.broadcast_arrays(np.atleast_1d(np.asarray(temperatures_C, dtype=float)),
+                                               np.atleast_1d(np.asarray(currents, dtype=float)))
+    single = design_network(design, rotor_present)
+    batch = temperature.shape[0]
+    elements = _repeat(single, batch)
+    enclosed: float | np.ndarray = 0.0
+    if rotor_present and np.any(current != 0.0):
+        g, w = design.geometry, design.winding
+        enclosed = enclosed_currents(elements, current, int(g.poles), int(g.slots), w.commutator_segments,
+                                     int(total_conductors(w.commutator_segments, w.turns_per_coil)),
+                                     int(parallel_paths(w.kind, g.poles, w.multiplicity)))
+    solution = solve_network(design.magnet, temperature, elements, enclosed, what)
+    return _reduce(solution, elements, temperature, current)
+
+
+def _repeat(elements: NetworkElements, batch: int) -> NetworkElements:
+    """A batch of ``batch`` copies of a one-design network (every array's first axis repeated)."""
+    import dataclasses
+
+    def grow(value):
+        if isinstance(value, np.ndarray) and value.ndim >= 1 and value.shape[0] == 1:
+            return np.repeat(value, batch, axis=0)
+        if isinstance(value, (NetworkElements, ParallelPair, Element, TipPath)):
+            return type(value)(**{f.name: grow(getattr(value, f.name)) for f in dataclasses.fields(value)})
+        if isinstance(value, tuple):
+            return tuple(grow(v) for v in value)
+        return value
+
+    grown: NetworkElements = grow(elements)
+    return grown
+
+
+#: Currents of each case's table of flux against current, from 0 to the largest current [1].
+LOAD_POINTS = 12
+
+
+@dataclass(frozen=True)
+class LoadTable:
+    """The pole's state at each case's magnet temperature over a grid of armature currents."""
+
+    currents: np.ndarray  #: (cases, points), from 0 [A]
+    states: PoleState  #: flattened, case after case, current after current
+
+    def flux(self, case: int) -> tuple[np.ndarray, np.ndarray]:
+        """Currents [A] and the flux per pole there [Wb] for one case.
+
+        Parameters
+        ----------
+        case : int
+            Its index.
+
+        Returns
+        -------
+        tuple of ndarray
+            Currents and flux per pole.
+        """
+        points = self.currents.shape[1]
+        return self.currents[case], self.states.flux_per_pole[case * points:(case + 1) * points]
+
+    def no_load(self, case: int, name: str):
+        """A field of the state at zero current for one case.
+
+        Parameters
+        ----------
+        case : int
+            Its index.
+        name : str
+            The PoleState field.
+
+        Returns
+        -------
+        float or ndarray
+            The value (a row for per-segment fields).
+        """
+        return getattr(self.states, name)[case * self.currents.shape[1]]
+
+    def magnet_state(self, case: int, current: float):
+        """The magnet's field at a current, interpolated linearly in I² segment by segment between the
+        grid's currents.
+
+        Parameters
+        ----------
+        case : int
+            Its index.
+        current : float
+            Armature current [A] (its magnitude; within the grid).
+
+        Returns
+        -------
+        MagnetState
+            Worst segment, its position, the share past the knee and the flux per pole.
+        """
+        from .demagnetization import MagnetState
+
+        points = self.currents.shape[1]
+        rows = slice(case * points, (case + 1) * points)
+        grid = self.currents[case]
+        fields = self.states.segment_field[rows]
+        # in I², as the flux (core.motor_model.constant_at): the fields are even in the current near 0
+        field = np.array([np.interp(current**2, grid**2, fields[:, k]) for k in range(fields.shape[1])])
+        angles = self.states.segment_angle[case * points]
+        shares = self.states.segment_share[case * points]
+        knee = float(self.states.knee_field[case * points])
+        worst = int(np.argmin(field))
+        return MagnetState(
+            worst_field=float(field[worst]), worst_angle=float(angles[worst]),
+            past_knee_fraction=float(shares[field < knee].sum()),
+            flux_per_pole=float(np.interp(current**2, grid**2, self.states.flux_per_pole[rows])),
+            segment_angle=angles, segment_field=field,
+        )
+
+
+def load_table(design, temperatures_C, largest_currents, points: int = LOAD_POINTS) -> LoadTable:
+    """Solve a design's network at each case's temperature over currents from 0 to its largest current.
+
+    Parameters
+    ----------
+    design : Design
+        The design (SI).
+    temperatures_C : sequence of float
+        Each case's magnet temperature [°C].
+    largest_currents : sequence of float
+        Each case's largest current [A] (reversal at speed, stall, the drive's limit).
+    points : int
+        Currents per case [1].
+
+    Returns
+    -------
+    LoadTable
+        One batch solve of cases × points.
+    """
+    currents = np.linspace(0.0, 1.0, points)[None, :] * np.asarray(largest_currents, dtype=float)[:, None]
+    temperatures = np.repeat(np.asarray(temperatures_C, dtype=float), points)
+    states = pole_states(design, temperatures, currents.ravel(),
+                         what="the magnetic circuit under load (cold, nominal or hot)")
+    return LoadTable(currents=currents, states=states)
+
+
+def magnet_state_of(states: PoleState, index: int):
+    """The magnet's field of one entry of a batch, as the demagnetization cases take it.
+
+    Parameters
+    ----------
+    states : PoleState
+        A batch.
+    index : int
+        The entry.
+
+    Returns
+    -------
+    MagnetState
+        Worst segment, its position, the share past the knee and the flux per pole.
+    """
+    from .demagnetization import MagnetState
+
+    return MagnetState(
+        worst_field=float(states.worst_field[index]), worst_angle=float(states.worst_angle[index]),
+        past_knee_fraction=float(states.past_knee_fraction[index]), flux_per_pole=float(states.flux_per_pole[index]),
+        segment_angle=states.segment_angle[index], segment_field=states.segment_field[index],
+    )
+
+
+def effective_gap(design) -> float:
+    """The gap with Carter's coefficient on the magnetic gap, g + (kc - 1)·(g + lm/μrec) [m] (what the
+    inductance estimate takes).
+
+    Parameters
+    ----------
+    design : Design
+        The design (SI).
+
+    Returns
+    -------
+    float
+        [m].
+
+    References
+    ----------
+    .. [1] Carter 1900 (core.magnetic_circuit.carter_coefficient).
+    """
+    from .magnetic_circuit import pole_circuit
+
+    return float(pole_circuit(design.geometry, design.magnet.recoil_permeability).effective_gap)
+
+
+#: A cross-section long enough that the axial end terms vanish [m] (the 2-D basis).
+_LONG = 1000.0
+
+
+def two_dimensional_states(design, temperatures_C, currents=0.0, rotor_present: bool = True) -> PoleState:
+    """The network on the 2-D basis of the field solution: the same cross-section, infinitely long.
+
+    Solved at a length of 1 km, where the magnet's overhang and the gap's end fringing vanish; the fluxes
+    (flux per pole, magnet flux, flux outside the housing) are then per metre [Wb/m], the rest unchanged.
+
+    Parameters
+    ----------
+    design : Design
+        The design (SI).
+    temperatures_C, currents : float or ndarray
+        As :func:`pole_states`.
+    rotor_present : bool
+        False: the armature pulled out.
+
+    Returns
+    -------
+    PoleState
+        With fluxes per metre of stack.
+    """
+    import dataclasses
+
+    long = dataclasses.replace(design, geometry=dataclasses.replace(
+        design.geometry, stack_length=_LONG, magnet_length=_LONG, housing_length=_LONG))
+    state = pole_states(long, temperatures_C, currents, rotor_present)
+    return dataclasses.replace(state, flux_per_pole=state.flux_per_pole / _LONG, magnet_flux=state.magnet_flux / _LONG,
+                               outside_flux=state.outside_flux / _LONG)
