@@ -114,16 +114,18 @@ FIGURES: dict[str, Figure] = {
     "case.magnet_temperature_C": _f("Magnet temperature", "°C"),
     "case.no_load_speed_rad_per_s": _f("No-load speed", "rpm"),
     "case.no_load_current_A": _f("No-load current", "A"),
-    "case.stall_torque_N_m": _f("Stall torque", "mN·m"),
-    "case.stall_current_A": _f("Stall current", "A"),
+    "case.stall_torque_N_m": _f("Stall torque, no current limit", "mN·m"),
+    "case.stall_current_A": _f("Stall current, no current limit", "A"),
     "case.rated.speed_rad_per_s": _f("Speed at rated torque", "rpm"),
     "case.rated.current_A": _f("Current at rated torque", "A"),
     "case.rated.output_power_W": _f("Output power at rated torque", "W"),
     "case.rated.efficiency": _f("Efficiency at rated torque", "%"),
     "case.current_limit_torque_N_m": _f("Torque at the drive current limit", "mN·m"),
+    "case.envelope.torque_limit_N_m": _f("Torque at the drive current limit", "mN·m"),
+    "case.envelope.max_output_power_W": _f("Maximum output power within the drive's limit", "W"),
     "case.max_efficiency": _f("Maximum efficiency", "%"),
     "case.max_efficiency_point.torque_N_m": _f("Torque at maximum efficiency", "mN·m"),
-    "case.max_output_power_W": _f("Maximum output power", "W"),
+    "case.max_output_power_W": _f("Maximum output power, no current limit", "W"),
     "case.max_power_point.torque_N_m": _f("Torque at maximum power", "mN·m"),
     "case.ke_V_s_per_rad": _f("Back-EMF constant Ke", "V/krpm", also=("V·s/rad",)),
     "case.kt_N_m_per_A": _f("Torque constant Kt", "mN·m/A"),  # the case's Ke: Kt = Ke in SI units
@@ -179,6 +181,24 @@ FIGURES: dict[str, Figure] = {
     "demagnetization_case.magnet_field_A_per_m": _f("Field at the magnet tip", "kA/m"),
     "demagnetization_case.knee_field_A_per_m": _f("Knee field", "kA/m"),
     "demagnetization_case.margin_A_per_m": _f("Margin to the knee", "kA/m"),
+    "demagnetization_case.required_margin_A_per_m": _f("Required margin", "kA/m"),
+    "demagnetization.required_margin_A_per_m": _f("Required margin to the knee, at most", "kA/m"),
+    "demagnetization.required_margin_share": _f("Required margin, share of HcJ", "%", 2),
+    "faults.worst_margin_A_per_m": _f("Least margin with the supply applied directly", "kA/m"),
+    # Ratings at the highest ambient (S1 with the winding at its class limit; stall to the class limit)
+    "ratings.continuous_torque_N_m": _f("Continuous torque (S1), hot ambient", "mN·m"),
+    "ratings.continuous_current_A": _f("Continuous current (S1), hot ambient", "A"),
+    "ratings.continuous_speed_rad_per_s": _f("Speed at the continuous torque", "rpm"),
+    "ratings.continuous_output_power_W": _f("Continuous output power (S1)", "W"),
+    "ratings.stall_current_A": _f("Stall current held", "A"),
+    "ratings.stall_time_cold_s": _f("Permitted stall time from cold", "s", 2),
+    "ratings.stall_time_hot_s": _f("Permitted stall time from hot (S1)", "s", 2),
+    # Brushes and commutator
+    "commutation.brush_current_density_A_per_m2": _f("Brush current density at rated torque, hot", "A/cm2"),
+    "commutation.brush_density_high_A_per_m2": _f("Brush current density allowed", "A/cm2"),
+    "commutation.surface_speed_m_per_s": _f("Commutator surface speed, highest no-load speed", "m/s"),
+    "commutation.reactance_voltage_V": _f("Reactance voltage (estimate)", "V", 2),
+    "commutation.commutator_diameter_m": _f("Commutator diameter", "mm"),
     # Winding
     "winding.slot_fill_bare": _f("Slot fill, copper", "%", 2),
     "winding.slot_fill_gross": _f("Slot fill, enamelled wire", "%", 2),
@@ -200,7 +220,12 @@ FIGURES: dict[str, Figure] = {
     "thermal.insulation_limit_C": _f("Insulation temperature limit", "°C"),
     "thermal.winding_to_housing_K_per_W": _f("Thermal resistance winding to housing", "K/W"),
     "thermal.housing_to_ambient_K_per_W": _f("Thermal resistance housing to ambient", "K/W"),
-    "thermal.thermal_time_constant_s": _f("Thermal time constant", "min"),
+    "thermal.thermal_time_constant_s": _f("Thermal time constant of the motor", "min"),
+    "thermal.winding_time_constant_s": _f("Thermal time constant of the winding", "s", 2),
+    "thermal.time_to_limit_s": _f("Time to the class limit at rated load, from cold", "min", 2),
+    "thermal.winding_heat_capacity_J_per_K": _f("Heat capacity of the winding", "J/K", 2),
+    "thermal.housing_heat_capacity_J_per_K": _f("Heat capacity of housing and magnets", "J/K", 2),
+    "thermal.winding_to_magnet_K_per_W": _f("Thermal resistance across the gap", "K/W"),
     # Construction
     "geometry.housing_outer_diameter_m": _f("Housing outer diameter", "mm"),
     "geometry.housing_length_m": _f("Housing length", "mm"),
@@ -210,6 +235,8 @@ FIGURES: dict[str, Figure] = {
     "geometry.magnet_thickness_m": _f("Magnet thickness", "mm"),
     "geometry.magnet_arc_rad": _f("Magnet arc", "°"),
     "geometry.magnet_length_m": _f("Magnet length", "mm"),
+    "geometry.shaft_diameter_m": _f("Shaft diameter", "mm"),
+    "geometry.overhang_m": _f("Magnet overhang beyond the stack, each end", "mm"),
     # Masses and material cost (the cost's unit is the project's currency, given by the view)
     "mass.magnet_kg": _f("Magnet mass", "g"),
     "mass.copper_kg": _f("Copper mass", "g"),
@@ -241,6 +268,8 @@ LABELS: dict[str, str] = {
     "reversing": "Reversed at speed",
     "demagnetization_case.name": "Case",
     "demagnetization_case.ok": "Result",
+    "demagnetization_case.status": "State",
+    "commutation.brush_grade": "Brush grade",
 }
 
 #: The temperature cases a key's ``case.`` may stand for, and how a comparison names a case that is not
@@ -322,6 +351,8 @@ COMPARE_KEYS: tuple[str, ...] = (
     "nominal.max_output_power_W",
     "demagnetization.worst_margin_A_per_m",
     "thermal.winding_temperature_C",
+    "geometry.housing_outer_diameter_m",  # a re-fit by magnet thickness grows the housing: show it
+    "geometry.housing_length_m",
     "mass.magnet_kg",
     "mass.total_kg",
     "cost.magnet",
@@ -403,9 +434,28 @@ POINTS: dict[str, PointStyle] = {
     "operating_point": PointStyle("no-load operating point, on its load line", "circle", None),
     "knee": PointStyle("knee: irreversible loss begins", "diamond", None, filled=False),
     "demagnetization_safe": PointStyle("demagnetization case, safe", "triangle", None, filled=False),
+    "demagnetization_marginal": PointStyle("demagnetization case inside the required margin: marginal", "square",
+                                           WARNING_COLOUR, filled=False, size=1.3),
     "demagnetization_fails": PointStyle("demagnetization case past the knee: demagnetizes", "cross", FAIL_COLOUR,
                                         size=1.6),
 }
+
+@dataclass(frozen=True)
+class RegionStyle:
+    """A shaded band of a chart."""
+
+    title: str
+    colour: str  #: "#rrggbb"
+    opacity: float  #: 0 to 1
+
+
+#: The torque range beyond the drive's current limit, shaded on screen and on paper alike.
+REGIONS: dict[str, RegionStyle] = {
+    "beyond_limit": RegionStyle("beyond the drive's limit", DRIVE_LIMIT_COLOUR, 0.10),
+}
+
+#: How a demagnetization case's state reads, in words, on screen, in the summary and on paper.
+DEMAGNETIZATION_STATES: dict[str, str] = {"safe": "safe", "marginal": "marginal", "past_knee": "past the knee"}
 
 LINES: dict[str, LineStyle] = {
     "drive_limit": LineStyle("drive current limit", DRIVE_LIMIT_COLOUR, "dash_dot"),

@@ -6,7 +6,7 @@ import textwrap
 
 from pmdc_sizer.core.results import Results
 
-from .figures import LABELS, STATUSES, figure, text_of, unit_for, value_of
+from .figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
 from .safety import SHORT_CAUTION
 
 NOT_REACHED = "stalls"  #: a rated figure where the rated torque is beyond the stall torque
@@ -31,6 +31,13 @@ def summary_text(r: Results) -> str:
         for key in keys:
             item = figure(key)
             row(item.title, shown(r, key), *(item.text(value_of(r, key), unit) for unit in item.also))
+
+    def demagnetization_rows(cases):
+        row("", "current", "margin", "required", "state")
+        for case in cases:
+            row(case.name, *(shown(case, f"demagnetization_case.{name}")
+                             for name in ("current_A", "margin_A_per_m", "required_margin_A_per_m")),
+                DEMAGNETIZATION_STATES.get(case.status, case.status))
 
     def per_case(*keys: str):
         for key in keys:
@@ -60,20 +67,42 @@ def summary_text(r: Results) -> str:
         figures("sizing.electric_loading_A_per_m", "sizing.torque_per_rotor_volume_N_m_per_m3")
 
     section("Performance")
-    row("", *(f"{case.name} {shown(case, 'case.winding_temperature_C')}" for case in r.cases))
+    row("", *(case.name for case in r.cases))
+    row("Ambient", *(shown(case, "case.ambient_C") for case in r.cases))
+    row("Winding, magnets", *(f"{shown(case, 'case.winding_temperature_C')}, {shown(case, 'case.magnet_temperature_C')}"
+                              for case in r.cases))
     per_case("case.no_load_speed_rad_per_s", "case.no_load_current_A", "case.stall_torque_N_m", "case.stall_current_A",
              "case.max_efficiency", "case.max_output_power_W", "case.rated.speed_rad_per_s", "case.rated.current_A",
              "case.rated.efficiency")
 
-    section("Demagnetization (margin to the knee; positive is safe)")
-    for case in r.demagnetization.cases:
-        row(case.name, *(shown(case, f"demagnetization_case.{name}") for name in ("current_A", "margin_A_per_m")),
-            "ok" if case.ok else "FAILS")
+    dm = r.demagnetization
+    section(f"Demagnetization (margin to the knee; safe from {dm.required_margin_share:.0%} of HcJ)")
+    demagnetization_rows(dm.cases)
+    if r.faults is not None:
+        must = "must survive" if r.faults.must_survive else "reported only"
+        section(f"Faults: the supply applied directly, no limiter ({must})")
+        demagnetization_rows(r.faults.cases)
 
     t = r.thermal
     section(f"Thermal at {shown(r, 'thermal.ambient_C')} ambient, duty {t.duty}")
-    figures("thermal.winding_temperature_C", "thermal.magnet_temperature_C")
+    figures("thermal.winding_temperature_C", "thermal.housing_temperature_C", "thermal.magnet_temperature_C",
+            "thermal.steady_winding_temperature_C")
+    if t.time_to_limit_s is not None:
+        figures("thermal.time_to_limit_s")
+    if not t.steady_state_exists:
+        row("No usable steady state", "hot case shown at the class limit" if t.time_to_limit_s else "")
+    figures("thermal.winding_time_constant_s", "thermal.thermal_time_constant_s")
     row(LABELS["thermal.insulation_class"], t.insulation_class)
+    if r.ratings is not None:
+        section(f"Ratings at {shown(r, 'thermal.ambient_C')} ambient (winding up to its class limit)")
+        figures("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
+                "ratings.continuous_output_power_W", "ratings.stall_current_A")
+        for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s"):
+            row(figure(key).title, "never reaches it" if value_of(r, key) is None else shown(r, key))
+    if r.commutation is not None:
+        section(f"Brushes ({r.commutation.brush_grade}) and commutator")
+        figures("commutation.brush_current_density_A_per_m2", "commutation.brush_density_high_A_per_m2",
+                "commutation.surface_speed_m_per_s", "commutation.reactance_voltage_V")
 
     section("Mass and material cost")
     figures("mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg", "mass.total_kg")

@@ -1,7 +1,8 @@
 """The design datasheet: PDF and HTML for the customer, test and purchasing; charts as PNG and SVG.
 
     from pmdc_sizer.app import datasheet
-    datasheet.export(project, results, "motor.pdf")          # or .html
+    datasheet.export(project, results, "motor.pdf")          # or .html; the customer edition on A4 in SI
+    datasheet.export(project, results, "motor.pdf", options=SheetOptions("internal", "Letter", "US customary"))
     datasheet.write_charts(results, "charts/", "motor")      # motor_performance.png/.svg, motor_magnet.png/.svg
 
 Every file is written atomically and checked before it replaces anything (``app/files.py``,
@@ -21,6 +22,10 @@ from pmdc_sizer.core.results import Results
 from ..errors import CommandError
 from ..export_checks import check_html, check_pdf, check_png, check_svg
 from ..files import atomic_output, write_bytes_atomically, write_text_atomically
+from .options import DEFAULT_OPTIONS, EDITIONS, PAPER_SIZES_MM, UNIT_SYSTEMS, SheetOptions
+
+__all__ = ["DEFAULT_OPTIONS", "EDITIONS", "PAPER_SIZES_MM", "UNIT_SYSTEMS", "SheetOptions", "build", "export",
+           "field_appendix", "html_text", "logo_png", "preview_pages", "write_chart", "write_charts"]
 
 FORMATS = {".pdf": "PDF", ".html": "HTML", ".htm": "HTML"}
 
@@ -47,53 +52,88 @@ def format_of(path: str | os.PathLike) -> str:
     return FORMATS[suffix]
 
 
-def build(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = ()):
+def build(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = (),
+          options: SheetOptions = DEFAULT_OPTIONS):
     from .content import build as build_content
 
-    return build_content(project, results, issued, appendix)
+    return build_content(project, results, issued, appendix, options)
 
 
-def html_text(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = ()) -> str:
+def logo_png(project: Project, project_folder: str | os.PathLike | None = None) -> bytes | None:
+    """The project's logo (``project.logo``) as PNG bytes, or None when it sets none.
+
+    A relative path is read from the project file's folder. A missing or unreadable image is refused with
+    the key's name: a sheet without the logo it asked for is not quietly written.
+    """
+    written = project.project.logo.strip()
+    if not written:
+        return None
+    path = Path(written).expanduser()
+    if not path.is_absolute() and project_folder is not None:
+        path = Path(project_folder) / path
+    ensure_qt()
+    from PySide6.QtCore import QBuffer, QByteArray, QIODevice
+    from PySide6.QtGui import QImage
+
+    image = QImage(str(path))
+    if image.isNull():
+        raise CommandError(f"project.logo: {path} is not a readable PNG or JPEG image")
+    data = QByteArray()
+    buffer = QBuffer(data)
+    buffer.open(QIODevice.OpenModeFlag.WriteOnly)
+    image.save(buffer, "PNG")
+    buffer.close()
+    return bytes(data.data())
+
+
+def html_text(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = (),
+              options: SheetOptions = DEFAULT_OPTIONS, project_folder: str | os.PathLike | None = None) -> str:
     ensure_qt()
     from .document import browser_html
 
-    return browser_html(build(project, results, issued, appendix), results)
+    return browser_html(build(project, results, issued, appendix, options), results, logo_png(project, project_folder))
 
 
 def export(project: Project, results: Results, path: str | os.PathLike, issued: _dt.date | None = None,
-           appendix: tuple = ()) -> str:
+           appendix: tuple = (), options: SheetOptions = DEFAULT_OPTIONS,
+           project_folder: str | os.PathLike | None = None) -> str:
     """Write the datasheet to ``path`` as PDF or HTML (from the extension); returns the format.
 
     ``appendix``: sections added at the end (:func:`field_appendix` makes the field solution's).
+    ``options``: the edition (customer by default), the paper and the unit system.
+    ``project_folder``: where a relative ``project.logo`` path is read from.
     """
     kind = format_of(path)
     ensure_qt()
     if kind == "HTML":
-        write_text_atomically(path, html_text(project, results, issued, appendix), verify=check_html)
+        text = html_text(project, results, issued, appendix, options, project_folder)
+        write_text_atomically(path, text, verify=check_html)
         return kind
     from .document import write_pdf_file
 
-    sheet = build(project, results, issued, appendix)
+    sheet = build(project, results, issued, appendix, options)
+    logo = logo_png(project, project_folder)
     pages: list[int] = []  # the written file must parse, with as many pages as were painted
     with atomic_output(path, verify=lambda written: check_pdf(written, pages[0] if pages else None)) as temporary:
-        pages.append(write_pdf_file(sheet, results, temporary))
+        pages.append(write_pdf_file(sheet, results, temporary, logo))
     return kind
 
 
 def field_appendix(project: Project, results: Results) -> tuple:
     """The field-solution appendix of a design (solves no load and the worst demagnetization case)."""
     ensure_qt()
-    from .field_appendix import appendix_section, field_solutions
+    from .field_page import appendix_section, field_solutions
 
     return (appendix_section(results, field_solutions(project, results)),)
 
 
-def preview_pages(project: Project, results: Results, dots_per_inch: float = 96.0, issued: _dt.date | None = None):
+def preview_pages(project: Project, results: Results, dots_per_inch: float = 96.0, issued: _dt.date | None = None,
+                  options: SheetOptions = DEFAULT_OPTIONS, project_folder: str | os.PathLike | None = None):
     """The PDF's pages as images, for the preview."""
     ensure_qt()
     from .document import PagedDatasheet
 
-    paged = PagedDatasheet(build(project, results, issued), results)
+    paged = PagedDatasheet(build(project, results, issued, (), options), results, logo_png(project, project_folder))
     return [paged.page_image(i, dots_per_inch) for i in range(paged.page_count)]
 
 

@@ -30,6 +30,7 @@ from ..figures import (
     CURVE_QUANTITIES,
     LINES,
     POINTS,
+    REGIONS,
     demagnetization_case_colour,
     demagnetization_point,
     drive_current_limit,
@@ -37,6 +38,8 @@ from ..figures import (
     qt_pen_style,
     torque_unit,
 )
+from .outline import OUTLINE_ASPECT, draw_outline
+from .paper_units import paper_unit
 
 CANVAS_WIDTH = 1000.0
 PERFORMANCE_ASPECT = 0.78  #: height over width of the performance chart
@@ -103,6 +106,7 @@ class Panel:
     series: list[Series] = field(default_factory=list)
     markers: list[Marker] = field(default_factory=list)
     note: str = ""
+    shaded_from: float | None = None  #: x from which the panel is shaded as beyond the drive's limit
 
 
 def nice_ticks(low: float, high: float, count: int = 7) -> list[float]:
@@ -287,6 +291,13 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
                      panel.left_label)
     painter.restore()
 
+    if panel.shaded_from is not None and panel.shaded_from < x1:
+        shade = REGIONS["beyond_limit"]
+        colour = QColor(shade.colour)
+        colour.setAlphaF(shade.opacity)
+        left = to_point(max(panel.shaded_from, x0), y0).x()
+        painter.fillRect(QRectF(left, plot.top(), plot.right() - left, plot.height()), colour)
+
     # Curves cut to the plot, then markers inside it.
     painter.setBrush(Qt.BrushStyle.NoBrush)
     for s in panel.series:
@@ -387,9 +398,14 @@ def draw_legend(painter: QPainter, frame: QRectF, rows: list[list[LegendItem]]) 
 # The two charts
 
 
+def _temperature(value_C: float) -> str:
+    """A temperature as the sheet prints it (°C, or °F on a US customary sheet), to the whole degree."""
+    return figure("case.ambient_C").text(value_C, paper_unit("°C"))
+
+
 def case_label(case) -> str:
-    return (f"{case.name}: ambient {case.ambient_C:.0f} °C, winding {case.winding_temperature_C:.0f} °C, "
-            f"magnet {case.magnet_temperature_C:.0f} °C")
+    return (f"{case.name}: ambient {_temperature(case.ambient_C)}, winding {_temperature(case.winding_temperature_C)}, "
+            f"magnet {_temperature(case.magnet_temperature_C)}")
 
 
 def working_torque_limit(results: Results) -> float:
@@ -406,16 +422,22 @@ def _vertical(x: float, panel: Panel, colour: str, dash: str, line: str, width: 
 
 
 def performance_panels(results: Results) -> list[Panel]:
-    unit = torque_unit(results)
+    unit = paper_unit(torque_unit(results))  # the sheet's system: oz·in or lbf·in on a US customary sheet
     torque = figure("curve.torque_N_m")
     stall = max(c.stall_torque_N_m for c in results.cases)
+    # With a drive limit the torque axis ends a little past it (core.envelope), the rest is out of reach.
+    shown_to = max(c.envelope.chart_torque_max_N_m if c.envelope else c.stall_torque_N_m for c in results.cases)
+
+    def highest(values, case) -> float:
+        return float(np.max(np.asarray(values)[np.asarray(case.curve.torque_N_m) <= shown_to * 1.0001]))
+
     tops = {
         "speed_rad_per_s": max(from_si(c.no_load_speed_rad_per_s, "rpm") for c in results.cases) * 1.02,
-        "current_A": max(c.stall_current_A for c in results.cases) * 1.02,
-        "output_power_W": max(c.max_output_power_W for c in results.cases) * 1.08,
+        "current_A": max(highest(c.curve.current_A, c) for c in results.cases) * 1.02,
+        "output_power_W": max(highest(c.curve.output_power_W, c) for c in results.cases) * 1.08,
     }
-    working = working_torque_limit(results)
-    x_full = nice_range(0.0, from_si(stall, unit))
+    working = min(working_torque_limit(results), shown_to)
+    x_full = nice_range(0.0, from_si(shown_to, unit))
     x_work = nice_range(0.0, from_si(working, unit))
     panels = []
     for name in CURVE_QUANTITIES:
@@ -455,6 +477,7 @@ def performance_panels(results: Results) -> list[Panel]:
         for panel in panels:
             panel.series.append(_vertical(from_si(limit_torque, unit), panel, limit_style.colour, limit_style.dash,
                                           "drive_limit", 1.6))
+            panel.shaded_from = from_si(limit_torque, unit)
     speed = panels[CURVE_QUANTITIES.index("speed_rad_per_s")]
     speed.markers.append(point_marker("required", from_si(results.load_torque_N_m, unit),
                                       from_si(results.load_speed_rad_per_s, "rpm")))
@@ -478,7 +501,8 @@ def performance_legend(results: Results) -> list[list[LegendItem]]:
         [LegendItem(style.title, QColor(style.colour), qt_pen_style(style.dash)) for style in CASES.values()]
         + [_legend_point(point) for point in CASE_POINTS] + [_legend_point("required"), _legend_line("rated_torque")]
         + ([_legend_line("drive_limit", f"{LINES['drive_limit'].title}, {figure('current_limit_A').text(limit)} "
-                                        "(its torque: nominal case)")]
+                                        "(its torque: nominal case)"),
+            LegendItem(REGIONS["beyond_limit"].title, QColor(REGIONS["beyond_limit"].colour), shape="square")]
            if limit is not None else []),
         [LegendItem(case_label(c), AXIS) for c in results.cases],
     ]
@@ -559,7 +583,7 @@ def magnet_panel(results: Results) -> Panel:
 def magnet_legend(results: Results) -> list[list[LegendItem]]:
     temperatures = {c.name: c.curves.temperature_C for c in results.magnet_chart}
     return [
-        [LegendItem(f"{name} (magnet {temperatures[name]:.0f} °C)", QColor(style.colour), Qt.PenStyle.SolidLine)
+        [LegendItem(f"{name} (magnet {_temperature(temperatures[name])})", QColor(style.colour), Qt.PenStyle.SolidLine)
          for name, style in CASES.items()],
         [LegendItem("normal curve B", AXIS, Qt.PenStyle.SolidLine),
          LegendItem("intrinsic curve J", AXIS, Qt.PenStyle.DashLine),
@@ -578,7 +602,9 @@ def draw_magnet_chart(painter: QPainter, width: float, height: float, results: R
     painter.restore()
 
 
-DRAWERS = {"performance": (draw_performance_chart, PERFORMANCE_ASPECT), "magnet": (draw_magnet_chart, MAGNET_ASPECT)}
+DRAWERS = {"performance": (draw_performance_chart, PERFORMANCE_ASPECT), "magnet": (draw_magnet_chart, MAGNET_ASPECT),
+           "outline": (draw_outline, OUTLINE_ASPECT)}
+SHEET_DRAWINGS = (*CHART_NAMES, "outline")  #: what the datasheet embeds; the charts alone are also exported
 
 
 # ----------------------------------------------------------------------------------------------
@@ -593,8 +619,10 @@ def chart_image(name: str, results: Results, width_px: int = 2000) -> QImage:
     painter = QPainter(image)
     painter.setRenderHint(QPainter.RenderHint.Antialiasing)
     painter.setRenderHint(QPainter.RenderHint.TextAntialiasing)
-    draw(painter, width_px, height_px, results)
-    painter.end()
+    try:
+        draw(painter, width_px, height_px, results)
+    finally:  # a painter left open on an image crashes Qt when the image goes
+        painter.end()
     return image
 
 

@@ -14,20 +14,29 @@ from pmdc_sizer.core.magnets import KNEE_LOSS_FRACTION
 from pmdc_sizer.core.project import Project
 from pmdc_sizer.core.results import Results
 
-from ..figures import LABELS, STATUSES, figure, text_of, unit_for, value_of
+from ..figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
 from ..formatting import unit_label
 from ..safety import caution_sentences
 from .charts import demagnetization_point_labels
+from .options import DEFAULT_OPTIONS, SheetOptions
+from .paper_units import paper_unit, printed_in
 
 TERMINAL_ROWS = (
     ("A1", "armature terminal; positive for the rotation stated below"),
     ("A2", "armature terminal; negative for the rotation stated below"),
 )
 ROTATION_CONVENTION = (
-    "Direction of rotation, as this product uses it: with A1 positive with respect to A2, the shaft turns "
-    "clockwise seen from the drive end; swapping the supply polarity reverses it. Markings follow "
-    "IEC 60034-8 as we recall it (from memory): confirm against IEC 60034-8 and on the prototype test."
+    "Direction of rotation: with A1 positive with respect to A2, the shaft turns clockwise seen from the "
+    "drive end (the shaft end); swapping the supply polarity reverses it. Terminal markings A1 and A2 as "
+    "in IEC 60034-8."
 )
+#: Internal edition only: how sure we are of the marking rule.
+ROTATION_SOURCE_NOTE = ("The rotation rule for A1 positive is IEC 60034-8 as we recall it (from memory): "
+                        "confirm against the standard and on the prototype test.")
+
+#: The design checks a customer's sheet states: what the motor does and whether it stays whole and cool.
+#: The rest (slot fill, current density, envelope, ...) are the designer's own matters.
+CUSTOMER_CHECKS = frozenset({"load", "start", "demagnetization", "thermal", "magnet_temperature"})
 
 
 @dataclass(frozen=True)
@@ -98,6 +107,8 @@ class Datasheet:
     identity: tuple[tuple[str, str], ...]
     headline: tuple[tuple[str, str], ...]
     sections: tuple[Section, ...] = field(default_factory=tuple)
+    options: SheetOptions = DEFAULT_OPTIONS
+    logo: str = ""  #: the project's logo path, as written in the file
 
     def section(self, key: str) -> Section:
         return next(s for s in self.sections if s.key == key)
@@ -124,7 +135,7 @@ def rated(case, text: str) -> str:
 
 
 def _shown(source, key: str, results: Results, unit: str | None = None) -> str:
-    return text_of(source, key, unit or unit_for(key, results))
+    return text_of(source, key, paper_unit(unit or unit_for(key, results)))
 
 
 def _case_rows(results: Results, *keys: str) -> list[Row]:
@@ -133,8 +144,9 @@ def _case_rows(results: Results, *keys: str) -> list[Row]:
     for key in keys:
         item = figure(key)
         is_rated = key.startswith("case.rated.")
-        for unit in (unit_for(key, results), *item.also):
-            title = item.title if unit == unit_for(key, results) else f"{item.title} in {unit_label(unit)}"
+        units = dict.fromkeys(paper_unit(u) for u in (unit_for(key, results), *item.also))
+        for unit in units:
+            title = item.title if unit == paper_unit(unit_for(key, results)) else f"{item.title} in {unit_label(unit)}"
             rows.append(_per_case(title, (rated(c, _shown(c, key, results, unit)) if is_rated
                                           else _shown(c, key, results, unit) for c in results.cases)))
     return rows
@@ -146,35 +158,38 @@ def _figure_rows(results: Results, *keys: str, source=None) -> list[tuple[str, s
 
 
 def performance_table(results: Results) -> Table:
+    """The motor's figures per temperature case, grouped by the question a user brings to the sheet."""
     r = results
     limit = r.current_limit_A
+    supply = _shown(r, "supply_voltage_V", r)
     rows = [
-        Row(("Temperatures",), "group"),
-        *_case_rows(r, "case.ambient_C", "case.winding_temperature_C", "case.magnet_temperature_C"),
-        Row(("No load",), "group"),
-        *_case_rows(r, "case.no_load_speed_rad_per_s", "case.no_load_current_A"),
-        Row((f"Rated load, {_shown(r, 'load_torque_N_m', r)} (required speed {_shown(r, 'load_speed_rad_per_s', r)} "
+        Row((f"What it does at {supply}",), "group"),
+        *_case_rows(r, "case.no_load_speed_rad_per_s"),
+        Row((f"At the rated torque, {_shown(r, 'load_torque_N_m', r)} (needs {_shown(r, 'load_speed_rad_per_s', r)} "
              "or more)",), "group"),
-        *_case_rows(r, "case.rated.speed_rad_per_s", "case.rated.current_A", "case.rated.output_power_W",
-                    "case.rated.efficiency"),
-        _per_case("Load met", ("yes" if c.meets_load else "NO" for c in r.cases)),
-        Row(("At stall" if limit is None else "At stall, and where the drive limits the current",), "group"),
-        *_case_rows(r, "case.stall_torque_N_m", "case.stall_current_A"),
+        *_case_rows(r, "case.rated.speed_rad_per_s", "case.rated.output_power_W", "case.rated.efficiency"),
+        _per_case("Rated load met", ("yes" if c.meets_load else "NO" for c in r.cases)),
+        Row(("Its best and its limits",), "group"),
+        *_case_rows(r, "case.max_output_power_W", "case.max_power_point.torque_N_m", "case.max_efficiency",
+                    "case.max_efficiency_point.torque_N_m", "case.stall_torque_N_m"),
     ]
     if limit is not None:
         key = "case.current_limit_torque_N_m"
         rows.append(_per_case(f"{figure(key).title} ({_shown(r, 'current_limit_A', r)})", (
             _shown(c, key, r) if c.current_limit_torque_N_m is not None else "limit above stall" for c in r.cases)))
     rows += [
-        Row(("Best points",), "group"),
-        *_case_rows(r, "case.max_efficiency", "case.max_efficiency_point.torque_N_m", "case.max_output_power_W",
-                    "case.max_power_point.torque_N_m"),
-        Row(("Constants",), "group"),
+        Row(("What it draws from the supply",), "group"),
+        *_case_rows(r, "case.no_load_current_A", "case.rated.current_A", "case.stall_current_A"),
+        Row(("How it is built: its constants",), "group"),
         *_case_rows(r, "case.ke_V_s_per_rad", "case.kt_N_m_per_A", "case.terminal_resistance_ohm",
                     "case.speed_torque_gradient_rad_per_s_per_N_m", "case.flux_per_pole_Wb"),
+        Row(("How heat changes it: the temperatures behind each column",), "group"),
+        *_case_rows(r, "case.ambient_C", "case.winding_temperature_C", "case.magnet_temperature_C"),
     ]
     return Table(_case_header(r), tuple(rows), widths=(40, 20, 20, 20),
-                 caption="Kt equals Ke in SI units. The stall figures ignore any drive current limit.",
+                 caption="Kt equals Ke in SI units. Stall figures ignore any drive current limit. Warmer windings "
+                         "resist more and warmer magnets give less flux: hence the hot column's lower stall torque "
+                         "and higher speed drop per unit torque.",
                  key="performance_table")
 
 
@@ -187,14 +202,15 @@ def electrical_table(results: Results) -> Table:
          else "none (plain supply)"),
         (LABELS["reversing"], "yes" if r.reversing else "no"),
         *_figure_rows(r, "winding.resistance_20C_ohm", "constants.inductance_H_estimate",
-                      "constants.electrical_time_constant_s_estimate", "constants.mechanical_time_constant_s",
-                      "constants.rotor_inertia_kg_m2"),
+                      "constants.electrical_time_constant_s_estimate", "constants.rotor_inertia_kg_m2",
+                      "constants.mechanical_time_constant_s"),
     ]
-    return _kv(rows, caption="Time constants at the nominal temperature.", title="Electrical and mechanical",
-               key="electrical")
+    return _kv(rows, caption="How fast it answers, at the nominal temperature: the electrical time constant is "
+                             "the current's rise, the mechanical one the speed's, with no load on the shaft.",
+               title="Supply and response", key="electrical")
 
 
-def magnet_tables(results: Results) -> tuple[Table, Table]:
+def magnet_tables(results: Results, internal: bool = True) -> tuple[Table, Table]:
     r, m = results, results.magnet
     at = f"at {_shown(r, 'magnetics.temperature_C', r)}"
     grade_rows = [
@@ -217,8 +233,9 @@ def magnet_tables(results: Results) -> tuple[Table, Table]:
     )
     points = Table(("", *tuple(c.name for c in chart)), point_rows, widths=(37, 21, 21, 21),
                    title="No-load operating point", key="operating_point")
+    source = f"Grade data: {m.source}." if internal else "Typical grade data."
     grade = _kv(grade_rows, title="Magnet grade", key="magnet_grade",
-                caption=f"Grade data: {m.source}. Confirm with the supplier's certified curves.")
+                caption=f"{source} Confirm with the supplier's certified curves.")
     return grade, points
 
 
@@ -231,22 +248,58 @@ def demagnetization_table(results: Results) -> Table:
     labels = demagnetization_point_labels(results)
     rows = []
     for label, case in zip(labels, dm.cases, strict=True):
-        kind = "fail" if not case.ok else ("worst" if case.name == dm.worst_case else "")
         rows.append(Row((label, case.name, *(_shown(case, key, results) for key in DEMAGNETIZATION_KEYS),
-                         "safe" if case.ok else "DEMAGNETIZES"), kind))
+                         _state_word(case)), _state_kind(case, dm.worst_case)))
     header = ("No.", LABELS["demagnetization_case.name"], *(figure(key).title for key in DEMAGNETIZATION_KEYS),
-              LABELS["demagnetization_case.ok"])
+              LABELS["demagnetization_case.status"])
     return Table(header, tuple(rows),
-                 widths=(4, 26, 14, 8, 13, 11, 13, 11), numeric_from=2, numeric_until=8, key="demagnetization",
+                 widths=(4, 24, 14, 9, 12, 11, 13, 13), numeric_from=2, numeric_until=7, key="demagnetization",
                  caption="The margin is the field at the magnet's most exposed tip minus the knee field; positive is "
                          "safe. The knee is where the magnet starts to lose flux for good: its intrinsic curve has "
                          f"fallen {KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
                          "The numbers mark the cases on the magnet chart.")
 
 
+def _state_word(case) -> str:
+    word = DEMAGNETIZATION_STATES.get(case.status, "safe" if case.ok else "past the knee")
+    return word.upper() if not case.ok else word
+
+
+def _state_kind(case, worst_case: str) -> str:
+    if not case.ok:
+        return "fail"
+    if case.status == "marginal":
+        return "warning"
+    return "worst" if case.name == worst_case else ""
+
+
+def fault_table(results: Results) -> Table | None:
+    """The direct-supply faults (a failed drive, no limiter), in their own table."""
+    faults = results.faults
+    if faults is None:
+        return None
+    keys = (*DEMAGNETIZATION_KEYS, "demagnetization_case.required_margin_A_per_m")
+    rows = tuple(Row((case.name, *(_shown(case, key, results) for key in keys), _state_word(case)),
+                     _state_kind(case, faults.worst_case)) for case in faults.cases)
+    must = ("The project requires the magnets to survive these." if faults.must_survive
+            else "The project reports these without requiring them to pass (supply.fault_cases).")
+    return Table((LABELS["demagnetization_case.name"], *(figure(key).title for key in keys),
+                  LABELS["demagnetization_case.status"]), rows,
+                 widths=(28, 11, 9, 11, 11, 11, 9, 10), numeric_from=1, numeric_until=7, key="faults",
+                 caption="Faults: stall and reversal at no-load speed with the supply applied directly, as when a "
+                         f"drive fails or a battery is connected without it. {must} Safe: at least the required "
+                         f"margin, {results.demagnetization.required_margin_share:.0%} of HcJ, on every "
+                         "demagnetization case; marginal: above the knee by less.")
+
+
 def worst_case_sentence(results: Results) -> str:
     dm = results.demagnetization
     margin = _shown(results, "demagnetization.worst_margin_A_per_m", results)
+    required = f"{dm.required_margin_share:.0%} of HcJ"
+    if dm.ok and dm.status == "marginal":
+        marginal = sum(1 for c in dm.cases if c.status == "marginal")
+        return (f"Worst case: {dm.worst_case}, margin {margin} to the knee. {marginal} case(s) keep less than the "
+                f"required margin ({required}): marginal against a batch's spread of HcJ.")
     if dm.ok:
         return f"Worst case: {dm.worst_case}, margin {margin} to the knee. Every case is safe."
     failing = sum(1 for c in dm.cases if not c.ok)
@@ -254,13 +307,15 @@ def worst_case_sentence(results: Results) -> str:
             "the design must change before release.")
 
 
-def thermal_table(results: Results) -> Table:
+def thermal_table(results: Results, internal: bool = True) -> Table:
     r, t = results, results.thermal
-    duty = "S1, continuous" if t.duty == "S1" else f"S2, {t.duty_minutes:g} min"
+    duty = {"S1": "S1, continuous", "S2": f"S2, {t.duty_minutes:g} min",
+            "S3": f"S3, {t.cycle_duration_factor:.0%} of {t.cycle_minutes:g} min"}[t.duty]
     winding = figure("thermal.winding_temperature_C").title
-    winding_label = f"{winding}, steady" if t.duty == "S1" else f"{winding}, end of the run"
+    winding_label = {"S1": f"{winding}, steady", "S2": f"{winding}, end of the run",
+                     "S3": f"{winding}, end of each loaded spell"}[t.duty]
     if not t.converged:
-        winding_label = f"{winding} (no steady state: shown at the class limit)"
+        winding_label = f"{winding} (no steady state: when it reaches the class limit)"
     rows = [
         *_figure_rows(r, "thermal.ambient_C"),
         (LABELS["thermal.duty"], duty),
@@ -269,18 +324,34 @@ def thermal_table(results: Results) -> Table:
     ]
     if t.duty != "S1":
         rows += _figure_rows(r, "thermal.steady_winding_temperature_C")
+    if t.time_to_limit_s is not None:
+        rows += _figure_rows(r, "thermal.time_to_limit_s")
     rows += [
         *_figure_rows(r, "thermal.housing_temperature_C", "thermal.magnet_temperature_C", "thermal.magnet_limit_C"),
         (LABELS["thermal.insulation_class"], t.insulation_class),
         *_figure_rows(r, "thermal.insulation_limit_C", "thermal.winding_to_housing_K_per_W",
-                      "thermal.housing_to_ambient_K_per_W", "thermal.thermal_time_constant_s"),
-        (LABELS["thermal.converged"], "converged" if t.converged else "NO STEADY STATE"),
+                      "thermal.housing_to_ambient_K_per_W", "thermal.winding_time_constant_s",
+                      "thermal.thermal_time_constant_s"),
     ]
-    return _kv(rows, title="Thermal", key="thermal")
+    if internal:
+        rows.append((LABELS["thermal.converged"], "converged" if t.converged else "NO STEADY STATE"))
+    return _kv(rows, title="Heat", key="thermal")
 
 
-def build_tables(results: Results) -> tuple[Table, Table, Table]:
+def ratings_table(results: Results) -> Table:
+    """The continuous (S1) rating and the permitted stall times at the highest ambient."""
+    r = results
+    rows = _figure_rows(r, "ratings.continuous_torque_N_m", "ratings.continuous_current_A")
+    rows += [(figure(key).title, "never reaches the limit" if value_of(r, key) is None else _shown(r, key, r))
+             for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")]
+    return _kv(rows, title="Ratings up to the class limit, hottest ambient", key="ratings")
+
+
+def build_tables(results: Results, internal: bool = True) -> tuple[Table, Table, Table]:
+    """The winding and construction (slot fill and current density for the internal edition), the masses and
+    the material cost (which only the internal edition prints)."""
     r, w, g = results, results.winding, results.geometry
+    designer_figures = ("winding.slot_fill_bare", "winding.rated_current_density_A_per_m2") if internal else ()
     winding_rows = [
         (LABELS["geometry.poles"], str(g.poles)),
         (LABELS["winding.type"], f"{w.type}, {w.parallel_paths} parallel paths"),
@@ -289,10 +360,10 @@ def build_tables(results: Results) -> tuple[Table, Table, Table]:
         (LABELS["winding.turns_per_coil"], str(w.turns_per_coil)),
         (LABELS["winding.conductors"], str(w.conductors)),
         (LABELS["winding.wire"], f"{w.wire} (grade {w.enamel_grade})"),
-        *_figure_rows(r, "winding.slot_fill_bare", "winding.rated_current_density_A_per_m2",
-                      "geometry.housing_outer_diameter_m", "geometry.housing_length_m", "geometry.armature_diameter_m",
-                      "geometry.stack_length_m", "geometry.airgap_m", "geometry.magnet_thickness_m",
-                      "geometry.magnet_arc_rad", "geometry.magnet_length_m"),
+        *_figure_rows(r, *designer_figures, "geometry.housing_outer_diameter_m", "geometry.housing_length_m",
+                      "geometry.armature_diameter_m", "geometry.stack_length_m", "geometry.airgap_m",
+                      "geometry.magnet_thickness_m", "geometry.magnet_arc_rad", "geometry.magnet_length_m",
+                      "geometry.overhang_m", "geometry.shaft_diameter_m"),
     ]
     mass_rows = _figure_rows(r, "mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg",
                              "mass.shaft_kg", "mass.total_kg")
@@ -300,28 +371,32 @@ def build_tables(results: Results) -> tuple[Table, Table, Table]:
     cost_rows = [(figure(key).title, text_of(r, key, currency))
                  for key in ("cost.magnet", "cost.copper", "cost.housing", "cost.lamination", "cost.total")]
     return (_kv(winding_rows, title="Winding and construction", key="winding"),
-            _kv(mass_rows, caption="Active parts and shaft; brushes, commutator and end caps not included.",
+            _kv(mass_rows, caption="The active mass: magnets, copper, housing, laminations and shaft, from their "
+                                   "volumes and densities. Brushes, commutator, end caps and bearings are not "
+                                   "included: the finished motor weighs more.",
                 title="Masses", key="mass"),
             _kv(cost_rows, caption="Raw material only, at the prices per kilogram set in the project.",
                 title="Material cost", key="cost"))
 
 
-def checks_table(results: Results) -> Table:
+def checks_table(results: Results, internal: bool = True) -> Table:
+    """Every design check (internal edition), or the verdicts a customer reads: load, start, demagnetization, heat."""
     rows = tuple(
         Row((STATUSES[c.status].word, c.title,
-             c.message + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice else "")), c.status)
-        for c in results.checks
+             c.message + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice and internal else "")), c.status)
+        for c in results.checks if internal or c.key in CUSTOMER_CHECKS
     )
     return Table(("Status", "Check", "Finding"), rows, widths=(10, 19, 71), numeric_from=99, key="checks")
 
 
 def failing_summary(results: Results) -> tuple[Paragraph, ...]:
-    """A line that cannot be missed when any check fails; nothing when all pass."""
+    """A line that cannot be missed when any check fails (either edition: a failing design is never quietly
+    handed on); nothing when all pass."""
     failing = [c.title for c in results.checks if c.status == "fail"]
     if not failing:
         return ()
-    return (Paragraph(f"This design fails {len(failing)} check(s): {', '.join(failing)}. See the design checks; "
-                      "it is not ready for release.", "fail"),)
+    return (Paragraph(f"This design fails {len(failing)} check(s): {', '.join(failing)}. "
+                      "It is not ready for release.", "fail"),)
 
 
 #: The tiles at the head of the sheet.
@@ -331,34 +406,82 @@ HEADLINE_KEYS = ("supply_voltage_V", "load_torque_N_m", "nominal.rated.speed_rad
                  "demagnetization.worst_margin_A_per_m")
 
 
+#: With a drive limit the tiles show what the motor reaches with it, not the unlimited stall figures.
+LIMITED_HEADLINE = {"nominal.stall_torque_N_m": "nominal.envelope.torque_limit_N_m",
+                    "nominal.max_output_power_W": "nominal.envelope.max_output_power_W"}
+
+
+def headline_keys(results: Results) -> tuple[str, ...]:
+    envelope = results.nominal.envelope
+    limited = envelope is not None and envelope.limited
+    return tuple(LIMITED_HEADLINE.get(key, key) if limited else key for key in HEADLINE_KEYS)
+
+
 def headline(project: Project, results: Results) -> tuple[tuple[str, str], ...]:
     return tuple((figure(key).title, rated(results.nominal, _shown(results, key, results)) if ".rated." in key
-                  else _shown(results, key, results)) for key in HEADLINE_KEYS)
+                  else _shown(results, key, results)) for key in headline_keys(results))
+
+
+def model_notes(results: Results) -> tuple[Paragraph, ...]:
+    """What the internal reader needs to weigh the figures: sources, the model's reach, what is recalled."""
+    r = results
+    thermal = ("The thermal fixed point converged." if r.thermal.converged else
+               "The thermal fixed point did not converge: the hot case is shown at the insulation class limit.")
+    return tuple(Paragraph(text, "note") for text in (
+        "Flux per pole from the lumped magnetic circuit (Carter's coefficient, leakage permeance, iron drops "
+        "from the steels' B(H) curves); check designs with saturated housing or teeth against the built-in field "
+        "solution (datasheet --with-field).",
+        thermal,
+        "Inductance and the time constants are estimates (two significant figures).",
+        ROTATION_SOURCE_NOTE,
+    ))
+
+
+def identity_rows(project: Project, results: Results, issued: _dt.date, options: SheetOptions):
+    info, r = project.project, results
+    rows = [
+        ("Part number", info.part_number), ("Customer", info.customer),
+        ("Revision", info.revision), ("Issued", issued.isoformat()), ("Drawn by", info.drawn_by),
+        ("Magnet", r.magnet.name), ("Poles", str(r.geometry.poles)),
+        ("Winding", f"{r.winding.type}, Z = {r.winding.conductors}"), ("Wire", r.winding.wire),
+        ("Duty", r.thermal.duty), ("Insulation", f"class {r.thermal.insulation_class}"),
+        ("Edition", f"{options.edition}, {options.units}"),
+    ]
+    return tuple((k, v) for k, v in rows if v)
 
 
 def build(project: Project, results: Results, issued: _dt.date | None = None,
-          appendix: tuple[Section, ...] = ()) -> Datasheet:
-    """The complete datasheet content of one evaluated design; ``appendix`` sections come last."""
+          appendix: tuple[Section, ...] = (), options: SheetOptions = DEFAULT_OPTIONS) -> Datasheet:
+    """The datasheet content of one evaluated design in one edition; ``appendix`` sections come last."""
+    with printed_in(options.units):
+        return _build(project, results, issued, appendix, options)
+
+
+def _build(project: Project, results: Results, issued: _dt.date | None, appendix: tuple[Section, ...],
+           options: SheetOptions) -> Datasheet:
     r = results
+    internal = options.internal
     info = project.project
     # The sheet is issued on its revision's date when the project gives one, else on the day of export.
     if issued is None:
         issued = _dt.date.fromisoformat(info.revision_date) if info.revision_date else _dt.date.today()
-    magnet_grade, operating_points = magnet_tables(r)
-    winding, mass, cost = build_tables(r)
+    magnet_grade, operating_points = magnet_tables(r, internal)
+    winding, mass, cost = build_tables(r, internal)
     notes = info.notes.strip()
-    sections = (
-        Section("performance", "Performance at three temperatures", (
+    construction = Columns((winding,), (mass, cost) if internal else (mass,))
+    sections = [
+        Section("performance", "What the motor does, at three temperatures", (
             *failing_summary(r),
             Paragraph("Cold: the coldest ambient, motor at rest temperature. Nominal: the nominal ambient. Hot: the "
                       "hottest ambient with winding and magnets at the temperatures they reach at the rated load.",
                       "note"),
             performance_table(r),
         )),
-        Section("performance_chart", "Performance chart", (
+        Section("performance_chart", "Speed, current, power and efficiency against torque", (
             Chart("performance", "Speed, current and output power from no load to stall; efficiency over the working "
                                  "range. Cold, nominal and hot cases."),
-            Columns((electrical_table(r),), (thermal_table(r),)),
+            Columns((electrical_table(r), *((ratings_table(r),) if r.ratings is not None else ())),
+                    (thermal_table(r, internal),)),
         ), new_page=True),
         Section("magnet", "Magnet and demagnetization", (
             Chart("magnet", "Second-quadrant curves of the grade at the three magnet temperatures with the load lines, "
@@ -367,28 +490,31 @@ def build(project: Project, results: Results, issued: _dt.date | None = None,
             Paragraph(worst_case_sentence(r), "strong" if r.demagnetization.ok else "fail"),
             Columns((magnet_grade,), (operating_points,)),
         ), new_page=True),
-        Section("construction", "Construction, masses and cost", (Columns((winding,), (mass, cost)),), new_page=True),
-        Section("terminals", "Terminal markings", (
+        Section("outline", "Outline", (
+            Chart("outline", "End view and side view with the main dimensions. Shaft extension, terminals and "
+                             "mounting are set by the mechanical drawing, not by this sheet."),
+        ), new_page=True),
+        Section("construction", "Construction and masses" + (" and cost" if internal else ""), (construction,)),
+
+        Section("terminals", "Terminals and direction of rotation", (
             Table(("Marking", "Meaning"), tuple(Row(t) for t in TERMINAL_ROWS), widths=(15, 85), numeric_from=99,
                   key="terminal_markings"),
             Paragraph(ROTATION_CONVENTION, "note"),
         )),
-        Section("checks", "Design checks", (checks_table(r),), new_page=True),
-        Section("notes", "Notes", tuple(Paragraph(line.strip()) for line in notes.splitlines() if line.strip())
-                or (Paragraph("No notes."),)),
-        Section("cautions", "Cautions", tuple(Paragraph(text, "caution") for text in caution_sentences())),
-    )
-    identity = (
-        ("Revision", info.revision),
-        ("Issued", issued.isoformat()),
-        ("Magnet", r.magnet.name),
-        ("Poles", str(r.geometry.poles)),
-        ("Winding", f"{r.winding.type}, Z = {r.winding.conductors}"),
-        ("Wire", r.winding.wire),
-        ("Duty", r.thermal.duty),
-        ("Insulation", f"class {r.thermal.insulation_class}"),
-    )
-    subtitle = "Brushed permanent-magnet DC motor: design datasheet (engineering estimates)"
+        Section("checks", "Design checks" if internal else "Verdicts", (checks_table(r, internal),), new_page=True),
+        *((Section("faults", "Demagnetization with the supply applied directly", (fault_table(r),)),)
+          if r.faults is not None else ()),
+    ]
+    if internal:
+        sections += [
+            Section("notes", "Notes", tuple(Paragraph(line.strip()) for line in notes.splitlines() if line.strip())
+                    or (Paragraph("No notes."),)),
+            Section("model_notes", "Model notes", model_notes(r)),
+        ]
+    sections.append(Section("cautions", "Cautions", tuple(Paragraph(text, "caution") for text in caution_sentences())))
+    kind = "internal engineering datasheet" if internal else "datasheet"
+    subtitle = f"Brushed permanent-magnet DC motor: {kind} (engineering estimates)"
     return Datasheet(title=info.name, description=info.description.strip(), revision=info.revision,
-                     issued=issued.isoformat(), subtitle=subtitle, identity=identity,
-                     headline=headline(project, r), sections=sections + tuple(appendix))
+                     issued=issued.isoformat(), subtitle=subtitle, identity=identity_rows(project, r, issued, options),
+                     headline=headline(project, r), sections=tuple(sections) + tuple(appendix),
+                     options=options, logo=info.logo)

@@ -20,6 +20,8 @@ from ..figures import STATUSES
 from ..safety import DEFER_NOTE, ESTIMATES_NOTE
 from . import charts
 from .content import Chart, Columns, Datasheet, Paragraph, Picture, Table
+from .options import PAPER_SIZES_MM
+from .paper_units import printed_in
 
 PAGE_MARGINS_MM = (17.0, 16.0, 17.0, 17.0)  #: left, top, right, bottom
 HEADER_MM = 7.0  #: band above the body for the running header
@@ -38,11 +40,14 @@ _e = html.escape
 
 
 BROWSER_CSS = """
-@page { size: A4; margin: 16mm 17mm 17mm 17mm; }
+@page { size: PAPER; margin: 16mm 17mm 17mm 17mm;
+        @top-left { content: "TITLE"; font-size: 7.5pt; color: #5b6470; }
+        @bottom-right { content: "page " counter(page) " of " counter(pages); font-size: 7.5pt; color: #5b6470; } }
 * { box-sizing: border-box; }
 body { font-family: "DejaVu Sans", "Segoe UI", Helvetica, Arial, sans-serif; font-size: 10pt; color: #1b1f24;
        max-width: 190mm; margin: 0 auto; padding: 8mm 0; line-height: 1.35; }
 header.sheet { border-bottom: 3px solid ACCENT; padding-bottom: 4mm; margin-bottom: 4mm; }
+header.sheet img.logo { float: right; max-height: 14mm; max-width: 50mm; margin-left: 4mm; }
 header.sheet .kind { color: ACCENT; font-size: 9pt; letter-spacing: 0.04em; text-transform: uppercase; }
 header.sheet h1 { font-size: 18pt; margin: 1mm 0 2mm 0; }
 header.sheet p.description { margin: 0 0 3mm 0; }
@@ -74,7 +79,11 @@ h3 { font-size: 10pt; margin: 3mm 0 1mm 0; color: #1b1f24; }
 div.columns { display: grid; grid-template-columns: 1fr 1fr; gap: 6mm; }
 dl.identity { grid-template-columns: repeat(4, auto 1fr); }
 section.headline { grid-template-columns: repeat(5, 1fr); }
-@media print { body { padding: 0; } h2 { break-after: avoid; } tr, figure { break-inside: avoid; } }
+div.block, table, figure, tr, p.caution { break-inside: avoid; page-break-inside: avoid; }
+section.keep { break-inside: avoid; page-break-inside: avoid; }
+h2, h3 { break-after: avoid; page-break-after: avoid; }
+.pagebreak { page-break-before: always; }
+@media print { body { padding: 0; max-width: none; } footer.sheet { break-inside: avoid; } }
 """
 for _name, _value in (*((f"COLOUR_{k}", v) for k, v in STATUS_COLOURS.items()),
                       *((f"SHADE_{k}", v) for k, v in ROW_SHADES.items()), ("ACCENT", ACCENT)):
@@ -90,7 +99,9 @@ def _strip_xml_prolog(svg: str) -> str:
 
 def _browser_table(table: Table) -> str:
     columns = len(table.header)
-    out = [f'<h3>{_e(table.title)}</h3>'] if table.title else []
+    out = ['<div class="block">']
+    if table.title:
+        out.append(f'<h3>{_e(table.title)}</h3>')
     out.append(f'<table id="{table.key}">' if table.key else "<table>")
     if any(table.header):
         out.append("<thead><tr>" + "".join(
@@ -113,6 +124,7 @@ def _browser_table(table: Table) -> str:
     out.append("</tbody></table>")
     if table.caption:
         out.append(f'<p class="caption">{_e(table.caption)}</p>')
+    out.append("</div>")
     return "\n".join(out)
 
 
@@ -134,10 +146,24 @@ def _browser_block(block, svgs: dict[str, str]) -> str:
     raise TypeError(f"unknown datasheet block {block!r}")
 
 
-def browser_html(sheet: Datasheet, results: Results) -> str:
+def browser_css(sheet: Datasheet) -> str:
+    """The stylesheet, with the sheet's paper size and its running header for printing."""
+    title = f"{sheet.title}, revision {sheet.revision}".replace("\\", "").replace('"', "'")
+    return BROWSER_CSS.replace("PAPER", sheet.options.paper).replace("TITLE", _e(title, quote=False))
+
+
+def _logo_html(sheet: Datasheet, logo_png: bytes | None) -> str:
+    if not logo_png:
+        return ""
+    data = base64.b64encode(logo_png).decode("ascii")
+    return f'<img class="logo" src="data:image/png;base64,{data}" alt="logo"/>'
+
+
+def browser_html(sheet: Datasheet, results: Results, logo_png: bytes | None = None) -> str:
     """The datasheet as one self-contained HTML file (well-formed XHTML syntax; charts as inline SVG)."""
-    svgs = {name: _strip_xml_prolog(charts.chart_svg(name, results, f"{sheet.title}: {name} chart"))
-            for name in charts.CHART_NAMES}
+    with printed_in(sheet.options.units):
+        svgs = {name: _strip_xml_prolog(charts.chart_svg(name, results, f"{sheet.title}: {name} chart"))
+                for name in charts.SHEET_DRAWINGS}
     identity = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in sheet.identity)
     headline = "".join(f"<div><span>{_e(k)}</span><b>{_e(v)}</b></div>" for k, v in sheet.headline)
     body = []
@@ -150,8 +176,9 @@ def browser_html(sheet: Datasheet, results: Results) -> str:
         '<html xmlns="http://www.w3.org/1999/xhtml" lang="en"><head><meta charset="utf-8"/>'
         f"<title>{_e(sheet.title)}, revision {_e(sheet.revision)}</title>"
         '<meta name="generator" content="pmdc-sizer"/>'
-        f"<style>{BROWSER_CSS}</style></head><body>\n"
-        f'<header class="sheet"><div class="kind">{_e(sheet.subtitle)}</div><h1>{_e(sheet.title)}</h1>'
+        f"<style>{browser_css(sheet)}</style></head><body>\n"
+        f'<header class="sheet">{_logo_html(sheet, logo_png)}<div class="kind">{_e(sheet.subtitle)}</div>'
+        f'<h1>{_e(sheet.title)}</h1>'
         + (f'<p class="description">{_e(sheet.description)}</p>' if sheet.description else "")
         + f'<dl class="identity">{identity}</dl></header>\n'
         f'<section class="headline" id="headline">{headline}</section>\n'
@@ -163,6 +190,15 @@ def browser_html(sheet: Datasheet, results: Results) -> str:
 
 # ----------------------------------------------------------------------------------------------
 # Qt rich text for the paged document
+
+
+def _gap(table: Table, column: int, px_per_mm: float, nowrap: bool = False) -> str:
+    """Extra room on the left of a cell that follows another column, so right-aligned figures and the next
+    column's words never touch ("95.0 kA/m safe")."""
+    styles = [f"padding-left: {1.6 * px_per_mm:.0f}px"] if column > 0 else []
+    if nowrap:
+        styles.append("white-space: nowrap")
+    return f' style="{"; ".join(styles)};"' if styles else ""
 
 
 def _qt_table(table: Table, px_per_mm: float) -> str:
@@ -179,7 +215,7 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
     if any(table.header):
         out.append("<thead><tr>" + "".join(
             f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" '
-            f'align="{"right" if table.is_numeric(i) else "left"}">'
+            f'align="{"right" if table.is_numeric(i) else "left"}"{_gap(table, i, px_per_mm)}>'
             f'<span style="color: white; font-weight: 600;">{_e(h)}</span></th>'
             for i, (h, w) in enumerate(zip(table.header, widths, strict=False))) + "</tr></thead>")
     shade = False
@@ -201,8 +237,10 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
                 text = f'<b><span style="color: {STATUS_COLOURS[row.kind]};">{text}</span></b>'
             elif row.kind == "fail" and i == len(row.cells) - 1 and table.numeric_from != 99:
                 text = f'<b><span style="color: {STATUS_COLOURS["fail"]};">{text}</span></b>'
-            nowrap = ' style="white-space: nowrap;"' if numeric and any(table.header) else ""
-            cells.append(f'<td{width} align="{align}" bgcolor="{background}"{nowrap}>{text}</td>')
+            # Figures, and the verdict words after them, stay on one line.
+            nowrap = ' style="white-space: nowrap;"' if i >= table.numeric_from and any(table.header) else ""
+            gap = _gap(table, i, px_per_mm, nowrap=bool(nowrap))
+            cells.append(f'<td{width} align="{align}" bgcolor="{background}"{gap}>{text}</td>')
         out.append("<tr>" + "".join(cells) + "</tr>")
     out.append("</table>")
     if table.caption:
@@ -239,7 +277,7 @@ def _qt_block(block, body_width_px: float, px_per_mm: float) -> str:
     raise TypeError(f"unknown datasheet block {block!r}")
 
 
-def qt_html(sheet: Datasheet, body_width_px: float, px_per_mm: float) -> str:
+def qt_html(sheet: Datasheet, body_width_px: float, px_per_mm: float, logo: bool = False) -> str:
     def grid(items, per_row, cell):
         rows = []
         for start in range(0, len(items), per_row):
@@ -252,6 +290,7 @@ def qt_html(sheet: Datasheet, body_width_px: float, px_per_mm: float) -> str:
         f'<td width="20%" bgcolor="#eef2f6"><span style="color: #5b6470; font-size: {BODY_FONT_PT - 0.6}pt;">'
         f'{_e(k)}</span><br/><span style="font-size: {BODY_FONT_PT + 2.6}pt; font-weight: 700;">{_e(v)}</span></td>'))
     parts = [
+        f'<img src="picture:logo" height="{14 * px_per_mm:.0f}" style="float: right;"/>' if logo else "",
         f'<p style="color: {ACCENT}; font-size: {BODY_FONT_PT - 0.4}pt; margin: 0;">{_e(sheet.subtitle.upper())}</p>',
         f'<h1 style="font-size: {BODY_FONT_PT + 8}pt; margin-top: 2pt; margin-bottom: 4pt;">{_e(sheet.title)}</h1>',
     ]
@@ -278,14 +317,15 @@ PDF_DPI = 300  #: the one resolution the pages are laid out at, so the preview b
 class PagedDatasheet:
     """The datasheet laid out once on A4 pages, painted on a PDF writer or as page images."""
 
-    def __init__(self, sheet: Datasheet, results: Results):
+    def __init__(self, sheet: Datasheet, results: Results, logo_png: bytes | None = None):
         self.sheet = sheet
         self.dpi = dots_per_inch = PDF_DPI
         mm = dots_per_inch / 25.4
         left, top, right, bottom = PAGE_MARGINS_MM
-        self.page_size = QSizeF(210.0 * mm, 297.0 * mm)
-        self.body = QRectF(left * mm, (top + HEADER_MM) * mm, (210.0 - left - right) * mm,
-                           (297.0 - top - bottom - HEADER_MM - FOOTER_MM) * mm)
+        paper_width, paper_height = PAPER_SIZES_MM[sheet.options.paper]
+        self.page_size = QSizeF(paper_width * mm, paper_height * mm)
+        self.body = QRectF(left * mm, (top + HEADER_MM) * mm, (paper_width - left - right) * mm,
+                           (paper_height - top - bottom - HEADER_MM - FOOTER_MM) * mm)
         self.mm = mm
         self.document = QTextDocument()
         self.document.setDocumentMargin(0)
@@ -294,15 +334,19 @@ class PagedDatasheet:
         self.document.setDefaultStyleSheet(
             f"body {{ color: #1b1f24; }} h1, h2 {{ font-family: '{charts.FONT_FAMILY}'; }}")
         chart_width = self.body.width()
-        for name in charts.CHART_NAMES:
-            image = charts.chart_image(name, results, width_px=max(1200, int(chart_width * 1.25)))
-            self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl(f"chart:{name}"), image)
+        with printed_in(sheet.options.units):
+            for name in charts.SHEET_DRAWINGS:
+                image = charts.chart_image(name, results, width_px=max(1200, int(chart_width * 1.25)))
+                self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl(f"chart:{name}"), image)
+        if logo_png:
+            self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl("picture:logo"),
+                                      QImage.fromData(logo_png))
         for section in sheet.sections:
             for block in section.blocks:
                 if isinstance(block, Picture):
                     self.document.addResource(QTextDocument.ResourceType.ImageResource, QUrl(f"picture:{block.name}"),
                                               QImage.fromData(block.png, "PNG"))
-        self.document.setHtml(self._with_pixel_sizes(qt_html(sheet, chart_width, mm)))
+        self.document.setHtml(self._with_pixel_sizes(qt_html(sheet, chart_width, mm, bool(logo_png))))
         self.document.setPageSize(QSizeF(self.body.width(), self.body.height()))
 
     def _with_pixel_sizes(self, text: str) -> str:
@@ -359,15 +403,18 @@ class PagedDatasheet:
         return image
 
 
-def write_pdf_file(sheet: Datasheet, results: Results, path: str) -> int:
+_PAGE_SIZE_IDS = {"A4": QPageSize.PageSizeId.A4, "Letter": QPageSize.PageSizeId.Letter}
+
+
+def write_pdf_file(sheet: Datasheet, results: Results, path: str, logo_png: bytes | None = None) -> int:
     """Write the PDF to ``path`` (the caller makes it atomic); returns the number of pages."""
     writer = QPdfWriter(path)
     writer.setResolution(PDF_DPI)
-    writer.setPageLayout(QPageLayout(QPageSize(QPageSize.PageSizeId.A4), QPageLayout.Orientation.Portrait,
+    writer.setPageLayout(QPageLayout(QPageSize(_PAGE_SIZE_IDS[sheet.options.paper]), QPageLayout.Orientation.Portrait,
                                      QMarginsF(0, 0, 0, 0), QPageLayout.Unit.Millimeter))
     writer.setTitle(f"{sheet.title}, revision {sheet.revision}")
     writer.setCreator("pmdc-sizer")
-    paged = PagedDatasheet(sheet, results)
+    paged = PagedDatasheet(sheet, results, logo_png)
     painter = QPainter()
     if not painter.begin(writer):
         raise OSError(f"{path}: the PDF writer could not open the file")

@@ -450,8 +450,11 @@ class CompareView(QWidget):
             self.refit_finished.emit(None)
             return
         self.last_refit = fit
-        # B becomes the re-fitted design, pinned: it no longer follows A's edits.
-        self._reset_grade_combo()
+        # B becomes the re-fitted design, pinned: it no longer follows A's edits, but its box still names the
+        # grade it is made of.
+        self.grade_combo.blockSignals(True)
+        self.grade_combo.setCurrentText(fit.project.magnets.grade or NO_GRADE)
+        self.grade_combo.blockSignals(False)
         self.b_mode = "refit"
         self.b_source = (f"re-fitted to A's {target_title(fit.target)} "
                          f"({'reached' if fit.reached else 'out of reach'}): {parameter_title(fit.target)} "

@@ -31,7 +31,7 @@ from PySide6.QtWidgets import (
 )
 
 from pmdc_sizer.app.formatting import quantity as format_quantity
-from pmdc_sizer.app.formatting import significant
+from pmdc_sizer.app.formatting import significant, unit_label
 from pmdc_sizer.core import library
 
 from .display_units import DisplayUnits
@@ -45,6 +45,7 @@ GROUPS = (
     ("Armature", ("armature",), False),
     ("Winding", ("winding",), False),
     ("Losses, thermal and rotor", ("losses", "thermal", "rotor"), False),
+    ("Brushes and commutator", ("brushes",), False),
     ("Prices and project information", ("prices", "project"), False),
 )
 OTHER_GROUP = "Other keys"
@@ -78,6 +79,18 @@ _LABELS = {
     "winding.wire": "Wire size",
     "losses.viscous_mNm_per_krpm": "Viscous torque per krpm",
     "thermal.duty_minutes": "S2 run length",
+    "thermal.cycle_duration_factor_pct": "S3 cycle duration factor",
+    "thermal.cycle_minutes": "S3 cycle length",
+    "thermal.winding_heat_capacity_J_per_K": "Winding heat capacity",
+    "thermal.winding_to_magnet_K_per_W": "Thermal resistance, gap to magnets",
+    "magnets.required_margin_pct_of_HcJ": "Required margin to the knee",
+    "supply.fault_cases": "Direct-supply faults",
+    "brushes.current_density_limit_A_per_cm2": "Brush current density limit",
+    "brushes.count": "Number of brushes",
+    "brushes.width_mm": "Brush width",
+    "brushes.length_mm": "Brush length",
+    "brushes.commutator_diameter_mm": "Commutator diameter",
+    "brushes.grade": "Brush grade",
     "rotor.extra_inertia_gcm2": "Extra inertia on shaft",
     "prices.magnet_per_kg": "Magnet price",
     "prices.copper_per_kg": "Copper price",
@@ -110,6 +123,44 @@ def label_for(key: str) -> str:
     return words[0].upper() + words[1:]
 
 
+def label_in_sentence(key: str) -> str:
+    """The field's label inside a sentence: "magnet thickness", but "HcJ temperature coefficient"."""
+    label = label_for(key)
+    return label if label[:2].isupper() else label[0].lower() + label[1:]
+
+
+def field_message(key: str, message: str) -> str:
+    """A core message about ``key`` worded with the field's label ("Magnet thickness = 50: ...")."""
+    return message.replace(key, label_for(key))
+
+
+def number_for_people(value: float) -> str:
+    """A typed or stored number as a person writes it: "6", "0.45", "1.2e+04" never, "12000"."""
+    return f"{value:.6g}" if abs(value) < 1e6 else f"{value:.0f}"
+
+
+def _trimmed(text: str) -> str:
+    return text.rstrip("0").rstrip(".") if "." in text else text
+
+
+def edit_text(spec, before, after, display: DisplayUnits) -> str:
+    """The undo entry of one edit: "magnet thickness 6 → 5 mm" (in the screen's units)."""
+    label = label_in_sentence(spec.path)
+    if isinstance(after, bool) or isinstance(before, bool):
+        return f"{label} {'on' if after else 'off'}"
+    if isinstance(after, int | float) and isinstance(before, int | float) and spec.kind in ("float", "int"):
+        unit = display.screen_unit(spec.unit)
+        shown = [display.to_screen(float(v), spec.unit) for v in (before, after)]
+        texts = [_trimmed(significant(v, QuantitySpinBox.SIGNIFICANT_DIGITS)) for v in shown]
+        suffix = f" {unit_label(unit)}" if unit not in ("", "1") else ""
+        return f"{label} {texts[0]} → {texts[1]}{suffix}"
+    if before is None:
+        return f"set {label} to {after}"
+    if after is None:
+        return f"clear {label}"
+    return f"{label} {before} → {after}"
+
+
 def custom_grade_from_library(grade) -> dict:
     """The inline custom-grade table that reproduces a library grade, in the file's units."""
     table = library.grade_table(grade)
@@ -132,10 +183,11 @@ class QuantitySpinBox(_NoWheelUnlessFocused, QDoubleSpinBox):
     """Shows as few decimals as the value needs ("6 mm", "0.45 mm"), steps adaptively."""
 
     SIGNIFICANT_DIGITS = 5
+    significant_digits = SIGNIFICANT_DIGITS  #: fewer for a value converted to US units, see show_value
 
     def textFromValue(self, value: float) -> str:  # noqa: N802 - Qt's name
         magnitude = math.floor(math.log10(abs(value))) if value else 0
-        decimals = min(self.decimals(), max(self.SIGNIFICANT_DIGITS - 1 - magnitude, 0))
+        decimals = min(self.decimals(), max(self.significant_digits - 1 - magnitude, 0))
         text = f"{value:.{decimals}f}"
         return text.rstrip("0").rstrip(".") if "." in text else text
 
@@ -237,7 +289,11 @@ class FieldEditor(QWidget):
         high = self.display.to_screen(spec.maximum, spec.unit)
         box.blockSignals(True)
         box.setDecimals(5 if unit == "in" else 4)
-        box.setRange(low, high)
+        self.screen_limits = (low, high)
+        # Wider than the schema allows, so that a value typed out of range arrives here whole and is refused
+        # with its limit (a spin box held to the limits drops the digit it cannot take: 50 → 5).
+        reach = 1000.0 * max(abs(low), abs(high), 1.0)
+        box.setRange(-reach, reach)
         box.setSuffix(f" {unit}" if unit not in ("", "1") else "")
         if spec.unit == "/kg":
             box.setSuffix(" per kg")
@@ -264,7 +320,9 @@ class FieldEditor(QWidget):
                     w.setValue(w.minimum())
                 else:
                     w.setSpecialValueText("")
+                    w.significant_digits = self._digits_on_screen(float(value))
                     w.setValue(self.display.to_screen(float(value), spec.unit))
+                self._shown_text = w.cleanText()
             elif isinstance(w, QSpinBox):
                 w.setValue(int(value) if value is not None else int(spec.minimum))
             elif isinstance(w, QComboBox):
@@ -280,6 +338,15 @@ class FieldEditor(QWidget):
         finally:
             w.blockSignals(False)
 
+    def _digits_on_screen(self, value: float) -> int:
+        """Significant figures for the box: the file's value as written, or, converted to another unit system,
+        as many as the file's value shows but at least three (6 mm → 0.236 in, not 0.23622 in)."""
+        spec = self.field.spec
+        if self.display.screen_unit(spec.unit) == spec.unit:
+            return QuantitySpinBox.SIGNIFICANT_DIGITS
+        written = _trimmed(significant(value, QuantitySpinBox.SIGNIFICANT_DIGITS)).lstrip("-").lstrip("0.")
+        return max(3, len(written.replace(".", "")))
+
     def show_error(self, message: str) -> None:
         self.error_label.setText(message)
         self.error_label.setVisible(bool(message))
@@ -294,7 +361,35 @@ class FieldEditor(QWidget):
             return min(max(value, spec.minimum), spec.maximum)
         return int(w.value())
 
+    def out_of_range(self) -> str:
+        """Why the number in the box cannot be applied ("" when it is inside the schema's limits)."""
+        w, spec = self.widget, self.field.spec
+        if not isinstance(w, QDoubleSpinBox) or not hasattr(self, "screen_limits"):
+            return ""
+        low, high = self.screen_limits
+        value = w.value()
+        slack = 1e-9 * max(abs(low), abs(high), 1.0)
+        if low - slack <= value <= high + slack:
+            return ""
+        unit = unit_label(self.display.screen_unit(spec.unit))
+        unit = f" {unit}" if unit not in ("", "1") else ""
+        side, limit = ("above the largest", high) if value > high else ("below the smallest", low)
+        return (f"{label_for(spec.path)}: {number_for_people(value)}{unit} is {side} allowed value, "
+                f"{number_for_people(limit)}{unit} (allowed {number_for_people(low)} to {number_for_people(high)}"
+                f"{unit}); not applied.")
+
     def _on_number(self, _value) -> None:
+        if isinstance(self.widget, QDoubleSpinBox) and self.widget.cleanText() == getattr(self, "_shown_text", None):
+            # The box re-read its own rounded text (leaving the field): the user changed nothing, and a value
+            # converted to inches and rounded for reading must not replace the exact one in the file.
+            return
+        if isinstance(self.widget, QDoubleSpinBox):
+            self._shown_text = self.widget.cleanText()
+        refusal = self.out_of_range()
+        if refusal:
+            self.field.set_error(refusal)  # shown under the field; the design keeps its value
+            self.model.edit_rejected.emit(self.field.key, refusal)
+            return
         self.field.propose(self._number(), final=False)
 
     def _on_enable_toggled(self, on: bool) -> None:
@@ -489,6 +584,7 @@ class DesignEditor(QScrollArea):
         column.addStretch(1)
         self.setWidget(content)
         self.grade_picker.refresh()
+        model.describe_edit = lambda spec, before, after: edit_text(spec, before, after, self.display)
 
     @staticmethod
     def _label(text: str, tip: str) -> QLabel:
@@ -504,4 +600,5 @@ class DesignEditor(QScrollArea):
         return self.editors[key]
 
 
-__all__ = ["DesignEditor", "FieldEditor", "custom_grade_from_library", "label_for"]
+__all__ = ["DesignEditor", "FieldEditor", "custom_grade_from_library", "edit_text", "field_message", "label_for",
+           "label_in_sentence"]

@@ -13,8 +13,10 @@ from pathlib import Path
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QPixmap
 from PySide6.QtWidgets import (
+    QComboBox,
     QDialog,
     QFileDialog,
+    QFormLayout,
     QHBoxLayout,
     QLabel,
     QMessageBox,
@@ -25,8 +27,12 @@ from PySide6.QtWidgets import (
 )
 
 from pmdc_sizer.app import datasheet
+from pmdc_sizer.app.datasheet.options import EDITIONS, PAPER_SIZES_MM, UNIT_SYSTEMS, SheetOptions
 from pmdc_sizer.app.errors import CommandError
+from pmdc_sizer.app.export_checks import check_csv
+from pmdc_sizer.app.figures import STATUSES
 from pmdc_sizer.app.files import curves_csv, write_text_atomically
+from pmdc_sizer.app.safety import DEFER_NOTE, ESTIMATES_NOTE
 
 PREVIEW_DPI = 80.0
 
@@ -63,28 +69,23 @@ class ExportDialog(QDialog):
         self.setObjectName("export_dialog")
         self.resize(980, 860)
 
-        self.pages_box = QWidget()
-        pages_layout = QVBoxLayout(self.pages_box)
-        pages_layout.setSpacing(14)
-        pages_layout.setContentsMargins(14, 14, 14, 14)
         self.page_labels: list[QLabel] = []
-        for index, image in enumerate(datasheet.preview_pages(project, results, PREVIEW_DPI, self.issued)):
-            label = QLabel()
-            label.setObjectName(f"preview_page_{index + 1}")
-            label.setPixmap(QPixmap.fromImage(image))
-            label.setStyleSheet("background: white; border: 1px solid #9aa4b1;")
-            label.setAlignment(Qt.AlignmentFlag.AlignCenter)
-            pages_layout.addWidget(label, 0, Qt.AlignmentFlag.AlignHCenter)
-            self.page_labels.append(label)
-        self.pages_box.setStyleSheet("background: #d5dae1;")
         self.preview = QScrollArea()
-        self.preview.setWidget(self.pages_box)
         self.preview.setWidgetResizable(True)
         self.preview.setMinimumWidth(720)
 
         side = QVBoxLayout()
-        heading = QLabel(f"<b>{len(self.page_labels)} A4 pages</b><br/>Revision {project.project.revision}, "
-                         f"issued {self.issued.isoformat()}")
+        # Who the sheet is for, its paper and its units: the preview follows each choice.
+        choices = QFormLayout()
+        self.edition = self._choice("edition", {"customer": "Customer", "internal": "Internal (costs, all checks, "
+                                                "model notes)"}, EDITIONS)
+        self.paper = self._choice("paper", {name: name for name in PAPER_SIZES_MM}, tuple(PAPER_SIZES_MM))
+        self.units = self._choice("units", {name: name for name in UNIT_SYSTEMS}, UNIT_SYSTEMS)
+        choices.addRow("Edition", self.edition)
+        choices.addRow("Paper", self.paper)
+        choices.addRow("Units", self.units)
+        side.addLayout(choices)
+        self.heading = heading = QLabel()
         heading.setObjectName("export_heading")
         heading.setWordWrap(True)
         side.addWidget(heading)
@@ -102,8 +103,7 @@ class ExportDialog(QDialog):
         self.status.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
         side.addWidget(self.status)
         side.addStretch(1)
-        note = QLabel("Figures are engineering estimates: confirm by test. The sheet carries the cautions and "
-                      "defers to local codes and licensed practice.")
+        note = QLabel(f"{ESTIMATES_NOTE} The sheet carries the safety cautions. {DEFER_NOTE}")
         note.setWordWrap(True)
         note.setStyleSheet("color: #5b6470;")
         side.addWidget(note)
@@ -116,14 +116,60 @@ class ExportDialog(QDialog):
         layout.addWidget(self.preview, 1)
         side_box = QWidget()
         side_box.setLayout(side)
-        side_box.setFixedWidth(230)
+        side_box.setFixedWidth(250)
         layout.addWidget(side_box)
+        self.show_preview()
+
+    def _choice(self, name: str, texts: dict[str, str], values) -> QComboBox:
+        box = QComboBox()
+        box.setObjectName(f"export_{name}")
+        for value in values:
+            box.addItem(texts[value], value)
+        box.currentIndexChanged.connect(self.show_preview)
+        return box
+
+    @property
+    def options(self) -> SheetOptions:
+        """The sheet as chosen in the dialog: edition, paper and units."""
+        return SheetOptions(self.edition.currentData(), self.paper.currentData(), self.units.currentData())
+
+    def show_preview(self) -> None:
+        """Lay the pages out again for the current choices (what Save PDF will write)."""
+        options = self.options
+        pages_box = QWidget()
+        pages_layout = QVBoxLayout(pages_box)
+        pages_layout.setSpacing(14)
+        pages_layout.setContentsMargins(14, 14, 14, 14)
+        self.page_labels = []
+        folder = self.path_hint.parent if self.path_hint else None
+        try:
+            images = datasheet.preview_pages(self.project, self.results, PREVIEW_DPI, self.issued, options, folder)
+        except CommandError as error:  # e.g. the project's logo cannot be read: say so, keep the dialog
+            images = []
+            self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>No preview.</b> {error}</span>')
+        for index, image in enumerate(images):
+            label = QLabel()
+            label.setObjectName(f"preview_page_{index + 1}")
+            label.setPixmap(QPixmap.fromImage(image))
+            label.setStyleSheet("background: white; border: 1px solid #9aa4b1;")
+            label.setAlignment(Qt.AlignmentFlag.AlignCenter)
+            pages_layout.addWidget(label, 0, Qt.AlignmentFlag.AlignHCenter)
+            self.page_labels.append(label)
+        pages_box.setStyleSheet("background: #d5dae1;")
+        self.preview.setWidget(pages_box)
+        self.pages_box = pages_box
+        self.heading.setText(f"<b>{len(self.page_labels)} {options.paper} pages</b>, {options.edition} edition, "
+                             f"{options.units}<br/>Revision {self.project.project.revision}, "
+                             f"issued {self.issued.isoformat()}")
 
     # ------------------------------------------------------------------ saving
     def suggested_path(self, key: str) -> str:
         folder = self.path_hint.parent if self.path_hint else Path.home()
         stem = self.path_hint.stem if self.path_hint else _safe_stem(self.project.project.name)
-        name = {"csv": f"{stem}_curves", "performance": f"{stem}_performance", "magnet": f"{stem}_magnet"}.get(key, stem)
+        sheet = f"{stem}_internal" if self.options.internal else stem  # an internal sheet is never mistaken
+        names = {"csv": f"{stem}_curves", "performance": f"{stem}_performance", "magnet": f"{stem}_magnet",
+                 "pdf": sheet, "html": sheet}
+        name = names.get(key, stem)
         return str(folder / f"{name}{TARGETS[key][3]}")
 
     def _ask_path(self, key: str) -> Path | None:
@@ -133,7 +179,8 @@ class ExportDialog(QDialog):
             return None
         path = Path(chosen)
         if path.suffix.lower() not in _SUFFIXES[key]:
-            suffix = ".svg" if "svg" in (selected_filter or "").lower() and key in ("performance", "magnet") else default_suffix
+            chose_svg = "svg" in (selected_filter or "").lower() and key in ("performance", "magnet")
+            suffix = ".svg" if chose_svg else default_suffix
             path = path.with_name(path.name + suffix)
         return path
 
@@ -145,17 +192,19 @@ class ExportDialog(QDialog):
         try:
             self.write(key, path)
         except CommandError as error:
-            self.status.setText(f'<span style="color: #c0001a;"><b>Not saved.</b> {error}</span>')
+            self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>Not saved.</b> {error}</span>')
             return None
         self.last_saved = path
-        self.status.setText(f'<span style="color: #1e7b34;"><b>Saved</b></span> {path}')
+        self.status.setText(f'<span style="color: {STATUSES["pass"].colour};"><b>Saved</b></span> {path}')
         return path
 
     def write(self, key: str, path: Path) -> None:
         if key in ("pdf", "html"):
-            datasheet.export(self.project, self.results, path, self.issued)
+            folder = self.path_hint.parent if self.path_hint else None
+            datasheet.export(self.project, self.results, path, self.issued, options=self.options,
+                             project_folder=folder)
         elif key == "csv":
-            write_text_atomically(path, curves_csv(self.results))
+            write_text_atomically(path, curves_csv(self.results), verify=check_csv)
         else:
             datasheet.write_chart(self.results, key, path)
 

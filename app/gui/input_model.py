@@ -55,7 +55,7 @@ class QuantityModel(QObject):
     changed = Signal(object)
     error_changed = Signal(str)
 
-    def __init__(self, spec: KeySpec, design: "DesignModel"):
+    def __init__(self, spec: KeySpec, design: DesignModel):
         super().__init__(design)
         self.spec = spec
         self.key = spec.path
@@ -90,13 +90,13 @@ class QuantityModel(QObject):
 class _EditCommand(QUndoCommand):
     MERGE_ID = 4101
 
-    def __init__(self, design: "DesignModel", before: Project, after: Project, keys: tuple[str, ...], text: str):
+    def __init__(self, design: DesignModel, before: Project, after: Project, keys: tuple[str, ...], text: str):
         super().__init__(text)
         self.design, self.before, self.after, self.keys = design, before, after, keys
         self.stamp = time.monotonic()
         self._first = True
 
-    def id(self) -> int:  # noqa: A003 - Qt's name
+    def id(self) -> int:
         return self.MERGE_ID
 
     def mergeWith(self, other) -> bool:  # noqa: N802 - Qt's name
@@ -130,6 +130,8 @@ class DesignModel(QObject):
         self.committed = project if project is not None else Project()
         self.project = self.committed
         self.undo_stack = QUndoStack(self)
+        #: How an edit of one key reads in the Undo menu; the editor gives it the fields' labels and units.
+        self.describe_edit = lambda spec, before, after: f"change {spec.path}"
         self.fields: dict[str, QuantityModel] = {
             spec.path: QuantityModel(spec, self)
             for spec in key_specs() if spec.kind in EDITABLE_KINDS and spec.path != "format_version"
@@ -185,8 +187,12 @@ class DesignModel(QObject):
         self._pending = {}
         if self.project == self.committed:
             return
-        label = self.fields[keys[0]].spec.path if len(keys) == 1 else "several values"
-        self._commit(self.project, keys, f"change {label}")
+        if len(keys) == 1:
+            spec = self.fields[keys[0]].spec
+            text = self.describe_edit(spec, value_of(self.committed, keys[0]), value_of(self.project, keys[0]))
+        else:
+            text = "change several values"
+        self._commit(self.project, keys, text)
         for key in keys:
             self.fields[key].changed.emit(self.fields[key].value)
         self._revert_refused_fields()

@@ -19,10 +19,12 @@ from PySide6.QtWidgets import QHeaderView, QLabel, QSplitter, QTableWidget, QTab
 
 from pmdc_sizer.app.figures import (
     CASES,
+    DEMAGNETIZATION_STATES,
     LABELS,
     LINES,
     POINTS,
     STATUSES,
+    WARNING_COLOUR,
     demagnetization_case_colour,
     demagnetization_point,
     figure,
@@ -105,16 +107,33 @@ class MagnetChart(QWidget):
             + [_header(figure(f"demagnetization_case.{name}").title) for name in ("temperature_C", "current_A")]
             + [_header(figure(f"demagnetization_case.{name}").title, FIELD_UNIT)
                for name in ("magnet_field_A_per_m", "knee_field_A_per_m", "margin_A_per_m")]
-            + [LABELS["demagnetization_case.ok"]])
+            + [LABELS["demagnetization_case.status"]])
         self.table.verticalHeader().hide()
         self.table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
         # Column widths are measured once, on the first results: measuring every cell on every edit
         # (ResizeToContents) costs more than drawing the chart.
         self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         self.table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
+        self.table.verticalHeader().setDefaultSectionSize(2 * self.table.fontMetrics().height() + 6)
+        self.table.setWordWrap(True)  # a long case name wraps onto a second line rather than being cut
+        self.table.setTextElideMode(Qt.TextElideMode.ElideNone)
         self._columns_sized = False
         splitter.addWidget(self.table)
         splitter.setSizes([640, 200])
+
+    LEGEND_TWO_COLUMNS_FROM_PX = 860  #: narrower plots get a one-column legend, which then is not cut off
+
+    def resizeEvent(self, event) -> None:  # noqa: N802 - Qt's name
+        super().resizeEvent(event)
+        columns = 2 if self.plot.width() >= self.LEGEND_TWO_COLUMNS_FROM_PX else 1
+        if self.legend.columnCount != columns:
+            self.legend.setColumnCount(columns)
+            # A one-column legend is tall: at the bottom left it covers only the steep part of the intrinsic
+            # curves, not the knees and Br near the top.
+            corner = (0, 0) if columns == 2 else (0, 1)
+            self.legend.anchor(itemPos=corner, parentPos=corner, offset=(10, 10) if columns == 2 else (10, -10))
+            # See-through when it sits over the plot's lower left, so marks and case labels there still show.
+            self.legend.setBrush(pg.mkBrush(255, 255, 255, 220 if columns == 2 else 150))
 
     @staticmethod
     def _curve(plot_item, pen) -> pg.PlotCurveItem:
@@ -193,18 +212,21 @@ class MagnetChart(QWidget):
             label.show()
 
     def _fill_table(self, cases) -> None:
+        # Numbered as on the datasheet (in the results' order), listed least margin first.
+        number = {id(case): index + 1 for index, case in enumerate(cases)}
         ordered = sorted(cases, key=lambda c: c.margin_A_per_m)
         if self.table.rowCount() != len(ordered):
             self.table.setRowCount(len(ordered))
             self._columns_sized = False
         for row, case in enumerate(ordered):
             cells = (
-                case.name,
+                f"{number[id(case)]}  {case.name}",
                 text_of(case, "demagnetization_case.temperature_C"),
                 text_of(case, "demagnetization_case.current_A") if case.current_A else "–",
                 *(figure(f"demagnetization_case.{name}").number(getattr(case, name))
                   for name in ("magnet_field_A_per_m", "knee_field_A_per_m", "margin_A_per_m")),
-                "safe" if case.ok else "PAST THE KNEE",
+                DEMAGNETIZATION_STATES.get(case.status, "safe" if case.ok else "past the knee").upper()
+                if not case.ok else DEMAGNETIZATION_STATES.get(case.status, "safe"),
             )
             for column, text in enumerate(cells):
                 cell = self.table.item(row, column)
@@ -215,6 +237,8 @@ class MagnetChart(QWidget):
                     self.table.setItem(row, column, cell)
                 if cell.text() != text:
                     cell.setText(text)
+                    if column == 0:
+                        cell.setToolTip(case.name)  # the whole name, where a narrow window wraps it
                 cell.setBackground(self._failed_background if not case.ok else QBrush())
                 cell.setForeground(self._failed_foreground if not case.ok else QBrush())
         if not self._columns_sized:
@@ -223,17 +247,26 @@ class MagnetChart(QWidget):
             header.setStretchLastSection(False)
             header.setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)  # the case name takes what is left
             result_column = self.table.columnCount() - 1
-            width = self.table.fontMetrics().horizontalAdvance("PAST THE KNEE") + 16
-            self.table.setColumnWidth(result_column, max(self.table.columnWidth(result_column), width))
+            word = "PAST THE KNEE" if any(not c.ok for c in cases) else "marginal"
+            self.table.setColumnWidth(result_column, self.table.fontMetrics().horizontalAdvance(word) + 16)
             self._columns_sized = True
 
     def _headline(self, results) -> None:
         d = results.demagnetization
         margin = text_of(results, "demagnetization.worst_margin_A_per_m")
-        if d.ok:
+        faults = results.faults
+        fault_text = "" if faults is None or faults.status == "safe" else (
+            f" <span style='color:{PAST_KNEE_COLOUR if faults.status == 'past_knee' else WARNING_COLOUR}'>"
+            f"<b>With the supply applied directly</b></span> (a failed drive): {faults.worst_case}, "
+            f"{text_of(results, 'faults.worst_margin_A_per_m')} to the knee.")
+        if d.ok and d.status == "marginal":
+            self.headline.setText(
+                f"<span style='color:{WARNING_COLOUR}'><b>Marginal</b></span>: every case stays right of its knee, "
+                f"not all by the required margin. Least margin {margin} ({d.worst_case})." + fault_text)
+        elif d.ok:
             self.headline.setText(
                 f"<span style='color:{SAFE_COLOUR}'><b>No demagnetization</b></span>: every case stays right of its "
-                f"knee. Least margin {margin} ({d.worst_case}).")
+                f"knee. Least margin {margin} ({d.worst_case})." + fault_text)
         else:
             failed = sum(not c.ok for c in d.cases)
             self.headline.setText(

@@ -49,19 +49,24 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from pmdc_sizer.app.files import clean_up_stale_temporaries
 from pmdc_sizer.app.safety import CAUTIONS
+from pmdc_sizer.core import library
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import Project, ProjectError
 
 from . import compare_view, export_dialog, field_view
+from .crash_dialog import active_main_window, install_exception_hook
 from .cross_section import CrossSection
 from .display_units import DisplayUnits
-from .editor import DesignEditor
+from .editor import DesignEditor, field_message, label_for, label_in_sentence
 from .evaluation import Evaluator
+from .file_guard import CHANGED, FileGuard
 from .input_model import DesignModel, checked_project
 from .magnet_chart import MagnetChart
 from .performance_chart import PerformanceChart
+from .recovery import AutoSaver, offer_recovery
 from .results_panel import ChecksPanel, ResultsPanel
 from .settings import DISPLAY_UNIT_SYSTEMS, load_settings, save_settings
 
@@ -97,6 +102,9 @@ class MainWindow(QMainWindow):
         self.last_error = ""
         self.remember_settings = True  #: False for screenshots: they must not touch the user's settings
         self.model = DesignModel(project if project is not None else self._default_project(), self)
+        self.file_guard = FileGuard()  # the file's lock, its state on disk and its comments (file_guard.py)
+        self.file_guard.opened(self.current_path)
+        self.autosaver = AutoSaver(self.model, lambda: self.current_path, lambda: self.file_guard.layout, self)
         self.evaluator = Evaluator(self)
         self._results_to_announce: list = []
         self._announce_timer = QTimer(self, singleShot=True, interval=0)
@@ -107,6 +115,8 @@ class MainWindow(QMainWindow):
         self._build_status()
         self.model.project_updated.connect(self._on_project_updated)
         self.model.edit_rejected.connect(self._on_edit_rejected)
+        self.model.edit_committed.connect(self._on_edit_committed)
+        self._refused_key: str | None = None  #: the field whose refusal the status bar shows
         self.model.undo_stack.cleanChanged.connect(self._update_title)
         self.model.undo_stack.indexChanged.connect(self._update_title)
         self.evaluator.finished.connect(self._on_results)
@@ -115,6 +125,13 @@ class MainWindow(QMainWindow):
         self.resize(self.settings.window_width, self.settings.window_height)
         self._update_title()
         self._on_project_updated(self.model.project)
+        self._report_library_problems()
+
+    def _report_library_problems(self) -> None:
+        problems = library.problems()
+        if problems:
+            self.show_status(f"User library: {len(problems)} file(s) skipped, the rest is in use: "
+                             + "; ".join(str(problem) for problem in problems), error=True)
 
     # ------------------------------------------------------------------ construction
     @staticmethod
@@ -155,6 +172,7 @@ class MainWindow(QMainWindow):
         right.addWidget(self._titled("Key figures", self.results_panel))
         right.addWidget(self._titled("Design checks", self.checks_panel))
         right.setSizes([560, 420])
+        self.figures_splitter = right
         splitter.addWidget(right)
         splitter.setStretchFactor(1, 1)
         self.splitter = splitter
@@ -164,6 +182,10 @@ class MainWindow(QMainWindow):
         self.add_page(PAGE_COMPARE, self.compare_view)
         self.field_view = field_view.FieldView(self)
         self.add_page(PAGE_FIELD, self.field_view)
+        self._sizes_before_wide_page: list[int] | None = None
+        self.pages.currentChanged.connect(self._fit_wide_page)
+        # A solved field shows its numbers beside the picture: the page may need more room than before.
+        self.field_view.solved.connect(lambda _solution: self._fit_wide_page(self.pages.currentIndex()))
 
     @staticmethod
     def _titled(title: str, widget: QWidget) -> QWidget:
@@ -338,7 +360,15 @@ class MainWindow(QMainWindow):
         self.show_status(f"No solution: {message}", error=True)
 
     def _on_edit_rejected(self, key: str, message: str) -> None:
-        self.show_status(f"Not applied, the design is unchanged: {message}", error=True)
+        self._refused_key = key
+        self.show_status(f"Not applied, the design is unchanged: {field_message(key, message)}", error=True)
+
+    def _on_edit_committed(self, key: str) -> None:
+        """A value went in: a refusal the status bar still shows is now out of date."""
+        if self._refused_key is not None:
+            refused, self._refused_key = self._refused_key, None
+            fixed = "" if refused == key else f" ({label_for(refused)} keeps its value)"
+            self.show_status(f"Applied {label_in_sentence(key)}{fixed}.")
 
     def wait_for_evaluation(self, timeout_ms: int = 10000) -> bool:
         """Process events until the design shown has been evaluated (for the screenshot and tests)."""
@@ -373,7 +403,10 @@ class MainWindow(QMainWindow):
         )
         if answer == QMessageBox.StandardButton.Save:
             return self.save_file()
-        return answer == QMessageBox.StandardButton.Discard
+        if answer == QMessageBox.StandardButton.Discard:
+            self.autosaver.discard()
+            return True
+        return False
 
     def new_design(self, template: Path | None = None, defaults: bool = False) -> bool:
         if not self.maybe_keep_changes():
@@ -389,6 +422,7 @@ class MainWindow(QMainWindow):
                 QMessageBox.critical(self, "Cannot use the template", str(error))
                 return False
         self.current_path = None
+        self.file_guard.opened(None)
         self.model.replace_project(project)
         self.show_status("New design from " + (template.name if template and not defaults else "the schema defaults")
                          + ". Save as… to give it a file.")
@@ -410,7 +444,10 @@ class MainWindow(QMainWindow):
             QMessageBox.critical(self, "Cannot open the design",
                                  f"{error}\n\nThe design you were working on is unchanged.")
             return False
+        if not self.confirm_open_elsewhere(Path(path)):
+            return False
         self.current_path = Path(path)
+        self.file_guard.opened(self.current_path)
         self.model.replace_project(project)
         self._remember(self.current_path)
         self.show_status(f"Opened {self.current_path}.")
@@ -435,18 +472,59 @@ class MainWindow(QMainWindow):
 
     def _write(self, path: Path) -> bool:
         self.model.flush()
+        if not self.confirm_overwrite_change_on_disk(path):
+            return False
         try:
-            project_file.save(self.model.project, path)
+            project_file.save(self.model.project, path, layout=self.file_guard.layout)
         except ProjectError as error:
             self.show_status(f"Not saved: {error}", error=True)
-            QMessageBox.critical(self, "Cannot save the design", str(error))
+            QMessageBox.critical(self, "Cannot save the design", f"{error}\n\nThe design is still open, unsaved.")
             return False
         self.current_path = path
+        self.file_guard.saved(path)
         self.model.mark_saved()
+        self.autosaver.discard()
         self._remember(path)
         self.show_status(f"Saved {path}.")
         self._update_title()
         return True
+
+    def confirm_open_elsewhere(self, path: Path) -> bool:
+        """True to go on opening ``path``: no other window or process has it, or the user opens it anyway."""
+        holder = self.file_guard.holder_of(path)
+        if holder is None:
+            return True
+        answer = QMessageBox.warning(
+            self, "The design is open elsewhere",
+            f"{path} is already open in pmdc-sizer ({holder.describe()}).\n\nIf both of you save, the later save "
+            "overwrites the other's changes (this tool asks first when it sees the file changed). Open it anyway?",
+            QMessageBox.StandardButton.Open | QMessageBox.StandardButton.Cancel, QMessageBox.StandardButton.Cancel)
+        return answer == QMessageBox.StandardButton.Open
+
+    def confirm_overwrite_change_on_disk(self, path: Path) -> bool:
+        """True to save over ``path``: it is as it was when opened, or the user chose to overwrite it."""
+        if self.file_guard.state_on_disk(path) != CHANGED:
+            return True
+        answer = QMessageBox.warning(
+            self, "The file changed on disk",
+            f"{path} was changed by another program or window since you opened it here.\n\nYes: overwrite it "
+            "with this design (the other change is kept as the .bak file). No: save this design under another name "
+            "instead. Cancel: save nothing.",
+            QMessageBox.StandardButton.Yes | QMessageBox.StandardButton.No | QMessageBox.StandardButton.Cancel,
+            QMessageBox.StandardButton.Cancel)
+        if answer == QMessageBox.StandardButton.No:
+            QTimer.singleShot(0, lambda: self.save_file_as())
+        return answer == QMessageBox.StandardButton.Yes
+
+    def adopt_recovered(self, project: Project, file: Path | None) -> None:
+        """Show a design recovered after a crash: its file as before, its changes unsaved."""
+        self.current_path = Path(file) if file else None
+        self.file_guard.opened(self.current_path)
+        self.model.replace_project(project)
+        self.model.undo_stack.resetClean()  # unsaved until the user saves it
+        self.show_status(f"Recovered the unsaved changes of “{project.project.name}”; save them to keep them.")
+        self._update_title()
+        self.autosaver.write_now()
 
     def _remember(self, path: Path) -> None:
         self.settings.add_recent_file(path)
@@ -474,6 +552,8 @@ class MainWindow(QMainWindow):
         QMessageBox.about(self, f"About {APP_NAME}", about_text())
 
     COLUMN_SHARES = (0.24, 0.47, 0.29)  #: editor, pages, figures and checks
+    NARROW_COLUMN_SHARES = (0.22, 0.45, 0.33)  #: below 1800 px the figures need a larger share to stay whole
+    FIGURE_SHARES = (0.6, 0.4)  #: key figures over checks
 
     def showEvent(self, event) -> None:  # noqa: N802 - Qt's name
         super().showEvent(event)
@@ -484,8 +564,40 @@ class MainWindow(QMainWindow):
     def _place_columns(self) -> None:
         width = self.splitter.width()
         if width > 600 and not self._splitter_placed:
-            self.splitter.setSizes([int(width * share) for share in self.COLUMN_SHARES])
+            default = self.COLUMN_SHARES if width >= 1800 else self.NARROW_COLUMN_SHARES
+            shares = self.settings.column_shares if self.remember_settings and self.settings.column_shares else default
+            self.splitter.setSizes([int(width * share) for share in shares])
+            height = self.figures_splitter.height()
+            shares = (self.settings.figure_shares if self.remember_settings and self.settings.figure_shares
+                      else self.FIGURE_SHARES)
+            self.figures_splitter.setSizes([int(height * share) for share in shares])
             self._splitter_placed = True
+
+    WIDE_PAGES = (PAGE_COMPARE, PAGE_FIELD)  #: pages with side-by-side views that need the whole width
+
+    def _fit_wide_page(self, index: int) -> None:
+        """The comparison gets the window's width when the editor and figures would squeeze it into scrolling;
+        the columns come back, as the user left them, on leaving the page (and can be dragged out meanwhile)."""
+        wide = self.pages.tabText(index) in self.WIDE_PAGES
+        if wide:
+            page = self.pages.widget(index)
+            needed = page.widget().minimumSizeHint().width() if hasattr(page, "widget") else 0
+            sizes = self.splitter.sizes()
+            if needed > sizes[1]:
+                if self._sizes_before_wide_page is None:
+                    self._sizes_before_wide_page = sizes
+                self.splitter.setSizes([0, sum(sizes), 0])
+        elif not wide and self._sizes_before_wide_page is not None:
+            self.splitter.setSizes(self._sizes_before_wide_page)
+            self._sizes_before_wide_page = None
+
+    def splitter_shares(self) -> tuple[list[float], list[float]]:
+        """Where the user has put the splitters, as shares of the width and of the right column's height."""
+        def shares(sizes: list[int]) -> list[float]:
+            total = sum(sizes) or 1
+            return [round(size / total, 4) for size in sizes]
+
+        return shares(self.splitter.sizes()), shares(self.figures_splitter.sizes())
 
     def closeEvent(self, event) -> None:  # noqa: N802 - Qt's name
         if not self.maybe_keep_changes():
@@ -493,8 +605,14 @@ class MainWindow(QMainWindow):
             return
         if self.remember_settings:
             self.settings.window_width, self.settings.window_height = self.width(), self.height()
+            if self._splitter_placed:
+                columns, figures = self.splitter_shares()
+                if all(0.05 <= v <= 0.9 for v in columns + figures):
+                    self.settings.column_shares, self.settings.figure_shares = columns, figures
             save_settings(self.settings)
         self.evaluator.wait(5000)
+        self.autosaver.close()
+        self.file_guard.release_lock()
         event.accept()
 
 
@@ -518,15 +636,11 @@ def _application() -> QApplication:
     return app
 
 
-def render_screenshot(window: MainWindow, out: str | os.PathLike) -> None:
-    window.resize(*SCREENSHOT_SIZE)
-    window.show()
-    QApplication.processEvents()
-    window.wait_for_evaluation()
-    for _ in range(3):
-        QApplication.processEvents()
-    if not window.grab().save(str(out)):
-        raise ProjectError(f"{out}: cannot write the PNG file")
+def render_screenshot(window: MainWindow, out: str | os.PathLike, page: str | None = None,
+                      size: tuple[int, int] = SCREENSHOT_SIZE) -> None:
+    from .capture import capture_page
+
+    capture_page(window, out, page, size)
 
 
 def _quiet_offscreen_notice(mode, context, message) -> None:
@@ -535,8 +649,9 @@ def _quiet_offscreen_notice(mode, context, message) -> None:
         sys.stderr.write(message + "\n")
 
 
-def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | None = None) -> int:
-    """Open the tool (or, with ``screenshot``, render it to a PNG and return)."""
+def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | None = None,
+        page: str | None = None, size: tuple[int, int] = SCREENSHOT_SIZE) -> int:
+    """Open the tool (or, with ``screenshot``, render ``page`` at ``size`` to a PNG and return)."""
     if screenshot is not None and "QT_QPA_PLATFORM" not in os.environ and QApplication.instance() is None:
         os.environ["QT_QPA_PLATFORM"] = "offscreen"
     if screenshot is not None and QApplication.instance() is None:
@@ -552,11 +667,12 @@ def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | N
                 print(f"{APP_NAME}: error: {error}", file=sys.stderr)
                 return 2
     app = _application()
+    held_by = FileGuard().holder_of(file) if project is not None and screenshot is None else None
     window = MainWindow(project, file if project is not None else None)
     if screenshot is not None:
         window.remember_settings = False
         try:
-            render_screenshot(window, screenshot)
+            render_screenshot(window, screenshot, page, size)
         except ProjectError as problem:
             print(f"{APP_NAME}: error: {problem}", file=sys.stderr)
             return 2
@@ -564,10 +680,35 @@ def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | N
             window.model.undo_stack.setClean()
             window.close()
         return 0
+    hook = install_exception_hook(active_main_window)
+    clean_up_stale_temporaries(Path(recent).parent for recent in window.settings.recent_files)
     window.show()
     if error:
         window.show_status(f"Not opened: {error}", error=True)
         QMessageBox.critical(window, "Cannot open the design", f"{error}\n\nA template design is open instead.")
     elif project is not None:
         window._remember(Path(file))
-    return app.exec()
+    if held_by is not None:
+        QMessageBox.warning(window, "The design is open elsewhere",
+                            f"{file} is also open in pmdc-sizer ({held_by.describe()}). If both of you save, the "
+                            "later save overwrites the other's changes; this window asks first when it sees the file "
+                            "changed on disk.")
+    offer_recovery(window, lambda recovered, path: restore_design(window, recovered, path))
+    try:
+        return app.exec()
+    finally:
+        hook.uninstall()
+
+
+_RESTORED_WINDOWS: list[MainWindow] = []  #: windows opened for recovered designs, kept alive here
+
+
+def restore_design(first: MainWindow, project: Project, file: Path | None) -> MainWindow:
+    """Open a recovered design: in ``first`` if it holds nothing of the user's yet, else in a new window."""
+    untouched = not first.model.modified and first.current_path is None and not first.autosaver.timer.isActive()
+    window = first if untouched and not _RESTORED_WINDOWS else MainWindow()
+    if window is not first:
+        _RESTORED_WINDOWS.append(window)
+        window.show()
+    window.adopt_recovered(project, file)
+    return window

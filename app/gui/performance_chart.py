@@ -21,6 +21,7 @@ from pmdc_sizer.app.figures import (
     DASH_GLYPHS,
     LINES,
     POINTS,
+    REGIONS,
     drive_current_limit,
     figure,
 )
@@ -45,7 +46,13 @@ def _key_html() -> str:
             + f"&nbsp;&nbsp;&nbsp;<span style='color:{required.colour}'><b>{required.glyph}</b> {required.title}</span>"
             f"&nbsp;&nbsp;&nbsp;<span style='color:{rated.colour}'>{DASH_GLYPHS[rated.dash]} {rated.title}</span>"
             f"&nbsp;&nbsp;&nbsp;<span style='color:{limit.colour}'>{DASH_GLYPHS[limit.dash]} {limit.title} "
-            "(its torque: nominal case)</span>")
+            "(its torque: nominal case)</span>"
+            f"&nbsp;&nbsp;&nbsp;<span style='background:{REGIONS['beyond_limit'].colour}33'>&nbsp;&nbsp;&nbsp;</span> "
+            f"{REGIONS['beyond_limit'].title}")
+
+
+def _rgba(colour: str, opacity: float) -> tuple[int, int, int, int]:
+    return int(colour[1:3], 16), int(colour[3:5], 16), int(colour[5:7], 16), round(255 * opacity)
 
 
 class PerformanceChart(QWidget):
@@ -70,6 +77,7 @@ class PerformanceChart(QWidget):
         self.cursors: list[pg.InfiniteLine] = []
         self.rated_lines: list[pg.InfiniteLine] = []
         self.limit_lines: list[pg.InfiniteLine] = []  # torque at the drive's current limit, when it has one
+        self.beyond_limit: list[pg.LinearRegionItem] = []  # torques the drive never lets the motor reach
         limit_style = LINES["drive_limit"]
         first = None
         for index, (attribute, title, unit) in enumerate(QUANTITIES):
@@ -103,6 +111,13 @@ class PerformanceChart(QWidget):
             limit.hide()
             plot.addItem(limit, ignoreBounds=True)
             self.limit_lines.append(limit)
+            shade = REGIONS["beyond_limit"]
+            beyond = pg.LinearRegionItem(values=(0.0, 1.0), movable=False, pen=pg.mkPen(None),
+                                         brush=pg.mkBrush(_rgba(shade.colour, shade.opacity)))
+            beyond.setZValue(-10)
+            beyond.hide()
+            plot.addItem(beyond, ignoreBounds=True)
+            self.beyond_limit.append(beyond)
             cursor = pg.InfiniteLine(angle=90, pen=pg.mkPen("#000", width=1))
             cursor.hide()
             plot.addItem(cursor, ignoreBounds=True)
@@ -165,18 +180,23 @@ class PerformanceChart(QWidget):
             line.setValue(load_torque)
         self.required_mark.setData([load_torque], [from_si(results.load_speed_rad_per_s, "rpm")])
         limit_torque = results.nominal.current_limit_torque_N_m
-        for line in self.limit_lines:
+        highest_stall = max(from_si(c.stall_torque_N_m, torque_unit) for c in results.cases)
+        for line, beyond in zip(self.limit_lines, self.beyond_limit, strict=True):
             if limit_torque is None:
                 line.hide()
+                beyond.hide()
             else:
                 line.setValue(from_si(limit_torque, torque_unit))
+                beyond.setRegion((from_si(limit_torque, torque_unit), 1.05 * highest_stall))
                 line.show()
+                beyond.show()
         limit_current = drive_current_limit(results)
         self.limit_current_line.setVisible(limit_current is not None)
         if limit_current is not None:
             self.limit_current_line.setValue(limit_current)
-        highest_stall = max(from_si(c.stall_torque_N_m, torque_unit) for c in results.cases)
-        x_range = (0.0, highest_stall * 1.02)
+        # With a drive limit the default range ends a little past it (core.envelope); else at the stall.
+        x_range = (0.0, 1.02 * max(from_si(c.envelope.chart_torque_max_N_m if c.envelope else c.stall_torque_N_m,
+                                           torque_unit) for c in results.cases))
         if self._x_range is None or abs(self._x_range[1] - x_range[1]) > 1e-3 * x_range[1]:
             self._x_range = x_range
             self.plots["speed_rad_per_s"].setXRange(*x_range, padding=0.0)  # the other plots are linked

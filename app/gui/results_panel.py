@@ -96,6 +96,26 @@ def _design_groups(f: Figures, r):
             (f.title("thermal.insulation_limit_C"),
              f"{f(r, 'thermal.insulation_limit_C', r)} (class {t.insulation_class})"),
             "thermal.magnet_temperature_C", "thermal.losses_W", "thermal.housing_to_ambient_K_per_W")),
+        (f"Ratings at {f(r, 'thermal.ambient_C', r)} ambient, winding up to its class", tuple(
+            ((f.title(key), "never reaches it") if value_of(r, key) is None else key)
+            for key in ("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
+                        "ratings.continuous_speed_rad_per_s", "ratings.continuous_output_power_W",
+                        "ratings.stall_current_A", "ratings.stall_time_cold_s", "ratings.stall_time_hot_s"))
+         if r.ratings is not None else ()),
+        ("Thermal network", (
+            "thermal.housing_temperature_C", "thermal.steady_winding_temperature_C",
+            (f.title("thermal.time_to_limit_s"), "not reached") if t.time_to_limit_s is None
+            else "thermal.time_to_limit_s",
+            "thermal.winding_heat_capacity_J_per_K", "thermal.housing_heat_capacity_J_per_K",
+            "thermal.winding_to_housing_K_per_W", "thermal.winding_to_magnet_K_per_W",
+            "thermal.winding_time_constant_s", "thermal.thermal_time_constant_s")),
+        ("Demagnetization margins", (
+            "demagnetization.required_margin_share", "demagnetization.required_margin_A_per_m",
+            *(("faults.worst_margin_A_per_m",) if r.faults is not None else ()))),
+        (f"Brushes ({r.commutation.brush_grade}) and commutator" if r.commutation else "Brushes", (
+            "commutation.brush_current_density_A_per_m2", "commutation.brush_density_high_A_per_m2",
+            "commutation.surface_speed_m_per_s", "commutation.reactance_voltage_V",
+            "commutation.commutator_diameter_m") if r.commutation is not None else ()),
         ("Mass and material cost", (
             "mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg", "mass.total_kg",
             (f.title("cost.total"), figure("cost.total").text(cost.total, cost.currency)))),
@@ -120,10 +140,13 @@ class ResultsPanel(QWidget):
         self.case_table.setObjectName("case_table")
         self.case_table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
         self.case_table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
+        self.case_table.horizontalHeader().setMinimumSectionSize(64)
+        self.case_table.setWordWrap(False)
+        self.case_table.setTextElideMode(Qt.TextElideMode.ElideNone)  # a figure is never cut to "317…"
         # Fixed sizes: measuring every cell again on every edit would cost more than the edit.
         self.case_table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
         self.case_table.verticalHeader().setDefaultSectionSize(20)
-        layout.addWidget(self.case_table, 3)
+        layout.addWidget(self.case_table, 4)  # as tall as the figures below: both are read first
         self.tree = QTreeWidget()
         self.tree.setObjectName("design_figures")
         self.tree.setColumnCount(2)
@@ -138,6 +161,17 @@ class ResultsPanel(QWidget):
         self.values: dict[str, str] = {}
         self._groups: dict[str, QTreeWidgetItem] = {}
         self._items: dict[tuple[int, str], QTreeWidgetItem] = {}
+
+    def resizeEvent(self, event) -> None:  # noqa: N802 - Qt's name
+        super().resizeEvent(event)
+        self._fit_case_columns()
+
+    def _fit_case_columns(self) -> None:
+        """The three figures keep the room they need ("19800 rpm"); the row titles take what is left and
+        are cut at the end if they must (their full text is the row's tooltip)."""
+        column = self.case_table.fontMetrics().horizontalAdvance("00000 mN·m") + 14
+        room = self.case_table.viewport().width() + self.case_table.verticalHeader().width()
+        self.case_table.verticalHeader().setMaximumWidth(max(90, room - 3 * column))
 
     def show_results(self, results) -> None:
         self.values = {}

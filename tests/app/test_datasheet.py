@@ -20,12 +20,13 @@ import pytest
 from pmdc_sizer.app import datasheet
 from pmdc_sizer.app.cli import main
 from pmdc_sizer.app.errors import CommandError
-from pmdc_sizer.app.datasheet.charts import torque_unit
+from pmdc_sizer.app.figures import FAIL_COLOUR, figure, torque_unit
 from pmdc_sizer.app.formatting import percent, quantity
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.evaluate import evaluate
 
 ISSUED = dt.date(2026, 3, 14)
+INTERNAL = datasheet.SheetOptions("internal")  # everything on the sheet: costs, every check, the notes
 A4_POINTS = (595.3, 841.9)  # ISO 216: 210 mm × 297 mm in PostScript points
 
 
@@ -62,18 +63,6 @@ def headline_strings(results) -> dict[str, str]:
     }
 
 
-@pytest.fixture
-def evaluated(demo_path):
-    design = project_file.load(demo_path)
-    return design, evaluate(design)
-
-
-@pytest.fixture
-def ferrite(ferrite_demo):
-    design = project_file.load(ferrite_demo)
-    return design, evaluate(design)
-
-
 # ----------------------------------------------------------------------------------------------
 # PDF
 
@@ -81,7 +70,7 @@ def ferrite(ferrite_demo):
 def test_pdf_shows_the_evaluated_headline_numbers(evaluated, tmp_path):
     design, results = evaluated
     target = tmp_path / "sheet.pdf"
-    assert datasheet.export(design, results, target, ISSUED) == "PDF"
+    assert datasheet.export(design, results, target, ISSUED, options=INTERNAL) == "PDF"
     text = _pdf_text(target)
     for what, expected in headline_strings(results).items():
         assert _squash(expected) in text, f"{what}: {expected!r} is not on the PDF"
@@ -93,7 +82,7 @@ def test_pdf_shows_the_evaluated_headline_numbers(evaluated, tmp_path):
 def test_pdf_carries_markings_notes_checks_and_cautions(evaluated, tmp_path):
     design, results = evaluated
     target = tmp_path / "sheet.pdf"
-    datasheet.export(design, results, target, ISSUED)
+    datasheet.export(design, results, target, ISSUED, options=INTERNAL)
     text = _pdf_text(target)
     for phrase in ("A1", "A2", "IEC 60034-8", "clockwise seen from the drive end", "(estimate)",
                    "implanted medical devices", "stalled motor", "currents that burn", "confirm it by test",
@@ -140,7 +129,7 @@ def test_failing_demagnetization_is_obvious(ferrite, tmp_path):
     target = tmp_path / "thin.pdf"
     datasheet.export(thin, results, target, ISSUED)
     text = _pdf_text(target)
-    assert "DEMAGNETIZES" in text
+    assert "PAST THE KNEE" in text
     assert "This design fails" in text and "Demagnetization" in text
     assert f"Worst case: {results.demagnetization.worst_case}" in text
     assert "FAIL" in text
@@ -153,7 +142,7 @@ def test_failing_demagnetization_is_obvious(ferrite, tmp_path):
 def test_html_is_well_formed_and_complete(evaluated, tmp_path):
     design, results = evaluated
     target = tmp_path / "sheet.html"
-    assert datasheet.export(design, results, target, ISSUED) == "HTML"
+    assert datasheet.export(design, results, target, ISSUED, options=INTERNAL) == "HTML"
     raw = target.read_text(encoding="utf-8")
     assert raw.startswith("<!DOCTYPE html>")
     root = ET.fromstring(raw.split("\n", 1)[1])  # XHTML syntax: an XML parser must accept it
@@ -161,9 +150,9 @@ def test_html_is_well_formed_and_complete(evaluated, tmp_path):
     ids = {element.get("id") for element in root.iter() if element.get("id")}
     for key in ("headline", "performance", "performance_table", "electrical", "thermal", "magnet", "demagnetization",
                 "magnet_grade", "operating_point", "winding", "mass", "cost", "terminals", "checks", "notes",
-                "cautions", "chart-performance", "chart-magnet"):
+                "cautions", "chart-performance", "chart-magnet", "chart-outline", "model_notes"):
         assert key in ids, key
-    assert len(root.findall(".//svg:svg", namespace)) == 2, "both charts inline as SVG"
+    assert len(root.findall(".//svg:svg", namespace)) == 3, "both charts and the outline inline as SVG"
     assert "src=\"http" not in raw and "href=\"http" not in raw, "self-contained: nothing fetched"
     text = _squash(" ".join(root.itertext()))
     for what, expected in headline_strings(results).items():
@@ -207,7 +196,7 @@ def test_html_parses_with_the_html_parser_too(ferrite):
 
 @pytest.mark.parametrize("name", ["performance", "magnet"])
 def test_charts_as_png_and_svg(ferrite, tmp_path, name):
-    design, results = ferrite
+    _design, results = ferrite
     png, svg = tmp_path / f"{name}.png", tmp_path / f"{name}.svg"
     datasheet.write_chart(results, name, png)
     datasheet.write_chart(results, name, svg)
@@ -231,12 +220,13 @@ def test_chart_image_is_drawn(ferrite):
 
 
 def test_magnet_chart_marks_failing_cases(ferrite):
-    from pmdc_sizer.app.datasheet.charts import FAIL, magnet_panel
+    from pmdc_sizer.app.datasheet.charts import magnet_panel
 
     design, _ = ferrite
     results = evaluate(project_file.with_values(design, {"magnets.thickness_mm": 2.0}))
-    failing = [m for m in magnet_panel(results).markers if m.shape == "cross"]
-    assert failing and all(m.colour == FAIL and "FAILS" in m.label for m in failing)
+    failing = [m for m in magnet_panel(results).markers if m.point == "demagnetization_fails"]
+    assert failing and all(m.shape == "cross" and m.colour.name() == FAIL_COLOUR and "FAILS" in m.label
+                           for m in failing)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -251,8 +241,8 @@ def _leftovers(folder: Path) -> list[str]:
 def test_unwritable_target_gives_a_clear_error_and_no_partial_file(ferrite, tmp_path, suffix):
     design, results = ferrite
     blocked = tmp_path / f"sheet{suffix}"
-    blocked.mkdir()  # a folder where the file should go: the rename cannot replace it
-    with pytest.raises(CommandError, match="cannot write the file"):
+    blocked.mkdir()  # a folder where the file should go: refused before anything is written
+    with pytest.raises(CommandError, match="is a folder, not a file"):
         datasheet.export(design, results, blocked, ISSUED)
     assert _leftovers(tmp_path) == [blocked.name]
     with pytest.raises(CommandError, match="does not exist"):
@@ -286,7 +276,7 @@ def test_cli_writes_pdf_and_charts(ferrite_demo, tmp_path, capsys):
     assert target.read_bytes()[:5] == b"%PDF-"
     assert _leftovers(charts) == ["motor_magnet.png", "motor_magnet.svg", "motor_performance.png",
                                   "motor_performance.svg"]
-    assert "wrote the PDF datasheet" in capsys.readouterr().out
+    assert "of the PDF datasheet" in capsys.readouterr().out
 
 
 def test_cli_set_changes_the_sheet(ndfeb_demo, tmp_path):
@@ -298,7 +288,7 @@ def test_cli_set_changes_the_sheet(ndfeb_demo, tmp_path):
 @pytest.mark.parametrize("name, message", [
     ("motor.docx", "unknown datasheet format '.docx'"),
     ("missing/motor.pdf", "does not exist"),
-    ("blocked.pdf", "cannot write the file"),
+    ("blocked.pdf", "is a folder, not a file"),
 ])
 def test_cli_errors_exit_2_with_one_line(ferrite_demo, tmp_path, capsys, name, message):
     (tmp_path / "blocked.pdf").mkdir()
@@ -373,7 +363,7 @@ def test_rated_load_beyond_stall_says_so(ferrite, tmp_path):
     datasheet.export(overloaded, results, target, ISSUED)
     root = ET.fromstring(target.read_text(encoding="utf-8").split("\n", 1)[1])
     text = _squash(" ".join(root.itertext()))
-    assert "Speed stalls stalls stalls" in text
+    assert f"{figure('case.rated.speed_rad_per_s').title} stalls stalls stalls" in text
     assert "This design fails" in text and "Rated load" in text
 
 
@@ -384,3 +374,19 @@ def test_sheet_is_issued_on_the_revision_date_when_the_project_gives_one(ferrite
 
     dated = pf.with_values(pf.load(ferrite_demo), {"project.revision_date": "2026-11-20"})
     assert build(dated, evaluate(dated)).issued == "2026-11-20"
+
+
+def test_headline_shows_what_the_drive_limit_lets_the_motor_reach():
+    # The issue: the drill's sheet showed a 42.7 N·m stall torque and 23 500 W from a drive limited to 80 A.
+    from pmdc_sizer.app.datasheet import content
+
+    design = project_file.load("demo_projects/power_tool_4pole_48v.toml")
+    results = evaluate(design)
+    tiles = dict(content.headline(design, results))
+    envelope = results.nominal.envelope
+    assert envelope.limited
+    limit_title = figure("case.envelope.torque_limit_N_m").title
+    power_title = figure("case.envelope.max_output_power_W").title
+    assert tiles[limit_title] == quantity(envelope.torque_limit_N_m, torque_unit(results))
+    assert tiles[power_title] == quantity(envelope.max_output_power_W, "W")
+    assert figure("case.stall_torque_N_m").title not in tiles  # the unlimited stall stays in the tables

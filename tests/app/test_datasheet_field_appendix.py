@@ -15,8 +15,8 @@ FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
 
 def test_pdf_gains_the_appendix_after_its_own_pages(capsys, tmp_path):
     plain, with_field = tmp_path / "plain.pdf", tmp_path / "field.pdf"
-    assert main(["datasheet", str(FERRITE), "-o", str(plain)]) == 0
-    assert main(["datasheet", str(FERRITE), "-o", str(with_field), "--with-field"]) == 0
+    assert main(["datasheet", str(FERRITE), "-o", str(plain), "--edition", "internal"]) == 0
+    assert main(["datasheet", str(FERRITE), "-o", str(with_field), "--with-field", "--edition", "internal"]) == 0
     capsys.readouterr()
     before, after = PdfReader(plain), PdfReader(with_field)
     assert len(after.pages) > len(before.pages)
@@ -29,7 +29,7 @@ def test_pdf_gains_the_appendix_after_its_own_pages(capsys, tmp_path):
 
 def test_html_carries_the_pictures_inline(capsys, tmp_path):
     out = tmp_path / "sheet.html"
-    assert main(["datasheet", str(FERRITE), "-o", str(out), "--with-field"]) == 0
+    assert main(["datasheet", str(FERRITE), "-o", str(out), "--with-field", "--edition", "internal"]) == 0
     capsys.readouterr()
     text = out.read_text(encoding="utf-8")
     assert '<section id="field"' in text

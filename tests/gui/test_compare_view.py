@@ -78,10 +78,13 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
     table = view.figures_table
     # NdFeB against ferrite
     assert float(cell(table, row_of(table, "Br ["), 2)) > 2.5 * float(cell(table, row_of(table, "Br ["), 1))
-    # Each side's checks: the ferrite demo passes, N42 in its frame fails demagnetization when hot.
+    # Each side's checks: the ferrite demo stays above the knee (with the reluctance network its rotor-removed
+    # margin is under the required share, a warning), N42 in its frame fails demagnetization when hot.
     checks = view.checks_table
     demag = row_of(checks, "Demagnetization")
-    assert STATUSES["pass"].word in cell(checks, demag, 1) and STATUSES["fail"].word in cell(checks, demag, 2)
+    a_status = next(c.status for c in view.results_a.checks if c.key == "demagnetization")
+    assert a_status != "fail" and STATUSES[a_status].word in cell(checks, demag, 1)
+    assert STATUSES["fail"].word in cell(checks, demag, 2)
     assert "knee" in checks.item(demag, 2).toolTip()
     # Both sides drawn: speed-torque curves overlaid, both magnet charts.
     for side in ("A", "B"):
@@ -112,6 +115,7 @@ def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
     fit = blocker.args[0]
     assert fit.reached and abs(fit.target_error_fraction) < 5e-3
     assert view.b_mode == "refit" and view.project_b is fit.project
+    assert view.grade_combo.currentText() == "Y25"  # B's box still names the grade B is made of
     report = view.refit_report.toPlainText()
     assert "Reached" in report and "armature.stack_length_mm" in report and "magnets.length_mm" in report
     table = view.figures_table

@@ -65,7 +65,8 @@ def test_recent_files_are_remembered_newest_first(open_window, qtbot, ferrite_de
     assert window.open_file(ndfeb_demo)
     assert window.open_file(ferrite_demo)
     assert load_settings().recent_files[:2] == [str(ferrite_demo.resolve()), str(ndfeb_demo.resolve())]
-    assert [a.text() for a in window.recent_menu.actions()][:2] == [str(ferrite_demo.resolve()), str(ndfeb_demo.resolve())]
+    recent = [str(ferrite_demo.resolve()), str(ndfeb_demo.resolve())]
+    assert [a.text() for a in window.recent_menu.actions()][:2] == recent
 
 
 def test_settings_survive_a_damaged_file_and_keep_a_short_recent_list(tmp_path):

@@ -35,7 +35,7 @@ def test_the_page_is_in_the_window_and_lists_the_designs_cases(page):
 
 
 def test_solving_shows_the_picture_the_waveform_and_the_agreement(page, qtbot):
-    window, view = page
+    _, view = page
     _solve(qtbot, view)
     assert view.solution.case.name == "no-load"
     assert view.picture.pixmap() is not None and not view.picture.pixmap().isNull()
@@ -62,7 +62,7 @@ def test_a_solved_case_is_kept_and_an_edit_makes_a_new_design(page, qtbot):
 
 
 def test_cancel_leaves_nothing_half_done(page, qtbot):
-    window, view = page
+    _, view = page
     view.mesh_combo.setCurrentIndex(1)  # the fine mesh, slow enough to stop
     with qtbot.waitSignal(view.solve_failed, timeout=60000) as blocker:
         view.solve()
