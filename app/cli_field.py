@@ -26,7 +26,7 @@ import numpy as np
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.errors import MagneticCircuitError, ProjectError
 
-from .cli_inputs import evaluate_project, load_project
+from .cli_inputs import add_set_option, evaluate_project, load_project
 from .errors import EXIT_BAD_INPUT, EXIT_NO_SOLUTION, CommandError
 from .files import atomic_output, write_text_atomically
 
@@ -262,8 +262,7 @@ def register(subparsers) -> None:
     p.add_argument("--json", action="store_true", help="print JSON (SI, unit-suffixed keys)")
     p.add_argument("--png", metavar="OUT.png", help="draw the flux-density map, flux lines and air-gap waveform")
     p.add_argument("--fineness", type=float, default=1.0, help="mesh fineness (1 default, 2 for twice as fine)")
-    p.add_argument("--set", action="append", default=[], metavar="KEY=VALUE",
-                   help="override a key for this run, e.g. --set housing.wall_mm=2 (repeatable)")
+    add_set_option(p)
     p.add_argument("--batch", nargs="+", default=[], metavar="DIR_OR_FILE",
                    help="solve every project file given (folders: their *.toml) in parallel")
     p.add_argument("-o", "--output", metavar="OUT.jsonl", help="with --batch: the JSON-lines file to write")

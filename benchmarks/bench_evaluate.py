@@ -21,9 +21,9 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, os.environ.get("PMDC_SIZER_BENCH_TREE", str(ROOT)))
 
-from pmdc_sizer.core import project
-from pmdc_sizer.core.design import design_from_project
-from pmdc_sizer.core.evaluate import evaluate
+from pmdc_sizer.core import project  # noqa: E402 - after the path of the tree to measure
+from pmdc_sizer.core.design import design_from_project  # noqa: E402
+from pmdc_sizer.core.evaluate import evaluate  # noqa: E402
 
 # the demos of the tree being measured (a revision's code reads its own files)
 DEMOS = sorted((Path(os.environ.get("PMDC_SIZER_BENCH_TREE", str(ROOT))) / "demo_projects").glob("*.toml"))

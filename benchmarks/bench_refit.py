@@ -39,10 +39,12 @@ def main() -> None:
         results_a = evaluate(design_a)
         design_b = difference.with_grade(design_a, grade)
         results_b = evaluate(design_b)
-        one = _median_seconds(lambda: evaluate(design_b), 50)
+        one = _median_seconds(lambda design_b=design_b: evaluate(design_b), 50)
         for target in refit.TARGETS:
             fit = refit.refit(target, results_a, design_b, results_b)
-            seconds = _median_seconds(lambda: refit.refit(target, results_a, design_b, results_b), 5)
+            seconds = _median_seconds(
+                lambda target=target, results_a=results_a, design_b=design_b, results_b=results_b:
+                refit.refit(target, results_a, design_b, results_b), 5)
             ratio = seconds / one
             worst = max(worst, ratio)
             print(f"{demo:<24} B = {grade:<6} {target:<14} {seconds * 1e3:7.1f} ms = {ratio:5.1f} evaluations "

@@ -9,7 +9,7 @@ import math
 from typing import TYPE_CHECKING
 
 from .demagnetization import advice_for
-from .results import Check, Results
+from .results import Check, CommutationResult, FaultsResult, Results
 from .units import from_si
 
 if TYPE_CHECKING:
@@ -21,7 +21,13 @@ SLOT_FILL_BARE_WARNING = 0.45  #: hard to wind by machine above this (common pra
 #: round wires cannot pack tighter in practice (hexagonal limit 0.907; common practice)
 SLOT_FILL_GROSS_FAIL = 0.78
 #: [A/m²], enclosed small motors (common practice, no source)
-CURRENT_DENSITY_WARNING = {"S1": 8e6, "S2": 15e6}
+CURRENT_DENSITY_WARNING = {"S1": 8e6, "S2": 15e6, "S3": 12e6}
+#: a brush loaded past this multiple of its grade's continuous limit fails (common practice, no source)
+BRUSH_DENSITY_FAIL = 1.5
+#: commutator surface speed [m/s]: plain small commutators (common practice, no source)
+SURFACE_SPEED_WARNING, SURFACE_SPEED_FAIL = 25.0, 40.0
+#: reactance voltage [V]: about the brush contact drop is commutated cleanly (common practice, no source)
+REACTANCE_WARNING, REACTANCE_FAIL = 2.0, 4.0
 SATURATION_MARGIN = 0.25  #: [T] above a steel's recommended flux density counts as saturated (our rule)
 
 
@@ -44,6 +50,99 @@ def _flux_check(key, title, value, steel, part, advice):
                      advice)
     return Check(key, title, PASS,
                  f"{value:.2f} T in the {part} (up to {limit:.2f} T is comfortable for {steel.name}).")
+
+
+def _commutation_checks(cm: CommutationResult) -> list[Check]:
+    """Brush current density, commutator surface speed and reactance voltage, in words."""
+    out = []
+    density, high = from_si(cm.brush_current_density_A_per_m2, "A/cm2"), from_si(cm.brush_density_high_A_per_m2,
+                                                                                 "A/cm2")
+    limit = (f"the project's limit of {_figures(high)} A/cm²" if cm.limit_from_project
+             else f"the {_figures(high)} A/cm² {cm.brush_grade} carries in continuous service")
+    guessed = (f" (brush {', '.join(k.replace('_', ' ') for k in cm.estimated_inputs)} estimated: "
+               "give them under [brushes])") if cm.estimated_inputs else ""
+    sizes = f"{from_si(cm.brush_width_m, 'mm'):.1f} × {from_si(cm.brush_length_m, 'mm'):.1f} mm"
+    if cm.brush_current_density_A_per_m2 > BRUSH_DENSITY_FAIL * cm.brush_density_high_A_per_m2:
+        out.append(Check("brush_current_density", "Brush current density", FAIL,
+                         f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point, far above "
+                         f"{limit}{guessed}.",
+                         "use larger or more brushes, or a metal-graphite grade"))
+    elif cm.brush_current_density_A_per_m2 > cm.brush_density_high_A_per_m2:
+        out.append(Check("brush_current_density", "Brush current density", WARNING,
+                         f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point, above "
+                         f"{limit}{guessed}.",
+                         "use larger brushes or a grade rated for more current"))
+    else:
+        out.append(Check("brush_current_density", "Brush current density", PASS,
+                         f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point "
+                         f"(within {limit}){guessed}."))
+    speed = cm.surface_speed_m_per_s
+    status = FAIL if speed > SURFACE_SPEED_FAIL else WARNING if speed > SURFACE_SPEED_WARNING else PASS
+    words = {PASS: f"within the {SURFACE_SPEED_WARNING:g} m/s that plain commutators run at",
+             WARNING: f"above the {SURFACE_SPEED_WARNING:g} m/s of plain commutators: brush bounce and wear",
+             FAIL: f"beyond the {SURFACE_SPEED_FAIL:g} m/s a small commutator holds together at"}[status]
+    out.append(Check("commutator_speed", "Commutator surface speed", status,
+                     f"{_figures(speed)} m/s at the highest no-load speed on a "
+                     f"{from_si(cm.commutator_diameter_m, 'mm'):.1f} mm commutator, {words}.",
+                     "" if status == PASS else "use a smaller commutator or a lower no-load speed"))
+    e_r = cm.reactance_voltage_V
+    status = FAIL if e_r > REACTANCE_FAIL else WARNING if e_r > REACTANCE_WARNING else PASS
+    words = {PASS: "commutation without visible sparking is likely",
+             WARNING: "expect sparking at the trailing brush edge",
+             FAIL: "heavy sparking and brush wear"}[status]
+    out.append(Check("reactance_voltage", "Reactance voltage", status,
+                     f"about {_figures(e_r, 2)} V in the coil under commutation at the hot rated point "
+                     f"(estimate, Pichelmayer's permeance): {words}.",
+                     "" if status == PASS else "use fewer turns per coil with more segments, or wider brushes"))
+    return out
+
+
+def _in_ka_per_m(value: float) -> str:
+    return _figures(from_si(value, "kA/m"))
+
+
+def _demagnetization_check(cases, worst_case: str, worst_margin: float, share: float) -> Check:
+    """The ordinary cases: fail past the knee, warn inside the required margin, else pass."""
+    failing = [c for c in cases if c.status == "past_knee"]
+    marginal = [c for c in cases if c.status == "marginal"]
+    if failing:
+        names = ", ".join(f"{c.name} ({_in_ka_per_m(-c.margin_A_per_m)} kA/m beyond)" for c in failing)
+        advice = "; ".join(dict.fromkeys(advice_for(c) for c in failing))
+        return Check("demagnetization", "Demagnetization", FAIL,
+                     f"the magnet passes its knee in: {names}; worst {worst_case}.", advice)
+    if marginal:
+        names = ", ".join(
+            f"{c.name} ({_in_ka_per_m(c.margin_A_per_m)} of {_in_ka_per_m(c.required_margin_A_per_m)} kA/m)"
+            for c in marginal)
+        return Check("demagnetization", "Demagnetization", WARNING,
+                     f"marginal, inside the required margin of {share:.0%} of HcJ: {names}.",
+                     "; ".join(dict.fromkeys(advice_for(c) for c in marginal)))
+    return Check("demagnetization", "Demagnetization", PASS,
+                 f"every case keeps the required margin ({share:.0%} of HcJ); the least margin is "
+                 f"{_in_ka_per_m(worst_margin)} kA/m ({worst_case}).")
+
+
+def _fault_check(faults: FaultsResult, share: float) -> Check:
+    """The direct-supply faults: fail if they must be survived and are not, else warn; pass if safe."""
+    worst = min(faults.cases, key=lambda c: c.margin_A_per_m)
+    title = "Faults (supply applied directly)"
+    duty = "must survive them" if faults.must_survive else "reports them only (supply.fault_cases)"
+    if faults.status == "safe":
+        return Check("fault_demagnetization", title, PASS,
+                     f"stall and reversal with no current limit keep the required margin; the least is "
+                     f"{_in_ka_per_m(worst.margin_A_per_m)} kA/m ({worst.name}, {_figures(worst.current_A)} A).")
+    bad = [c for c in faults.cases if c.status != "safe"]
+    names = ", ".join(
+        f"{c.name} at {_figures(c.current_A)} A ("
+        + (f"{_in_ka_per_m(-c.margin_A_per_m)} kA/m past the knee" if c.status == "past_knee"
+           else f"{_in_ka_per_m(c.margin_A_per_m)} of {_in_ka_per_m(c.required_margin_A_per_m)} kA/m required")
+        + ")" for c in bad)
+    what = "the magnets demagnetize in" if faults.status == "past_knee" else "marginal (inside the required margin) in"
+    status = FAIL if faults.must_survive and faults.status == "past_knee" else WARNING
+    return Check("fault_demagnetization", title, status,
+                 f"with the drive failed, {what}: {names}; the project {duty}.",
+                 "add a fuse or a current-limiting element that survives a drive failure, choose a grade with "
+                 "higher HcJ, or thicken the magnet")
 
 
 def run_checks(design: Design, results: Results) -> list[Check]:
@@ -106,20 +205,11 @@ def run_checks(design: Design, results: Results) -> list[Check]:
                          "friction and drag exceed the stall torque: the motor cannot start.",
                          "raise the flux or the number of conductors, or lower the friction"))
 
-    # Demagnetization.
+    # Demagnetization, against the required margin; then the faults (the supply applied directly).
     dm = r.demagnetization
-    failing = [c for c in dm.cases if not c.ok]
-    if failing:
-        names = ", ".join(c.name for c in failing)
-        advice = "; ".join(dict.fromkeys(advice_for(c) for c in failing))
-        out.append(Check("demagnetization", "Demagnetization", FAIL,
-                         f"the magnet passes its knee in: {names} (worst {dm.worst_case}, "
-                         f"{_figures(from_si(dm.worst_margin_A_per_m, 'kA/m'))} kA/m beyond).", advice))
-    else:
-        out.append(Check("demagnetization", "Demagnetization", PASS,
-                         "every case stays above the knee; the least margin is "
-                         f"{_figures(from_si(dm.worst_margin_A_per_m, 'kA/m'))} kA/m "
-                         f"({dm.worst_case})."))
+    out.append(_demagnetization_check(dm.cases, dm.worst_case, dm.worst_margin_A_per_m, dm.required_margin_share))
+    if r.faults is not None:
+        out.append(_fault_check(r.faults, dm.required_margin_share))
 
     # Iron.
     m = r.magnetics
@@ -151,15 +241,22 @@ def run_checks(design: Design, results: Results) -> list[Check]:
     else:
         out.append(Check("current_density", "Current density", PASS, f"{density:.1f} A/mm² at the rated point."))
 
+    if r.commutation is not None:
+        out.extend(_commutation_checks(r.commutation))
+
     # Thermal.
     t = r.thermal
-    duty = "steady state (S1)" if t.duty == "S1" else f"after {t.duty_minutes:g} min (S2)"
+    duty = {"S1": "steady state (S1)", "S2": f"after {t.duty_minutes:g} min (S2)",
+            "S3": f"at the end of each loaded spell (S3, {t.cycle_duration_factor:.0%} of "
+                  f"{t.cycle_minutes:g} min)"}[t.duty]
     if not t.converged:
+        when = ("" if t.time_to_limit_s is None else
+                f" The winding reaches its class limit after {_figures(from_si(t.time_to_limit_s, 'min'))} min "
+                "at the rated load from ambient; the hot case is shown at that moment.")
         out.append(Check("thermal", "Winding temperature", FAIL,
-                         f"no usable thermal steady state at the rated load and {t.ambient_C:g} °C ambient: "
+                         f"no usable thermal state at the rated load and {t.ambient_C:g} °C ambient ({t.duty}): "
                          "the losses grow faster than the heat can leave, the hot motor stalls, "
-                         "or the magnets would pass the temperature their data hold to; the hot case is shown at the "
-                         f"class limit of {t.insulation_limit_C:.0f} °C.",
+                         "or the magnets would pass the temperature their data hold to." + when,
                          "lower the rated load or the winding resistance, or improve the cooling"))
     elif t.winding_temperature_C > t.insulation_limit_C:
         out.append(Check("thermal", "Winding temperature", FAIL,

@@ -53,9 +53,25 @@ class ThermalData:
     winding_to_housing: float  #: thermal resistance winding to housing [K/W]
     housing_to_ambient: float | None  #: [K/W], None to estimate from the surface
     convection_coeff: float  #: heat transfer coefficient of the housing surface [W/(m²·K)]
-    time_constant: float  #: thermal time constant of the motor [s]
-    duty: str  #: IEC 60034-1 duty type, "S1" or "S2"
+    time_constant: float | None  #: measured slow time constant of the motor [s]; None to estimate
+    duty: str  #: IEC 60034-1 duty type, "S1", "S2" or "S3"
     duty_time: float  #: length of the S2 short-time run [s]
+    winding_capacity: float | None = None  #: heat capacity of the winding node [J/K]; None to estimate
+    winding_to_magnet: float | None = None  #: across the gap [K/W]; None to estimate
+    cycle_factor: float = 0.4  #: S3 cycle duration factor [1]
+    cycle_time: float = 600.0  #: S3 cycle duration [s]
+
+
+@dataclass(frozen=True)
+class BrushData:
+    """Brushes and commutator, SI; None where the project leaves the estimate to the tool."""
+
+    grade: str = "electrographite"  #: brush material
+    current_density_limit: float | None = None  #: continuous-service limit [A/m²]
+    count: int | None = None  #: brushes, half of each polarity [1]
+    width: float | None = None  #: along the commutator's circumference [m]
+    length: float | None = None  #: along the shaft [m]
+    commutator_diameter: float | None = None  #: [m]
 
 
 @dataclass(frozen=True)
@@ -95,11 +111,18 @@ class Design:
     magnetization: str = "radial"  #: "radial" or "parallel", for the field solution
     shaft_magnetic: bool = True  #: a steel shaft (housing steel's B(H)) or a non-magnetic one
     max_outer_diameter: float | None = None  #: envelope limit on the housing diameter [m]
+    brushes: BrushData = BrushData()  #: brushes and commutator
+    fault_cases: str = "must survive if reversing"  #: whether the direct-supply faults must pass
+    required_margin_share: float = 0.05  #: least margin to the knee, a share of HcJ at the case's temperature [1]
 
     @property
     def name(self) -> str:
         """The design's name, from the project file."""
         return self.project.project.name
+
+
+def _si_or_none(value: float | None, unit: str) -> float | None:
+    return None if value is None else to_si(value, unit)
 
 
 def magnet_grade_of(project: Project) -> MagnetGrade:
@@ -125,7 +148,9 @@ def magnet_grade_of(project: Project) -> MagnetGrade:
         try:
             return library.grade_from_spec(project.magnets.custom_grade, custom=True)
         except ValueError as error:
-            raise ProjectError(f"magnets.custom_grade: {error}", key="magnets.custom_grade.squareness") from None
+            # a GradeDataError names its key; the only other ValueError is HcB above HcJ
+            key = getattr(error, "key", "coercivity_HcB_kA_per_m")
+            raise ProjectError(f"magnets.custom_grade: {error}", key=f"magnets.custom_grade.{key}") from None
     if project.magnets.grade is None:
         raise ProjectError("magnets: give magnets.grade or magnets.custom_grade", key="magnets.grade")
     return library.magnet_grade(project.magnets.grade)
@@ -223,10 +248,25 @@ def design_from_project(project: Project) -> Design:
             winding_to_housing=p.thermal.winding_to_housing_K_per_W,
             housing_to_ambient=p.thermal.housing_to_ambient_K_per_W,
             convection_coeff=p.thermal.convection_W_per_m2K,
-            time_constant=to_si(p.thermal.thermal_time_constant_min, "min"),
+            time_constant=(None if p.thermal.thermal_time_constant_min is None
+                           else to_si(p.thermal.thermal_time_constant_min, "min")),
             duty=p.thermal.duty,
             duty_time=to_si(p.thermal.duty_minutes, "min"),
+            winding_capacity=p.thermal.winding_heat_capacity_J_per_K,
+            winding_to_magnet=p.thermal.winding_to_magnet_K_per_W,
+            cycle_factor=to_si(p.thermal.cycle_duration_factor_pct, "%"),
+            cycle_time=to_si(p.thermal.cycle_minutes, "min"),
         ),
+        brushes=BrushData(
+            grade=p.brushes.grade,
+            current_density_limit=_si_or_none(p.brushes.current_density_limit_A_per_cm2, "A/cm2"),
+            count=p.brushes.count,
+            width=_si_or_none(p.brushes.width_mm, "mm"),
+            length=_si_or_none(p.brushes.length_mm, "mm"),
+            commutator_diameter=_si_or_none(p.brushes.commutator_diameter_mm, "mm"),
+        ),
+        fault_cases=p.supply.fault_cases,
+        required_margin_share=to_si(p.magnets.required_margin_pct_of_HcJ, "%"),
         extra_inertia=to_si(p.rotor.extra_inertia_gcm2, "g·cm2"),
         magnetization=p.magnets.magnetization,
         shaft_magnetic=p.armature.shaft_magnetic,

@@ -1,15 +1,16 @@
 """The orchestrator: one design through the whole chain, step by step like the hand calculation.
 
     1. materials at temperature  the grade's model range holds over the ambients    core.magnets
-    2. magnetic circuit          no load, over a temperature grid (one solve)        core.magnetic_circuit
+    2. magnetic circuit          no load, over a temperature grid (one solve)        core.pole_magnetics
     3. winding                   paths, conductors, turn length, resistance          core.winding
     4. constants                 Ke = Kt = K·Φ                                        core.winding
     5. masses                    (the iron loss needs the teeth and core masses)     core.mass
-    6. thermal                   hot case: losses ⇄ temperatures to a fixed point    core.thermal
-    7. magnetic cases            cold, nominal, hot, rotor removed; and the demand    core.magnetic_circuit
-    8. performance               cold, nominal and hot curves and named points        core.performance
+    6. thermal                   the duty's hot state, ratings, stall times          core.thermal_ratings
+    7. magnetic cases            cold, nominal, hot against current; rotor removed   core.pole_magnetics
+    8. performance               cold, nominal and hot curves with Φ(I)               core.performance
     9. demagnetization           stall, reversal, drive limit, rotor removed          core.demagnetization
-   10. inertia, time constants, cost, loadings                                       core.mass, core.loadings
+       required margin, faults   the state of every case; the supply applied directly core.margins
+   10. inertia, time constants, cost, loadings, brushes and commutator   core.mass, core.loadings, core.commutation
    11. checks                    pass / warning / fail, with the reason               core.checks
 
 This module holds no formula: each step calls the topic module that owns it and keeps what it returns.
@@ -31,11 +32,12 @@ from dataclasses import replace
 
 import numpy as np
 
-from . import magnetic_circuit as mc
+from . import pole_magnetics as pm
 from .checks import run_checks
-from .demagnetization import TemperatureCase, demagnetization_cases, rotor_removed_circuit
+from .commutation import commutation_result
+from .demagnetization import TemperatureCase, demagnetization_cases
 from .design import Design, design_from_project
-from .geometry import Geometry
+from .envelope import operating_envelope
 from .loadings import armature_loadings
 from .magnets import (
     MagnetGrade,
@@ -47,49 +49,44 @@ from .magnets import (
     remanence_at,
     require_ambient_inside_model,
 )
-from .mass import Masses, masses, material_cost, rotor_inertia
+from .margins import direct_supply_faults, must_survive_faults, with_required_margin
+from .mass import masses, material_cost, rotor_inertia
 from .performance import (
     MotorModel,
     OperatingPoints,
     SpeedTorqueCurve,
+    constant_at,
     current_limit_torque,
     electrical_time_constant,
     iron_loss_terms,
+    largest_current,
     loss_torque,
     mechanical_time_constant,
-    operating_points,
     speed_torque_curve,
-    stall_torque,
 )
+from .result_assembly import geometry_result, mass_result, winding_result
 from .results import (
     CaseResult,
     ConstantsResult,
     CostResult,
     CurveData,
-    GeometryResult,
     MagnetChartCase,
     MagneticsResult,
     MagnetResult,
-    MassResult,
     PointResult,
     Results,
-    ThermalResult,
-    WindingResult,
 )
 from .schema import Project
-from .thermal import duty_rise_fraction, flux_grid_temperatures, hot_state, housing_to_ambient_resistance
+from .thermal import flux_grid_temperatures
+from .thermal_ratings import thermal_outcome
 from .units import from_si
 from .winding import (
     armature_inductance_estimate,
     armature_resistance,
     back_emf_constant,
-    coil_span_slots,
-    conductors_per_slot,
-    current_density,
     machine_constant,
     mean_turn_length,
     parallel_paths,
-    slot_fill,
     slot_share_of_turn,
     total_conductors,
     winding_length,
@@ -125,12 +122,11 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     require_ambient_inside_model(grade, d.ambient_min_C, d.ambient_max_C)
     model_high_C = model_temperature_range_C(grade)[1]
 
-    # 2. No-load magnetic circuit over a temperature grid, with cold and nominal exactly on it.
-    circuit = mc.pole_circuit(g, grade.recoil_permeability)
+    # 2. No-load magnetic circuit (the pole's reluctance network) over a temperature grid, with cold and
+    # nominal exactly on it.
     grid = flux_grid_temperatures(d.ambient_min_C, d.ambient_nominal_C, d.ambient_max_C,
                                   grade.max_working_temperature_C, model_high_C)
-    grid_point = mc.solve(grade, grid, circuit, d.housing_steel, d.lamination_steel)
-    mc.require_converged(grid_point)
+    grid_point = pm.pole_states(d, grid)
     rising = np.argsort(grid[2:]) + 2
 
     def flux_at(temperature_C: float) -> float:
@@ -155,7 +151,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     tooth_b_per_flux = float(grid_point.tooth_flux_density[1]) / nominal_flux
     core_b_per_flux = float(grid_point.core_flux_density[1]) / nominal_flux
 
-    def motor_at(winding_C: float, flux: float) -> MotorModel:
+    def motor_at(winding_C: float, flux: float, flux_table: tuple[np.ndarray, np.ndarray] | None = None) -> MotorModel:
         iron = iron_loss_terms(
             d.lamination_steel, g.poles,
             ((part_masses.teeth, tooth_b_per_flux * flux), (part_masses.core, core_b_per_flux * flux)),
@@ -163,78 +159,78 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         )
         return MotorModel(voltage=d.supply_voltage, brush_drop=d.brush_drop, resistance=resistance_at(winding_C),
                           constant=back_emf_constant(constant, flux), friction_torque=d.losses.friction_torque,
-                          viscous_coeff=d.losses.viscous_coeff, iron=iron)
+                          viscous_coeff=d.losses.viscous_coeff, iron=iron,
+                          constant_table=None if flux_table is None else
+                          (flux_table[0], back_emf_constant(constant, flux_table[1])))
 
-    # 6. Thermal: the hot case's temperatures at the rated point and the highest ambient.
-    housing_resistance = (d.thermal.housing_to_ambient if d.thermal.housing_to_ambient is not None
-                          else float(housing_to_ambient_resistance(g, d.thermal.convection_coeff)))
+    # 6. Thermal: the duty's hot state, the continuous rating and the stall times at the highest ambient.
+    heat = thermal_outcome(d, part_masses, lambda winding_C, magnet_C: motor_at(winding_C, flux_at(magnet_C)),
+                           model_high_C)
+    hot = heat.hot
 
-    def rated_losses(winding_C: float, magnet_C: float) -> tuple[float, float, bool]:
-        model = motor_at(winding_C, flux_at(magnet_C))
-        stall = float(stall_torque(model))
-        rated = operating_points(model, min(d.load_torque, stall))
-        return (float(rated.copper_loss + rated.brush_loss + rated.iron_loss), float(rated.total_loss),
-                d.load_torque < stall)
-
-    hot = hot_state(d.ambient_max_C, rated_losses, d.thermal.winding_to_housing, housing_resistance,
-                    duty_rise_fraction(d.thermal.duty, d.thermal.duty_time, d.thermal.time_constant),
-                    w.insulation_limit_C, model_high_C)
-
-    # 7. Exact magnetic solves: rotor in at cold, nominal and hot, rotor out at cold and hot, first on
-    # the magnet's full curve, then on its recoil line (the demand the demagnetization cases use).
-    case_temperatures = np.array([d.ambient_min_C, d.ambient_nominal_C, hot.magnet_C, d.ambient_min_C,
-                                  d.ambient_max_C])
-    five_points = ((circuit, 3), (rotor_removed_circuit(g, circuit), 2))
-    both = mc.solve(grade, np.concatenate((case_temperatures, case_temperatures)),
-                    mc.stack_circuits(five_points * 2), d.housing_steel, d.lamination_steel,
-                    magnet_on_recoil_line=np.repeat([False, True], 5))
-    mc.require_converged(both, "the magnetic circuit (cold, nominal, hot or rotor removed)")
-    exact, demand = mc.select_points(both, slice(0, 5)), mc.select_points(both, slice(5, 10))
-
-    # 8. Performance: the speed-torque curve of each case.
+    # 7. The network at cold, nominal and hot against armature current (the armature's reaction lowers
+    # the flux), and with the rotor removed at the coldest and hottest ambient.
     temperatures = {"cold": (d.ambient_min_C, d.ambient_min_C, d.ambient_min_C),
                     "nominal": (d.ambient_nominal_C, d.ambient_nominal_C, d.ambient_nominal_C),
                     "hot": (d.ambient_max_C, hot.winding_C, hot.magnet_C)}
+    case_temperatures = np.array([temperatures[name][2] for name in _CASE_NAMES])
+    table = pm.load_table(d, case_temperatures, [
+        largest_current(motor_at(temperatures[name][1], flux_at(temperatures[name][2])), d.current_limit)
+        for name in _CASE_NAMES])
+    rotor_out = pm.pole_states(d, [d.ambient_min_C, d.ambient_max_C], rotor_present=False,
+                               what="the magnetic circuit with the rotor removed")
+
+    # 8. Performance: the speed-torque curve of each case, with Ke = K·Φ(I).
     models, cases = {}, {}
     for index, name in enumerate(_CASE_NAMES):
         ambient_C, winding_C, magnet_C = temperatures[name]
-        models[name] = motor_at(winding_C, float(exact.flux_per_pole[index]))
+        flux = float(table.no_load(index, "flux_per_pole"))
+        models[name] = motor_at(winding_C, flux, table.flux(index))
         curve = speed_torque_curve(models[name], d.load_torque, samples=curve_points)
-        cases[name] = _case_result(name, ambient_C, winding_C, magnet_C, float(exact.flux_per_pole[index]),
-                                   models[name], curve,
-                                   current_limit_torque(models[name], d.current_limit), d.load_speed)
+        cases[name] = _case_result(name, ambient_C, winding_C, magnet_C, flux, models[name], curve,
+                                   current_limit_torque(models[name], d.current_limit), d.load_speed,
+                                   table.flux(index))
+
+    cases = {name: replace(case, envelope=operating_envelope(models[name], case, d.current_limit))
+             for name, case in cases.items()}
 
     # 9. Demagnetization at the coldest and hottest case, then with the rotor removed.
-    effective_gap = float(circuit.effective_gap)
+    case_index = {"cold": 0, "hot": 2}
+    extremes = [TemperatureCase(label, models[label], cases[label].no_load_speed_rad_per_s,
+                                cases[label].magnet_temperature_C) for label in ("cold", "hot")]
+
+    def magnet_state(label: str, current: float):
+        return table.magnet_state(case_index[label], current)
+
     demagnetization = demagnetization_cases(
-        grade, conductors, paths, g, effective_gap,
-        [TemperatureCase(label, models[label], cases[label].no_load_speed_rad_per_s,
-                         cases[label].magnet_temperature_C, float(demand.magnet_field[index]))
-         for label, index in (("cold", 0), ("hot", 2))],
-        d.current_limit, d.reversing,
-        [("cold", d.ambient_min_C, float(demand.magnet_field[3])),
-         ("hot", d.ambient_max_C, float(demand.magnet_field[4]))],
+        grade, extremes, d.current_limit, d.reversing, magnet_state,
+        [("cold", d.ambient_min_C, pm.magnet_state_of(rotor_out, 0)),
+         ("hot", d.ambient_max_C, pm.magnet_state_of(rotor_out, 1))],
     )
+    # 9b. Every case against the required margin; the faults: the supply applied directly, no limiter.
+    demagnetization = with_required_margin(demagnetization, grade, d.required_margin_share)
+    faults = direct_supply_faults(grade, extremes, magnet_state, d.required_margin_share,
+                                  must_survive_faults(d.fault_cases, d.reversing))
 
     # 10. Inertia, time constants, cost and the armature's loadings at the nominal rated point.
     inertia = float(rotor_inertia(g, part_masses, slot_share_of_turn(g.stack_length, turn_length), d.extra_inertia))
     inductance = float(armature_inductance_estimate(g, conductors, paths, grade.recoil_permeability,
-                                                    effective_gap, turn_length))
+                                                    pm.effective_gap(d), turn_length))
     nominal_model, nominal = models["nominal"], cases["nominal"]
     cost = material_cost(part_masses, d.prices)
     sizing = armature_loadings(
         g, conductors, paths, nominal.rated.current_A,
         nominal.rated.torque_N_m + float(loss_torque(nominal_model, nominal.rated.speed_rad_per_s)),
-        float(exact.flux_per_pole[1]))
+        float(table.no_load(1, "flux_per_pole")))
 
     deepest_field = min(c.magnet_field_A_per_m for c in demagnetization.cases)
     results = Results(
         name=d.name, supply_voltage_V=d.supply_voltage, brush_drop_V=d.brush_drop,
         load_torque_N_m=d.load_torque, load_speed_rad_per_s=d.load_speed,
         magnet=_magnet_result(grade, d.ambient_nominal_C),
-        geometry=_geometry_result(g, d.max_outer_diameter),
-        magnetics=_magnetics_result(exact, 1, d.ambient_nominal_C),
-        winding=_winding_result(d, paths, conductors, turn_length, wire_length, resistance_at(20.0),
+        geometry=geometry_result(g, d.max_outer_diameter),
+        magnetics=_magnetics_result(table.states, table.currents.shape[1], d.ambient_nominal_C),
+        winding=winding_result(d, paths, conductors, turn_length, wire_length, resistance_at(20.0),
                                 cases["hot"].rated.current_A),
         constants=ConstantsResult(
             machine_constant=constant,
@@ -250,20 +246,10 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         ),
         cold=cases["cold"], nominal=nominal, hot=cases["hot"],
         demagnetization=demagnetization,
-        thermal=ThermalResult(
-            ambient_C=d.ambient_max_C, duty=d.thermal.duty, duty_minutes=from_si(d.thermal.duty_time, "min"),
-            housing_temperature_C=hot.housing_C, winding_temperature_C=hot.winding_C,
-            magnet_temperature_C=hot.magnet_C, steady_winding_temperature_C=hot.steady_winding_C,
-            insulation_class=w.insulation_class, insulation_limit_C=w.insulation_limit_C,
-            magnet_limit_C=grade.max_working_temperature_C, losses_W=hot.total_loss_W,
-            rotor_losses_W=hot.rotor_loss_W, housing_to_ambient_K_per_W=housing_resistance,
-            winding_to_housing_K_per_W=d.thermal.winding_to_housing,
-            thermal_time_constant_s=d.thermal.time_constant, iterations=hot.iterations,
-            converged=hot.converged, runaway_winding_temperature_C=hot.runaway_winding_C,
-            ok=bool(hot.converged and hot.winding_C <= w.insulation_limit_C
-                    and hot.magnet_C <= grade.max_working_temperature_C),
-        ),
-        mass=_mass_result(part_masses),
+        thermal=heat.thermal, ratings=heat.ratings, faults=faults,
+        commutation=commutation_result(d, paths, cases["hot"].rated.current_A, cases["hot"].rated.speed_rad_per_s,
+                                       max(c.no_load_speed_rad_per_s for c in cases.values())),
+        mass=mass_result(part_masses),
         cost=CostResult(currency=d.prices.currency, magnet=float(cost.magnet), copper=float(cost.copper),
                         housing=float(cost.housing), lamination=float(cost.lamination), total=float(cost.total)),
         checks=(),
@@ -271,9 +257,9 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
             MagnetChartCase(
                 name=name,
                 curves=demagnetization_curves(grade, float(case_temperatures[index]), field_min=deepest_field),
-                operating_field_A_per_m=float(exact.magnet_field[index]),
-                operating_flux_density_T=float(exact.magnet_flux_density[index]),
-                permeance_coefficient=float(exact.permeance_coefficient[index]),
+                operating_field_A_per_m=float(table.no_load(index, "magnet_field")),
+                operating_flux_density_T=float(table.no_load(index, "magnet_flux_density")),
+                permeance_coefficient=float(table.no_load(index, "permeance_coefficient")),
             )
             for index, name in enumerate(_CASE_NAMES)
         ),
@@ -299,8 +285,10 @@ def _point_result(points: OperatingPoints) -> PointResult:
 
 
 def _case_result(name: str, ambient_C: float, winding_C: float, magnet_C: float, flux: float, model: MotorModel,
-                 stc: SpeedTorqueCurve, limit_torque: float | None, load_speed: float) -> CaseResult:
+                 stc: SpeedTorqueCurve, limit_torque: float | None, load_speed: float,
+                 flux_table: tuple[np.ndarray, np.ndarray]) -> CaseResult:
     c = stc.curve
+    ke_stall = float(constant_at(model, float(stc.stall.current)))
     rated = _point_result(stc.rated)
     return CaseResult(
         name=name, temperature_C=float(winding_C), ambient_C=float(ambient_C),
@@ -322,22 +310,27 @@ def _case_result(name: str, ambient_C: float, winding_C: float, magnet_C: float,
             iron_loss_W=c.iron_loss,
         ),
         current_limit_torque_N_m=limit_torque,
+        flux_per_pole_stall_Wb=flux * ke_stall / model.constant, ke_stall_V_s_per_rad=ke_stall,
+        flux_current_A=flux_table[0], flux_under_load_Wb=flux_table[1],
     )
 
 
-def _magnetics_result(point: mc.MagneticOperatingPoint, index: int, temperature_C: float) -> MagneticsResult:
+def _magnetics_result(states: pm.PoleState, index: int, temperature_C: float) -> MagneticsResult:
     def at(values) -> float:
         return float(np.asarray(values)[index])
 
     return MagneticsResult(
-        temperature_C=float(temperature_C), flux_per_pole_Wb=at(point.flux_per_pole),
-        airgap_flux_density_T=at(point.airgap_flux_density), magnet_flux_density_T=at(point.magnet_flux_density),
-        magnet_field_A_per_m=at(point.magnet_field), permeance_coefficient=at(point.permeance_coefficient),
-        housing_flux_density_T=at(point.housing_flux_density), tooth_flux_density_T=at(point.tooth_flux_density),
-        core_flux_density_T=at(point.core_flux_density), leakage_factor=at(point.leakage_factor),
-        carter_factor=at(point.carter_factor), gap_mmf_A=at(point.mmf_drops["gap"]),
-        teeth_mmf_A=at(point.mmf_drops["teeth"]), core_mmf_A=at(point.mmf_drops["core"]),
-        housing_mmf_A=at(point.mmf_drops["housing"]),
+        temperature_C=float(temperature_C), flux_per_pole_Wb=at(states.flux_per_pole),
+        airgap_flux_density_T=at(states.airgap_flux_density_mean), magnet_flux_density_T=at(states.magnet_flux_density),
+        magnet_field_A_per_m=at(states.magnet_field), permeance_coefficient=at(states.permeance_coefficient),
+        housing_flux_density_T=at(states.housing_flux_density), tooth_flux_density_T=at(states.tooth_flux_density),
+        core_flux_density_T=at(states.core_flux_density), leakage_factor=at(states.leakage_factor),
+        carter_factor=at(states.carter_factor), gap_mmf_A=at(states.gap_mmf),
+        teeth_mmf_A=at(states.teeth_mmf), core_mmf_A=at(states.core_mmf),
+        housing_mmf_A=at(states.housing_mmf),
+        airgap_flux_density_mean_T=at(states.airgap_flux_density_mean),
+        airgap_flux_density_centre_T=at(states.airgap_flux_density_centre),
+        outside_air_flux_Wb=at(states.outside_flux), worst_magnet_field_A_per_m=at(states.worst_field),
     )
 
 
@@ -351,48 +344,6 @@ def _magnet_result(grade: MagnetGrade, temperature_C: float) -> MagnetResult:
         remanence_20C_T=grade.remanence, coercivity_HcJ_20C_A_per_m=grade.coercivity_hcj,
         max_working_temperature_C=grade.max_working_temperature_C, density_kg_per_m3=grade.density,
         source=grade.source,
-    )
-
-
-def _geometry_result(g: Geometry, max_outer_diameter: float | None) -> GeometryResult:
-    return GeometryResult(
-        poles=int(g.poles), slots=int(g.slots),
-        housing_outer_diameter_m=2.0 * float(g.housing_outer_radius),
-        housing_inner_diameter_m=2.0 * float(g.housing_inner_radius),
-        housing_wall_m=float(g.housing_wall), housing_length_m=float(g.housing_length),
-        magnet_inner_diameter_m=2.0 * float(g.magnet_inner_radius),
-        magnet_thickness_m=float(g.magnet_thickness), magnet_arc_rad=float(g.magnet_arc),
-        magnet_length_m=float(g.magnet_length), magnet_embrace=float(g.magnet_embrace),
-        overhang_m=float(g.overhang), airgap_m=float(g.airgap),
-        armature_diameter_m=2.0 * float(g.armature_radius), stack_length_m=float(g.stack_length),
-        shaft_diameter_m=2.0 * float(g.shaft_radius), slot_pitch_m=float(g.slot_pitch),
-        core_depth_m=float(g.core_depth), max_outer_diameter_m=max_outer_diameter,
-    )
-
-
-def _winding_result(d: Design, paths: int, conductors: int, turn_length: float, wire_length: float,
-                    resistance_20C: float, hot_rated_current: float) -> WindingResult:
-    g, w = d.geometry, d.winding
-    slot_area = float(g.slot_area)
-    return WindingResult(
-        type=w.kind, parallel_paths=paths, commutator_segments=w.commutator_segments,
-        turns_per_coil=w.turns_per_coil, conductors=conductors,
-        conductors_per_slot=float(conductors_per_slot(conductors, g.slots)),
-        coil_span_slots=int(coil_span_slots(g.slots, g.poles)), wire=w.wire.label,
-        wire_bare_diameter_m=w.wire.bare_diameter, wire_overall_diameter_m=w.wire.overall_diameter,
-        enamel_grade=w.wire.enamel_grade, mean_turn_length_m=turn_length, wire_length_m=wire_length,
-        slot_area_m2=slot_area,
-        slot_fill_bare=float(slot_fill(conductors, g.slots, w.wire.bare_diameter, slot_area)),
-        slot_fill_gross=float(slot_fill(conductors, g.slots, w.wire.overall_diameter, slot_area)),
-        resistance_20C_ohm=resistance_20C,
-        rated_current_density_A_per_m2=float(current_density(hot_rated_current, paths, w.wire.copper_area)),
-    )
-
-
-def _mass_result(m: Masses) -> MassResult:
-    return MassResult(
-        magnet_kg=float(m.magnet), copper_kg=float(m.copper), housing_kg=float(m.housing),
-        lamination_kg=float(m.lamination), shaft_kg=float(m.shaft), total_kg=float(m.total),
     )
 
 

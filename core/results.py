@@ -37,8 +37,10 @@ class MagneticsResult:
     """The no-load magnetic circuit at one magnet temperature."""
 
     temperature_C: float  #: magnet temperature [°C]
-    flux_per_pole_Wb: float  #: useful flux crossing the gap under one pole, stack length [Wb]
-    airgap_flux_density_T: float  #: flux per pole over the fringed gap area under the magnet [T]
+    flux_per_pole_Wb: float  #: flux crossing the gap between the two neutral axes of one pole, stack length [Wb]
+    #: mean air-gap flux density under the magnet's arc, the same value as ``airgap_flux_density_mean_T``
+    #: (kept under its old name for the readers that show it) [T]
+    airgap_flux_density_T: float
     magnet_flux_density_T: float  #: operating point's B in the magnet [T]
     magnet_field_A_per_m: float  #: operating point's H in the magnet (negative) [A/m]
     permeance_coefficient: float  #: -B/(μ0·H) at the operating point, iron drops included [1]
@@ -51,6 +53,10 @@ class MagneticsResult:
     teeth_mmf_A: float  #: MMF drop along the teeth [A]
     core_mmf_A: float  #: MMF drop along the armature core, half a pole pitch [A]
     housing_mmf_A: float  #: MMF drop along the housing, half a pole pitch [A]
+    airgap_flux_density_mean_T: float = 0.0  #: mean air-gap flux density under the magnet's arc [T]
+    airgap_flux_density_centre_T: float = 0.0  #: air-gap flux density at the pole centre [T]
+    outside_air_flux_Wb: float = 0.0  #: return flux in the air outside the housing at the interpolar axis [Wb]
+    worst_magnet_field_A_per_m: float = 0.0  #: most negative field of any magnet segment at no load [A/m]
 
 
 @dataclass(frozen=True)
@@ -133,7 +139,7 @@ class CaseResult:
     magnet_temperature_C: float  #: [°C]
     winding_temperature_C: float  #: [°C]
     flux_per_pole_Wb: float  #: at the magnet temperature, no load [Wb]
-    ke_V_s_per_rad: float  #: K·Φ at this case [V·s/rad]
+    ke_V_s_per_rad: float  #: K·Φ at this case, no load [V·s/rad]
     terminal_resistance_ohm: float  #: at the winding temperature [Ω]
     no_load_speed_rad_per_s: float  #: [rad/s]
     no_load_current_A: float  #: [A]
@@ -151,6 +157,13 @@ class CaseResult:
     #: shaft torque at which the armature current reaches the drive's limit [N·m]; None without a limit
     #: or when the limit is above the stall current (the curve beyond it is not reachable with that drive)
     current_limit_torque_N_m: float | None = None
+    envelope: EnvelopeResult | None = None  #: what this case reaches inside the drive's current limit
+    flux_per_pole_stall_Wb: float = 0.0  #: under the stall current (the armature's reaction lowers it) [Wb]
+    ke_stall_V_s_per_rad: float = 0.0  #: K·Φ at the stall current [V·s/rad]
+    #: the flux per pole against armature current that the curve uses (interpolated linearly in I²):
+    #: currents [A] and the flux there [Wb]
+    flux_current_A: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
+    flux_under_load_Wb: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
 
 
 @dataclass(frozen=True)
@@ -166,6 +179,17 @@ class DemagnetizationCase:
     knee_field_A_per_m: float  #: knee field at the case's temperature (negative) [A/m]
     margin_A_per_m: float  #: magnet field minus knee field; positive is safe [A/m]
     ok: bool  #: the field stays above the knee
+    flux_per_pole_Wb: float = 0.0  #: flux per pole under the case's current (0 with the rotor removed) [Wb]
+    #: where the worst segment sits, from the pole centre (positive: towards the direction of rotation) [rad]
+    worst_angle_rad: float = 0.0
+    magnet_area_past_knee_fraction: float = 0.0  #: share of the magnet's area whose field is past the knee [1]
+    #: centres of the magnet's segments from the pole centre [rad]
+    segment_angle_rad: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
+    #: the field at mid-thickness in each segment [A/m]
+    segment_field_A_per_m: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
+    #: least margin this case must keep to count as safe: the project's share of HcJ at its temperature [A/m]
+    required_margin_A_per_m: float = 0.0
+    status: str = ""  #: "safe" (margin ≥ required), "marginal" (0 < margin < required) or "past_knee"
 
 
 @dataclass(frozen=True)
@@ -176,6 +200,21 @@ class DemagnetizationResult:
     worst_case: str  #: name of the case with the least margin
     worst_margin_A_per_m: float  #: its margin [A/m]
     cases: tuple[DemagnetizationCase, ...]  #: in the order they were computed
+    required_margin_A_per_m: float = 0.0  #: the most any case requires (the share of HcJ where HcJ is highest) [A/m]
+    required_margin_share: float = 0.0  #: the project's required margin, a share of HcJ at each case's temperature [1]
+    status: str = ""  #: the worst case's status: "safe", "marginal" or "past_knee"
+
+
+@dataclass(frozen=True)
+class FaultsResult:
+    """Stall and reversal with the supply applied directly (a failed drive, no limiter), cold and hot."""
+
+    must_survive: bool  #: the project requires the magnets to survive these (else they are reported and warned)
+    ok: bool  #: every fault case stays above the knee
+    worst_case: str  #: name of the fault case with the least margin
+    worst_margin_A_per_m: float  #: its margin [A/m]
+    status: str  #: the worst fault case's status: "safe", "marginal" or "past_knee"
+    cases: tuple[DemagnetizationCase, ...]  #: shaped like ``DemagnetizationResult.cases``
 
 
 @dataclass(frozen=True)
@@ -188,7 +227,7 @@ class ThermalResult:
     housing_temperature_C: float  #: [°C]
     winding_temperature_C: float  #: steady state (S1) or at the end of the short-time run (S2) [°C]
     magnet_temperature_C: float  #: [°C]
-    steady_winding_temperature_C: float  #: S1 steady state, also shown for S2 [°C]
+    steady_winding_temperature_C: float  #: S1 steady state, also for S2/S3 (where S1's iteration ended, if none) [°C]
     insulation_class: str  #: IEC 60085 class
     insulation_limit_C: float  #: the class's temperature [°C]
     magnet_limit_C: float  #: the grade's maximum working temperature [°C]
@@ -201,6 +240,76 @@ class ThermalResult:
     converged: bool  #: False when no steady state exists; the hot case is then at the class limit
     ok: bool  #: converged, and winding and magnets inside their limits
     runaway_winding_temperature_C: float | None = None  #: where the iteration stopped, when it did not converge
+    steady_state_exists: bool = True  #: the duty has a usable state; False: runaway, stall or magnets off their data
+    steady_state_s1_exists: bool = True  #: continuous running (S1) at the rated load has a usable steady state
+    time_to_limit_s: float | None = None  #: rated load from ambient to the class limit, when the duty passes it [s]
+    winding_heat_capacity_J_per_K: float = 0.0  #: C_w of the network's winding node [J/K]
+    housing_heat_capacity_J_per_K: float = 0.0  #: C_h of the housing node (housing and magnets) [J/K]
+    winding_to_magnet_K_per_W: float = 0.0  #: across the air gap, given or estimated [K/W]
+    magnet_to_housing_K_per_W: float = 0.0  #: through magnet and bond line, estimated [K/W]
+    winding_time_constant_s: float = 0.0  #: the network's fast time constant (the winding's own) [s]
+    cycle_duration_factor: float = 0.0  #: S3 share of each cycle under load [1]
+    cycle_minutes: float = 0.0  #: S3 cycle duration [min]
+    transient: ThermalTransient | None = None  #: temperatures against time over the duty
+
+
+@dataclass(frozen=True)
+class ThermalTransient:
+    """Temperatures against time over the duty from ambient, at the highest ambient (plot data)."""
+
+    duty: str  #: "S1", "S2" or "S3"
+    time_s: tuple[float, ...]  #: since the start [s]
+    winding_C: tuple[float, ...]  #: [°C]
+    housing_C: tuple[float, ...]  #: [°C]
+    magnet_C: tuple[float, ...]  #: [°C]
+    insulation_limit_C: float  #: the class temperature, for the chart's limit line [°C]
+
+
+@dataclass(frozen=True)
+class RatingsResult:
+    """The ratings at the highest ambient: continuous (S1) and the permitted stall times."""
+
+    ambient_C: float  #: the highest ambient [°C]
+    insulation_limit_C: float  #: the winding's class temperature the ratings run up to [°C]
+    continuous_torque_N_m: float  #: shaft torque whose S1 steady state puts the winding at its limit [N·m]
+    continuous_current_A: float  #: armature current there [A]
+    continuous_speed_rad_per_s: float  #: speed there, winding at its limit [rad/s]
+    continuous_output_power_W: float  #: torque times speed there [W]
+    stall_current_A: float  #: at stall from cold, at the drive's limit if it has one [A]
+    stall_time_cold_s: float | None  #: held at stall from ambient to the class limit; None if never [s]
+    stall_time_hot_s: float | None  #: held at stall from the S1 hot state (rated load) to the limit; None if never [s]
+    drive_limited: bool  #: the stall current is the drive's limit
+
+
+@dataclass(frozen=True)
+class EnvelopeResult:
+    """What one temperature case reaches inside the drive's current limit (the whole curve without one)."""
+
+    name: str  #: "cold", "nominal" or "hot"
+    limited: bool  #: a drive limit below the stall current bounds the envelope
+    torque_limit_N_m: float  #: torque at the current limit; the stall torque without one [N·m]
+    max_output_power_W: float  #: highest output power with the current inside the limit [W]
+    max_power_torque_N_m: float  #: where it is [N·m]
+    max_power_speed_rad_per_s: float  #: [rad/s]
+    chart_torque_max_N_m: float  #: the charts' default torque range ends here, a little past the limit [N·m]
+
+
+@dataclass(frozen=True)
+class CommutationResult:
+    """Brushes and commutator at the hot rated point (surface speed at the highest no-load speed)."""
+
+    brush_grade: str  #: brush material
+    brush_count: int  #: brushes in all, half of each polarity [1]
+    brush_width_m: float  #: along the commutator's circumference [m]
+    brush_length_m: float  #: along the shaft [m]
+    commutator_diameter_m: float  #: [m]
+    estimated_inputs: tuple[str, ...]  #: the brush keys the project left out and the tool estimated
+    brush_current_density_A_per_m2: float  #: armature current over the brushes of one polarity [A/m²]
+    brush_density_low_A_per_m2: float  #: lower end of the grade's continuous range (0 for a project limit) [A/m²]
+    brush_density_high_A_per_m2: float  #: upper end, or the project's own limit [A/m²]
+    limit_from_project: bool  #: the upper end is the project's limit, not the grade's
+    surface_speed_m_per_s: float  #: commutator peripheral speed at the highest no-load speed [m/s]
+    reactance_voltage_V: float  #: average reactance voltage of the coil in commutation, an estimate [V]
 
 
 @dataclass(frozen=True)
@@ -320,6 +429,9 @@ class Results:
     ambient_min_C: float = 20.0  #: coldest ambient [°C]
     ambient_nominal_C: float = 20.0  #: nominal ambient [°C]
     ambient_max_C: float = 20.0  #: hottest ambient [°C]
+    ratings: RatingsResult | None = None  #: continuous rating and permitted stall times
+    commutation: CommutationResult | None = None  #: brush current density, surface speed, reactance voltage
+    faults: FaultsResult | None = None  #: demagnetization with the supply applied directly, no limiter
 
     @property
     def cases(self) -> tuple[CaseResult, CaseResult, CaseResult]:

@@ -93,7 +93,21 @@ class ProjectInfo(_Section):
         None, pattern=r"^\d{4}-\d{2}-\d{2}$",
         description="Date of this revision as YYYY-MM-DD, shown on the datasheet as its issue date; leave out to "
                     "use the export date.")
-    notes: str = Field("", max_length=4000, description="Free notes printed on the datasheet.")
+    notes: str = Field("", max_length=4000, description="Free notes printed on the internal edition of the datasheet.")
+    part_number: str = Field("", max_length=60, description="Part number printed on the datasheet; leave out if none.")
+    customer: str = Field("", max_length=120, description="Customer the datasheet is made for; leave out if none.")
+    drawn_by: str = Field("", max_length=80, description="Who prepared the datasheet, printed beside the revision.")
+    logo: str = Field("", max_length=500,
+                      description="Path of a PNG or JPEG logo printed at the head of the datasheet, relative to the "
+                                  "project file or absolute; leave out for none.")
+
+    @field_validator("revision_date", mode="before")
+    @classmethod
+    def _toml_date_as_text(cls, value):
+        # TOML has a date type (revision_date = 2024-05-17, unquoted); the file means the same date.
+        if isinstance(value, datetime.datetime):
+            raise ValueError("is a date and time; write the date alone, YYYY-MM-DD")
+        return value.isoformat() if isinstance(value, datetime.date) else value
 
     @field_validator("revision_date")
     @classmethod
@@ -116,6 +130,10 @@ class Supply(_Section):
     reversing: bool = Field(
         True, description="Whether the application reverses the motor at speed (plugging); if so the reversal "
                           "current is checked.", json_schema_extra={"unit": ""})
+    fault_cases: Literal["must survive if reversing", "must survive", "report"] = choice(
+        "must survive if reversing",
+        "Whether the magnets must survive stall and reversal with the supply applied directly (a failed drive, "
+        "no limiter): a failing fault case fails the design, or is only reported with a warning.")
 
 
 class Load(_Section):
@@ -174,6 +192,10 @@ class Magnets(_Section):
     magnetization: Literal["radial", "parallel"] = choice(
         "radial", "Direction of magnetization: radial (along every radius) or parallel (along the magnet's centre "
                   "line); used by the field solution.")
+    required_margin_pct_of_HcJ: float = quantity(
+        5.0, "%", 0.0, 50.0,
+        "Least margin to the knee a demagnetization case must keep to count as safe, as a share of HcJ at the "
+        "case's temperature (5 % covers a batch's usual HcJ spread; common practice, no source).")
 
 
 class Motor(_Section):
@@ -258,10 +280,44 @@ class Thermal(_Section):
     convection_W_per_m2K: float = quantity(
         12.0, "W/(m2·K)", 1.0, 500.0,
         "Heat-transfer coefficient of the housing surface, used when no housing resistance is given.")
-    thermal_time_constant_min: float = quantity(15.0, "min", 0.1, 600.0,
-                                                "Thermal time constant of the motor as a whole.")
-    duty: Literal["S1", "S2"] = choice("S1", "IEC 60034-1 duty type: S1 continuous or S2 short-time.")
+    thermal_time_constant_min: float | None = quantity(
+        None, "min", 0.1, 600.0,
+        "Measured thermal time constant of the motor as a whole (the slow one); sets the housing node's heat "
+        "capacity; leave out to estimate it from the housing's and magnets' masses.")
+    winding_heat_capacity_J_per_K: float | None = quantity(
+        None, "J/K", 0.1, 1.0e6,
+        "Heat capacity of the winding node; leave out to take the copper's mass times 385 J/(kg·K).")
+    winding_to_magnet_K_per_W: float | None = quantity(
+        None, "K/W", 0.01, 1000.0,
+        "Thermal resistance across the air gap from the armature to the magnets; leave out to estimate it from "
+        "the magnets' face and 50 W/(m2·K) (common practice, no source).")
+    duty: Literal["S1", "S2", "S3"] = choice(
+        "S1", "IEC 60034-1 duty type: S1 continuous, S2 short-time or S3 intermittent periodic.")
     duty_minutes: float = quantity(10.0, "min", 1.0, 600.0, "Length of the S2 short-time run.")
+    cycle_duration_factor_pct: float = quantity(
+        40.0, "%", 1.0, 100.0, "S3: share of each cycle run at the rated load (IEC 60034-1 prefers 15, 25, 40, 60 %).")
+    cycle_minutes: float = quantity(10.0, "min", 0.1, 600.0,
+                                    "S3: length of one cycle, loaded and at rest (IEC 60034-1 takes 10 min).")
+
+
+class Brushes(_Section):
+    """``[brushes]``: the brushes and the commutator they run on."""
+
+    grade: Literal["carbon-graphite", "electrographite", "resin-bonded graphite", "copper-graphite",
+                   "silver-graphite"] = choice(
+        "electrographite", "Brush material; sets the current density it carries in continuous service.")
+    current_density_limit_A_per_cm2: float | None = quantity(
+        None, "A/cm2", 1.0, 100.0,
+        "Highest current density the brush maker allows in continuous service; leave out to use the grade's.")
+    count: int | None = quantity(
+        None, "", 2, 12, "Number of brushes, half of each polarity; leave out for 2 (wave) or one per pole (lap).")
+    width_mm: float | None = quantity(
+        None, "mm", 0.5, 50.0,
+        "Brush width along the commutator's circumference; leave out for 1.5 segment pitches.")
+    length_mm: float | None = quantity(
+        None, "mm", 0.5, 80.0, "Brush length along the shaft; leave out for 1.25 times its width.")
+    commutator_diameter_mm: float | None = quantity(
+        None, "mm", 3.0, 300.0, "Commutator diameter; leave out for 0.6 times the armature diameter.")
 
 
 class Rotor(_Section):
@@ -300,6 +356,7 @@ class Project(_Section):
     winding: Winding = Winding()
     losses: Losses = Losses()
     thermal: Thermal = Thermal()
+    brushes: Brushes = Brushes()
     rotor: Rotor = Rotor()
     prices: Prices = Prices()
 
@@ -310,9 +367,12 @@ SECTIONS = tuple(name for name in Project.model_fields if name != "format_versio
 #: a design quantity that is silently defaulted is a design quantity nobody chose.
 MAY_BE_LEFT_OUT = frozenset({
     "project.description", "project.revision", "project.notes",
+    "project.part_number", "project.customer", "project.drawn_by", "project.logo",
     "supply.reversing", "winding.multiplicity", "winding.end_turn_factor",
     "losses.iron_loss_build_factor", "thermal.duty_minutes", "rotor.extra_inertia_gcm2",
     "magnets.magnetization", "armature.shaft_magnetic",
+    "supply.fault_cases", "magnets.required_margin_pct_of_HcJ", "thermal.cycle_duration_factor_pct",
+    "thermal.cycle_minutes", "brushes.grade",
     "magnets.grade",  # or magnets.custom_grade: exactly one of them, checked below
 })
 

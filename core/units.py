@@ -79,6 +79,7 @@ _TO_SI: dict[str, float] = {
     "H": 1.0,
     "mH": 1e-3,
     "A/mm2": 1e6,
+    "A/cm2": 1e4,
     "W": 1.0,
     "hp": 745.69987158227022,
     # mass, density, inertia
@@ -93,12 +94,15 @@ _TO_SI: dict[str, float] = {
     "s": 1.0,
     "ms": 1e-3,
     "min": 60.0,
+    # speed of a surface
+    "m/s": 1.0,
     # sizing
     "kN·m/m3": 1e3,
     "Pa": 1.0,
     "kPa": 1e3,
     # thermal
     "K/W": 1.0,
+    "J/K": 1.0,
     "W/(m2·K)": 1.0,
     "1/K": 1.0,
     "%/K": 1e-2,

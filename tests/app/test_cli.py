@@ -5,15 +5,16 @@ from __future__ import annotations
 
 import csv
 import io
+import itertools
 import json
 import math
 import subprocess
 import sys
+import tomllib
 from pathlib import Path
 
 import pytest
 import tomli_w
-import tomllib
 
 from pmdc_sizer.app.cli import main
 from pmdc_sizer.core import library
@@ -53,7 +54,8 @@ REQUIRED_NUMBERS = [
     "magnetics.magnet_field_A_per_m", "magnetics.permeance_coefficient", "magnetics.housing_flux_density_T",
     "magnetics.tooth_flux_density_T", "magnetics.leakage_factor", "magnetics.carter_factor",
     "magnet.remanence_T", "magnet.coercivity_HcJ_A_per_m",
-    "constants.ke_V_s_per_rad", "constants.kt_N_m_per_A", "constants.ke_V_per_krpm", "constants.terminal_resistance_ohm",
+    "constants.ke_V_s_per_rad", "constants.kt_N_m_per_A", "constants.ke_V_per_krpm",
+    "constants.terminal_resistance_ohm",
     "performance.no_load_speed_rpm", "performance.no_load_current_A", "performance.stall_torque_N_m",
     "performance.stall_current_A", "performance.max_efficiency", "performance.max_output_power_W",
     "performance.rated.torque_N_m", "performance.rated.speed_rpm", "performance.rated.current_A",
@@ -81,7 +83,8 @@ def test_evaluate_json_has_every_required_key(capsys, demo_path):
     for case in cases:
         for key in CASE_KEYS:
             assert key in case, key
-        assert math.isclose(case["margin_A_per_m"], case["magnet_field_A_per_m"] - case["knee_field_A_per_m"], rel_tol=1e-12)
+        assert math.isclose(case["margin_A_per_m"], case["magnet_field_A_per_m"] - case["knee_field_A_per_m"],
+                            rel_tol=1e-12)
         assert case["ok"] == (case["margin_A_per_m"] > 0.0)
     assert lookup(data, "demagnetization.worst_case") in {c["name"] for c in cases}
     for name in ("cold", "hot"):
@@ -98,9 +101,11 @@ def test_json_agrees_with_the_library_and_the_units(capsys):
     file_data = tomllib.loads(FERRITE.read_text(encoding="utf-8"))
     grade = library.magnet_grades()[file_data["magnets"]["grade"]]
     nominal = file_data["temperatures"]["ambient_nominal_C"]
-    assert math.isclose(data["magnet"]["remanence_T"], grade.remanence * (1 + grade.remanence_temp_coeff * (nominal - 20)), rel_tol=1e-12)
+    assert math.isclose(data["magnet"]["remanence_T"],
+                        grade.remanence * (1 + grade.remanence_temp_coeff * (nominal - 20)), rel_tol=1e-12)
     # rpm at the edge, rad/s in the core: 1 rpm = 2π/60 rad/s
-    assert math.isclose(data["constants"]["ke_V_per_krpm"], data["constants"]["ke_V_s_per_rad"] * 2000 * math.pi / 60, rel_tol=1e-12)
+    assert math.isclose(data["constants"]["ke_V_per_krpm"], data["constants"]["ke_V_s_per_rad"] * 2000 * math.pi / 60,
+                        rel_tol=1e-12)
 
 
 def test_set_overrides_a_key_for_this_run(capsys):
@@ -192,13 +197,15 @@ def test_the_installed_command_prints_no_traceback(tmp_path):
     # The real console entry point in a fresh interpreter: bad file → exit 2, one stderr line.
     path = tmp_path / "broken.toml"
     path.write_text("format_version = 1\n[supply\n", encoding="utf-8")
-    done = subprocess.run([sys.executable, "-m", "pmdc_sizer.app.cli", "evaluate", str(path)], capture_output=True, text=True,
+    done = subprocess.run([sys.executable, "-m", "pmdc_sizer.app.cli", "evaluate", str(path)], capture_output=True,
+                          text=True,
                           cwd=REPO, timeout=120)
     assert done.returncode == 2
     assert done.stdout == ""
     assert len(done.stderr.splitlines()) == 1 and "Traceback" not in done.stderr
     assert "TOML" in done.stderr
-    good = subprocess.run([sys.executable, "-m", "pmdc_sizer.app.cli", "evaluate", str(FERRITE), "--json"], capture_output=True,
+    good = subprocess.run([sys.executable, "-m", "pmdc_sizer.app.cli", "evaluate", str(FERRITE), "--json"],
+                          capture_output=True,
                           text=True, cwd=REPO, timeout=120)
     assert good.returncode == 0 and json.loads(good.stdout)["magnetics"]["flux_per_pole_Wb"] > 0.0
 
@@ -236,12 +243,12 @@ def test_grades_json(capsys):
 
 def test_grades_json_includes_user_grades(capsys, _isolated_user_library):
     (_isolated_user_library / "mine.toml").write_text(tomli_w.dumps({"grade": [{
-        "name": "lot 42", "family": "SmCo 2:17", "remanence_T": 1.05, "coercivity_HcB_kA_per_m": 780.0,
+        "name": "lot 42", "family": "SmCo 2:17", "remanence_T": 1.05, "coercivity_HcB_kA_per_m": 810.0,
         "coercivity_HcJ_kA_per_m": 1900.0, "energy_product_kJ_per_m3": 210.0, "recoil_permeability": 1.03,
         "squareness": 0.8, "remanence_temp_coeff_pct_per_K": -0.035, "coercivity_temp_coeff_pct_per_K": -0.2,
         "max_working_temperature_C": 300.0, "density_kg_per_m3": 8400.0, "source": "test"}]}), encoding="utf-8")
     library.reload()
-    status, out, _ = run(capsys, "grades", "--json")
+    _status, out, _ = run(capsys, "grades", "--json")
     row = next(r for r in json.loads(out) if r["name"] == "lot 42")
     assert row["user_library"] is True and row["coercivity_HcJ_A_per_m"] == 1.9e6
 
@@ -263,7 +270,7 @@ def test_curves_csv_header_names_units(capsys, demo_path):
     for start in (0, 200, 400):
         speeds = [float(r[speed]) for r in body[start:start + 200]]
         assert speeds[0] > speeds[-1] == 0.0
-        assert all(a >= b for a, b in zip(speeds, speeds[1:]))
+        assert all(a >= b for a, b in itertools.pairwise(speeds))
 
 
 def test_curves_to_a_file_and_one_case(capsys, tmp_path):
@@ -276,5 +283,5 @@ def test_curves_to_a_file_and_one_case(capsys, tmp_path):
 
 
 def test_curves_into_a_missing_folder_exits_2(capsys, tmp_path):
-    status, out, err = run(capsys, "curves", FERRITE, "--csv", "-o", tmp_path / "nowhere" / "x.csv")
+    status, _out, err = run(capsys, "curves", FERRITE, "--csv", "-o", tmp_path / "nowhere" / "x.csv")
     assert status == 2 and len(err.splitlines()) == 1 and "does not exist" in err

@@ -7,6 +7,7 @@ import json
 import pytest
 
 from pmdc_sizer.app.cli import main
+from pmdc_sizer.app.safety import SHORT_CAUTION
 from pmdc_sizer.core import difference
 from tests.conftest import DEMO_FOLDER
 
@@ -75,8 +76,9 @@ def test_unreachable_refit_exits_1_with_one_line_and_still_prints(capsys):
 def test_table_shows_key_figures_checks_and_cautions(capsys):
     status, out, _ = run(capsys, "compare", FERRITE, "--grade-b", "N42")
     assert status == 0
-    for text in ("A: ", "B: ", "B − A", "Ke = Kt [V·s/rad]", "No-load speed [rpm]", "Magnet mass [g]",
-                 "Checks of A:", "Checks of B:", "FAIL  Demagnetization", "defer to local codes"):
+    for text in ("A: ", "B: ", "B − A", "Back-EMF constant Ke [V/krpm]", "Torque constant Kt [mN·m/A]",
+                 "No-load speed [rpm]", "Magnet mass [g]", "Speed at rated torque, hot [rpm]", "Checks of A:",
+                 "Checks of B:", "FAIL  Demagnetization", SHORT_CAUTION):
         assert text in out
 
 

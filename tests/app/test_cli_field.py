@@ -6,7 +6,6 @@ import json
 import math
 from pathlib import Path
 
-import pytest
 from PySide6.QtGui import QImage
 
 from pmdc_sizer.app.cli import main

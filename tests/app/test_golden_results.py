@@ -37,7 +37,7 @@ def _differences(stored, current, key=""):
         if not isinstance(current, list) or len(current) != len(stored):
             yield f"{key}: list changed length"
             return
-        for index, (a, b) in enumerate(zip(stored, current)):
+        for index, (a, b) in enumerate(zip(stored, current, strict=False)):
             yield from _differences(a, b, f"{key}[{index}]")
     elif isinstance(stored, float) and isinstance(current, (int, float)) and not isinstance(current, bool):
         if not math.isclose(stored, current, rel_tol=RELATIVE_TOLERANCE, abs_tol=1e-300):

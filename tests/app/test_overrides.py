@@ -55,5 +55,5 @@ def test_overrides_reach_into_an_inline_custom_grade(tmp_path):
     project = pf.load(write(tmp_path, with_custom_grade()))
     changed = apply_overrides(project, ["magnets.custom_grade.coercivity_HcJ_kA_per_m=260"])
     assert changed.magnets.custom_grade.coercivity_HcJ_kA_per_m == 260.0
-    with pytest.raises(ProjectError, match="magnets.custom_grade.coercivity_HcB_kA_per_m"):
+    with pytest.raises(ProjectError, match=r"magnets\.custom_grade\.coercivity_HcB_kA_per_m"):
         apply_overrides(project, ["magnets.custom_grade.coercivity_HcB_kA_per_m=300"])  # above HcJ

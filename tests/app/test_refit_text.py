@@ -27,7 +27,8 @@ def test_a_reached_thickness_refit_says_what_changed_and_how_close(ferrite):
     fit = refit.refit("ke", evaluate(design_a), difference.with_grade(design_a, "N42"))
     message = refit_message(fit)
     assert message.startswith("B's magnet thickness goes from 10 mm to ")
-    assert f"A's {target_title('ke')} of {figure('constants.ke_V_s_per_rad').text(fit.target_value, digits=4)}" in message
+    goal = figure("constants.ke_V_s_per_rad").text(fit.target_value, digits=4)
+    assert f"A's {target_title('ke')} of {goal}" in message
     assert message.endswith("(within 0.01 %).") or "(off by" in message
 
 

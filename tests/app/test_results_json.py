@@ -35,7 +35,8 @@ def test_plain_renames_speeds_drops_arrays_and_nan():
         flag=np.bool_(True), missing=float("nan"), nested=({"x": np.float64(1.5)},),
     )
     data = _plain(sample)
-    assert set(data) == {"speed_rpm", "speed_torque_gradient_rpm_per_N_m", "torque_N_m", "count", "flag", "missing", "nested"}
+    assert set(data) == {"speed_rpm", "speed_torque_gradient_rpm_per_N_m", "torque_N_m", "count", "flag", "missing",
+                         "nested"}
     assert data["nested"] == [{"x": 1.5}] and data["count"] == 7 and data["flag"] is True
     assert_allclose(data["speed_rpm"], 3000.0, rtol=1e-14)
     assert_allclose(data["speed_torque_gradient_rpm_per_N_m"], 60.0, rtol=1e-14)
@@ -52,7 +53,8 @@ def test_results_json_layout(ferrite_demo):
     assert json.loads(text) == data
     assert data["performance"] == data["cases"]["nominal"]
     assert set(data["cases"]) == {"cold", "nominal", "hot"}
-    assert_allclose(data["cases"]["hot"]["no_load_speed_rpm"], from_si(results.hot.no_load_speed_rad_per_s, "rpm"), rtol=1e-14)
+    assert_allclose(data["cases"]["hot"]["no_load_speed_rpm"], from_si(results.hot.no_load_speed_rad_per_s, "rpm"),
+                    rtol=1e-14)
     assert data["warnings"] == results.warnings
     assert [c["key"] for c in data["checks"]] == [c.key for c in results.checks]
     assert all(set(c) == {"key", "title", "status", "message", "advice"} for c in data["checks"])

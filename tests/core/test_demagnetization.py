@@ -38,7 +38,8 @@ def test_rotor_removed_circuit_drives_the_magnet_further_down(demo_path):
                     rtol=1e-14)
     assert float(open_circuit.tooth_path) == 0.0 and float(open_circuit.core_path) == 0.0
     # the edge-to-edge leakage across the gap becomes part of the open path; the rest stays
-    assert_allclose(open_circuit.leakage_permeance, circuit.leakage_permeance - circuit.edge_leakage_permeance, rtol=1e-14)
+    assert_allclose(open_circuit.leakage_permeance, circuit.leakage_permeance - circuit.edge_leakage_permeance,
+                    rtol=1e-14)
     assert 0.0 < float(circuit.edge_leakage_permeance) < float(circuit.leakage_permeance)
     for temperature in (-20.0, 60.0):
         rotor_in = mc.solve(design.magnet, temperature, circuit, design.housing_steel, design.lamination_steel)

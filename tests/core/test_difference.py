@@ -2,12 +2,9 @@
 
 from __future__ import annotations
 
-import math
-
 import pytest
-from numpy.testing import assert_allclose
 
-from pmdc_sizer.core import difference, evaluate, project, refit
+from pmdc_sizer.core import difference, evaluate, project
 from pmdc_sizer.core.project import ProjectError
 
 #: The issue asks re-fits to meet their target within 0.5 %.
@@ -78,7 +75,7 @@ def test_nested_difference_of_json_keeps_the_keys_and_holds_numbers_only(ferrite
 def test_with_grade_swaps_a_library_grade_and_refuses_an_unknown_one(ferrite):
     design, _ = ferrite
     assert difference.with_grade(design, "N42").magnets.grade == "N42"
-    with pytest.raises(ProjectError, match="magnets.grade"):
+    with pytest.raises(ProjectError, match=r"magnets\.grade"):
         difference.with_grade(design, "N99XX")
 
 

@@ -7,8 +7,8 @@ import dataclasses
 import math
 
 import numpy as np
-import pytest
-from hypothesis import HealthCheck, assume, given, settings, strategies as st
+from hypothesis import HealthCheck, assume, given, settings
+from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 
 from pmdc_sizer.core import library
@@ -16,7 +16,6 @@ from pmdc_sizer.core import project as pf
 from pmdc_sizer.core.conductors import COPPER_TEMP_COEFF_20C
 from pmdc_sizer.core.evaluate import Results, evaluate
 from pmdc_sizer.core.project import ProjectError
-from pmdc_sizer.core.units import from_si
 
 DEMO_FOLDER = __import__("pathlib").Path(__file__).resolve().parents[2] / "demo_projects"
 FERRITE_DEMO = DEMO_FOLDER / "appliance_ferrite_12v.toml"
@@ -40,7 +39,9 @@ def test_kt_equals_ke_in_si(demo_path):
     c = r.constants
     assert_allclose(c.kt_N_m_per_A, c.ke_V_s_per_rad, rtol=1e-12)
     # Ke from the voltage equation and Kt from the torque balance at every curve point of every case:
-    # E·I = K·ω·I is the power that leaves the circuit and enters the shaft (any DC-machine text).
+    # E·I = K·ω·I is the power that leaves the circuit and enters the shaft (any DC-machine text). The
+    # flux falls with current, so both equal K·Φ(I) at that point's current, Φ(I) as the case reports it
+    # (interpolated in I², as the results say).
     for case in r.cases:
         curve = case.curve
         moving = curve.speed_rad_per_s > 1e-6 * case.no_load_speed_rad_per_s
@@ -48,8 +49,10 @@ def test_kt_equals_ke_in_si(demo_path):
         ke = (r.supply_voltage_V - r.brush_drop_V - case.terminal_resistance_ohm * current) / speed
         mechanical = curve.output_power_W + curve.friction_loss_W + curve.viscous_loss_W + curve.iron_loss_W
         kt = mechanical[moving] / (speed * current)
-        assert_allclose(ke, case.ke_V_s_per_rad, rtol=1e-9)
-        assert_allclose(kt, case.ke_V_s_per_rad, rtol=1e-9)
+        expected = c.machine_constant * np.interp(current**2, case.flux_current_A**2, case.flux_under_load_Wb)
+        assert_allclose(ke, expected, rtol=1e-9)
+        assert_allclose(kt, expected, rtol=1e-9)
+        assert_allclose(expected[0], case.ke_V_s_per_rad, rtol=1e-3)  # near no load the flux is the no-load one
 
 
 def test_constants_in_datasheet_units(demo_path):
@@ -58,7 +61,8 @@ def test_constants_in_datasheet_units(demo_path):
     c = demo_results(demo_path).constants
     assert_allclose(c.ke_V_per_krpm, c.ke_V_s_per_rad * 1000.0 * 2.0 * math.pi / 60.0, rtol=1e-14)
     assert_allclose(c.kt_mN_m_per_A, c.kt_N_m_per_A * 1000.0, rtol=1e-14)
-    assert_allclose(c.ke_V_s_per_rad, c.machine_constant * demo_results(demo_path).magnetics.flux_per_pole_Wb, rtol=1e-14)
+    assert_allclose(c.ke_V_s_per_rad, c.machine_constant * demo_results(demo_path).magnetics.flux_per_pole_Wb,
+                    rtol=1e-14)
 
 
 def test_power_balance_at_every_curve_point(demo_path):
@@ -83,14 +87,18 @@ def test_stall_current_and_resistance_at_each_case_temperature(demo_path):
         # IEC 60028: R(T) = R20·(1 + 0.00393·(T - 20 °C)), at the case's winding temperature
         expected_r = r20 * (1.0 + COPPER_TEMP_COEFF_20C * (case.winding_temperature_C - 20.0))
         assert_allclose(case.terminal_resistance_ohm, expected_r, rtol=1e-12)
-        assert_allclose(case.stall_current_A, (r.supply_voltage_V - r.brush_drop_V) / case.terminal_resistance_ohm, rtol=1e-12)
+        assert_allclose(case.stall_current_A, (r.supply_voltage_V - r.brush_drop_V) / case.terminal_resistance_ohm,
+                        rtol=1e-12)
 
 
 def test_no_load_speed_from_the_voltage_equation(demo_path):
     r = demo_results(demo_path)
     for case in r.cases:
         back_emf = r.supply_voltage_V - r.brush_drop_V - case.terminal_resistance_ohm * case.no_load_current_A
-        assert_allclose(case.no_load_speed_rad_per_s, back_emf / case.ke_V_s_per_rad, rtol=1e-12)
+        # Ke = K·Φ at the no-load current, Φ(I) as the case reports it
+        flux = np.interp(case.no_load_current_A**2, case.flux_current_A**2, case.flux_under_load_Wb)
+        ke = r.constants.machine_constant * flux
+        assert_allclose(case.no_load_speed_rad_per_s, back_emf / ke, rtol=1e-12)
 
 
 def test_case_temperatures(demo_path):
@@ -153,9 +161,12 @@ def test_reversal_current_is_supply_plus_back_emf_over_resistance():
     r = evaluate(project)
     for case_name, case in (("cold", r.cold), ("hot", r.hot)):
         reversal = next(c for c in r.demagnetization.cases if c.kind == "reversal" and c.name.endswith(case_name))
-        back_emf = case.ke_V_s_per_rad * case.no_load_speed_rad_per_s
+        # the back-EMF with the flux at the reversal current itself (the armature's reaction lowers it)
+        flux = np.interp(reversal.current_A**2, case.flux_current_A**2, case.flux_under_load_Wb)
+        ke = r.constants.machine_constant * flux
+        back_emf = ke * case.no_load_speed_rad_per_s
         expected = (r.supply_voltage_V + back_emf - r.brush_drop_V) / case.terminal_resistance_ohm
-        assert_allclose(reversal.current_A, expected, rtol=1e-12)
+        assert_allclose(reversal.current_A, expected, rtol=1e-9)
         stall = next(c for c in r.demagnetization.cases if c.kind == "stall" and c.name.endswith(case_name))
         assert reversal.margin_A_per_m < stall.margin_A_per_m
 
@@ -173,7 +184,8 @@ def test_a_failing_case_gets_advice_in_the_warnings():
 def test_meets_load_flags(demo_path):
     r = demo_results(demo_path)
     for case in r.cases:
-        assert case.meets_load == (case.rated_reached and case.rated.speed_rad_per_s >= r.load_speed_rad_per_s * (1 - 1e-9))
+        fast_enough = case.rated.speed_rad_per_s >= r.load_speed_rad_per_s * (1 - 1e-9)
+        assert case.meets_load == (case.rated_reached and fast_enough)
 
 
 # Field names that carry no unit suffix because they are dimensionless, counts, names or flags.
@@ -182,18 +194,24 @@ _UNITLESS = {
     "efficiency", "max_efficiency", "leakage_factor", "carter_factor", "permeance_coefficient", "machine_constant",
     "magnet_embrace", "slot_fill_bare", "slot_fill_gross", "parallel_paths", "commutator_segments",
     "turns_per_coil", "conductors", "conductors_per_slot", "coil_span_slots", "enamel_grade", "iterations",
-    "converged", "ok", "rated_reached", "meets_load", "curve", "curves", "checks", "magnet_chart",
+    "converged", "ok", "rated_reached", "meets_load", "magnet_area_past_knee_fraction", "curve", "curves", "checks",
+    "magnet_chart",
     "poles", "slots", "reversing", "key", "title", "status", "message", "advice",
+    "steady_state_exists", "steady_state_s1_exists", "drive_limited", "cycle_duration_factor",
+    "envelope", "limited",
+    "brush_grade", "brush_count", "estimated_inputs", "limit_from_project", "must_survive",
+    "required_margin_share", "faults", "commutation",
     # sub-results (dataclasses, named for what they hold)
     "magnet", "geometry", "magnetics", "winding", "constants", "cold", "nominal", "hot", "demagnetization",
     "thermal", "mass", "cost", "sizing", "cases", "rated", "max_efficiency_point", "max_power_point",
+    "ratings", "transient",
     # cost amounts are in the currency named beside them
     "copper", "housing", "lamination", "total",
 }
 _UNIT_SUFFIXES = ("_T", "_A_per_m", "_Wb", "_m", "_m2", "_m3", "_kg", "_kg_m2", "_kg_per_m3", "_W", "_A", "_ohm",
                   "_C", "_s", "_rad_per_s", "_N_m", "_V", "_V_s_per_rad", "_V_per_krpm", "_N_m_per_A",
                   "_mN_m_per_A", "_A_per_m2", "_K_per_W", "_H_estimate", "_s_estimate", "_minutes",
-                  "_rad_per_s_per_N_m", "_Pa", "_N_m_per_m3", "_rad")
+                  "_rad_per_s_per_N_m", "_Pa", "_N_m_per_m3", "_rad", "_J_per_K")
 
 
 def test_every_result_field_names_its_unit(ferrite_demo):
@@ -262,7 +280,8 @@ def _perturbed(base: pf.Project, draw, grades) -> pf.Project:
         changes["supply.current_limit_A"] = draw(st.floats(1.0, 200.0))
     else:
         changes["supply.current_limit_A"] = None
-    changes["temperatures.ambient_nominal_C"] = 0.5 * (changes["temperatures.ambient_min_C"] + changes["temperatures.ambient_max_C"])
+    changes["temperatures.ambient_nominal_C"] = 0.5 * (changes["temperatures.ambient_min_C"]
+                                                       + changes["temperatures.ambient_max_C"])
     try:
         return pf.with_values(base, changes)
     except ProjectError:
@@ -271,7 +290,8 @@ def _perturbed(base: pf.Project, draw, grades) -> pf.Project:
 
 FERRITE_GRADES = sorted(n for n, g in library.magnet_grades().items() if g.family.startswith("hard ferrite"))
 NDFEB_GRADES = sorted(n for n, g in library.magnet_grades().items() if g.family == "sintered NdFeB")
-_PROPERTY = settings(max_examples=40 if settings().max_examples <= 100 else settings().max_examples, deadline=None, suppress_health_check=[HealthCheck.filter_too_much, HealthCheck.too_slow])
+_PROPERTY = settings(max_examples=40 if settings().max_examples <= 100 else settings().max_examples, deadline=None,
+                     suppress_health_check=[HealthCheck.filter_too_much, HealthCheck.too_slow])
 
 
 @st.composite
@@ -334,10 +354,14 @@ def test_ndfeb_drive_limited_demos_are_worst_hot():
         assert worst_case_of(r).temperature_C > r.cold.ambient_C
 
 
-def test_ndfeb_with_unlimited_stall_current_can_be_worst_cold():
+def test_ndfeb_with_unlimited_stall_current_is_worst_hot_although_cold_copper_passes_more():
     # The competing effect named above, pinned so that a change in it is seen: the power-tool demo
     # with N35, thin magnets, two turns per coil and no current limit stalls at over a kilo-ampere;
-    # cold copper passes more of it, and the cold stall is the worst case although HcJ is higher cold.
+    # cold copper passes 44 % more of it, but the teeth saturate at such currents and the field the
+    # armature drives into the magnet grows much less than the current, so the hot stall, with the lower
+    # knee, is the worst. Source: the built-in field solution of this design (core.field, default mesh):
+    # worst field -1758 kA/m cold at 2267 A (knee -989), -1512 kA/m hot at 1572 A (knee -559), margins
+    # -769 and -953 kA/m; the lumped tip model said the opposite.
     project = pf.with_values(pf.load(NDFEB_DEMOS[1]), {
         "supply.current_limit_A": None, "supply.reversing": False, "magnets.grade": "N35", "magnets.thickness_mm": 2.5,
         "winding.turns_per_coil": 2, "load.torque_mNm": 0.0, "temperatures.ambient_min_C": 0.0,
@@ -348,7 +372,9 @@ def test_ndfeb_with_unlimited_stall_current_can_be_worst_cold():
     stall_hot = next(c for c in r.demagnetization.cases if c.name == "stall, hot")
     assert stall_cold.knee_field_A_per_m < stall_hot.knee_field_A_per_m  # the magnet is stronger cold
     assert stall_cold.current_A > 1.1 * stall_hot.current_A  # but the cold copper passes more current
-    assert r.demagnetization.worst_case == "stall, cold"
+    assert r.demagnetization.worst_case == "stall, hot"
+    # within 10 % of the field solution's worst field (the target)
+    assert_allclose([stall_cold.magnet_field_A_per_m, stall_hot.magnet_field_A_per_m], [-1758e3, -1512e3], rtol=0.10)
 
 
 @_PROPERTY
@@ -361,10 +387,14 @@ def test_results_are_finite_and_physical(project):
         curve = case.curve
         assert np.all((curve.efficiency >= 0.0) & (curve.efficiency <= 1.0))
         assert 0.0 <= case.max_efficiency <= 1.0 and 0.0 <= case.rated.efficiency <= 1.0
-        moving = curve.speed_rad_per_s > 0.0
-        assert np.all(np.diff(curve.speed_rad_per_s) <= 0.0)
-        assert np.all(np.diff(curve.speed_rad_per_s[moving]) < 0.0)  # strictly, until stall
-        losses = curve.copper_loss_W + curve.brush_loss_W + curve.friction_loss_W + curve.viscous_loss_W + curve.iron_loss_W
+        # Along the curve the current rises with the torque, to stall. The speed need not fall everywhere:
+        # where the armature's reaction lowers the flux faster than the resistive drop lowers the
+        # back-EMF (kilo-ampere variants of the drill), it rises, as a DC motor's characteristic does
+        # under strong armature reaction (Fitzgerald, Kingsley and Umans, ch. 7, from memory).
+        assert np.all(np.diff(curve.current_A) >= -1e-9 * np.max(curve.current_A))
+        assert curve.speed_rad_per_s[-1] < 1e-9 * case.no_load_speed_rad_per_s or case.stall_torque_N_m == 0.0
+        losses = (curve.copper_loss_W + curve.brush_loss_W + curve.friction_loss_W + curve.viscous_loss_W
+                  + curve.iron_loss_W)
         assert_allclose(curve.input_power_W, curve.output_power_W + losses, rtol=1e-9)
         assert np.all(losses >= 0.0)
     assert r.hot.no_load_speed_rad_per_s > r.cold.no_load_speed_rad_per_s

@@ -15,8 +15,8 @@ NO_IRON = pm.IronLossTerms(0.0, 0.0, 0.0)
 
 
 def model(**changes) -> pm.MotorModel:
-    values = dict(voltage=24.0, brush_drop=1.2, resistance=0.8, constant=0.05, friction_torque=4e-3,
-                  viscous_coeff=2e-6, iron=pm.IronLossTerms(3e-3, 1e-7, 2e-5))
+    values = {"voltage": 24.0, "brush_drop": 1.2, "resistance": 0.8, "constant": 0.05, "friction_torque": 4e-3,
+              "viscous_coeff": 2e-6, "iron": pm.IronLossTerms(3e-3, 1e-7, 2e-5)}
     values.update(changes)
     return pm.MotorModel(**values)
 

@@ -43,7 +43,8 @@ def test_refit_ke_by_thickness_sintered_ndfeb_against_ferrite_needs_a_much_thinn
 
 def test_refit_ke_stops_at_the_envelope_and_names_it(ferrite):
     design, results_a = ferrite
-    weak = project.with_values(difference.with_grade(design, "ferrite isotropic"), {"housing.max_outer_diameter_mm": 46.0})
+    weak = project.with_values(difference.with_grade(design, "ferrite isotropic"),
+                               {"housing.max_outer_diameter_mm": 46.0})
     fit = refit.refit("ke", results_a, weak)
     assert not fit.reached
     # 46 mm = 24 + 2·(0.4 + t + 4.5) → t = 6.1 mm is the thickest arc the envelope takes.

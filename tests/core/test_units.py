@@ -21,7 +21,7 @@ GAUSSIAN_RTOL = 1e-9
 
 def test_mu_0_is_the_codata_value():
     # Source: scipy.constants (CODATA 2018), an independent reference for the vacuum permeability.
-    assert units.MU_0 == constants.mu_0
+    assert constants.mu_0 == units.MU_0
     assert_allclose(units.MU_0, 4e-7 * math.pi, rtol=1e-9)  # 2019 SI: within 1e-9 of 4π·1e-7 H/m
 
 
@@ -88,12 +88,13 @@ def test_engineering_units_against_pint(ours, pint_unit, si_unit):
 def test_fahrenheit_against_pint():
     # Source: pint offset units.
     for value in (-40.0, 32.0, 212.0, 98.6):
-        assert_allclose(units.to_si(value, "°F"), UREG.Quantity(value, "degF").to("degC").magnitude, rtol=1e-12, atol=1e-12)
+        assert_allclose(units.to_si(value, "°F"), UREG.Quantity(value, "degF").to("degC").magnitude,
+                        rtol=1e-12, atol=1e-12)
     assert_allclose(units.temperature_difference_to_si(9.0, "°F"), 5.0)
     assert units.to_si(25.0, "°C") == 25.0
 
 
-@pytest.mark.parametrize("unit", [u for u in units.known_units()])
+@pytest.mark.parametrize("unit", list(units.known_units()))
 def test_round_trip_through_si_for_every_unit(unit):
     values = np.array([-3.5, 0.0, 1.0, 1234.5])
     assert_allclose(units.from_si(units.to_si(values, unit), unit), values, rtol=1e-13, atol=1e-12)
