@@ -11,14 +11,6 @@ from pmdc_sizer.core.project import ProjectError
 TARGET_TOLERANCE = 5e-3
 
 
-@pytest.fixture(scope="module")
-def ferrite(request):
-    from tests.conftest import DEMO_FOLDER
-
-    design = project.load(DEMO_FOLDER / "appliance_ferrite_12v.toml")
-    return design, evaluate(design)
-
-
 def test_a_design_compared_with_itself_differs_in_nothing(demo_path):
     design = project.load(demo_path)
     comparison = difference.compare(design, design)

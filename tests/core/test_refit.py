@@ -13,14 +13,6 @@ from pmdc_sizer.core import difference, evaluate, project, refit
 TARGET_TOLERANCE = 5e-3
 
 
-@pytest.fixture(scope="module")
-def ferrite(request):
-    from tests.conftest import DEMO_FOLDER
-
-    design = project.load(DEMO_FOLDER / "appliance_ferrite_12v.toml")
-    return design, evaluate(design)
-
-
 def test_refit_ke_by_thickness_sintered_ndfeb_against_ferrite_needs_a_much_thinner_magnet(ferrite):
     # A ferrite motor with 10 mm arcs; N42 in the same frame should need a small fraction of that.
     # Common practice, no source: Br of sintered NdFeB is about three times that of hard ferrite, so
