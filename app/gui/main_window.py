@@ -57,6 +57,7 @@ from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import Project, ProjectError
 
 from . import compare_view, export_dialog, field_view
+from .collection import collect_on_gui_thread
 from .crash_dialog import active_main_window, install_exception_hook
 from .cross_section import CrossSection
 from .display_units import DisplayUnits
@@ -95,6 +96,7 @@ class MainWindow(QMainWindow):
 
     def __init__(self, project: Project | None = None, path: str | os.PathLike | None = None):
         super().__init__()
+        collect_on_gui_thread()  # before any worker thread starts (see app/gui/collection.py)
         self.settings = load_settings()
         self.display = DisplayUnits(self.settings.display_units)
         self.current_path: Path | None = Path(path) if path else None

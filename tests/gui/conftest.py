@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import gc
+
 import pytest
 
 
@@ -46,3 +48,8 @@ def open_window(qtbot):
         window.evaluator.wait(5000)
         window.close()
         window.deleteLater()
+    # Windows and their cycles go here, on the GUI thread, not in a later test's worker thread.
+    from PySide6.QtCore import QCoreApplication, QEvent
+
+    QCoreApplication.sendPostedEvents(None, QEvent.Type.DeferredDelete)
+    gc.collect()
