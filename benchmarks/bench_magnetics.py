@@ -95,9 +95,16 @@ def main() -> None:
     network_ms = statistics.median(network_times) * 1e3
     part = slice(0, NETWORK_SWEEP_SIZE)
     network_sweep = dataclasses.replace(geometry, magnet_thickness=thickness[part], airgap=gap[part])
-    start = time.perf_counter()
-    network(network_sweep, temperature[part])
-    network_per_s = NETWORK_SWEEP_SIZE / (time.perf_counter() - start)
+    sweep_times, sweep_cpu = [], []
+    for _ in range(3):  # the best of three, as for the lumped sweep (the machine is shared)
+        start, start_cpu = time.perf_counter(), time.process_time()
+        solution = network(network_sweep, temperature[part])
+        sweep_times.append(time.perf_counter() - start)
+        sweep_cpu.append(time.process_time() - start_cpu)
+    network_per_s = NETWORK_SWEEP_SIZE / min(sweep_times)
+    print(f"reluctance network sweep: {min(sweep_times) * 1e3:.0f} ms wall, {min(sweep_cpu) * 1e3:.0f} ms of this "
+          f"process's CPU time ({NETWORK_SWEEP_SIZE / min(sweep_cpu):,.0f} designs per CPU-second), "
+          f"{solution.iterations.mean():.2f} Newton steps per design")
     print(f"reluctance network: scalar solve (building included), median of 50: {network_ms:.3f} ms; "
           f"vectorised sweep of {NETWORK_SWEEP_SIZE} designs: {network_per_s:,.0f} designs/s (target >= 200,000: "
           f"{'met' if network_per_s >= 2e5 else 'NOT met'})")

@@ -190,13 +190,8 @@ def field_and_slope(steel: Steel, flux_density: np.ndarray) -> tuple[np.ndarray,
     ----------
     .. [1] Fritsch and Carlson 1980 (the PCHIP table of core.steel), read cell by cell.
     """
-    # The steel's own uniform table (a cached property of core.steel.Steel): the slope of the cell
-    # that Steel.field_for interpolates in, so residual and Jacobian agree exactly.
-    inverse_step, _nodes, slopes, last_b, _last_h = steel._uniform_lookup
-    b = np.abs(flux_density)
-    cell = (np.fmin(b, last_b) * inverse_step).astype(np.intp)
-    slope = np.where(b > last_b, 1.0 / MU_0, slopes[cell])
-    return steel.field_for(flux_density), slope
+    field, slope = steel.field_and_slope(flux_density)
+    return field, slope
 
 
 def _layout(embrace: np.ndarray, pole_pitch: np.ndarray):

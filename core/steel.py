@@ -76,15 +76,40 @@ class Steel:
         return dense_b, spline(dense_b)
 
     @cached_property
-    def _uniform_lookup(self) -> tuple[float, np.ndarray, np.ndarray, float, float]:
-        """The dense table as (1/ΔB, H at each node, slope of each cell, last B, last H) for an O(1)
-        lookup: the grid is uniform in B, so the cell index is a multiplication, not a search."""
+    def _cells(self) -> tuple[float, np.ndarray, np.ndarray]:
+        """The dense table as cells of a uniform grid in B, for an O(1) lookup: (1/ΔB, H at each node, the
+        rise of H over each cell). The grid is uniform, so a cell's index is a multiplication, not a
+        search; the last cell, from the last data point on, rises with the slope of free space (ΔB/μ0)."""
         dense_b, dense_h = self._dense_table
         step = dense_b[1] - dense_b[0]
-        slopes = np.diff(dense_h) / step
-        # one extra cell continuing the last slope keeps index arithmetic simple at B = B_last
-        slopes = np.append(slopes, slopes[-1])
-        return 1.0 / step, dense_h, slopes, float(dense_b[-1]), float(dense_h[-1])
+        rises = np.append(np.diff(dense_h), step / MU_0)
+        return 1.0 / step, dense_h, rises
+
+    def field_and_slope(self, flux_density: float | np.ndarray):
+        """H(B) [A/m] and dH/dB [A/(m·T)] from the same cell of the table, so that a Newton solve's
+        Jacobian is the exact derivative of its residual.
+
+        Parameters
+        ----------
+        flux_density : float or ndarray
+            Flux density B [T], of either sign; NaN gives NaN.
+
+        Returns
+        -------
+        tuple of ndarray
+            H, of the sign of B, and its slope (1/μ0 beyond the data), as :meth:`field_for`.
+
+        References
+        ----------
+        .. [1] Fritsch and Carlson 1980 (PCHIP through the data, sampled on a dense uniform grid in B).
+        """
+        inverse_step, nodes, rises = self._cells
+        position = np.abs(flux_density) * inverse_step  # in cells from B = 0
+        # fmin drops a NaN, so the cast below stays valid (H stays NaN); beyond the data the last cell
+        cell = np.fmin(position, nodes.size - 1).astype(np.intp)
+        rise = rises[cell]
+        field = np.copysign(nodes[cell] + (position - cell) * rise, flux_density)
+        return field, rise * inverse_step
 
     @property
     def saturation_flux_density(self) -> float:
@@ -109,15 +134,7 @@ class Steel:
         ----------
         .. [1] Fritsch and Carlson 1980 (PCHIP through the data, sampled on a dense uniform grid in B).
         """
-        inverse_step, nodes, slopes, last_b, _last_h = self._uniform_lookup
-        b = np.abs(flux_density)
-        clipped = np.fmin(b, last_b)  # fmin drops a NaN here, so the cast below stays valid; h stays NaN
-        within = np.minimum(b, last_b) * inverse_step
-        cell = (clipped * inverse_step).astype(np.intp)
-        h = nodes[cell] + (within - cell) * (slopes[cell] / inverse_step)
-        # beyond the data: the slope of free space
-        h = h + np.maximum(b - last_b, 0.0) / MU_0
-        return np.copysign(h, flux_density)
+        return self.field_and_slope(flux_density)[0]
 
     def flux_density_for(self, field_strength: float | np.ndarray):
         """Flux density at a field strength: B(H), the inverse of :meth:`field_for`.

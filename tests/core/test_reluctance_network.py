@@ -11,13 +11,10 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from pmdc_sizer.core import project
-from pmdc_sizer.core.cyclic_tridiagonal import (
-    dense_cyclic_block_tridiagonal,
-    solve_cyclic_block_tridiagonal,
-    solve_cyclic_tridiagonal,
-)
+from pmdc_sizer.core import project, reluctance_network
+from pmdc_sizer.core.cyclic_tridiagonal import BANDED_BATCH, solve_symmetric_cyclic_3x3
 from pmdc_sizer.core.design import design_from_project
+from pmdc_sizer.core.network_elements import network_elements
 from pmdc_sizer.core.pole_magnetics import pole_states, two_dimensional_states
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -37,40 +34,80 @@ def reference():
     return json.loads(REFERENCE.read_text(encoding="utf-8"))
 
 
-def _dense(lower, diagonal, upper, sign):
-    n, b = diagonal.shape[0], diagonal.shape[1]
-    a = np.zeros((n * b, n * b))
-    for i in range(n):
-        a[b * i:b * i + b, b * i:b * i + b] = diagonal[i]
-        if i:
-            a[b * i:b * i + b, b * i - b:b * i] = lower[i]
-        if i < n - 1:
-            a[b * i:b * i + b, b * i + b:b * i + 2 * b] = upper[i]
-    a[:b, -b:] = sign * lower[0]
-    a[-b:, :b] = sign * upper[-1]
+def _symmetric_chain(rng, systems, n=15, definite=True):
+    """Random symmetric cyclic chains of three levels in the network's form: the diagonal blocks' six
+    entries and the couplings, (entries, segments, systems); diagonally dominant unless not ``definite``."""
+    coupling = -rng.uniform(1.0, 2.0, (3, n, systems))
+    diagonal = np.zeros((6, n, systems))
+    diagonal[3:] = -rng.uniform(0.2, 1.0, (3, n, systems))
+    for level in range(3):
+        neighbours = np.abs(coupling[level]) + np.abs(np.roll(coupling[level], -1, axis=0))
+        diagonal[level] = neighbours + rng.uniform(0.1, 3.0, (n, systems))
+    diagonal[0] += np.abs(diagonal[3]) + np.abs(diagonal[5])
+    diagonal[1] += np.abs(diagonal[3]) + np.abs(diagonal[4])
+    diagonal[2] += np.abs(diagonal[4]) + np.abs(diagonal[5])
+    if not definite:
+        diagonal[1, 4] = -diagonal[1, 4]  # one negative pivot: symmetric, indefinite, still regular
+    return diagonal, coupling, rng.normal(size=(3, n, systems))
+
+
+def _dense_symmetric(diagonal, coupling, sign, system):
+    n = diagonal.shape[1]
+    a = np.zeros((3 * n, 3 * n))
+    for k in range(n):
+        for value, (i, j) in zip(diagonal[:, k, system], ((0, 0), (1, 1), (2, 2), (0, 1), (1, 2), (0, 2)),
+                                 strict=True):
+            a[3 * k + i, 3 * k + j] = a[3 * k + j, 3 * k + i] = value
+        before = (k - 1) % n
+        for level in range(3):
+            value = coupling[level, k, system] * (sign if k == 0 else 1.0)
+            a[3 * k + level, 3 * before + level] = a[3 * before + level, 3 * k + level] = value
     return a
 
 
-@pytest.mark.parametrize("blocks", [1, 2, 3])
-def test_cyclic_solvers_agree_with_lapack(blocks):
-    # Reference: numpy.linalg.solve (LAPACK gesv) on the same matrix assembled dense.
-    rng = np.random.default_rng(blocks)
-    n = 7
-    lower, upper = np.zeros((n, blocks, blocks)), np.zeros((n, blocks, blocks))
-    for k in range(blocks):
-        lower[:, k, k], upper[:, k, k] = -rng.uniform(1, 2, n), -rng.uniform(1, 2, n)
-    diagonal = rng.uniform(-1, 1, (n, blocks, blocks))
-    diagonal = diagonal + np.swapaxes(diagonal, -1, -2) + 8.0 * np.eye(blocks)
-    rhs = rng.normal(size=(n, blocks))
-    expected = np.linalg.solve(_dense(lower, diagonal, upper, -1.0), rhs.ravel()).reshape(n, blocks)
-    if blocks == 1:
-        got = solve_cyclic_tridiagonal(lower[None, :, 0, 0], diagonal[None, :, 0, 0], upper[None, :, 0, 0],
-                                       rhs[None, :, 0])[0]
-        assert_allclose(got, expected[:, 0], rtol=1e-12, atol=1e-14)  # round-off of a well-conditioned system
-        return
-    for solver in (solve_cyclic_block_tridiagonal, dense_cyclic_block_tridiagonal):
-        got = solver(lower[None], diagonal[None], upper[None], rhs[None])[0]
-        assert_allclose(got, expected, rtol=1e-12, atol=1e-14)
+@pytest.mark.parametrize("systems", [1, 5, BANDED_BATCH + 7])  # the banded LAPACK path, then the recursion
+@pytest.mark.parametrize("sign", [-1.0, 1.0])
+def test_symmetric_cyclic_solver_agrees_with_lapack(systems, sign):
+    # Reference: numpy.linalg.solve (LAPACK gesv) on each system assembled dense, entry by entry.
+    rng = np.random.default_rng(systems)
+    diagonal, coupling, rhs = _symmetric_chain(rng, systems)
+    got = solve_symmetric_cyclic_3x3(diagonal, coupling, rhs, sign)
+    for system in {0, systems // 2, systems - 1}:
+        expected = np.linalg.solve(_dense_symmetric(diagonal, coupling, sign, system), rhs[:, :, system].T.ravel())
+        assert_allclose(got[:, :, system].T.ravel(), expected, rtol=1e-12, atol=1e-14)
+
+
+def test_symmetric_cyclic_solver_falls_back_when_not_positive_definite():
+    # Cholesky refuses an indefinite matrix; the answer must still be the system's (LU with pivoting).
+    rng = np.random.default_rng(7)
+    diagonal, coupling, rhs = _symmetric_chain(rng, 3, definite=False)
+    got = solve_symmetric_cyclic_3x3(diagonal, coupling, rhs)
+    for system in range(3):
+        expected = np.linalg.solve(_dense_symmetric(diagonal, coupling, -1.0, system), rhs[:, :, system].T.ravel())
+        assert_allclose(got[:, :, system].T.ravel(), expected, rtol=1e-10, atol=1e-13)
+
+
+def test_answer_does_not_depend_on_the_chunks(monkeypatch):
+    # A large batch is solved in chunks, each with its own Newton loop: chunks of 7 designs (and the
+    # small chunks' banded solver) must give what one chunk of them all (the recursion) gives.
+    import dataclasses
+
+    design = design_from_project(project.load(FERRITE_DEMO))
+    g = design.geometry
+    rng = np.random.default_rng(3)
+    count = BANDED_BATCH + 4
+    sweep = dataclasses.replace(g, magnet_thickness=g.magnet_thickness * rng.uniform(0.6, 1.4, count),
+                                housing_wall=g.housing_wall * rng.uniform(0.4, 1.2, count))
+    elements = network_elements(sweep, design.magnet.recoil_permeability, design.housing_steel,
+                                design.lamination_steel, design.shaft_magnetic)
+    temperature = rng.uniform(-20.0, 120.0, count)
+    whole = reluctance_network.solve_network(design.magnet, temperature, elements)
+    monkeypatch.setattr(reluctance_network, "CHUNK", 7)
+    chunked = reluctance_network.solve_network(design.magnet, temperature, elements)
+    np.testing.assert_array_equal(chunked.iterations, whole.iterations)
+    for name in ("housing_flux", "core_flux", "lower_flux", "housing_steel_flux", "tooth_steel_flux", "gap_drop"):
+        scale = np.abs(getattr(whole, name)).max(axis=-1, keepdims=True)
+        assert_allclose(getattr(chunked, name) / scale, getattr(whole, name) / scale, rtol=0, atol=1e-12)
 
 
 def test_batch_equals_one_by_one():

@@ -47,6 +47,28 @@ def test_curve_is_odd():
     assert_allclose(steel.flux_density_for(-steel.field_for(b)), -b, atol=1e-9)
 
 
+@pytest.mark.parametrize("name", sorted(STEELS))
+def test_slope_is_the_derivative_of_the_field(name):
+    # What Newton's method needs of the lookup (core.reluctance_network): the slope it returns is the
+    # exact derivative of the H it returns, cell by cell (a secant inside one cell of the table), μ0's
+    # beyond the data, and H is field_for's.
+    steel = STEELS[name]
+    top = steel.saturation_flux_density
+    cell = top / 2047.0  # the dense table's cells
+    b = np.concatenate([np.linspace(-0.999 * top, 0.999 * top, 301), [1.3 * top, -1.7 * top]])
+    start = np.floor(np.abs(b) / cell) * cell
+    beyond = np.abs(b) + np.array([0.0, 0.1])[:, None]
+    inside = np.where(np.abs(b) < top, start + np.array([0.3, 0.6])[:, None] * cell, beyond)
+    h, slope = steel.field_and_slope(b)
+    assert_allclose(h, steel.field_for(b), rtol=0, atol=0)
+    h_inside = steel.field_and_slope(inside)[0]
+    secant = (h_inside[1] - h_inside[0]) / (inside[1] - inside[0])
+    assert_allclose(slope, secant, rtol=1e-6)
+    assert_allclose(slope[-2:], 1.0 / MU_0, rtol=1e-9)
+    assert np.all(slope > 0.0)
+    assert np.isnan(steel.field_and_slope(np.array([np.nan]))[0][0])
+
+
 def test_loss_separation_law():
     # Source: Steinmetz (1892) hysteresis term plus Bertotti (1988) classical and excess terms.
     steel = Steel("test", "lamination", (0.0, 100.0, 1000.0), (0.0, 1.0, 1.5), 7650.0,
