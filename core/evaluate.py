@@ -129,8 +129,8 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     grid_point = pm.pole_states(d, grid)
     rising = np.argsort(grid[2:]) + 2
 
-    def flux_at(temperature_C: float) -> float:
-        return float(np.interp(temperature_C, grid[rising], grid_point.flux_per_pole[rising]))
+    def flux_at(temperature_C):
+        return np.interp(temperature_C, grid[rising], grid_point.flux_per_pole[rising])
 
     # 3. Winding.
     paths = int(parallel_paths(w.kind, g.poles, w.multiplicity))
@@ -138,8 +138,9 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     turn_length = float(mean_turn_length(g, w.end_turn_factor))
     wire_length = float(winding_length(conductors, turn_length))
 
-    def resistance_at(temperature_C: float) -> float:
-        return float(armature_resistance(conductors, turn_length, paths, w.wire.copper_area, temperature_C))
+    def resistance_at(temperature_C):
+        return armature_resistance(conductors, turn_length, paths, w.wire.copper_area, temperature_C,
+                                   w.resistivity_factor)
 
     # 4. Constants: Ke = Kt = K·Φ, with Φ at each case's magnet temperature.
     constant = float(machine_constant(g.poles, conductors, paths))
@@ -151,7 +152,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     tooth_b_per_flux = float(grid_point.tooth_flux_density[1]) / nominal_flux
     core_b_per_flux = float(grid_point.core_flux_density[1]) / nominal_flux
 
-    def motor_at(winding_C: float, flux: float, flux_table: tuple[np.ndarray, np.ndarray] | None = None) -> MotorModel:
+    def motor_at(winding_C, flux, flux_table: tuple[np.ndarray, np.ndarray] | None = None) -> MotorModel:
         iron = iron_loss_terms(
             d.lamination_steel, g.poles,
             ((part_masses.teeth, tooth_b_per_flux * flux), (part_masses.core, core_b_per_flux * flux)),
@@ -164,18 +165,18 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
                           (flux_table[0], back_emf_constant(constant, flux_table[1])))
 
     # 6. Thermal: the duty's hot state, the continuous rating and the stall times at the highest ambient.
-    heat = thermal_outcome(d, part_masses, lambda winding_C, magnet_C: motor_at(winding_C, flux_at(magnet_C)),
+    heat = thermal_outcome(d, part_masses, lambda rows, winding_C, magnet_C: motor_at(winding_C, flux_at(magnet_C)),
                            model_high_C)
-    hot = heat.hot
+    hot_winding_C, hot_magnet_C = float(heat.hot.winding_C[0]), float(heat.hot.magnet_C[0])
 
     # 7. The network at cold, nominal and hot against armature current (the armature's reaction lowers
     # the flux), and with the rotor removed at the coldest and hottest ambient.
     temperatures = {"cold": (d.ambient_min_C, d.ambient_min_C, d.ambient_min_C),
                     "nominal": (d.ambient_nominal_C, d.ambient_nominal_C, d.ambient_nominal_C),
-                    "hot": (d.ambient_max_C, hot.winding_C, hot.magnet_C)}
+                    "hot": (d.ambient_max_C, hot_winding_C, hot_magnet_C)}
     case_temperatures = np.array([temperatures[name][2] for name in _CASE_NAMES])
     table = pm.load_table(d, case_temperatures, [
-        largest_current(motor_at(temperatures[name][1], flux_at(temperatures[name][2])), d.current_limit)
+        largest_current(motor_at(temperatures[name][1], float(flux_at(temperatures[name][2]))), d.current_limit)
         for name in _CASE_NAMES])
     rotor_out = pm.pole_states(d, [d.ambient_min_C, d.ambient_max_C], rotor_present=False,
                                what="the magnetic circuit with the rotor removed")
@@ -230,7 +231,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
         magnet=_magnet_result(grade, d.ambient_nominal_C),
         geometry=geometry_result(g, d.max_outer_diameter),
         magnetics=_magnetics_result(table.states, table.currents.shape[1], d.ambient_nominal_C),
-        winding=winding_result(d, paths, conductors, turn_length, wire_length, resistance_at(20.0),
+        winding=winding_result(d, paths, conductors, turn_length, wire_length, float(resistance_at(20.0)),
                                 cases["hot"].rated.current_A),
         constants=ConstantsResult(
             machine_constant=constant,

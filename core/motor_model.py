@@ -14,10 +14,29 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 from dataclasses import dataclass
+from typing import Protocol
 
 import numpy as np
 
-from .steel import Steel
+
+class LossCoefficients(Protocol):
+    """What the iron loss reads of a lamination steel (a :class:`~core.steel.Steel`, or arrays of them)."""
+
+    @property
+    def hysteresis_coeff(self) -> float | np.ndarray:
+        """kh [W/kg at 1 Hz, 1 T]."""
+
+    @property
+    def hysteresis_exponent(self) -> float | np.ndarray:
+        """α [1]."""
+
+    @property
+    def eddy_coeff(self) -> float | np.ndarray:
+        """kc [W/kg per (Hz·T)²]."""
+
+    @property
+    def excess_coeff(self) -> float | np.ndarray:
+        """ke [W/kg per (Hz·T)^1.5]."""
 
 
 @dataclass(frozen=True)
@@ -44,7 +63,7 @@ class IronLossTerms:
         return self.hysteresis * speed + self.eddy * speed**2 + self.excess * speed**1.5
 
 
-def iron_loss_terms(steel: Steel, poles: int | np.ndarray,
+def iron_loss_terms(steel: LossCoefficients, poles: int | np.ndarray,
                     parts: Iterable[tuple[float | np.ndarray, float | np.ndarray]],
                     build_factor: float) -> IronLossTerms:
     """Iron-loss coefficients of the armature, written as torques, from the steel's loss-separation law.
@@ -55,8 +74,8 @@ def iron_loss_terms(steel: Steel, poles: int | np.ndarray,
 
     Parameters
     ----------
-    steel : Steel
-        The lamination steel, with its loss coefficients.
+    steel : Steel or LossCoefficients
+        The lamination steel, with its loss coefficients (arrays of them for many designs).
     poles : int or ndarray
         Number of poles p [1].
     parts : iterable of (float, float)
@@ -124,7 +143,41 @@ def constant_at(model: MotorModel, current: float | np.ndarray):
     currents, constants = model.constant_table
     # the flux is even in the current (the cross field weakens one half of the pole as it strengthens
     # the other), Φ(I) = Φ0 - a·I² + …: interpolating in I² keeps dKe/dI = 0 at no load
-    return np.interp(np.square(current), np.square(currents), constants)
+    if np.ndim(currents) == 1:
+        return np.interp(np.square(current), np.square(currents), constants)
+    return interp_rows(np.square(current), np.square(currents), constants)
+
+
+def interp_rows(x, xp, fp):
+    """Linear interpolation with a table of its own for each element: ``np.interp`` over the last axis.
+
+    Parameters
+    ----------
+    x : ndarray
+        Where to interpolate, shape (...,) broadcasting with the tables' leading shape.
+    xp, fp : ndarray
+        Tables, shape (..., P), ``xp`` increasing along the last axis.
+
+    Returns
+    -------
+    ndarray
+        The interpolated values; beyond either end of a table, its end value. The arithmetic is that of
+        ``np.interp`` (slope, then slope·(x - xp_j) + fp_j), so a row gives the same bits as ``np.interp``
+        on that row alone.
+    """
+    x = np.asarray(x, dtype=float)
+    xp, fp = np.asarray(xp, dtype=float), np.asarray(fp, dtype=float)
+    shape = np.broadcast_shapes(x.shape, xp.shape[:-1], fp.shape[:-1])
+    x = np.broadcast_to(x, shape)
+    xp = np.broadcast_to(xp, (*shape, xp.shape[-1]))
+    fp = np.broadcast_to(fp, (*shape, fp.shape[-1]))
+    last = xp.shape[-1] - 1
+    j = np.clip((xp <= x[..., None]).sum(axis=-1) - 1, 0, last - 1)[..., None]
+    x0, x1 = np.take_along_axis(xp, j, -1)[..., 0], np.take_along_axis(xp, j + 1, -1)[..., 0]
+    f0, f1 = np.take_along_axis(fp, j, -1)[..., 0], np.take_along_axis(fp, j + 1, -1)[..., 0]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        inside = (f1 - f0) / (x1 - x0) * (x - x0) + f0
+    return np.where(x >= xp[..., last], fp[..., last], np.where(x <= xp[..., 0], fp[..., 0], inside))
 
 
 def speed_at_current(model: MotorModel, current):
@@ -193,8 +246,8 @@ def current_at_torque(model: MotorModel, torque: float | np.ndarray):
         return (model.voltage - model.brush_drop - model.constant * speed) / model.resistance
     target = np.minimum(torque, stall_torque(model))
     # a torque below that of zero current (the shaft driven, above no-load speed) needs a negative current
-    result = find_root(lambda i: shaft_torque_at_current(model, i) - target, np.full_like(target, -stall),
-                       np.full_like(target, stall), xtol=1e-12, rtol=1e-12)
+    bound = np.broadcast_to(stall, target.shape)
+    result = find_root(lambda i: shaft_torque_at_current(model, i) - target, -bound, bound, xtol=1e-12, rtol=1e-12)
     return np.where(torque >= stall_torque(model), stall, result.root)
 
 

@@ -32,7 +32,7 @@ References
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 
 import numpy as np
 
@@ -121,19 +121,30 @@ def operating_points(model: MotorModel, torque: float | np.ndarray) -> Operating
     )
 
 
-def _refined_maximum(model: MotorModel, stall: float, values_of: Callable[[OperatingPoints], np.ndarray],
-                     samples: int = 64, rounds: int = 3) -> float:
-    """Torque of the maximum of ``values_of(points)`` by a grid search refined around the best cell."""
-    low, high = 0.0, stall
-    best = 0.0
+def _refined_maxima(model: MotorModel, stall: float,
+                    values_of: tuple[Callable[[OperatingPoints], np.ndarray], ...],
+                    samples: int = 64, rounds: int = 3) -> list[float]:
+    """Torques of the maxima of each ``values_of(points)`` by a grid search refined around the best cell.
+
+    The grids of every maximum are solved in one call of :func:`operating_points` per round (each point's
+    root does not depend on the others', so this is the same as one search after the other).
+    """
+    count = len(values_of)
+    low, high = np.zeros(count), np.full(count, stall)
+    best = np.zeros(count)
     for _ in range(rounds + 1):
-        torque = np.linspace(low, high, samples)
-        values = values_of(operating_points(model, torque))
-        index = int(np.argmax(values))
-        best = float(torque[index])
+        torque = np.linspace(low, high, samples, axis=-1)
+        points = operating_points(model, torque)
+        index = np.array([int(np.argmax(values(points)[k])) for k, values in enumerate(values_of)])
+        best = torque[np.arange(count), index]
         step = (high - low) / (samples - 1)
-        low, high = max(best - step, 0.0), min(best + step, stall)
-    return best
+        low, high = np.maximum(best - step, 0.0), np.minimum(best + step, stall)
+    return [float(b) for b in best]
+
+
+def _point(points: OperatingPoints, index: int) -> OperatingPoints:
+    """One point of a set of operating points (0-d fields)."""
+    return OperatingPoints(**{f.name: np.asarray(getattr(points, f.name))[index] for f in fields(points)})
 
 
 @dataclass(frozen=True)
@@ -175,22 +186,22 @@ def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 20
     """
     stall = float(stall_torque(model))
     curve = operating_points(model, stall * np.linspace(0.0, 1.0, samples) ** 2)
-    no_load = operating_points(model, 0.0)
     if stall > 0.0:
-        eta_torque = _refined_maximum(model, stall, lambda p: p.efficiency)
-        power_torque = _refined_maximum(model, stall, lambda p: p.output_power)
-        gradient = float(no_load.speed) / stall
+        eta_torque, power_torque = _refined_maxima(model, stall, (lambda p: p.efficiency, lambda p: p.output_power))
     else:
         eta_torque = power_torque = 0.0
-        gradient = float("inf")
+    # the named points in one call (each point's root is its own: the same as one call each)
+    named = operating_points(model, np.array([0.0, stall, eta_torque, power_torque, min(rated_torque, stall)]))
+    no_load = _point(named, 0)
+    gradient = float(no_load.speed) / stall if stall > 0.0 else float("inf")
     rated_reached = rated_torque < stall
     return SpeedTorqueCurve(
         curve=curve,
         no_load=no_load,
-        stall=operating_points(model, stall),
-        max_efficiency=operating_points(model, eta_torque),
-        max_power=operating_points(model, power_torque),
-        rated=operating_points(model, min(rated_torque, stall)),
+        stall=_point(named, 1),
+        max_efficiency=_point(named, 2),
+        max_power=_point(named, 3),
+        rated=_point(named, 4),
         rated_reached=bool(rated_reached),
         speed_torque_gradient=gradient,
     )
@@ -214,6 +225,26 @@ def largest_current(model: MotorModel, current_limit: float | None = None) -> fl
     """
     bound = 2.0 * float(stall_current(model))
     return max(bound, current_limit) if current_limit is not None else bound
+
+
+def largest_currents(model: MotorModel, current_limit):
+    """:func:`largest_current` for many motors at once [A].
+
+    Parameters
+    ----------
+    model : MotorModel
+        The motors at the case's temperatures (array fields).
+    current_limit : ndarray
+        The drives' limits [A]; NaN without one.
+
+    Returns
+    -------
+    ndarray
+        2·(V - Vb)/R, or the limit if larger [A].
+    """
+    bound = 2.0 * np.asarray(stall_current(model), dtype=float)
+    limit = np.asarray(current_limit, dtype=float)
+    return np.where(np.isnan(limit), bound, np.maximum(bound, np.where(np.isnan(limit), 0.0, limit)))
 
 
 def plugging_current(model: MotorModel, speed: float | np.ndarray):
@@ -245,7 +276,7 @@ def plugging_current(model: MotorModel, speed: float | np.ndarray):
     # V + K·Φ(|I|)·ω - Vb - R·I changes sign between 0 and a little past the current with the table's
     # largest Ke (the flux may also rise a little with current), on whichever side of zero that lies
     speed = np.asarray(speed, dtype=float)
-    bound = (m.voltage + float(np.max(m.constant_table[1])) * speed - m.brush_drop) / m.resistance * 1.0001
+    bound = (m.voltage + np.max(m.constant_table[1], axis=-1) * speed - m.brush_drop) / m.resistance * 1.0001
     result = find_root(lambda i: m.voltage + constant_at(m, i) * speed - m.brush_drop - m.resistance * i,
                        np.minimum(bound, 0.0) - 1e-12, np.maximum(bound, 0.0) + 1e-12, xtol=1e-9, rtol=1e-12)
     return result.root if np.ndim(result.root) else float(result.root)
@@ -273,10 +304,36 @@ def current_limit_torque(model: MotorModel, current_limit: float | None) -> floa
     """
     if current_limit is None or current_limit >= float(stall_current(model)):
         return None
+    return float(limit_torque(model, current_limit))
+
+
+def limit_torque(model: MotorModel, current_limit):
+    """Shaft torque at which the armature current reaches the drive's limit, for many motors at once.
+
+    Parameters
+    ----------
+    model : MotorModel
+        The motors at the case's temperatures (array fields, or floats).
+    current_limit : float or ndarray
+        The drive's current limit [A]; NaN without one.
+
+    Returns
+    -------
+    float or ndarray
+        K·I_lim less the loss torque at the speed where the current is I_lim [N·m]; NaN without a limit,
+        or where the limit is at or above the stall current (the drive then never limits).
+
+    References
+    ----------
+    .. [1] the circuit and torque balance of the module docstring, taken at I = I_lim.
+    """
     m = model
-    constant = float(constant_at(m, current_limit))
-    limit_speed = (m.voltage - m.brush_drop - m.resistance * current_limit) / constant
-    return float(constant * current_limit - loss_torque(m, limit_speed))
+    limit = np.asarray(current_limit, dtype=float)
+    with np.errstate(invalid="ignore"):
+        constant = constant_at(m, limit)
+        limit_speed = (m.voltage - m.brush_drop - m.resistance * limit) / constant
+        torque = constant * limit - loss_torque(m, limit_speed)
+    return np.where(np.isnan(limit) | (limit >= stall_current(model)), np.nan, torque)
 
 
 def mechanical_time_constant(inertia: float, resistance: float, constant: float) -> float:

@@ -171,6 +171,54 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
     return _reduce(solution, elements, temperature, current)
 
 
+def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_magnetic, temperatures_C, currents=0.0,
+                     rotor_present: bool = True, winding=None, what: str = "the magnetic circuit") -> PoleState:
+    """Solve the networks of many cross-sections of one grade and pair of steels at once, one entry each.
+
+    Parameters
+    ----------
+    geometry : Geometry
+        One cross-section per entry, fields arrays of shape (B,) [m, rad].
+    grade : MagnetGrade
+        The magnet grade of every entry.
+    housing_steel, lamination_steel : Steel
+        The steels of every entry.
+    shaft_magnetic : bool or ndarray
+        A steel shaft, per entry or for all.
+    temperatures_C, currents : float or ndarray
+        Magnet temperature [°C] and armature current [A] of each entry, shape (B,).
+    rotor_present : bool
+        False: the armature pulled out (no current then).
+    winding : tuple, optional
+        (poles, slots, commutator_segments, conductors, paths) when there is current: the first three
+        ints shared by the entries, the last two ints or arrays (B,) [1].
+    what : str
+        For the error message.
+
+    Returns
+    -------
+    PoleState
+        Arrays of shape (B,): entry i is what :func:`pole_states` gives for its design at its temperature
+        and current.
+
+    Raises
+    ------
+    MagneticCircuitError
+        When the network does not converge for some entry.
+    """
+    elements = network_elements(geometry, grade.recoil_permeability, housing_steel, lamination_steel, shaft_magnetic,
+                                rotor_present)
+    batch = elements.column_area.shape[0]
+    temperature = np.broadcast_to(np.asarray(temperatures_C, dtype=float), (batch,))
+    current = np.broadcast_to(np.asarray(currents, dtype=float), (batch,))
+    enclosed: float | np.ndarray = 0.0
+    if rotor_present and np.any(current != 0.0):
+        poles, slots, segments, conductors, paths = winding
+        enclosed = enclosed_currents(elements, current, poles, slots, segments, conductors, paths)
+    solution = solve_network(grade, temperature, elements, enclosed, what)
+    return _reduce(solution, elements, temperature, current)
+
+
 def _repeat(elements: NetworkElements, batch: int) -> NetworkElements:
     """A batch of ``batch`` copies of a one-design network (every array's first axis repeated)."""
     import dataclasses
@@ -264,7 +312,7 @@ class LoadTable:
             worst_field=float(field[worst]), worst_angle=float(angles[worst]),
             past_knee_fraction=float(shares[field < knee].sum()),
             flux_per_pole=float(np.interp(current**2, grid**2, self.states.flux_per_pole[rows])),
-            segment_angle=angles, segment_field=field,
+            segment_angle=angles, segment_field=field, segment_share=shares,
         )
 
 
@@ -315,6 +363,7 @@ def magnet_state_of(states: PoleState, index: int):
         worst_field=float(states.worst_field[index]), worst_angle=float(states.worst_angle[index]),
         past_knee_fraction=float(states.past_knee_fraction[index]), flux_per_pole=float(states.flux_per_pole[index]),
         segment_angle=states.segment_angle[index], segment_field=states.segment_field[index],
+        segment_share=states.segment_share[index],
     )
 
 

@@ -27,16 +27,17 @@ References
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 
 import numpy as np
-from scipy.optimize import brentq
 
 from . import thermal_network as tn
 from .performance import MotorModel, operating_points, stall_current, stall_torque
+from .solvers import find_root
 
-#: ``motor_at(winding_C, magnet_C)``: the motor model with its winding and magnets at those temperatures.
-MotorAt = Callable[[float, float], MotorModel]
+#: ``motor_at(rows, winding_C, magnet_C)``: the motor models of the designs ``rows`` (indices into the
+#: batch) with their windings and magnets at those temperatures (arrays of the shape of ``rows``).
+MotorAt = Callable[[np.ndarray, np.ndarray, np.ndarray], MotorModel]
 
 #: The fixed points stop when winding and magnets together move less than this [K] (our choice).
 TOLERANCE = 1e-4
@@ -44,26 +45,66 @@ TOLERANCE = 1e-4
 RUNAWAY_C = 1000.0
 #: Torques at which the continuous rating first looks for the winding's limit (our choice).
 RATING_SCAN_POINTS = 33
+#: Duty types by code, as the arrays carry them.
+DUTY_CODES = {"S1": 1, "S2": 2, "S3": 3}
+
+# Every function below works on a batch of designs at once: arrays of one shape (n,), ``rows`` the
+# designs' indices into the batch that ``motor_at`` knows, ``network`` a ThermalNetwork of arrays of
+# that shape. An element's result never depends on the rest of its batch: the fixed points run each
+# element to its own end, and the root finder steps a finished element by zero (core.solvers).
+
+
+def take(network: tn.ThermalNetwork, index) -> tn.ThermalNetwork:
+    """The network of some of a batch's designs.
+
+    Parameters
+    ----------
+    network : ThermalNetwork
+        A batch, every field an array of shape (n,).
+    index : ndarray
+        Integer indices or a boolean mask into the batch.
+
+    Returns
+    -------
+    ThermalNetwork
+        Its fields at ``index``.
+    """
+    return tn.ThermalNetwork(**{f.name: np.asarray(getattr(network, f.name))[index] for f in fields(network)})
 
 
 @dataclass(frozen=True)
 class Losses:
-    """Where the losses of one operating point go in the network."""
+    """Where the losses of one operating point go in the network (arrays over a batch)."""
 
-    winding: float  #: copper, brush and iron losses, into the winding node [W]
-    housing: float  #: friction and drag, into the housing node [W]
-    current: float  #: armature current [A]
-    reached: bool  #: the torque is below the stall torque at these temperatures
+    winding: np.ndarray  #: copper, brush and iron losses, into the winding node [W]
+    housing: np.ndarray  #: friction and drag, into the housing node [W]
+    current: np.ndarray  #: armature current [A]
+    reached: np.ndarray  #: the torque is below the stall torque at these temperatures (bool)
+
+    def at(self, index) -> Losses:
+        """The losses of some of the batch.
+
+        Parameters
+        ----------
+        index : ndarray
+            Integer indices or a boolean mask.
+
+        Returns
+        -------
+        Losses
+            Each field at ``index``.
+        """
+        return Losses(self.winding[index], self.housing[index], self.current[index], self.reached[index])
 
 
-def point_losses(model: MotorModel, torque: float) -> Losses:
+def point_losses(model: MotorModel, torque) -> Losses:
     """The losses at a shaft torque, split between the network's nodes (at stall beyond it).
 
     Parameters
     ----------
     model : MotorModel
-        The motor at its temperatures.
-    torque : float
+        The motors at their temperatures (array fields, or floats for one).
+    torque : float or ndarray
         Shaft torque [N·m].
 
     Returns
@@ -75,89 +116,93 @@ def point_losses(model: MotorModel, torque: float) -> Losses:
     ----------
     .. [1] the losses of :func:`core.performance.operating_points` (summation of losses, IEC 60034-2-1).
     """
-    stall = float(stall_torque(model))
-    p = operating_points(model, min(torque, stall))
-    winding = float(p.copper_loss + p.brush_loss + p.iron_loss)
-    return Losses(winding=winding, housing=max(float(p.total_loss) - winding, 0.0), current=float(p.current),
-                  reached=bool(torque < stall))
+    torque = np.asarray(torque, dtype=float)
+    stall = stall_torque(model)
+    p = operating_points(model, np.minimum(torque, stall))
+    winding = np.asarray(p.copper_loss + p.brush_loss + p.iron_loss, dtype=float)
+    return Losses(winding=winding, housing=np.maximum(np.asarray(p.total_loss) - winding, 0.0),
+                  current=np.asarray(p.current, dtype=float), reached=np.asarray(torque < stall))
 
 
 @dataclass(frozen=True)
 class DutyState:
-    """The temperatures at the duty's hottest moment, and how they were found."""
+    """The temperatures at the duty's hottest moment, and how they were found (arrays over a batch)."""
 
-    winding_C: float  #: [°C]
-    housing_C: float  #: [°C]
-    magnet_C: float  #: [°C]
+    winding_C: np.ndarray  #: [°C]
+    housing_C: np.ndarray  #: [°C]
+    magnet_C: np.ndarray  #: [°C]
     losses: Losses  #: at those temperatures
-    iterations: int  #: of the fixed point
-    steady_state_exists: bool  #: False: runaway, stall at the rated load, or magnets beyond their data
-    time_to_limit_s: float | None  #: from ambient under the rated load to the class limit; None if never
-    iterated_winding_C: float  #: where the fixed point ended (the state itself, or where it gave up) [°C]
+    iterations: np.ndarray  #: of the fixed point
+    steady_state_exists: np.ndarray  #: False: runaway, stall at the rated load, or magnets beyond their data
+    time_to_limit_s: np.ndarray  #: from ambient under the rated load to the class limit; NaN if not reported
+    iterated_winding_C: np.ndarray  #: where the fixed point ended (the state itself, or where it gave up) [°C]
 
 
-def _temperatures(network: tn.ThermalNetwork, ambient_C: float, rises) -> tuple[float, float, float]:
-    winding, housing = float(rises[0]), float(rises[1])
-    return (ambient_C + winding, ambient_C + housing,
-            ambient_C + float(tn.magnet_rise(network, winding, housing)))
+def _temperatures(network: tn.ThermalNetwork, ambient_C, rises):
+    winding, housing = rises[0], rises[1]
+    return ambient_C + winding, ambient_C + housing, ambient_C + tn.magnet_rise(network, winding, housing)
 
 
-def duty_rises(network: tn.ThermalNetwork, losses: Losses, duty: str, run_time: float,
-               cycle_factor: float, cycle_time: float) -> np.ndarray:
+def duty_rises(network: tn.ThermalNetwork, losses: Losses, duty, run_time, cycle_factor, cycle_time) -> np.ndarray:
     """Rises (θ_w, θ_h) at the duty's hottest moment under constant losses.
 
     Parameters
     ----------
     network : ThermalNetwork
-        The motor's network.
+        The motors' network.
     losses : Losses
         While loaded [W].
-    duty : str
-        "S1", "S2" or "S3" (IEC 60034-1).
-    run_time : float
+    duty : str or ndarray
+        "S1", "S2" or "S3" (IEC 60034-1), or their :data:`DUTY_CODES` per design.
+    run_time : float or ndarray
         Length of the S2 run [s].
-    cycle_factor : float
+    cycle_factor : float or ndarray
         S3 cycle duration factor, loaded time over cycle time [1].
-    cycle_time : float
+    cycle_time : float or ndarray
         S3 cycle duration [s].
 
     Returns
     -------
     ndarray
-        θ_w and θ_h [K].
+        θ_w and θ_h [K], first axis of length 2.
 
     References
     ----------
-    .. [1] IEC 60034-1 duty types; :func:`thermal_network.steady_rise`, ``rise_at``, ``periodic_rise``.
+    .. [1] IEC 60034-1 duty types; :func:`thermal_network.steady_rise`, ``rise_after``, ``periodic_rise``.
     """
-    if duty == "S1":
-        return tn.steady_rise(network, losses.winding, losses.housing)
-    if duty == "S2":
-        return np.asarray(tn.rise_at(network, losses.winding, losses.housing, run_time)[0])
-    on_time = cycle_factor * cycle_time
-    return tn.periodic_rise(network, losses.winding, losses.housing, on_time, cycle_time - on_time)
+    code = np.asarray(DUTY_CODES[duty] if isinstance(duty, str) else duty)
+    rises = tn.steady_rise(network, losses.winding, losses.housing)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        if np.any(code == 2):
+            rises = np.where(code == 2, tn.rise_after(network, losses.winding, losses.housing, run_time), rises)
+        if np.any(code == 3):
+            on_time = cycle_factor * cycle_time
+            rises = np.where(code == 3, tn.periodic_rise(network, losses.winding, losses.housing, on_time,
+                                                         cycle_time - on_time), rises)
+    return rises
 
 
-def duty_state(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, load_torque: float, duty: str,
-               run_time: float, cycle_factor: float, cycle_time: float, limit_C: float,
-               model_high_C: float, max_iterations: int = 100) -> DutyState:
+def duty_state(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, load_torque, duty,
+               run_time, cycle_factor, cycle_time, limit_C, model_high_C, max_iterations: int = 100) -> DutyState:
     """The hot case: the duty's hottest moment at the highest ambient, losses ⇄ temperatures iterated.
 
     Parameters
     ----------
     network : ThermalNetwork
-        The motor's network.
-    ambient_C : float
+        The motors' network, fields of the shape of ``rows``.
+    rows : ndarray
+        The designs' indices for ``motor_at``.
+    ambient_C : ndarray
         The highest ambient [°C].
     motor_at : callable
-        ``motor_at(winding_C, magnet_C) -> MotorModel``.
-    load_torque : float
+        ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
+    load_torque : ndarray
         The rated shaft torque [N·m].
     duty, run_time, cycle_factor, cycle_time
         As in :func:`duty_rises` [s, 1].
-    limit_C : float
+    limit_C : ndarray
         The insulation class temperature [°C].
-    model_high_C : float
+    model_high_C : ndarray
         Where the magnet grade's temperature model ends [°C].
     max_iterations : int, optional
         Give up after this many iterations [1].
@@ -173,61 +218,80 @@ def duty_state(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, 
     .. [1] IEC 60034-1 duty types; the fixed point and its conservative choice of losses (module
        docstring).
     """
-    winding_C = magnet_C = ambient_C
-    housing_C = ambient_C
-    exists, iterations = False, 0
-    losses = point_losses(motor_at(winding_C, magnet_C), load_torque)
-    while iterations < max_iterations:
-        iterations += 1
-        losses = point_losses(motor_at(winding_C, min(magnet_C, model_high_C)), load_torque)
-        new = _temperatures(network, ambient_C, duty_rises(network, losses, duty, run_time, cycle_factor,
-                                                           cycle_time))
-        change = abs(new[0] - winding_C) + abs(new[2] - magnet_C)
-        winding_C, housing_C, magnet_C = new
-        if change < TOLERANCE:
-            exists = losses.reached and magnet_C < model_high_C
+    ambient, torque, high, limit = (np.broadcast_to(np.asarray(v, dtype=float), rows.shape)
+                                    for v in (ambient_C, load_torque, model_high_C, limit_C))
+    code = np.broadcast_to(np.asarray(DUTY_CODES[duty] if isinstance(duty, str) else duty), rows.shape)
+    run, factor, cycle = (np.broadcast_to(np.asarray(v, dtype=float), rows.shape)
+                          for v in (run_time, cycle_factor, cycle_time))
+    winding_C, housing_C, magnet_C = ambient.copy(), ambient.copy(), ambient.copy()
+    exists = np.zeros(rows.shape, dtype=bool)
+    iterations = np.zeros(rows.shape, dtype=int)
+    losses = point_losses(motor_at(rows, winding_C, magnet_C), torque)
+    active = np.ones(rows.shape, dtype=bool)
+    for _ in range(max_iterations):
+        index = np.flatnonzero(active)
+        if index.size == 0:
             break
-        if winding_C > RUNAWAY_C or magnet_C > model_high_C + 100.0:
-            break
-    continuous_time = time_to_limit(network, ambient_C, motor_at, load_torque, limit_C, model_high_C)
-    if exists:
-        return DutyState(winding_C, housing_C, magnet_C, losses, iterations, True,
-                         None if winding_C <= limit_C else continuous_time, winding_C)
-    if not np.isfinite(continuous_time):  # no usable state, yet the winding stays below its limit
-        return DutyState(winding_C, housing_C, min(magnet_C, model_high_C), losses, iterations, False, None,
-                         winding_C)
-    limit_losses = point_losses(motor_at(limit_C, min(magnet_C, model_high_C)), load_torque)
-    rises = tn.rise_at(network, limit_losses.winding, limit_losses.housing, continuous_time)[0]
-    iterated_C = winding_C
-    _, housing_C, magnet_C = _temperatures(network, ambient_C, rises)
-    return DutyState(limit_C, housing_C, min(magnet_C, model_high_C), limit_losses, iterations, False,
-                     continuous_time, iterated_C)
+        iterations[index] += 1
+        part = take(network, index)
+        found = point_losses(motor_at(rows[index], winding_C[index], np.minimum(magnet_C[index], high[index])),
+                             torque[index])
+        new_w, new_h, new_m = _temperatures(part, ambient[index], duty_rises(
+            part, found, code[index], run[index], factor[index], cycle[index]))
+        change = np.abs(new_w - winding_C[index]) + np.abs(new_m - magnet_C[index])
+        winding_C[index], housing_C[index], magnet_C[index] = new_w, new_h, new_m
+        for name in ("winding", "housing", "current", "reached"):
+            getattr(losses, name)[index] = getattr(found, name)
+        settled = change < TOLERANCE
+        exists[index[settled]] = found.reached[settled] & (new_m[settled] < high[index][settled])
+        gone = ~settled & ((new_w > RUNAWAY_C) | (new_m > high[index] + 100.0))
+        active[index[settled | gone]] = False
+    continuous_time = time_to_limit(network, rows, ambient, motor_at, torque, limit, high)
+    iterated_C = winding_C.copy()
+    reported_time = np.where(exists & (winding_C > limit), continuous_time, np.nan)
+    magnet_C = np.where(exists, magnet_C, np.minimum(magnet_C, high))
+    limited = ~exists & np.isfinite(continuous_time)
+    if limited.any():
+        index = np.flatnonzero(limited)
+        part = take(network, index)
+        at_limit = point_losses(motor_at(rows[index], limit[index], np.minimum(magnet_C[index], high[index])),
+                                torque[index])
+        rises = tn.rise_after(part, at_limit.winding, at_limit.housing, continuous_time[index])
+        _, limit_h, limit_m = _temperatures(part, ambient[index], rises)
+        winding_C[index], housing_C[index] = limit[index], limit_h
+        magnet_C[index] = np.minimum(limit_m, high[index])
+        for name in ("winding", "housing", "current", "reached"):
+            getattr(losses, name)[index] = getattr(at_limit, name)
+        reported_time[index] = continuous_time[index]
+    return DutyState(winding_C, housing_C, magnet_C, losses, iterations, exists, reported_time, iterated_C)
 
 
-def time_to_limit(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, torque: float, limit_C: float,
-                  model_high_C: float, initial=(0.0, 0.0)) -> float:
+def time_to_limit(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, torque, limit_C,
+                  model_high_C, initial=(0.0, 0.0)) -> np.ndarray:
     """Time under a constant shaft torque until the winding reaches ``limit_C``; inf if never.
 
     Parameters
     ----------
     network : ThermalNetwork
-        The motor's network.
-    ambient_C : float
+        The motors' network.
+    rows : ndarray
+        The designs' indices for ``motor_at``.
+    ambient_C : ndarray
         Ambient [°C].
     motor_at : callable
-        ``motor_at(winding_C, magnet_C) -> MotorModel``.
-    torque : float
+        ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
+    torque : ndarray
         Shaft torque [N·m].
-    limit_C : float
+    limit_C : ndarray
         The winding temperature to reach [°C].
-    model_high_C : float
+    model_high_C : ndarray
         Where the magnet grade's temperature model ends [°C].
     initial : array_like, optional
         Rises of winding and housing at the start [K].
 
     Returns
     -------
-    float
+    ndarray
         [s]; the losses are those with the winding at ``limit_C`` and the magnets at their steady
         temperature (capped at ``model_high_C``), the most the run can meet before the limit.
 
@@ -235,48 +299,58 @@ def time_to_limit(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorA
     ----------
     .. [1] :func:`thermal_network.time_to_rise`; the losses' choice errs short (module docstring).
     """
-    losses = point_losses(_at_limit(network, ambient_C, motor_at, torque, limit_C, model_high_C), torque)
-    return tn.time_to_rise(network, losses.winding, losses.housing, limit_C - ambient_C, initial)
+    losses = point_losses(_at_limit(network, rows, ambient_C, motor_at, torque, limit_C, model_high_C), torque)
+    return np.asarray(tn.time_to_rise(network, losses.winding, losses.housing, limit_C - ambient_C, initial))
 
 
-def _at_limit(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, torque: float, limit_C: float,
-              model_high_C: float) -> MotorModel:
-    """The motor with its winding at ``limit_C`` and its magnets at the steady state of the losses there."""
-    magnet_C = ambient_C
+def _at_limit(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, torque, limit_C,
+              model_high_C) -> MotorModel:
+    """The motors with their windings at ``limit_C`` and their magnets at the steady state of the losses there."""
+    ambient, torque, limit, high = (np.broadcast_to(np.asarray(v, dtype=float), rows.shape)
+                                    for v in (ambient_C, torque, limit_C, model_high_C))
+    magnet_C = ambient.copy()
+    active = np.ones(rows.shape, dtype=bool)
     for _ in range(50):
-        losses = point_losses(motor_at(limit_C, min(magnet_C, model_high_C)), torque)
-        housing = tn.steady_rise(network, losses.winding, losses.housing)[1]
-        new = ambient_C + float(tn.magnet_rise(network, limit_C - ambient_C, housing))
-        if abs(new - magnet_C) < TOLERANCE:
+        index = np.flatnonzero(active)
+        if index.size == 0:
             break
-        magnet_C = new
-    return motor_at(limit_C, min(magnet_C, model_high_C))
+        part = take(network, index)
+        losses = point_losses(motor_at(rows[index], limit[index], np.minimum(magnet_C[index], high[index])),
+                              torque[index])
+        housing = tn.steady_rise(part, losses.winding, losses.housing)[1]
+        new = ambient[index] + tn.magnet_rise(part, limit[index] - ambient[index], housing)
+        settled = np.abs(new - magnet_C[index]) < TOLERANCE
+        magnet_C[index[~settled]] = new[~settled]
+        active[index[settled]] = False
+    return motor_at(rows, limit, np.minimum(magnet_C, high))
 
 
 @dataclass(frozen=True)
 class ContinuousRating:
-    """The S1 rating at the highest ambient: the winding's steady state at its class limit."""
+    """The S1 rating at the highest ambient: the winding's steady state at its class limit (arrays)."""
 
-    torque: float  #: shaft torque [N·m]; 0 when even no load takes the winding past the limit
-    current: float  #: armature current [A]
-    speed: float  #: [rad/s]
+    torque: np.ndarray  #: shaft torque [N·m]; 0 when even no load takes the winding past the limit
+    current: np.ndarray  #: armature current [A]
+    speed: np.ndarray  #: [rad/s]
 
 
-def continuous_rating(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, limit_C: float,
-                      model_high_C: float) -> ContinuousRating:
+def continuous_rating(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, limit_C,
+                      model_high_C) -> ContinuousRating:
     """The shaft torque whose S1 steady state puts the winding exactly at its class limit.
 
     Parameters
     ----------
     network : ThermalNetwork
-        The motor's network.
-    ambient_C : float
+        The motors' network.
+    rows : ndarray
+        The designs' indices for ``motor_at``.
+    ambient_C : ndarray
         The highest ambient [°C].
     motor_at : callable
-        ``motor_at(winding_C, magnet_C) -> MotorModel``.
-    limit_C : float
+        ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
+    limit_C : ndarray
         The insulation class temperature [°C].
-    model_high_C : float
+    model_high_C : ndarray
         Where the magnet grade's temperature model ends [°C].
 
     Returns
@@ -286,54 +360,69 @@ def continuous_rating(network: tn.ThermalNetwork, ambient_C: float, motor_at: Mo
 
     References
     ----------
-    .. [1] IEC 60034-1, rating for continuous duty S1; the winding at its IEC 60085 class limit.
+    .. [1] IEC 60034-1, rating for continuous duty S1; the winding at its IEC 60085 class limit. The
+       root between the scan's last torque inside the limit and the next by Chandrupatla's method
+       (core.solvers).
     """
+    ambient, limit, high = (np.broadcast_to(np.asarray(v, dtype=float), rows.shape)
+                            for v in (ambient_C, limit_C, model_high_C))
 
-    def model_at(torque: float) -> MotorModel:
-        return _at_limit(network, ambient_C, motor_at, torque, limit_C, model_high_C)
+    def model_at(index, torque) -> MotorModel:
+        return _at_limit(take(network, index), rows[index], ambient[index], motor_at, torque, limit[index],
+                         high[index])
 
-    def excess(torque: float) -> float:
-        losses = point_losses(model_at(torque), torque)
-        return float(tn.steady_rise(network, losses.winding, losses.housing)[0]) - (limit_C - ambient_C)
+    def excess(index, torque):
+        losses = point_losses(model_at(index, torque), torque)
+        return tn.steady_rise(take(network, index), losses.winding, losses.housing)[0] - (limit[index] - ambient[index])
 
-    top = float(stall_torque(motor_at(limit_C, ambient_C))) * (1.0 - 1e-6)
-    torque = 0.0
-    if limit_C > ambient_C and top > 0.0:
+    top = stall_torque(motor_at(rows, limit, ambient)) * (1.0 - 1e-6)
+    torque = np.zeros(rows.shape)
+    scanned = np.flatnonzero((limit > ambient) & (top > 0.0))
+    if scanned.size:
         # The mechanical losses fall as the speed does: scan for the highest torque still inside the limit.
-        grid = np.linspace(0.0, top, RATING_SCAN_POINTS)
-        inside = np.flatnonzero([excess(float(t)) <= 0.0 for t in grid])
-        if inside.size and inside[-1] == grid.size - 1:
-            torque = top
-        elif inside.size:
-            torque = float(brentq(excess, grid[inside[-1]], grid[inside[-1] + 1], xtol=1e-9))
-    p = operating_points(model_at(torque), torque)
-    return ContinuousRating(torque=torque, current=float(p.current), speed=float(p.speed))
+        grid = np.linspace(0.0, top[scanned], RATING_SCAN_POINTS, axis=-1)
+        inside = (excess(np.repeat(scanned, RATING_SCAN_POINTS), grid.ravel()) <= 0.0).reshape(grid.shape)
+        points = np.arange(RATING_SCAN_POINTS)
+        last = np.where(inside, points, -1).max(axis=-1)
+        torque[scanned[last == RATING_SCAN_POINTS - 1]] = top[scanned[last == RATING_SCAN_POINTS - 1]]
+        between = np.flatnonzero((last >= 0) & (last < RATING_SCAN_POINTS - 1))
+        if between.size:
+            index = scanned[between]
+            low = grid[between, last[between]]
+            high_torque = grid[between, last[between] + 1]
+            torque[index] = find_root(lambda t: excess(index, t), low, high_torque, xtol=1e-15, rtol=1e-12,
+                                      max_iterations=100).root
+    p = operating_points(model_at(np.arange(rows.size), torque), torque)
+    return ContinuousRating(torque=torque, current=np.asarray(p.current, dtype=float),
+                            speed=np.asarray(p.speed, dtype=float))
 
 
-def stall_time(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, current_limit: float | None,
-               limit_C: float, start_rises=(0.0, 0.0), magnet_C: float | None = None) -> tuple[float, float]:
+def stall_time(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, current_limit, limit_C,
+               start_rises=(0.0, 0.0), magnet_C=None) -> tuple[np.ndarray, np.ndarray]:
     """Permitted stall time from a starting state until the winding reaches its class limit.
 
     Parameters
     ----------
     network : ThermalNetwork
-        The motor's network.
-    ambient_C : float
+        The motors' network.
+    rows : ndarray
+        The designs' indices for ``motor_at``.
+    ambient_C : ndarray
         Ambient [°C].
     motor_at : callable
-        ``motor_at(winding_C, magnet_C) -> MotorModel`` (only the resistance matters at stall).
-    current_limit : float or None
-        The drive's limit, which caps the stall current [A].
-    limit_C : float
+        ``motor_at(rows, winding_C, magnet_C) -> MotorModel`` (only the resistance matters at stall).
+    current_limit : ndarray
+        The drive's limit, which caps the stall current [A]; NaN without one.
+    limit_C : ndarray
         The insulation class temperature [°C].
     start_rises : array_like, optional
         Rises of winding and housing at the start [K]: zero from cold, the S1 state from hot.
-    magnet_C : float, optional
+    magnet_C : ndarray, optional
         Magnet temperature for the model (the flux does not change the stall current) [°C].
 
     Returns
     -------
-    tuple of float
+    tuple of ndarray
         (time [s], stall current at the start [A]); time 0 when the start is at or past the limit.
 
     References
@@ -341,32 +430,34 @@ def stall_time(network: tn.ThermalNetwork, ambient_C: float, motor_at: MotorAt, 
     .. [1] :func:`thermal_network.time_to_rise`; at short times it tends to the adiabatic
        C_w·ΔT/(I²R + Vb·I).
     """
-    magnet = ambient_C if magnet_C is None else magnet_C
+    ambient = np.broadcast_to(np.asarray(ambient_C, dtype=float), rows.shape)
+    magnet = ambient if magnet_C is None else magnet_C
+    limit = np.broadcast_to(np.asarray(current_limit, dtype=float), rows.shape)
 
-    def winding_loss(winding_C: float) -> tuple[float, float]:
-        model = motor_at(winding_C, magnet)
-        current = float(stall_current(model))
-        if current_limit is not None:
-            current = min(current, current_limit)
+    def winding_loss(winding_C):
+        model = motor_at(rows, np.broadcast_to(winding_C, rows.shape), magnet)
+        current = np.asarray(stall_current(model), dtype=float)
+        current = np.where(np.isnan(limit), current, np.minimum(current, limit))
         return current**2 * model.resistance + model.brush_drop * current, current
 
-    start_C = ambient_C + float(start_rises[0])
-    (loss_start, current), (loss_limit, _) = winding_loss(start_C), winding_loss(limit_C)
-    return tn.time_to_rise(network, max(loss_start, loss_limit), 0.0, limit_C - ambient_C, start_rises), current
+    start_w, start_h = (np.asarray(v, dtype=float) for v in start_rises)
+    (loss_start, current), (loss_limit, _) = winding_loss(ambient + start_w), winding_loss(limit_C)
+    time = tn.time_to_rise(network, np.maximum(loss_start, loss_limit), 0.0, limit_C - ambient, (start_w, start_h))
+    return np.asarray(time), current
 
 
 def duty_transient(network: tn.ThermalNetwork, ambient_C: float, losses: Losses, duty: str, run_time: float,
                    cycle_factor: float, cycle_time: float, samples: int = 121):
-    """Temperatures against time over the duty from ambient, under the duty state's losses.
+    """Temperatures against time over the duty from ambient, under the duty state's losses (one design).
 
     Parameters
     ----------
     network : ThermalNetwork
-        The motor's network.
+        The motor's network (float fields).
     ambient_C : float
         Ambient [°C].
     losses : Losses
-        While loaded [W].
+        While loaded [W] (0-d or one-element arrays).
     duty, run_time, cycle_factor, cycle_time
         As in :func:`duty_rises` [s, 1].
     samples : int, optional
@@ -393,12 +484,13 @@ def duty_transient(network: tn.ThermalNetwork, ambient_C: float, losses: Losses,
         on_time = cycle_factor * cycle_time
         pieces = [(on_time, True), (cycle_time - on_time, False)] * cycles
     total = sum(length for length, _ in pieces)
+    winding_loss, housing_loss = float(np.ravel(losses.winding)[0]), float(np.ravel(losses.housing)[0])
     times, rises, start, state = [np.zeros(1)], [np.zeros((1, 2))], 0.0, np.zeros(2)
     for length, on in pieces:
         if length <= 0.0:
             continue
         local = np.linspace(0.0, length, max(round(samples * length / total), 4))[1:]
-        piece = tn.rise_at(network, losses.winding if on else 0.0, losses.housing if on else 0.0, local, state)
+        piece = tn.rise_at(network, winding_loss if on else 0.0, housing_loss if on else 0.0, local, state)
         times.append(start + local)
         rises.append(piece)
         start, state = start + length, piece[-1]

@@ -1,4 +1,18 @@
-"""What-if sweeps of the magnetic circuit without a Python loop over the physics.
+"""What-if sweeps: any project key, any screening figure, through the batch chain; and the quick sweep of
+the lumped magnetic circuit.
+
+:func:`figure_sweep` varies one key of a project over values (each validated like a file), runs the whole
+chain on all of them at once (:func:`core.batch.evaluate_many`) and returns the figures asked for::
+
+    from pmdc_sizer.core import load
+    from pmdc_sizer.core.sweep import figure_sweep
+    motor = load("demo_projects/appliance_ferrite_12v.toml")
+    swept = figure_sweep(motor, "winding.turns_per_coil", [20, 22, 24],
+                         ["nominal.no_load_speed_rad_per_s", "ratings.continuous_torque_N_m"])
+    swept.figures["nominal.no_load_speed_rad_per_s"]   # one value per turn count [rad/s]
+
+A change of grade or steel is a key like any other there. :func:`magnetics_sweep` below is the older,
+lighter look at the lumped per-pole circuit alone (no network, no thermal chain):
 
 Each swept value is validated like a file (so a sweep never computes a motor whose parts do not fit),
 the resulting cross-sections are stacked into one :class:`~core.geometry.Geometry` of arrays, and the
@@ -21,29 +35,51 @@ from collections.abc import Sequence
 import numpy as np
 
 from . import magnetic_circuit as mc
+from .batch import BatchFigures, evaluate_many, stack_geometries
 from .design import design_from_project
 from .edits import with_values
 from .errors import ProjectError
-from .geometry import Geometry
 from .schema import Project
 
+__all__ = ["figure_sweep", "magnetics_sweep", "stack_geometries"]
 
-def stack_geometries(geometries: Sequence[Geometry]) -> Geometry:
-    """One geometry of arrays from several geometries of floats.
+
+def figure_sweep(project: Project, key: str, values: Sequence[object],
+                 figures: Sequence[str] | None = None) -> BatchFigures:
+    """The screening figures of the design for each value of one project key, by the batch chain.
 
     Parameters
     ----------
-    geometries : sequence of Geometry
-        The cross-sections, each with float fields.
+    project : Project
+        The design to vary, in the file's units.
+    key : str
+        Any project-file key, e.g. ``"magnets.thickness_mm"``, ``"magnets.grade"``, ``"winding.wire"``.
+    values : sequence
+        The values of ``key``, in the key's file unit; each is validated like a file.
+    figures : sequence of str, optional
+        The figures to return (names as :func:`core.batch.screening_figures` gives them); all if None.
 
     Returns
     -------
-    Geometry
-        Every field an array, element i from ``geometries[i]`` (in the fields' units, m and rad).
+    BatchFigures
+        One element per value: the figures asked for, every check's code, and any value whose chain
+        failed, with its message.
+
+    Raises
+    ------
+    ProjectError
+        Naming the key, if a value is refused by the schema or the fit rules; naming the figure, if it
+        is not one the batch computes.
     """
-    return Geometry(**{
-        f.name: np.array([getattr(g, f.name) for g in geometries]) for f in dataclasses.fields(Geometry)
-    })
+    designs = [design_from_project(with_values(project, {key: value})) for value in values]
+    batch = evaluate_many(designs)
+    if figures is None:
+        return batch
+    unknown = [name for name in figures if name not in batch.figures]
+    if unknown and designs:
+        raise ProjectError(f"{unknown[0]}: not a screening figure (e.g. nominal.no_load_speed_rad_per_s)",
+                           key=unknown[0])
+    return dataclasses.replace(batch, figures={name: batch.figures[name] for name in figures if name in batch.figures})
 
 
 def magnetics_sweep(project: Project, key: str, values: Sequence[object],

@@ -61,8 +61,7 @@ def housing_to_ambient_resistance(geometry: Geometry, convection_coeff: float | 
 GRID_POINTS = 24
 
 
-def flux_grid_temperatures(ambient_min_C: float, ambient_nominal_C: float, ambient_max_C: float,
-                           max_working_C: float, model_high_C: float) -> np.ndarray:
+def flux_grid_temperatures(ambient_min_C, ambient_nominal_C, ambient_max_C, max_working_C, model_high_C) -> np.ndarray:
     """Magnet temperatures at which the thermal loop needs the flux: cold, nominal, then a rising grid.
 
     The grid reaches 250 K above the hottest ambient or 50 K above the grade's working limit,
@@ -71,21 +70,25 @@ def flux_grid_temperatures(ambient_min_C: float, ambient_nominal_C: float, ambie
 
     Parameters
     ----------
-    ambient_min_C, ambient_nominal_C, ambient_max_C : float
-        The ambient range [°C].
-    max_working_C : float
+    ambient_min_C, ambient_nominal_C, ambient_max_C : float or ndarray
+        The ambient range [°C] (arrays for many designs at once).
+    max_working_C : float or ndarray
         The grade's maximum working temperature [°C].
-    model_high_C : float
+    model_high_C : float or ndarray
         Where the grade's temperature model ends [°C].
 
     Returns
     -------
     ndarray
-        The coldest and nominal ambient, then ``GRID_POINTS`` rising temperatures [°C].
+        The coldest and nominal ambient, then ``GRID_POINTS`` rising temperatures [°C], along the last
+        axis (shape (N, 2 + GRID_POINTS) for N designs).
 
     References
     ----------
     .. [1] our choice of range (see above), no source.
     """
-    top = min(max(ambient_max_C + 250.0, max_working_C + 50.0), model_high_C)
-    return np.concatenate(([ambient_min_C, ambient_nominal_C], np.linspace(ambient_min_C, top, GRID_POINTS)))
+    top = np.minimum(np.maximum(np.add(ambient_max_C, 250.0), np.add(max_working_C, 50.0)), model_high_C)
+    rising = np.linspace(ambient_min_C, top, GRID_POINTS, axis=-1)
+    ends = np.stack(np.broadcast_arrays(np.asarray(ambient_min_C, dtype=float),
+                                        np.asarray(ambient_nominal_C, dtype=float)), axis=-1)
+    return np.concatenate((ends, rising), axis=-1)

@@ -34,10 +34,10 @@ References
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import brentq
 
 from .geometry import Geometry
 
@@ -66,17 +66,18 @@ SMALLEST_RESISTANCE = 1e-6
 
 @dataclass(frozen=True)
 class ThermalNetwork:
-    """The two capacities and four resistances of the network (see the module docstring)."""
+    """The two capacities and four resistances of the network (see the module docstring); floats for one
+    motor, arrays of one shape for many."""
 
-    winding_capacity: float  #: C_w [J/K]
-    housing_capacity: float  #: C_h [J/K]
-    winding_to_housing: float  #: R_wh [K/W]
-    housing_to_ambient: float  #: R_ha [K/W]
-    winding_to_magnet: float  #: R_wm, across the air gap [K/W]
-    magnet_to_housing: float  #: R_mh, through magnet and bond line [K/W]
+    winding_capacity: float | np.ndarray  #: C_w [J/K]
+    housing_capacity: float | np.ndarray  #: C_h [J/K]
+    winding_to_housing: float | np.ndarray  #: R_wh [K/W]
+    housing_to_ambient: float | np.ndarray  #: R_ha [K/W]
+    winding_to_magnet: float | np.ndarray  #: R_wm, across the air gap [K/W]
+    magnet_to_housing: float | np.ndarray  #: R_mh, through magnet and bond line [K/W]
 
 
-def gap_coupling_resistance(geometry: Geometry, heat_transfer: float = GAP_HEAT_TRANSFER) -> float:
+def gap_coupling_resistance(geometry: Geometry, heat_transfer: float = GAP_HEAT_TRANSFER):
     """Winding-to-magnet resistance across the air gap, R_wm = 1/(h·A), A the magnets' inner faces.
 
     Parameters
@@ -88,30 +89,30 @@ def gap_coupling_resistance(geometry: Geometry, heat_transfer: float = GAP_HEAT_
 
     Returns
     -------
-    float
-        R_wm [K/W].
+    float or ndarray
+        R_wm [K/W] (an array for a geometry of arrays).
 
     References
     ----------
     .. [1] Newton's law of cooling over the magnets' faces; h is common practice, no source.
     """
     area = geometry.poles * geometry.magnet_arc * geometry.magnet_inner_radius * geometry.stack_length
-    return float(1.0 / (heat_transfer * area))
+    return 1.0 / (heat_transfer * area)
 
 
-def magnet_to_housing_resistance(geometry: Geometry, magnet_family: str) -> float:
+def magnet_to_housing_resistance(geometry: Geometry, magnet_family: str | Sequence[str]):
     """Resistance from the magnets' inner face to the housing: half the magnet, then the bond line.
 
     Parameters
     ----------
     geometry : Geometry
         Cross-section (magnet thickness, arc, outer radius, length, poles) [m, rad].
-    magnet_family : str
-        The grade's family (sets the magnet's conductivity).
+    magnet_family : str or sequence of str
+        The grade's family (sets the magnet's conductivity), or one per design of a geometry of arrays.
 
     Returns
     -------
-    float
+    float or ndarray
         R_mh = (lm/2)/(k_m·A) + t_b/(k_b·A) [K/W], A the magnets' outer faces.
 
     References
@@ -120,11 +121,12 @@ def magnet_to_housing_resistance(geometry: Geometry, magnet_family: str) -> floa
        taken at its mid-thickness, the bond line is common practice, no source.
     """
     area = geometry.poles * geometry.magnet_arc * geometry.housing_inner_radius * geometry.magnet_length
-    k_magnet = MAGNET_CONDUCTIVITY[magnet_family]
-    return float((0.5 * geometry.magnet_thickness / k_magnet + BOND_THICKNESS / BOND_CONDUCTIVITY) / area)
+    k_magnet = (MAGNET_CONDUCTIVITY[magnet_family] if isinstance(magnet_family, str)
+                else np.array([MAGNET_CONDUCTIVITY[family] for family in magnet_family]))
+    return ((0.5 * geometry.magnet_thickness / k_magnet + BOND_THICKNESS / BOND_CONDUCTIVITY) / area)
 
 
-def capacity(masses_and_specific_heats) -> float:
+def capacity(masses_and_specific_heats):
     """Heat capacity of a node: Σ m·c.
 
     Parameters
@@ -141,7 +143,7 @@ def capacity(masses_and_specific_heats) -> float:
     ----------
     .. [1] lumped-capacitance method (Incropera, from memory).
     """
-    return float(sum(m * c for m, c in masses_and_specific_heats))
+    return sum(m * c for m, c in masses_and_specific_heats)
 
 
 def system_matrix(network: ThermalNetwork) -> np.ndarray:
@@ -155,43 +157,96 @@ def system_matrix(network: ThermalNetwork) -> np.ndarray:
     Returns
     -------
     ndarray
-        A, shape (2, 2) [1/s].
+        A, shape (2, 2) [1/s] (with array fields, (2, 2, ...) elementwise).
 
     References
     ----------
     .. [1] the module docstring's network (Incropera, thermal circuits, from memory).
     """
+    return np.array(_matrix_entries(network))
+
+
+def _matrix_entries(network: ThermalNetwork):
     cw, ch = network.winding_capacity, network.housing_capacity
-    g_wh = 1.0 / max(network.winding_to_housing, SMALLEST_RESISTANCE)
+    g_wh = 1.0 / np.maximum(network.winding_to_housing, SMALLEST_RESISTANCE)
     g_ha = 1.0 / network.housing_to_ambient
-    return np.array([[-g_wh / cw, g_wh / cw], [g_wh / ch, -(g_wh + g_ha) / ch]])
+    return [[-g_wh / cw, g_wh / cw], [g_wh / ch, -(g_wh + g_ha) / ch]]
 
 
-def _source(network: ThermalNetwork, winding_loss: float, housing_loss: float) -> np.ndarray:
-    return np.array([winding_loss / network.winding_capacity, housing_loss / network.housing_capacity])
+def _eigenvalues(network: ThermalNetwork):
+    """The two eigenvalues of A, fast (most negative) first, in closed form for a 2×2 matrix."""
+    (a, b), (c, d) = _matrix_entries(network)
+    # ((a - d)/2)² + b·c > 0 (b, c > 0): real, distinct eigenvalues, without the cancellation of tr² - 4·det
+    root = np.sqrt((0.5 * (a - d)) ** 2 + b * c)
+    middle = 0.5 * (a + d)
+    return middle - root, middle + root
 
 
-def steady_rise(network: ThermalNetwork, winding_loss: float, housing_loss: float) -> np.ndarray:
+def _free_response(network: ThermalNetwork, time, winding, housing):
+    """exp(A·t)·(θ_w, θ_h): the rises a time after (θ_w, θ_h) with no losses, elementwise.
+
+    exp(A·t) = (e^{λ1·t}·(A - λ2·I) - e^{λ2·t}·(A - λ1·I))/(λ1 - λ2) for the distinct eigenvalues λ1, λ2
+    (Sylvester's formula for a 2×2 matrix).
+    """
+    (a, b), (c, d) = _matrix_entries(network)
+    fast, slow = _eigenvalues(network)
+    e_fast, e_slow = np.exp(fast * time), np.exp(slow * time)
+    span = fast - slow
+    aw, ah = a * winding + b * housing, c * winding + d * housing
+    return ((e_fast * (aw - slow * winding) - e_slow * (aw - fast * winding)) / span,
+            (e_fast * (ah - slow * housing) - e_slow * (ah - fast * housing)) / span)
+
+
+def steady_rise(network: ThermalNetwork, winding_loss, housing_loss) -> np.ndarray:
     """Steady-state rises of winding and housing above ambient (S1).
 
     Parameters
     ----------
     network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W].
-    winding_loss, housing_loss : float
+        Capacities [J/K] and resistances [K/W] (floats, or arrays for many motors at once).
+    winding_loss, housing_loss : float or ndarray
         Heat into the winding node (copper, brush, iron) and into the housing node (friction, drag) [W].
 
     Returns
     -------
     ndarray
-        (θ_w, θ_h) [K]: θ_h = (P_w + P_h)·R_ha, θ_w = θ_h + P_w·R_wh.
+        (θ_w, θ_h) [K], first axis of length 2: θ_h = (P_w + P_h)·R_ha, θ_w = θ_h + P_w·R_wh.
 
     References
     ----------
     .. [1] x_ss = -A⁻¹·b of the module docstring.
     """
     housing = (winding_loss + housing_loss) * network.housing_to_ambient
-    return np.array([housing + winding_loss * max(network.winding_to_housing, SMALLEST_RESISTANCE), housing])
+    return np.array([housing + winding_loss * np.maximum(network.winding_to_housing, SMALLEST_RESISTANCE), housing])
+
+
+def rise_after(network: ThermalNetwork, winding_loss, housing_loss, time, initial_winding=0.0,
+               initial_housing=0.0) -> np.ndarray:
+    """Rises of winding and housing a time after a start, under constant losses, elementwise.
+
+    Parameters
+    ----------
+    network : ThermalNetwork
+        Capacities [J/K] and resistances [K/W] (floats or arrays).
+    winding_loss, housing_loss : float or ndarray
+        Heat into the winding and housing nodes [W].
+    time : float or ndarray
+        Time since the start [s], ≥ 0.
+    initial_winding, initial_housing : float or ndarray
+        Rises θ_w and θ_h at the start [K].
+
+    Returns
+    -------
+    ndarray
+        (θ_w, θ_h) [K], first axis of length 2, the rest the broadcast shape of the inputs.
+
+    References
+    ----------
+    .. [1] x(t) = x_ss + exp(A·t)·(x0 - x_ss), the closed form of the module docstring.
+    """
+    steady_w, steady_h = steady_rise(network, winding_loss, housing_loss)
+    free_w, free_h = _free_response(network, time, initial_winding - steady_w, initial_housing - steady_h)
+    return np.array([steady_w + free_w, steady_h + free_h])
 
 
 def rise_at(network: ThermalNetwork, winding_loss: float, housing_loss: float, times, initial=(0.0, 0.0)):
@@ -215,18 +270,14 @@ def rise_at(network: ThermalNetwork, winding_loss: float, housing_loss: float, t
 
     References
     ----------
-    .. [1] x(t) = x_ss + V·exp(Λ·t)·V⁻¹·(x0 - x_ss), the eigen-solution of the module docstring.
+    .. [1] x(t) = x_ss + exp(A·t)·(x0 - x_ss) (:func:`rise_after`).
     """
-    a = system_matrix(network)
-    eigenvalues, vectors = np.linalg.eig(a)
-    eigenvalues, vectors = eigenvalues.real, vectors.real  # real: A is similar to a symmetric matrix
-    steady = steady_rise(network, winding_loss, housing_loss)
-    modes = np.linalg.solve(vectors, np.asarray(initial, dtype=float) - steady)
     t = np.atleast_1d(np.asarray(times, dtype=float))
-    return steady + (np.exp(np.outer(t, eigenvalues)) * modes) @ vectors.T
+    start = np.asarray(initial, dtype=float)
+    return rise_after(network, winding_loss, housing_loss, t, start[0], start[1]).T
 
 
-def time_constants(network: ThermalNetwork) -> tuple[float, float]:
+def time_constants(network: ThermalNetwork):
     """The network's two time constants, fast (the winding's own) and slow (the motor's) [s].
 
     Parameters
@@ -236,16 +287,17 @@ def time_constants(network: ThermalNetwork) -> tuple[float, float]:
 
     Returns
     -------
-    tuple of float
+    tuple of float or ndarray
         -1/λ for the eigenvalues λ of A, shortest first [s].
 
     References
     ----------
     .. [1] eigenvalues of the 2×2 system (module docstring).
     """
-    eigenvalues = np.linalg.eigvals(system_matrix(network)).real
-    fast, slow = sorted(-1.0 / eigenvalues)
-    return float(fast), float(slow)
+    fast, slow = _eigenvalues(network)
+    if np.ndim(fast):
+        return -1.0 / fast, -1.0 / slow
+    return float(-1.0 / fast), float(-1.0 / slow)
 
 
 def magnet_rise(network: ThermalNetwork, winding_rise, housing_rise):
@@ -271,75 +323,91 @@ def magnet_rise(network: ThermalNetwork, winding_rise, housing_rise):
     return housing_rise + (np.asarray(winding_rise) - housing_rise) * share
 
 
-def _transition(network: ThermalNetwork, time: float) -> np.ndarray:
-    """exp(A·t): the free response's map from the rises at 0 to those at ``time``."""
-    return np.column_stack([rise_at(network, 0.0, 0.0, time, initial=unit)[0] for unit in np.eye(2)])
-
-
-def periodic_rise(network: ThermalNetwork, winding_loss: float, housing_loss: float, on_time: float,
-                  off_time: float) -> np.ndarray:
+def periodic_rise(network: ThermalNetwork, winding_loss, housing_loss, on_time, off_time) -> np.ndarray:
     """S3: rises at the end of the on-time in the periodic regime (losses on, then none at rest).
 
     Parameters
     ----------
     network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W].
-    winding_loss, housing_loss : float
+        Capacities [J/K] and resistances [K/W] (floats or arrays).
+    winding_loss, housing_loss : float or ndarray
         Heat into the winding and housing nodes while on [W].
-    on_time, off_time : float
+    on_time, off_time : float or ndarray
         Lengths of the loaded and the de-energized parts of a cycle [s].
 
     Returns
     -------
     ndarray
-        (θ_w, θ_h) at the end of the on-time, the hottest moment of the cycle [K].
+        (θ_w, θ_h) at the end of the on-time, the hottest moment of the cycle [K], first axis of length 2.
 
     References
     ----------
     .. [1] IEC 60034-1, duty type S3. The periodic state solves x_e = x_ss + E_on·(E_off·x_e - x_ss)
-       with E = exp(A·t) of each part (rest at zero losses), the closed form of the module docstring.
+       with E = exp(A·t) of each part (rest at zero losses), the closed form of the module docstring;
+       the 2×2 system by Cramer's rule.
     """
-    identity = np.eye(2)
-    exp_on, exp_off = _transition(network, on_time), _transition(network, off_time)
-    steady = steady_rise(network, winding_loss, housing_loss)
-    return np.linalg.solve(identity - exp_on @ exp_off, steady - exp_on @ steady)
+    steady_w, steady_h = steady_rise(network, winding_loss, housing_loss)
+
+    def cycle(w, h):  # E_on·E_off·x, the free response over a whole cycle
+        return _free_response(network, on_time, *_free_response(network, off_time, w, h))
+
+    # (I - E_on·E_off)·x = x_ss - E_on·x_ss, the matrix's columns from the unit vectors
+    m11, m21 = cycle(1.0, 0.0)
+    m12, m22 = cycle(0.0, 1.0)
+    m11, m21, m12, m22 = 1.0 - m11, -m21, -m12, 1.0 - m22
+    on_w, on_h = _free_response(network, on_time, steady_w, steady_h)
+    rhs_w, rhs_h = steady_w - on_w, steady_h - on_h
+    det = m11 * m22 - m12 * m21
+    return np.array([(rhs_w * m22 - m12 * rhs_h) / det, (m11 * rhs_h - m21 * rhs_w) / det])
 
 
-def time_to_rise(network: ThermalNetwork, winding_loss: float, housing_loss: float, winding_rise: float,
-                 initial=(0.0, 0.0)) -> float:
+def time_to_rise(network: ThermalNetwork, winding_loss, housing_loss, winding_rise, initial=(0.0, 0.0)):
     """Time until the winding's rise reaches ``winding_rise`` under constant losses; inf if never.
 
     Parameters
     ----------
     network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W].
-    winding_loss, housing_loss : float
+        Capacities [J/K] and resistances [K/W] (floats, or arrays for many motors at once).
+    winding_loss, housing_loss : float or ndarray
         Heat into the winding and housing nodes [W].
-    winding_rise : float
+    winding_rise : float or ndarray
         The winding rise to reach [K].
     initial : array_like, optional
-        Rises (θ_w, θ_h) at t = 0 [K].
+        Rises (θ_w, θ_h) at t = 0 [K], first axis of length 2.
 
     Returns
     -------
-    float
-        t [s]; 0 when the winding starts at or above it, inf when its steady rise stays below it.
+    float or ndarray
+        t [s]; 0 when the winding starts at or above it, inf when its steady rise stays below it (a float
+        when every input is a float).
 
     References
     ----------
-    .. [1] root of θ_w(t) = target on :func:`rise_at` (bracketed, Brent's method); θ_w rises
-       monotonically from any start below the steady state with the housing not above the winding.
+    .. [1] root of θ_w(t) = target on :func:`rise_after` (bracketed, Chandrupatla's method,
+       core.solvers); θ_w rises monotonically from any start below the steady state with the housing not
+       above the winding.
     """
-    start = np.asarray(initial, dtype=float)
-    if start[0] >= winding_rise:
-        return 0.0
-    if steady_rise(network, winding_loss, housing_loss)[0] <= winding_rise:
-        return float("inf")
+    from .solvers import find_root
 
-    def short_of_target(t: float) -> float:
-        return float(rise_at(network, winding_loss, housing_loss, t, start)[0, 0] - winding_rise)
+    start_w, start_h = (np.asarray(value, dtype=float) for value in initial)
+    steady_w = steady_rise(network, winding_loss, housing_loss)[0]
+    target = np.asarray(winding_rise, dtype=float)
+    shape = np.broadcast_shapes(np.shape(steady_w), start_w.shape, target.shape,
+                                np.shape(network.winding_capacity))
+    already, never = np.broadcast_to(start_w >= target, shape), np.broadcast_to(steady_w <= target, shape)
 
-    upper = max(time_constants(network)[0], 1e-3)
-    while short_of_target(upper) < 0.0:
-        upper *= 2.0
-    return float(brentq(short_of_target, 0.0, upper, xtol=1e-9, rtol=1e-10))
+    def short_of_target(t):
+        return rise_after(network, winding_loss, housing_loss, t, start_w, start_h)[0] - target
+
+    upper = np.broadcast_to(np.maximum(time_constants(network)[0], 1e-3), shape).copy()
+    searching = ~already & ~never
+    for _ in range(200):
+        short = searching & (np.broadcast_to(short_of_target(upper), shape) < 0.0)
+        if not short.any():
+            break
+        upper = np.where(short, 2.0 * upper, upper)
+    with np.errstate(invalid="ignore", over="ignore"):
+        root = find_root(lambda t: np.broadcast_to(short_of_target(t), shape), np.zeros(shape), upper,
+                         xtol=1e-12, rtol=1e-13, max_iterations=100).root
+    time = np.where(already, 0.0, np.where(never, np.inf, root))
+    return float(time) if time.ndim == 0 else time

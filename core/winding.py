@@ -167,10 +167,11 @@ def winding_length(conductors: int | np.ndarray, turn_length: float | np.ndarray
 
 def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.ndarray,
                         paths: int | np.ndarray, copper_area: float | np.ndarray,
-                        temperature_C: float | np.ndarray):
+                        temperature_C: float | np.ndarray, resistivity_factor: float | np.ndarray = 1.0):
     """Resistance between the brushes: a paths in parallel, each of Z/(2a) turns.
 
-    R = ρ(T)·(Z/2·l_turn)/(a²·A_cu), with ρ(T) of annealed copper per IEC 60028.
+    R = f·ρ(T)·(Z/2·l_turn)/(a²·A_cu), with ρ(T) of annealed copper per IEC 60028 and f the wire's
+    resistivity relative to it (production spread; 1 for the standard's copper).
 
     Parameters
     ----------
@@ -184,6 +185,8 @@ def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.nd
         Copper cross-section of the wire [m²].
     temperature_C : float or ndarray
         Winding temperature [°C].
+    resistivity_factor : float or ndarray
+        The copper's resistivity relative to IEC 60028 annealed copper [1].
 
     Returns
     -------
@@ -196,7 +199,7 @@ def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.nd
        parallel combination of the paths is elementary circuit theory.
     """
     length = winding_length(conductors, turn_length)
-    return copper_resistivity(temperature_C) * length / (np.asarray(paths) ** 2 * copper_area)
+    return resistivity_factor * copper_resistivity(temperature_C) * length / (np.asarray(paths) ** 2 * copper_area)
 
 
 def conductors_per_slot(conductors: int | np.ndarray, slots: int | np.ndarray):

@@ -45,3 +45,29 @@ def test_sweep_validates_every_value(ferrite_demo):
 def test_sweep_refuses_a_change_of_grade(ferrite_demo):
     with pytest.raises(ProjectError):
         sweep.magnetics_sweep(project.load(ferrite_demo), "magnets.grade", ["Y30", "Y40"])
+
+
+def test_figure_sweep_equals_evaluate_one_by_one(ferrite_demo):
+    from pmdc_sizer.core.batch import screening_figures
+    from pmdc_sizer.core.evaluate import evaluate
+
+    base = project.load(ferrite_demo)
+    names = ["nominal.no_load_speed_rad_per_s", "hot.stall_torque_N_m", "ratings.continuous_torque_N_m",
+             "worst_demagnetization_margin_A_per_m"]
+    swept = sweep.figure_sweep(base, "winding.turns_per_coil", [18, 24], names)
+    assert sorted(swept.figures) == sorted(names)
+    for i, turns in enumerate([18, 24]):
+        expected = screening_figures(evaluate(project.with_values(base, {"winding.turns_per_coil": turns})))
+        for name in names:
+            np.testing.assert_allclose(swept.figures[name][i], expected[name], rtol=1e-9, err_msg=name)
+    # more turns: a higher Ke, so a lower no-load speed
+    assert swept.figures["nominal.no_load_speed_rad_per_s"][1] < swept.figures["nominal.no_load_speed_rad_per_s"][0]
+
+
+def test_figure_sweep_takes_a_change_of_grade_and_refuses_an_unknown_figure(ferrite_demo):
+    base = project.load(ferrite_demo)
+    swept = sweep.figure_sweep(base, "magnets.grade", ["Y30", "Y35"], ["nominal.flux_per_pole_Wb"])
+    assert swept.figures["nominal.flux_per_pole_Wb"][1] > swept.figures["nominal.flux_per_pole_Wb"][0]
+    with pytest.raises(ProjectError) as error:
+        sweep.figure_sweep(base, "magnets.grade", ["Y30"], ["nominal.top_speed"])
+    assert "nominal.top_speed" in str(error.value)

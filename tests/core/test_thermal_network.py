@@ -122,14 +122,15 @@ def test_stall_time_from_cold_is_adiabatic_for_a_short_stall():
     # Source: I²R·t = m·c·ΔT. 22 V over 0.1 Ω: 220 A, 4840 W in copper and 440 W at the brushes into
     # 40 J/K, 10 K from ambient to the "class limit": 0.0758 s, far below the 30 s own time constant
     # (0.2 % lost: 0.5 % tolerance). The resistance is held constant here so the estimate is exact.
-    def motor_at(winding_C, magnet_C):
+    def motor_at(rows, winding_C, magnet_C):
         return _motor(0.1)
 
-    time, current = ratings.stall_time(NETWORK, 40.0, motor_at, None, 50.0)
-    assert current == pytest.approx(220.0)
+    one = np.zeros(1, dtype=int)
+    time, current = ratings.stall_time(NETWORK, one, 40.0, motor_at, np.nan, 50.0)
+    assert current[0] == pytest.approx(220.0)
     assert_allclose(time, 40.0 * 10.0 / (220.0**2 * 0.1 + 2.0 * 220.0), rtol=5e-3)
-    limited, limited_current = ratings.stall_time(NETWORK, 40.0, motor_at, 50.0, 50.0)
-    assert limited_current == 50.0 and limited > time
+    limited, limited_current = ratings.stall_time(NETWORK, one, 40.0, motor_at, 50.0, 50.0)
+    assert limited_current[0] == 50.0 and limited[0] > time[0]
 
 
 @pytest.fixture(scope="module")
