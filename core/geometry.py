@@ -16,6 +16,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+#: Radial height of the tooth tips that overhang the slot [m] (common practice, no source); a shallow
+#: slot keeps at most a quarter of its depth for them (:attr:`Geometry.tooth_tip_height`).
+TOOTH_TIP_HEIGHT = 0.5e-3
+
 
 @dataclass(frozen=True)
 class Geometry:
@@ -66,6 +70,12 @@ class Geometry:
     def core_depth(self):
         """Radial depth of the armature back iron between slot bottoms and shaft [m]."""
         return self.slot_bottom_radius - self.shaft_radius
+
+    @property
+    def tooth_tip_height(self):
+        """Radial height of the tooth tips [m]: :data:`TOOTH_TIP_HEIGHT`, at most a quarter of the slot
+        depth (the areas and volumes here leave the tips out; the field solution meshes them)."""
+        return np.minimum(TOOTH_TIP_HEIGHT, 0.25 * self.slot_depth)
 
     # --- angles and pitches
     @property

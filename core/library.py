@@ -16,8 +16,6 @@ from __future__ import annotations
 
 import dataclasses
 import os
-import stat
-import tomllib
 from dataclasses import dataclass, field
 from functools import lru_cache
 from importlib import resources
@@ -26,6 +24,7 @@ from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
+from . import text_files
 from .errors import ProjectError
 from .keys import format_validation_error, shown_value
 from .magnet_grade_check import require_faithful_curve, require_modelled_family
@@ -65,8 +64,9 @@ GRADE_KEYS = {
     "squareness": "squareness", "remanence_temp_coeff_pct_per_K": "remanence_temp_coeff",
     "coercivity_temp_coeff_pct_per_K": "coercivity_temp_coeff",
     "max_working_temperature_C": "max_working_temperature_C", "density_kg_per_m3": "density",
-    "source": "source",
+    "price_per_kg": "price_per_kg", "price_currency": "price_currency", "source": "source",
 }
+_NOT_CONVERTED = ("", "/kg")  #: prices are per kilogram of their own currency
 
 
 def _unit_of(key: str) -> str:
@@ -105,7 +105,8 @@ def grade_from_spec(spec: CustomGrade, custom: bool = False) -> MagnetGrade:
     values: dict[str, Any] = {}
     for key, attribute in GRADE_KEYS.items():
         value = getattr(spec, key)
-        values[attribute] = to_si(value, _unit_of(key)) if isinstance(value, float) else value
+        convert = isinstance(value, float) and _unit_of(key) not in _NOT_CONVERTED
+        values[attribute] = to_si(value, _unit_of(key)) if convert else value
     grade = MagnetGrade(**values, custom=custom)
     require_faithful_curve(grade)  # builds the curve now, so a grade that cannot have one fails here, by name
     return grade
@@ -127,7 +128,11 @@ def grade_table(grade: MagnetGrade) -> dict[str, Any]:
     table: dict[str, Any] = {}
     for key, attribute in GRADE_KEYS.items():
         value = getattr(grade, attribute)
-        table[key] = float(f"{from_si(value, _unit_of(key)):.6g}") if isinstance(value, float) else value
+        if value is None:
+            continue  # a grade without a price: TOML has no null
+        if isinstance(value, float) and _unit_of(key) not in _NOT_CONVERTED:
+            value = from_si(value, _unit_of(key))
+        table[key] = float(f"{value:.6g}") if isinstance(value, float) else value
     return table
 
 
@@ -234,17 +239,6 @@ def _entries(data: dict, source: str):
             raise ProjectError(f"{source}: steel[{index}]: {error}") from None
 
 
-def _read_toml(text: str, source: str) -> dict:
-    try:
-        return tomllib.loads(text.removeprefix("\ufeff"))
-    except tomllib.TOMLDecodeError as error:
-        raise ProjectError(f"{source}: not a valid TOML file ({error})") from None
-    except RecursionError:
-        raise ProjectError(f"{source}: not a library file (its tables or arrays are nested too deeply)") from None
-    except ValueError:  # an integer past Python's int-to-string limit
-        raise ProjectError(f"{source}: not a library file (it holds a number of more than 4300 digits)") from None
-
-
 @lru_cache(maxsize=1)
 def _builtin() -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
     grades: dict[str, MagnetGrade] = {}
@@ -252,36 +246,16 @@ def _builtin() -> tuple[dict[str, MagnetGrade], dict[str, Steel]]:
     # the package this module is in: pmdc_sizer.core once installed (never a bare "core")
     data_folder = resources.files(__name__.rpartition(".")[0]) / "data"
     for filename in ("magnets.toml", "steels.toml"):
-        data = _read_toml((data_folder / filename).read_text(encoding="utf-8"), "built-in")
+        data = text_files.parse_toml((data_folder / filename).read_text(encoding="utf-8"), "built-in", "library file")
         for kind, item in _entries(data, "built-in"):
             (grades if kind == "grade" else steels)[item.name] = item
     return grades, steels
 
 
-def _user_file_text(path: Path) -> str:
-    """The text of one user-library file, or ProjectError with the reason it cannot be one."""
-    if path.is_symlink() and not path.exists():
-        raise ProjectError(f"{path}: is a link to a file that does not exist")
-    try:
-        mode = path.stat().st_mode
-        if not stat.S_ISREG(mode):
-            raise ProjectError(f"{path}: is {'a folder' if stat.S_ISDIR(mode) else 'not a regular file'}, "
-                               "not a library file")
-        with open(path, "rb") as stream:
-            raw = stream.read(MAX_LIBRARY_FILE_BYTES + 1)
-    except OSError as error:
-        raise ProjectError(f"{path}: cannot be read ({error.strerror or error})") from None
-    if len(raw) > MAX_LIBRARY_FILE_BYTES:
-        raise ProjectError(f"{path}: is larger than a library file can be ({MAX_LIBRARY_FILE_BYTES // 1024} kB)")
-    try:
-        return raw.decode("utf-8")
-    except UnicodeDecodeError:
-        raise ProjectError(f"{path}: is not UTF-8 text") from None
-
-
 def _user_file(path: Path) -> list[tuple[str, Any]]:
     """Every entry of one user-library file, all or none (ProjectError naming the file and the entry)."""
-    data = _read_toml(_user_file_text(path), str(path))
+    text = text_files.read_text(path, kind="library file", max_bytes=MAX_LIBRARY_FILE_BYTES)
+    data = text_files.parse_toml(text, str(path), "library file")
     try:
         return list(_entries(data, str(path)))
     except RecursionError:

@@ -110,6 +110,8 @@ class MagnetGrade:
     max_working_temperature_C: float  #: supplier's maximum working temperature [°C]
     density: float  #: [kg/m³]
     source: str = ""  #: where the values come from ("from memory" where they are recalled)
+    price_per_kg: float | None = None  #: typical price of the finished magnet [price_currency/kg], from memory
+    price_currency: str = "EUR"  #: currency of ``price_per_kg``
     custom: bool = field(default=False, compare=False)  #: a user's grade rather than a built-in one
 
 
@@ -132,7 +134,7 @@ def remanence_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     ----------
     .. [1] IEC 60404-8-1 (the linear reversible temperature coefficient, stated per grade family).
     """
-    return grade.remanence * (1.0 + grade.remanence_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C))
+    return _reversible(grade.remanence, grade.remanence_temp_coeff, temperature_C)
 
 
 def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
@@ -143,9 +145,9 @@ def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarra
     Parameters
     ----------
     grade : MagnetGrade
-        The grade, with HcJ at 20 °C and β.
+        Its HcJ at 20 °C and β.
     temperature_C : float or ndarray
-        Magnet temperature [°C].
+        Magnet temperature [°C] (cold is the worst case for ferrite, hot for NdFeB).
 
     Returns
     -------
@@ -154,11 +156,14 @@ def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarra
 
     References
     ----------
-    .. [1] IEC 60404-8-1 (the linear reversible temperature coefficient, stated per grade family).
+    .. [1] IEC 60404-8-1: the same linear reversible law as Br's (:func:`remanence_at`), with β.
     """
-    return grade.coercivity_hcj * (
-        1.0 + grade.coercivity_temp_coeff * (temperature_C - REFERENCE_TEMPERATURE_C)
-    )
+    return _reversible(grade.coercivity_hcj, grade.coercivity_temp_coeff, temperature_C)
+
+
+def _reversible(value_at_reference: float, coefficient: float, temperature_C: float | np.ndarray):
+    # value·(1 + coefficient·(T - 20 °C)): the linear reversible law of IEC 60404-8-1, for Br and for HcJ
+    return value_at_reference * (1.0 + coefficient * (temperature_C - REFERENCE_TEMPERATURE_C))
 
 
 @lru_cache(maxsize=256)
@@ -219,3 +224,47 @@ def require_ambient_inside_model(grade: MagnetGrade, ambient_min_C: float, ambie
         raise MagneticCircuitError(
             f"the ambient range {ambient_min_C:g} to {ambient_max_C:g} °C is outside the range where "
             f"{grade.name}'s temperature coefficients hold ({low_C:.0f} to {high_C:.0f} °C)")
+
+
+def magnet_price_per_kg(project_price: float | None, currency: str, grade: MagnetGrade) -> float:
+    """The magnet material's price: the project's where it gives one, else the grade's library price.
+
+    The project's price wins because it is the user's quotation; the library's is a typical figure from
+    memory (rare-earth prices move by a factor of two within a year). A comparison that gives design B
+    another grade drops A's project price (:func:`core.difference.with_grade`), so B is priced as its own
+    grade.
+
+    Parameters
+    ----------
+    project_price : float or None
+        ``prices.magnet_per_kg`` of the project [currency/kg], None when the project leaves it out.
+    currency : str
+        The project's currency (``prices.currency``).
+    grade : MagnetGrade
+        The grade, with its typical ``price_per_kg`` in ``price_currency`` (None for a grade without one).
+
+    Returns
+    -------
+    float
+        The price [currency/kg].
+
+    Raises
+    ------
+    ValueError
+        Naming ``prices.magnet_per_kg`` when the project gives no price and the grade has none, or has
+        one in another currency (no exchange rate is assumed).
+
+    References
+    ----------
+    .. [1] the grades' prices are typical bulk prices, from memory (core/data/magnets.toml).
+    """
+    if project_price is not None:
+        return project_price
+    if grade.price_per_kg is None:
+        raise ValueError(f"prices.magnet_per_kg is not given and grade {grade.name!r} has no price of its own: "
+                         "give the magnet material's price per kg")
+    if grade.price_currency != currency:
+        raise ValueError(f"prices.magnet_per_kg is not given and grade {grade.name!r} is priced in "
+                         f"{grade.price_currency}, the project in {currency}: give the magnet material's price "
+                         f"per kg in {currency}")
+    return grade.price_per_kg

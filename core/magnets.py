@@ -41,10 +41,9 @@ the knee are common in the literature, from memory, no one paper followed).
 
 References
 ----------
-.. [1] IEC 60404-5, Magnetic materials, part 5: permanent magnet (magnetically hard) materials, methods
-   of measurement of magnetic properties (the quantities Br, HcB, HcJ, (BH)max, μrec).
-.. [2] IEC 60404-8-1, Magnetic materials, part 8-1: specifications for individual materials,
-   magnetically hard materials (grade families and their reversible temperature coefficients).
+.. [1] IEC 60404-5 (methods of measurement of permanent-magnet materials): the normal and intrinsic
+   demagnetization curves, B = μ0·H + J, and the points of them a grade's data give (Br, HcB, HcJ,
+   (BH)max, μrec). The temperature coefficients' source is given in :mod:`magnet_grades`.
 """
 
 from __future__ import annotations
@@ -70,32 +69,6 @@ from .solvers import find_root
 from .units import MU_0
 
 
-def knee_width_ratio(grade: MagnetGrade) -> float:
-    """Knee width over HcJ, w/HcJ, of the grade's fitted knee (held constant with temperature).
-
-    Parameters
-    ----------
-    grade : MagnetGrade
-        The grade (Br, HcB, HcJ, squareness, recoil permeability).
-
-    Returns
-    -------
-    float
-        w/HcJ [1], the width of the knee's logistic step (:func:`core.magnet_knee.knee_shape`).
-
-    Raises
-    ------
-    GradeDataError
-        When the squareness cannot be reached with this recoil permeability (the recoil line alone
-        falls below 0.9·Br before Hk).
-
-    References
-    ----------
-    .. [1] the curve model of this module (the project's own construction).
-    """
-    return knee_shape(grade).width_ratio
-
-
 def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     """The knee: the field at which the intrinsic curve has fallen ``KNEE_LOSS_FRACTION``·Br(T) below
     its recoil line, the onset of irreversible loss.
@@ -106,9 +79,9 @@ def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     Parameters
     ----------
     grade : MagnetGrade
-        The grade.
+        The grade, whose knee shape is fitted once (:func:`core.magnet_knee.knee_shape`).
     temperature_C : float or ndarray
-        Magnet temperature [°C].
+        Magnet temperature [°C]; an array gives the knee at each.
 
     Returns
     -------
@@ -215,12 +188,12 @@ class CurveAtTemperature:
         Parameters
         ----------
         field_strength : float or ndarray
-            Field strength H in the magnet [A/m].
+            H in the magnet [A/m]; the line is the curve only while H stays short of the knee.
 
         Returns
         -------
         float or ndarray
-            Flux density B [T].
+            B on the recoil line [T].
         """
         return self.remanence + (MU_0 + self.recoil_slope) * field_strength
 
@@ -231,9 +204,9 @@ def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTe
     Parameters
     ----------
     grade : MagnetGrade
-        The grade.
+        Br and HcJ at 20 °C with their coefficients, μrec and the squareness the knee is fitted to.
     temperature_C : float or ndarray
-        Magnet temperature [°C].
+        Magnet temperature [°C]; an array gives a curve whose constants are arrays (they broadcast).
 
     Returns
     -------
@@ -243,7 +216,7 @@ def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTe
     Raises
     ------
     GradeDataError
-        If the grade's squareness cannot be reached (see :func:`knee_width_ratio`).
+        If the grade's squareness cannot be reached (see :func:`core.magnet_knee.knee_shape`).
     """
     br = remanence_at(grade, temperature_C)
     hcj = intrinsic_coercivity_at(grade, temperature_C)
@@ -255,7 +228,10 @@ def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTe
 
 def polarization(grade: MagnetGrade, field_strength: float | np.ndarray,
                  temperature_C: float | np.ndarray):
-    """Intrinsic curve J(H) of a grade at a temperature.
+    """Intrinsic curve J(H) of a grade at a temperature, for a single lookup.
+
+    Many lookups at one temperature take :func:`curve_at` once and call its
+    :meth:`CurveAtTemperature.polarization`, which this calls.
 
     Parameters
     ----------
@@ -269,32 +245,33 @@ def polarization(grade: MagnetGrade, field_strength: float | np.ndarray,
     Returns
     -------
     ndarray
-        Polarization J [T].
+        J [T], floored at -Br as the method floors it.
 
     References
     ----------
-    .. [1] the project's own curve model (module docstring)
+    .. [1] module docstring: the project's own curve model
     """
     return curve_at(grade, temperature_C).polarization(field_strength)
 
 
 def flux_density(grade: MagnetGrade, field_strength: float | np.ndarray,
                  temperature_C: float | np.ndarray):
-    """Normal curve B(H) = μ0·H + J(H) of a grade at a temperature.
+    """Normal curve B(H) = μ0·H + J(H) of a grade at a temperature; as :func:`polarization`, a
+    single lookup through :meth:`CurveAtTemperature.flux_density`.
 
     Parameters
     ----------
     grade : MagnetGrade
         The grade.
     field_strength : float or ndarray
-        Field strength H in the magnet [A/m].
+        H in the magnet [A/m], negative in the second quadrant.
     temperature_C : float or ndarray
-        Magnet temperature [°C].
+        Its temperature [°C]; arrays broadcast with ``field_strength``.
 
     Returns
     -------
     ndarray
-        Flux density B [T].
+        B [T], on the normal curve of ``grade`` at ``temperature_C``.
 
     References
     ----------
@@ -309,9 +286,9 @@ def normal_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     Parameters
     ----------
     grade : MagnetGrade
-        The grade.
+        The grade; its stored HcB is the data the model is checked against, not used here.
     temperature_C : float or ndarray
-        Magnet temperature [°C].
+        Magnet temperature [°C], one root found per temperature.
 
     Returns
     -------
@@ -340,9 +317,9 @@ def energy_product_of_curve(grade: MagnetGrade, temperature_C: float, samples: i
     Parameters
     ----------
     grade : MagnetGrade
-        The grade.
+        The grade, whose stored (BH)max this is checked against (:mod:`magnet_grade_check`).
     temperature_C : float
-        Magnet temperature [°C].
+        The one magnet temperature [°C].
     samples : int, optional
         Points from -HcB to 0 [1]; 4001 puts the sampling error well below 1e-6 of the maximum.
 
@@ -402,9 +379,9 @@ def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: in
     Parameters
     ----------
     grade : MagnetGrade
-        The grade.
+        The grade to draw.
     temperature_C : float
-        Magnet temperature [°C].
+        Magnet temperature [°C] of this pair of curves (a chart draws one pair per case).
     samples : int, optional
         Points on each curve [1].
     field_min : float, optional
@@ -435,7 +412,7 @@ def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: in
 __all__ = [
     "FAMILIES", "KNEE_LOSS_FRACTION", "REFERENCE_TEMPERATURE_C", "CurveAtTemperature", "DemagnetizationCurves",
     "GradeDataError", "MagnetGrade", "curve_at", "demagnetization_curves", "energy_product_of_curve", "flux_density",
-    "intrinsic_coercivity_at", "knee_field_at", "knee_width_ratio", "linear_energy_product",
+    "intrinsic_coercivity_at", "knee_field_at", "linear_energy_product",
     "model_temperature_range_C", "normal_coercivity_at", "polarization", "remanence_at",
     "require_ambient_inside_model", "squareness_field_at",
 ]

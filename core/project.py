@@ -16,8 +16,6 @@ from __future__ import annotations
 
 import datetime
 import os
-import stat
-import tomllib
 from pathlib import Path
 from typing import Any
 
@@ -25,7 +23,7 @@ import tomli_w
 import tomlkit
 import tomlkit.exceptions
 
-from . import atomic_files
+from . import atomic_files, text_files
 from .edits import get_value, with_values
 from .errors import ProjectError
 from .fit_rules import check_fit, validate
@@ -60,17 +58,9 @@ def parse(text: str, source: str = "project") -> Project:
     ProjectError
         Naming the file, the key and the limit.
     """
-    text = text.removeprefix(BYTE_ORDER_MARK)
-    if not text.strip():
+    if not text.removeprefix(text_files.BYTE_ORDER_MARK).strip():
         raise ProjectError(f"{source}: the file is empty")
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
-        raise ProjectError(f"{source}: not a valid TOML file ({error})") from None
-    except RecursionError:
-        raise ProjectError(f"{source}: not a project file (its tables or arrays are nested too deeply)") from None
-    except ValueError:  # an integer past Python's int-to-string limit of 4300 digits
-        raise ProjectError(f"{source}: not a project file (it holds a number of more than 4300 digits)") from None
+    data = text_files.parse_toml(text, source, "project file")
     try:
         return validate(data)
     except RecursionError:
@@ -93,29 +83,10 @@ def read_text(path: str | os.PathLike[str]) -> str:
     Raises
     ------
     ProjectError
-        Naming the file: missing or unreadable, a folder, a device or a pipe (which would block or never
-        end), larger than :data:`MAX_PROJECT_BYTES`, binary, or not UTF-8.
+        Naming the file: missing, a link to nothing, unreadable, a folder, a device or a pipe, larger
+        than :data:`MAX_PROJECT_BYTES`, binary, or not UTF-8 (:func:`core.text_files.read_text`).
     """
-    path = Path(path)
-    try:
-        mode = path.stat().st_mode
-        if stat.S_ISDIR(mode):
-            raise ProjectError(f"{path}: is a folder, not a project file")
-        if not stat.S_ISREG(mode):
-            raise ProjectError(f"{path}: is a device or a pipe, not a project file; give a .toml file")
-        with open(path, "rb") as stream:
-            raw = stream.read(MAX_PROJECT_BYTES + 1)
-    except OSError as error:
-        raise ProjectError(f"{path}: cannot read the file ({error.strerror or error})") from None
-    if len(raw) > MAX_PROJECT_BYTES:
-        raise ProjectError(f"{path}: is larger than any project file (more than {MAX_PROJECT_BYTES // 1024} kB)")
-    if b"\x00" in raw:
-        raise ProjectError(f"{path}: this is a binary file, not a project file")
-    try:
-        return raw.decode("utf-8").removeprefix(BYTE_ORDER_MARK)
-    except UnicodeDecodeError as error:
-        raise ProjectError(f"{path}: the file is not UTF-8 text (byte {error.start + 1} cannot be read as "
-                           "UTF-8; save it from your editor as UTF-8)") from None
+    return text_files.read_text(path, kind="project file", max_bytes=MAX_PROJECT_BYTES)
 
 
 def load(path: str | os.PathLike[str]) -> Project:
@@ -149,7 +120,6 @@ def load(path: str | os.PathLike[str]) -> Project:
 
 
 MAX_PROJECT_BYTES = 1024 * 1024  #: a project file is a few kB; anything past 1 MiB is not one
-BYTE_ORDER_MARK = "\ufeff"
 
 _HEADER = (
     "# pmdc-sizer project file. Keys carry their units in their names; every key is described in\n"
@@ -180,7 +150,7 @@ def dumps(project: Project, layout: str | None = None) -> str:
     if layout is None:
         return fresh
     try:
-        document = tomlkit.parse(layout.removeprefix(BYTE_ORDER_MARK))
+        document = tomlkit.parse(layout.removeprefix(text_files.BYTE_ORDER_MARK))
         _merge(document, to_dict(project), "")
         text = document.as_string()
         if parse(text) == project:

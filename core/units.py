@@ -20,7 +20,7 @@ References
 from __future__ import annotations
 
 import math
-from typing import overload
+from typing import TypeVar
 
 import numpy as np
 from scipy import constants as _const
@@ -115,11 +115,11 @@ _TO_SI: dict[str, float] = {
 }
 
 
-@overload
-def to_si(value: float, unit: str) -> float: ...
-@overload
-def to_si(value: np.ndarray, unit: str) -> np.ndarray: ...
-def to_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
+#: What the conversions take and give back in kind: a float, an array, or a field that holds either.
+Quantity = TypeVar("Quantity", float, np.ndarray, float | np.ndarray)
+
+
+def to_si(value: Quantity, unit: str) -> Quantity:
     """Convert a value in an engineering unit to SI.
 
     Parameters
@@ -151,11 +151,7 @@ def to_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
     return value * _TO_SI[unit]
 
 
-@overload
-def from_si(value: float, unit: str) -> float: ...
-@overload
-def from_si(value: np.ndarray, unit: str) -> np.ndarray: ...
-def from_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
+def from_si(value: Quantity, unit: str) -> Quantity:
     """Convert an SI value to an engineering unit: the inverse of :func:`to_si`.
 
     Parameters
@@ -163,21 +159,16 @@ def from_si(value: float | np.ndarray, unit: str) -> float | np.ndarray:
     value : float or ndarray
         The quantity in SI [m, A/m, rad/s, N·m, ...], or in °C for a temperature.
     unit : str
-        One of :func:`known_units`.
+        The unit wanted, one of :func:`known_units`; a KeyError names any other.
 
     Returns
     -------
     float or ndarray
-        The quantity in ``unit``.
-
-    Raises
-    ------
-    KeyError
-        If ``unit`` is not one of :func:`known_units`.
+        The quantity in ``unit``: the SI value divided by the unit's factor, or t·9/5 + 32 for ``"°F"``.
 
     References
     ----------
-    .. [1] exact factors of the SI brochure, 9th ed., 2019, and NIST SP 811, 2008, appendix B
+    .. [1] NIST SP 811, 2008, appendix B (the same exact factors as :func:`to_si`, and °F from °C)
     """
     if unit == "°C":
         return value
@@ -234,7 +225,7 @@ US_CUSTOMARY: dict[str, str] = {
 _TO_SI["oz·in/A"] = _TO_SI["oz·in"]
 
 
-def convert(value: float | np.ndarray, from_unit: str, to_unit: str):
+def convert(value: Quantity, from_unit: str, to_unit: str) -> Quantity:
     """Convert between two engineering units of the same quantity, through SI.
 
     Parameters
@@ -253,13 +244,13 @@ def convert(value: float | np.ndarray, from_unit: str, to_unit: str):
     return from_si(to_si(value, from_unit), to_unit)
 
 
-def temperature_difference_to_si(value: float | np.ndarray, unit: str):
+def temperature_difference_to_si(value: Quantity, unit: str) -> Quantity:
     """A temperature difference in K, from °C or °F (a difference has no offset).
 
     Parameters
     ----------
     value : float or ndarray
-        The difference in ``unit``.
+        A rise or a drop of temperature, in ``unit``.
     unit : str
         ``"°C"`` (or ``"K"``) or ``"°F"``.
 
@@ -271,7 +262,7 @@ def temperature_difference_to_si(value: float | np.ndarray, unit: str):
     return value * (5.0 / 9.0 if unit == "°F" else 1.0)
 
 
-def rpm_to_rad_per_s(speed_rpm: float | np.ndarray):
+def rpm_to_rad_per_s(speed_rpm: Quantity) -> Quantity:
     """A rotational speed in rad/s from rpm.
 
     Parameters
@@ -287,7 +278,7 @@ def rpm_to_rad_per_s(speed_rpm: float | np.ndarray):
     return speed_rpm * _TO_SI["rpm"]
 
 
-def rad_per_s_to_rpm(speed_rad_per_s: float | np.ndarray):
+def rad_per_s_to_rpm(speed_rad_per_s: Quantity) -> Quantity:
     """A rotational speed in rpm from rad/s: the inverse of :func:`rpm_to_rad_per_s`.
 
     Parameters

@@ -59,9 +59,6 @@ class Region(IntEnum):
 LAMINATION_REGIONS = (Region.CORE, Region.TOOTH, Region.TOOTH_TIP)
 ROTOR_REGIONS = (Region.SHAFT, *LAMINATION_REGIONS, Region.SLOT, Region.SLOT_OPENING)
 
-#: Radial height of the tooth tips that overhang the slot (common practice, no source; the same value
-#: core.winding takes for the slot-leakage estimate), at most a quarter of the slot depth.
-TOOTH_TIP_HEIGHT = 0.5e-3
 #: Outside air meshed from the housing's outer radius R to (1 + this)·R; beyond it, a boundary
 #: condition carries the field's fundamental to infinity (see :mod:`.solve`).
 OUTSIDE_AIR_FACTOR = 0.25
@@ -133,22 +130,6 @@ def _half_slot_angle(radius, slot_pitch_angle, tooth_width):
     return 0.5 * slot_pitch_angle - np.arcsin(np.minimum(tooth_width / (2.0 * radius), 1.0))
 
 
-def tooth_tip_height(geometry: Geometry) -> float:
-    """Radial height of the tooth tips [m]: :data:`TOOTH_TIP_HEIGHT`, at most a quarter of the slot depth.
-
-    Parameters
-    ----------
-    geometry : Geometry
-        The cross-section (scalar fields).
-
-    Returns
-    -------
-    float
-        The height [m].
-    """
-    return min(TOOTH_TIP_HEIGHT, 0.25 * float(geometry.slot_depth))
-
-
 def check_geometry(geometry: Geometry) -> None:
     """Refuse a cross-section that cannot be meshed, naming the project key and the limit.
 
@@ -190,7 +171,7 @@ def check_geometry(geometry: Geometry) -> None:
     if float(g.tooth_width) >= widest_tooth:
         _fail("armature.tooth_width_mm", f"{_mm(g.tooth_width)}: neighbouring teeth touch at the slot bottom; "
               f"the tooth must be narrower than {_mm(widest_tooth)} there")
-    tip_radius = float(g.armature_radius) - tooth_tip_height(g)
+    tip_radius = float(g.armature_radius) - float(g.tooth_tip_height)
     half_slot_at_tips = float(_half_slot_angle(tip_radius, slot_pitch_angle, g.tooth_width))
     slot_width_at_tips = 2.0 * tip_radius * math.sin(half_slot_at_tips)
     if float(g.slot_opening) > slot_width_at_tips:
@@ -301,7 +282,7 @@ def _rotor_grid(g: Geometry, sector_slots: int, rotor_start: float, size: float,
     """The rotor's grid, and the band of the fan of triangles round the axis inside its first ring."""
     slot_pitch = 2.0 * math.pi / int(g.slots)
     r_a, r_sb, r_sh = float(g.armature_radius), float(g.slot_bottom_radius), float(g.shaft_radius)
-    r_tip = r_a - tooth_tip_height(g)
+    r_tip = r_a - float(g.tooth_tip_height)
     width, opening = float(g.tooth_width), float(g.slot_opening)
     radii, bands = [np.zeros(1)], []
     for band, r0, r1, least, step in ((_SHAFT, 0.0, r_sh, 2, 2.0 * radial), (_CORE, r_sh, r_sb, 2, radial),
@@ -429,7 +410,7 @@ def build_mesh(geometry: Geometry, rotor_position: float = 0.0, options: FieldOp
     node_to_dof, dof_of_node = ties.matrix()
     r_a = float(g.armature_radius)
     radii = SectionRadii(
-        shaft=float(g.shaft_radius), slot_bottom=float(g.slot_bottom_radius), tooth_tip=r_a - tooth_tip_height(g),
+        shaft=float(g.shaft_radius), slot_bottom=float(g.slot_bottom_radius), tooth_tip=r_a - float(g.tooth_tip_height),
         armature=r_a, mid_gap=r_a + 0.5 * float(g.airgap), magnet_inner=float(g.magnet_inner_radius),
         housing_inner=float(g.housing_inner_radius), housing_outer=float(g.housing_outer_radius),
         outer=float(stator.radii[-1]),
