@@ -31,8 +31,13 @@ def cmd_datasheet(args) -> int:
             raise CommandError(f"--with-field: {error}") from None
         except FieldConvergenceError as error:
             raise CommandError(f"--with-field: {error}", status=EXIT_NO_SOLUTION) from None
+    tolerance = None
+    if args.with_tolerance:
+        from pmdc_sizer.core.tolerance_study import run_study
+
+        tolerance = run_study(project)
     kind = datasheet.export(project, results, args.output, appendix=appendix, options=options,
-                            project_folder=Path(args.file).parent)
+                            project_folder=Path(args.file).parent, tolerance=tolerance)
     print(f"wrote the {options.edition} edition of the {kind} datasheet ({options.paper}, {options.units}) "
           f"to {args.output}")
     if args.charts is not None:
@@ -58,5 +63,9 @@ def register(subparsers) -> None:
     p.add_argument("--with-field", action="store_true",
                    help="add an appendix page with the built-in field solution (no load and the worst "
                         "demagnetization case) and its agreement with the sheet's figures (internal edition)")
+    p.add_argument("--with-tolerance", action="store_true",
+                   help="add the tolerance column (min / typ / max of no-load speed and current, Ke, terminal "
+                        "resistance and stall torque over the production spread): runs the tolerance study with the "
+                        "file's tolerances.samples and tolerances.seed")
     add_set_option(p)
     p.set_defaults(handler=cmd_datasheet)

@@ -21,12 +21,13 @@ References
 
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import dataclass
 
 import numpy as np
 
-from .units import to_si
+from .units import from_si, to_si
 
 COPPER_RESISTIVITY_20C = 1.0 / 58.0 * 1e-6  #: ρ20 [Ω·m], IEC 60028
 COPPER_TEMP_COEFF_20C = 0.00393  #: α20 [1/K], IEC 60028
@@ -80,6 +81,41 @@ METRIC_DIAMETERS_MM = (
     0.500, 0.560, 0.630, 0.710, 0.750, 0.800, 0.850, 0.900, 0.950, 1.000, 1.060, 1.120, 1.180, 1.250,
     1.320, 1.400, 1.500, 1.600, 1.700, 1.800, 1.900, 2.000, 2.120, 2.240, 2.360, 2.500,
 )
+
+# IEC 60317-0-1's tolerance on the nominal conductor diameter: (largest nominal diameter of the band, ±),
+# both in mm; above the last band, 1 % of the diameter rounded up to the micrometre. From memory of the
+# standard's table, read against a wire maker's table under IS 13730-0-1 (India's adoption of IEC
+# 60317-0-1), which agrees on every listed size to within 0.001 mm. The standard states no diameter
+# tolerance below 0.063 mm (the resistance per metre governs there); 0.002 mm is assumed (common practice,
+# no source).
+_DIAMETER_TOLERANCE_BANDS_MM = ((0.063, 0.002), (0.224, 0.003), (0.315, 0.004), (0.500, 0.005), (0.630, 0.006))
+
+
+def diameter_tolerance(bare_diameter: float) -> float:
+    """The ± on the bare diameter of a round enamelled copper wire, per IEC 60317-0-1.
+
+    Parameters
+    ----------
+    bare_diameter : float
+        Nominal bare (conductor) diameter [m].
+
+    Returns
+    -------
+    float
+        Tolerance [m], plus or minus.
+
+    References
+    ----------
+    .. [1] IEC 60317-0-1, table of conductor dimensions: ±0.003 mm up to 0.224 mm, ±0.004 mm to 0.315 mm,
+       ±0.005 mm to 0.500 mm, ±0.006 mm to 0.630 mm, then 1 % of the nominal diameter (from memory; see
+       ``_DIAMETER_TOLERANCE_BANDS_MM``).
+    """
+    diameter_mm = float(from_si(bare_diameter, "mm"))
+    for largest_mm, tolerance_mm in _DIAMETER_TOLERANCE_BANDS_MM:
+        if diameter_mm <= largest_mm + 1e-9:
+            return to_si(tolerance_mm, "mm")
+    return to_si(math.ceil(round(diameter_mm * 10.0, 9)) / 1000.0, "mm")  # 1 % in mm, up to the next µm
+
 
 # Enamel grade → (fraction of bare diameter, floor in mm) for the maximum film build on the diameter.
 _ENAMEL_BUILD = {1: (0.07, 0.012), 2: (0.11, 0.020), 3: (0.15, 0.030)}

@@ -12,6 +12,7 @@ import math
 import numpy as np
 from pydantic import ValidationError
 
+from .conductors import parse_wire_size
 from .design import geometry_of
 from .errors import ProjectError
 from .keys import format_validation_error, key_specs
@@ -126,6 +127,110 @@ def check_fit(project: Project) -> None:
                  f"envelope of {h.max_outer_diameter_mm:g} mm")
 
 
+#: Each dimensional tolerance of ``[tolerances]`` → the key it spreads and whether its ± is a share (%) of it.
+SPREAD_KEYS = {
+    "magnet_thickness_mm": ("magnets.thickness_mm", False),
+    "airgap_mm": ("airgap.length_mm", False),
+    "brush_drop_V": ("supply.brush_drop_V", False),
+    "supply_voltage_pct": ("supply.voltage_V", True),
+    "friction_torque_pct": ("losses.friction_torque_mNm", True),
+}
+_SUPPLY_PAIR = ("supply_voltage_pct", "brush_drop_V")
+_BISECTION_STEPS = 40
+
+
+def _spread_corner(data: dict, changes: dict[str, float]) -> None:
+    """Raise ProjectError (or ValidationError) when the design with these keys moved breaks a rule."""
+    corner = {section: dict(values) if isinstance(values, dict) else values for section, values in data.items()}
+    for path, value in changes.items():
+        section, name = path.split(".")
+        corner[section][name] = value
+    # the envelope is a requirement a spread may miss (the study counts it against the yield), not a part
+    # that cannot be made
+    corner["housing"].pop("max_outer_diameter_mm", None)
+    check_fit(Project.model_validate(corner))
+
+
+def _spread_fits(project: Project, data: dict, key: str, tolerance: float) -> str:
+    """Why the design at the ends of one tolerance cannot be made, or "" when both ends can.
+
+    The supply voltage and the brush drop move together (the supply must stay above the brush drop):
+    each is tried against both ends of the other's spread as the project states it.
+    """
+    moving = {key: tolerance}
+    if key in _SUPPLY_PAIR:
+        other = next(k for k in _SUPPLY_PAIR if k != key)
+        moving[other] = getattr(project.tolerances, other)
+    corners: list[dict[str, float]] = [{}]
+    for name, plus_minus in moving.items():
+        path, relative = SPREAD_KEYS[name]
+        section, field = path.split(".")
+        nominal = data[section][field]
+        step = nominal * plus_minus / 100.0 if relative else plus_minus
+        corners = [{**corner, path: round(value, 12)} for corner in corners
+                   for value in (nominal - step, nominal + step)]
+    for changes in corners:
+        try:
+            _spread_corner(data, changes)
+        except ValidationError as error:
+            return str(format_validation_error(error))
+        except ProjectError as error:
+            return str(error)
+    return ""
+
+
+def check_tolerance_fit(project: Project, only_changed: bool = False) -> None:
+    """Raise :class:`ProjectError` naming a tolerance and its limit when its spread could make an impossible part.
+
+    Each dimensional tolerance is applied to the design, at the low and the high end of its ± (the supply
+    voltage and the brush drop together), and the ends must pass the schema and the fit rules of a file
+    (the envelope aside: it is a requirement the study counts against the yield). The wire's ± must
+    leave copper. The grade's Br and HcJ spreads are checked by the study (:mod:`core.tolerances`).
+
+    Parameters
+    ----------
+    project : Project
+        A project that passed the schema and :func:`check_fit`.
+    only_changed : bool, optional
+        Check only the tolerances that differ from their defaults (what a file sets); the study checks
+        them all, since a default may not suit a design (±0.2 V on a 0 V brush drop).
+
+    Raises
+    ------
+    ProjectError
+        With ``key`` the tolerance, and the largest value the design allows.
+    """
+    t = project.tolerances
+    defaults = type(t)()
+    data = project.model_dump(mode="python", exclude_none=True)
+    for key, (_, relative) in SPREAD_KEYS.items():
+        tolerance = getattr(t, key)
+        if tolerance == 0.0 or (only_changed and tolerance == getattr(defaults, key)):
+            continue
+        problem = _spread_fits(project, data, key, tolerance)
+        if not problem:
+            continue
+        low, high = 0.0, tolerance
+        for _ in range(_BISECTION_STEPS):
+            middle = 0.5 * (low + high)
+            low, high = (low, middle) if _spread_fits(project, data, key, middle) else (middle, high)
+        unit = "%" if relative else key.rsplit("_", 1)[1]
+        raise ProjectError(
+            f"tolerances.{key} = {tolerance:g} {unit}: at an end of its spread {problem}; at most "
+            f"{round(low, 9):.4g} {unit} for this design (a part outside it could not be made)",
+            key=f"tolerances.{key}")
+    if t.wire_diameter_mm is not None and not (only_changed and t.wire_diameter_mm == defaults.wire_diameter_mm):
+        try:
+            bare_mm = _mm(parse_wire_size(project.winding.wire))
+        except ValueError:  # a size that is not one: the design's conversion names winding.wire
+            return
+        if t.wire_diameter_mm >= bare_mm:
+            raise ProjectError(
+                f"tolerances.wire_diameter_mm = {t.wire_diameter_mm:g} mm: the thinnest wire of the spread would "
+                f"have no copper ({project.winding.wire}, {bare_mm:.4g} mm bare); less than {bare_mm:.4g} mm",
+                key="tolerances.wire_diameter_mm")
+
+
 def validate(data: dict) -> Project:
     """A validated :class:`Project` from parsed TOML data: the schema, the required keys, the fit rules.
 
@@ -168,4 +273,5 @@ def validate(data: dict) -> Project:
         raise ProjectError("format_version: required key is missing (write format_version = "
                            f"{FORMAT_VERSION} at the top of the file)", key="format_version")
     check_fit(project)
+    check_tolerance_fit(project, only_changed=True)
     return project

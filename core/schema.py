@@ -172,6 +172,11 @@ class CustomGrade(_Section):
                                                       "Reversible temperature coefficient of HcJ.")
     max_working_temperature_C: float = quantity(..., "°C", 20.0, 550.0, "Supplier's maximum working temperature.")
     density_kg_per_m3: float = quantity(..., "kg/m3", 1000.0, 10000.0, "Density.")
+    price_per_kg: float | None = quantity(
+        None, "/kg", 0.0, 1.0e4, "Typical price of the finished magnet, in price_currency per kg; a project's "
+        "prices.magnet_per_kg overrides it.")
+    price_currency: str = Field("EUR", min_length=1, max_length=8, description="Currency of price_per_kg.",
+                                json_schema_extra={"unit": ""})
     source: str = Field("user data", max_length=400,
                         description="Where the numbers come from (certificate, datasheet).")
 
@@ -332,11 +337,91 @@ class Prices(_Section):
 
     currency: str = Field("EUR", min_length=1, max_length=8, description="Currency of the prices below.",
                           json_schema_extra={"unit": ""})
-    magnet_per_kg: float = quantity(10.0, "/kg", 0.0, 1.0e4, "Price of magnet material.")
+    magnet_per_kg: float | None = quantity(
+        None, "/kg", 0.0, 1.0e4, "Price of magnet material; leave out for the grade's typical price from the "
+        "library (from memory), which needs the same currency. Given, it overrides the grade's price.")
     copper_per_kg: float = quantity(10.0, "/kg", 0.0, 1.0e4, "Price of enamelled copper wire.")
     housing_steel_per_kg: float = quantity(1.5, "/kg", 0.0, 1.0e4, "Price of the housing tube steel.")
     lamination_per_kg: float = quantity(2.5, "/kg", 0.0, 1.0e4,
                                         "Price of lamination steel (as punched, scrap included).")
+
+
+Distribution = Literal["normal", "uniform"]
+
+
+def spread(description: str, default: str = "normal") -> Any:
+    """The distribution of one tolerance: "normal" (the ± is 3σ) or "uniform" (flat across the ±).
+
+    Parameters
+    ----------
+    description : str
+        What the tolerance spreads, for the key's help text, e.g. "the air gap".
+    default : str
+        The distribution when the file gives none.
+
+    Returns
+    -------
+    Any
+        A pydantic field that accepts "normal" or "uniform".
+    """
+    return choice(default, f"How {description} spreads within its ±: normal (the ± is 3σ; parts outside it are "
+                           "rejected at inspection) or uniform (any value across the ± equally likely).")
+
+
+class Tolerances(_Section):
+    """``[tolerances]``: the production spread of the design, each a ± with its distribution.
+
+    The defaults are typical of small motors built in series; each says where it comes from. A tolerance
+    the file sets is checked when the file is read; a default when the study runs (it may not suit a
+    design: a ±0.2 V spread on a 0 V brush drop).
+    """
+
+    remanence_pct: float = quantity(
+        2.0, "%", 0.0, 20.0,
+        "± of Br about the grade's typical value (2 %: suppliers' grade bands run about ±1.5 % for sintered NdFeB "
+        "and ±2.5 % for hard ferrite, from memory).")
+    remanence_distribution: Distribution = spread("Br")
+    coercivity_pct: float = quantity(
+        5.0, "%", 0.0, 30.0,
+        "± of HcJ about the grade's typical value (5 %: batch-to-batch spread of HcJ; common practice, no source).")
+    coercivity_distribution: Distribution = spread("HcJ")
+    magnet_thickness_mm: float = quantity(
+        0.05, "mm", 0.0, 5.0,
+        "± of each magnet's radial thickness (0.05 mm: ground arcs; as-pressed ferrite arcs run ±0.1 mm; common "
+        "practice, no source).")
+    magnet_thickness_distribution: Distribution = spread("the magnet thickness")
+    airgap_mm: float = quantity(
+        0.04, "mm", 0.0, 2.0,
+        "± of the radial air gap, the stack-up of armature grinding, magnet face and bearing play (0.04 mm; common "
+        "practice, no source).")
+    airgap_distribution: Distribution = spread("the air gap")
+    wire_diameter_mm: float | None = quantity(
+        None, "mm", 0.0, 0.5,
+        "± of the bare wire diameter; leave out for IEC 60317-0-1's tolerance on the nominal conductor diameter "
+        "(±0.003 mm up to 0.224 mm, rising to 1 % of the diameter above 0.63 mm; from memory of its table).")
+    wire_diameter_distribution: Distribution = spread("the wire diameter")
+    copper_resistivity_pct: float = quantity(
+        1.0, "%", 0.0, 10.0,
+        "± of the copper's resistivity about IEC 60028's annealed copper (1 %: commercial winding copper runs 100 "
+        "to 102 % IACS; from memory).")
+    copper_resistivity_distribution: Distribution = spread("the copper's resistivity", "uniform")
+    brush_drop_V: float = quantity(
+        0.2, "V", 0.0, 5.0,
+        "± of the total brush drop, with the brushes' film and wear (0.2 V; common practice, no source).")
+    brush_drop_distribution: Distribution = spread("the brush drop", "uniform")
+    friction_torque_pct: float = quantity(
+        30.0, "%", 0.0, 100.0,
+        "± of the friction torque, with bearing preload and brush spring force (30 %; common practice, no source).")
+    friction_torque_distribution: Distribution = spread("the friction torque", "uniform")
+    supply_voltage_pct: float = quantity(
+        0.0, "%", 0.0, 50.0,
+        "± of the supply voltage (0: a datasheet quotes its figures at the rated voltage; set the supply's band, a "
+        "battery's or a regulated supply's, to see the spread and yield in the application).")
+    supply_voltage_distribution: Distribution = spread("the supply voltage", "uniform")
+    samples: int = quantity(10000, "", 100, 1000000,
+                            "Motors drawn in the tolerance study (a Latin hypercube over the spreads).")
+    seed: int = quantity(1, "", 0, 2**31 - 1,
+                         "Seed of the study's random numbers; the same seed draws the same motors.")
 
 
 class Project(_Section):
@@ -359,6 +444,7 @@ class Project(_Section):
     brushes: Brushes = Brushes()
     rotor: Rotor = Rotor()
     prices: Prices = Prices()
+    tolerances: Tolerances = Tolerances()
 
 
 SECTIONS = tuple(name for name in Project.model_fields if name != "format_version")
@@ -374,6 +460,14 @@ MAY_BE_LEFT_OUT = frozenset({
     "supply.fault_cases", "magnets.required_margin_pct_of_HcJ", "thermal.cycle_duration_factor_pct",
     "thermal.cycle_minutes", "brushes.grade",
     "magnets.grade",  # or magnets.custom_grade: exactly one of them, checked below
+    # the whole [tolerances] table: a file without it takes the typical spreads documented there
+    "tolerances.remanence_pct", "tolerances.remanence_distribution", "tolerances.coercivity_pct",
+    "tolerances.coercivity_distribution", "tolerances.magnet_thickness_mm", "tolerances.magnet_thickness_distribution",
+    "tolerances.airgap_mm", "tolerances.airgap_distribution", "tolerances.wire_diameter_distribution",
+    "tolerances.copper_resistivity_pct", "tolerances.copper_resistivity_distribution", "tolerances.brush_drop_V",
+    "tolerances.brush_drop_distribution", "tolerances.friction_torque_pct", "tolerances.friction_torque_distribution",
+    "tolerances.supply_voltage_pct", "tolerances.supply_voltage_distribution", "tolerances.samples",
+    "tolerances.seed",
 })
 
 

@@ -53,10 +53,10 @@ def format_of(path: str | os.PathLike) -> str:
 
 
 def build(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = (),
-          options: SheetOptions = DEFAULT_OPTIONS):
+          options: SheetOptions = DEFAULT_OPTIONS, tolerance=None):
     from .content import build as build_content
 
-    return build_content(project, results, issued, appendix, options)
+    return build_content(project, results, issued, appendix, options, tolerance)
 
 
 def logo_png(project: Project, project_folder: str | os.PathLike | None = None) -> bytes | None:
@@ -87,31 +87,34 @@ def logo_png(project: Project, project_folder: str | os.PathLike | None = None) 
 
 
 def html_text(project: Project, results: Results, issued: _dt.date | None = None, appendix: tuple = (),
-              options: SheetOptions = DEFAULT_OPTIONS, project_folder: str | os.PathLike | None = None) -> str:
+              options: SheetOptions = DEFAULT_OPTIONS, project_folder: str | os.PathLike | None = None,
+              tolerance=None) -> str:
     ensure_qt()
     from .document import browser_html
 
-    return browser_html(build(project, results, issued, appendix, options), results, logo_png(project, project_folder))
+    return browser_html(build(project, results, issued, appendix, options, tolerance), results,
+                        logo_png(project, project_folder))
 
 
 def export(project: Project, results: Results, path: str | os.PathLike, issued: _dt.date | None = None,
            appendix: tuple = (), options: SheetOptions = DEFAULT_OPTIONS,
-           project_folder: str | os.PathLike | None = None) -> str:
+           project_folder: str | os.PathLike | None = None, tolerance=None) -> str:
     """Write the datasheet to ``path`` as PDF or HTML (from the extension); returns the format.
 
     ``appendix``: sections added at the end (:func:`field_appendix` makes the field solution's).
     ``options``: the edition (customer by default), the paper and the unit system.
     ``project_folder``: where a relative ``project.logo`` path is read from.
+    ``tolerance``: a ``core.tolerance_study.ToleranceStudy`` of the design, for the tolerance column.
     """
     kind = format_of(path)
     ensure_qt()
     if kind == "HTML":
-        text = html_text(project, results, issued, appendix, options, project_folder)
+        text = html_text(project, results, issued, appendix, options, project_folder, tolerance)
         write_text_atomically(path, text, verify=check_html)
         return kind
     from .document import write_pdf_file
 
-    sheet = build(project, results, issued, appendix, options)
+    sheet = build(project, results, issued, appendix, options, tolerance)
     logo = logo_png(project, project_folder)
     pages: list[int] = []  # the written file must parse, with as many pages as were painted
     with atomic_output(path, verify=lambda written: check_pdf(written, pages[0] if pages else None)) as temporary:

@@ -2,7 +2,7 @@
 
 ``pmdc-sizer gui FILE --screenshot OUT.png --page NAME --size WxH`` calls :func:`capture_page`. The
 field-solution page solves its case first (the picture is the point of that page) and waits for the
-``solved`` or ``solve_failed`` signal.
+``solved`` or ``solve_failed`` signal; the tolerance page runs its study first in the same way.
 """
 
 from __future__ import annotations
@@ -56,6 +56,33 @@ def solve_field(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
     return outcome[0] if outcome else f"the field solution took longer than {timeout_ms / 1000:.0f} s"
 
 
+def run_tolerance_study(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
+    """Run the tolerance page's study (the file's motors and seed) and wait; returns "" or why it gave nothing."""
+    view = window.tolerance_view
+    loop = QEventLoop()
+    outcome: list[str] = []
+
+    def finished(_study) -> None:
+        outcome.append("")
+        loop.quit()
+
+    def failed(message: str) -> None:
+        outcome.append(message or "the tolerance study failed")
+        loop.quit()
+
+    view.finished.connect(finished)
+    view.failed.connect(failed)
+    try:
+        view.run()
+        QTimer.singleShot(timeout_ms, loop.quit)
+        if not outcome:
+            loop.exec()
+    finally:
+        view.finished.disconnect(finished)
+        view.failed.disconnect(failed)
+    return outcome[0] if outcome else f"the tolerance study took longer than {timeout_ms / 1000:.0f} s"
+
+
 def capture_page(window, out: str | os.PathLike, page: str | None, size: tuple[int, int]) -> None:
     """Resize, show ``page`` (or the page the window opens on), wait for the results, save a PNG."""
     window.resize(*size)
@@ -69,6 +96,10 @@ def capture_page(window, out: str | os.PathLike, page: str | None, size: tuple[i
             problem = solve_field(window)
             if problem:
                 raise ProjectError(f"--page field: {problem}")
+        if page == "tolerance":
+            problem = run_tolerance_study(window)
+            if problem:
+                raise ProjectError(f"--page tolerance: {problem}")
     for _ in range(3):
         QApplication.processEvents()
     if not window.grab().save(str(out)):

@@ -47,6 +47,7 @@ GROUPS = (
     ("Losses, thermal and rotor", ("losses", "thermal", "rotor"), False),
     ("Brushes and commutator", ("brushes",), False),
     ("Prices and project information", ("prices", "project"), False),
+    ("Production spread (tolerances)", ("tolerances",), False),
 )
 OTHER_GROUP = "Other keys"
 
@@ -57,6 +58,12 @@ _UNIT_SUFFIXES = (
 )
 # Where the key name alone reads poorly on screen.
 _LABELS = {
+    "tolerances.remanence_pct": "Br ±", "tolerances.coercivity_pct": "HcJ ±",
+    "tolerances.magnet_thickness_mm": "Magnet thickness ±", "tolerances.airgap_mm": "Air gap ±",
+    "tolerances.wire_diameter_mm": "Wire diameter ±", "tolerances.copper_resistivity_pct": "Copper resistivity ±",
+    "tolerances.brush_drop_V": "Brush drop ±", "tolerances.friction_torque_pct": "Friction torque ±",
+    "tolerances.supply_voltage_pct": "Supply voltage ±", "tolerances.samples": "Motors in the study",
+    "tolerances.seed": "Seed of the study",
     "supply.reversing": "Reversed at speed",
     "supply.current_limit_A": "Drive current limit",
     "load.torque_mNm": "Rated torque",
