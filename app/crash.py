@@ -66,10 +66,8 @@ def write_crash_report(error: BaseException, context: str = "") -> Path | None:
 
     Parameters
     ----------
-    error : BaseException
-        The exception that escaped.
-    context : str, optional
-        What was being done.
+    error, context
+        As for :func:`crash_report_text`, which words the report.
 
     Returns
     -------
@@ -96,9 +94,9 @@ def report_line(error: BaseException, context: str = "") -> str:
     Parameters
     ----------
     error : BaseException
-        The exception that escaped.
+        The exception that escaped; the line names its type.
     context : str, optional
-        What was being done.
+        What was being done, for the report (:func:`write_crash_report`).
 
     Returns
     -------

@@ -34,7 +34,7 @@ def check_pdf(path: Path, pages: int | None = None) -> None:
     Parameters
     ----------
     path : Path
-        The written file.
+        The temporary PDF, read back whole from disk.
     pages : int, optional
         The number of pages it must have (the page tree's ``/Count``).
 
@@ -146,7 +146,7 @@ def check_csv(path: Path, rows: int | None = None) -> None:
     Parameters
     ----------
     path : Path
-        The written file.
+        The temporary table, read back as UTF-8.
     rows : int, optional
         The number of data rows (after the header) it must have.
 

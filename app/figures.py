@@ -127,7 +127,7 @@ FIGURES: dict[str, Figure] = {
     "case.max_efficiency_point.torque_N_m": _f("Torque at maximum efficiency", "mN·m"),
     "case.max_output_power_W": _f("Maximum output power, no current limit", "W"),
     "case.max_power_point.torque_N_m": _f("Torque at maximum power", "mN·m"),
-    "case.ke_V_s_per_rad": _f("Back-EMF constant Ke", "V/krpm", also=("V·s/rad",)),
+    "case.ke_V_s_per_rad": _f("Back-EMF constant Ke", "V/krpm"),
     "case.kt_N_m_per_A": _f("Torque constant Kt", "mN·m/A"),  # the case's Ke: Kt = Ke in SI units
     "case.terminal_resistance_ohm": _f("Terminal resistance", "ohm"),
     "case.speed_torque_gradient_rad_per_s_per_N_m": _f("Speed drop per unit torque", "rpm/mN·m"),
@@ -139,7 +139,7 @@ FIGURES: dict[str, Figure] = {
     "curve.efficiency": _f("Efficiency", "%"),
     "curve.output_power_W": _f("Output power", "W"),
     # Constants (nominal)
-    "constants.ke_V_s_per_rad": _f("Back-EMF constant Ke", "V/krpm", also=("V·s/rad",)),
+    "constants.ke_V_s_per_rad": _f("Back-EMF constant Ke", "V/krpm"),
     "constants.kt_N_m_per_A": _f("Torque constant Kt", "mN·m/A"),
     "constants.terminal_resistance_ohm": _f("Terminal resistance", "ohm"),
     "constants.inductance_H_estimate": _f("Armature inductance (estimate)", "mH", ESTIMATE_DIGITS),
@@ -178,7 +178,12 @@ FIGURES: dict[str, Figure] = {
     "demagnetization.worst_margin_A_per_m": _f("Least margin to the knee", "kA/m"),
     "demagnetization_case.temperature_C": _f("Magnet temperature", "°C"),
     "demagnetization_case.current_A": _f("Current", "A"),
-    "demagnetization_case.magnet_field_A_per_m": _f("Field at the magnet tip", "kA/m"),
+    "demagnetization_case.magnet_field_A_per_m": _f("Field at the magnet's worst spot", "kA/m"),
+    "demagnetization_case.magnet_flux_density_T": _f("Flux density at the worst spot", "T"),
+    "demagnetization_case.worst_angle_rad": _f("Worst spot from the pole centre", "°"),
+    "demagnetization_case.mean_field_A_per_m": _f("Mean field over the magnet", "kA/m"),
+    "demagnetization_case.mean_flux_density_T": _f("Mean flux density over the magnet", "T"),
+    "demagnetization_case.magnet_area_past_knee_fraction": _f("Magnet area past the knee", "%", 2),
     "demagnetization_case.knee_field_A_per_m": _f("Knee field", "kA/m"),
     "demagnetization_case.margin_A_per_m": _f("Margin to the knee", "kA/m"),
     "demagnetization_case.required_margin_A_per_m": _f("Required margin", "kA/m"),
@@ -226,6 +231,7 @@ FIGURES: dict[str, Figure] = {
     "thermal.winding_heat_capacity_J_per_K": _f("Heat capacity of the winding", "J/K", 2),
     "thermal.housing_heat_capacity_J_per_K": _f("Heat capacity of housing and magnets", "J/K", 2),
     "thermal.winding_to_magnet_K_per_W": _f("Thermal resistance across the gap", "K/W"),
+    "thermal.transient.time_s": _f("Time from the start at ambient", "min"),  # the duty chart's time axis
     # Construction
     "geometry.housing_outer_diameter_m": _f("Housing outer diameter", "mm"),
     "geometry.housing_length_m": _f("Housing length", "mm"),
@@ -244,6 +250,13 @@ FIGURES: dict[str, Figure] = {
     "mass.lamination_kg": _f("Lamination steel mass", "g"),
     "mass.shaft_kg": _f("Shaft mass", "g"),
     "mass.total_kg": _f("Active mass, with shaft", "g"),
+    "mass.shaft_extension_kg": _f("Shaft run-out beyond the drive end (estimate)", "g", ESTIMATE_DIGITS),
+    "mass.end_caps_kg": _f("End caps (estimate)", "g", ESTIMATE_DIGITS),
+    "mass.brush_gear_kg": _f("Brush holder, brushes and terminals (estimate)", "g", ESTIMATE_DIGITS),
+    "mass.commutator_kg": _f("Commutator (estimate)", "g", ESTIMATE_DIGITS),
+    "mass.bearings_kg": _f("Bearings (estimate)", "g", ESTIMATE_DIGITS),
+    "mass.other_parts_kg": _f("Other parts (estimate)", "g", ESTIMATE_DIGITS),
+    "mass.estimated_total_kg": _f("Estimated total mass", "g"),
     "cost.magnet": _f("Magnet material cost", "currency"),
     "cost.copper": _f("Copper cost", "currency"),
     "cost.housing": _f("Housing steel cost", "currency"),
@@ -355,9 +368,26 @@ COMPARE_KEYS: tuple[str, ...] = (
     "geometry.housing_length_m",
     "mass.magnet_kg",
     "mass.total_kg",
+    "mass.estimated_total_kg",
     "cost.magnet",
     "cost.total",
 )
+
+#: The tolerance study's key figures (``core.tolerance_study.KEY_FIGURES``, named as ``core.batch`` names
+#: them) → the :data:`FIGURES` key that titles them; the first five are those a datasheet's tolerance
+#: column carries.
+TOLERANCE_FIGURES: dict[str, str] = {
+    "nominal.no_load_speed_rad_per_s": "case.no_load_speed_rad_per_s",
+    "nominal.no_load_current_A": "case.no_load_current_A",
+    "nominal.ke_V_s_per_rad": "case.ke_V_s_per_rad",
+    "nominal.terminal_resistance_ohm": "case.terminal_resistance_ohm",
+    "nominal.stall_torque_N_m": "case.stall_torque_N_m",
+    "nominal.stall_current_A": "case.stall_current_A",
+    "nominal.rated_speed_rad_per_s": "case.rated.speed_rad_per_s",
+    "nominal.rated_current_A": "case.rated.current_A",
+    "worst_demagnetization_margin_A_per_m": "demagnetization.worst_margin_A_per_m",
+}
+DATASHEET_TOLERANCE_FIGURES = tuple(TOLERANCE_FIGURES)[:5]
 
 # ----------------------------------------------------------------------------------------------
 # Named points and lines on the charts
@@ -372,6 +402,11 @@ class PointStyle:
     colour: str | None  #: "#rrggbb", or None: the colour of the point's temperature case
     filled: bool = True
     size: float = 1.0  #: relative to the chart's usual marker size
+    short: str = ""  #: a key's text where room is short (the title explains it in a tooltip)
+
+    @property
+    def key_text(self) -> str:
+        return self.short or self.title
 
     @property
     def glyph(self) -> str:
@@ -403,6 +438,11 @@ class LineStyle:
     title: str
     colour: str
     dash: str  #: "solid", "dash", "dot" or "dash_dot"
+    short: str = ""  #: a key's text where room is short
+
+    @property
+    def key_text(self) -> str:
+        return self.short or self.title
 
 
 @dataclass(frozen=True)
@@ -423,6 +463,8 @@ DRIVE_LIMIT_COLOUR = "#7a3db8"
 FAIL_COLOUR = "#c0137a"
 SAFE_COLOUR = "#1b7f3b"
 WARNING_COLOUR = "#9a6200"
+WINDING_COLOUR = "#b3471d"  #: the duty chart's winding (copper) and its class limit
+MAGNET_COLOUR = "#2b6cb0"  #: ... the magnets and their grade's limit
 
 POINTS: dict[str, PointStyle] = {
     # performance chart: one of each per temperature case, in the case's colour
@@ -431,13 +473,23 @@ POINTS: dict[str, PointStyle] = {
     "max_power": PointStyle("maximum output power", "triangle", None),
     "required": PointStyle("required: rated torque at this speed or faster", "plus", REQUIRED_COLOUR, size=1.7),
     # magnet chart
-    "operating_point": PointStyle("no-load operating point, on its load line", "circle", None),
-    "knee": PointStyle("knee: irreversible loss begins", "diamond", None, filled=False),
-    "demagnetization_safe": PointStyle("demagnetization case, safe", "triangle", None, filled=False),
+    "operating_point": PointStyle("no-load operating point, on its load line", "circle", None, short="no load"),
+    "knee": PointStyle("knee: irreversible loss begins", "diamond", None, filled=False, short="knee"),
+    # a case's mark sits at the magnet's worst segment, the one its verdict rests on
+    "demagnetization_safe": PointStyle("demagnetization case, safe", "triangle", None, filled=False, short="safe"),
     "demagnetization_marginal": PointStyle("demagnetization case inside the required margin: marginal", "square",
-                                           WARNING_COLOUR, filled=False, size=1.3),
+                                           WARNING_COLOUR, filled=False, size=1.3, short="marginal"),
     "demagnetization_fails": PointStyle("demagnetization case past the knee: demagnetizes", "cross", FAIL_COLOUR,
-                                        size=1.6),
+                                        size=1.6, short="past the knee"),
+    # the same three states for the faults (supply applied directly), filled so that they read apart
+    "fault_safe": PointStyle("fault, safe", "triangle", None),
+    "fault_marginal": PointStyle("fault, marginal", "square", WARNING_COLOUR, size=1.3),
+    "fault_fails": PointStyle("fault past the knee", "cross", FAIL_COLOUR, size=1.6),
+    # the magnet's segments under a case's current (the worst one is the case's mark) and their mean
+    "magnet_segment": PointStyle("magnet segments across the arc", "circle", None, size=0.45, short="segments"),
+    "magnet_mean": PointStyle("mean over the magnet", "circle", None, filled=False, size=0.8, short="mean"),
+    # the duty chart: where a duty with no steady state takes the winding to its class limit
+    "class_limit_reached": PointStyle("winding reaches its class limit", "diamond", FAIL_COLOUR, size=1.3),
 }
 
 @dataclass(frozen=True)
@@ -448,10 +500,19 @@ class RegionStyle:
     colour: str  #: "#rrggbb"
     opacity: float  #: 0 to 1
 
+    @property
+    def swatch(self) -> str:
+        """The shade on white, "#rrggbb", for keys written as rich text (which read "#aarrggbb"); a little
+        deeper than on the chart, so that the small sample shows beside its words."""
+        red, green, blue = (int(self.colour[i:i + 2], 16) for i in (1, 3, 5))
+        depth = min(1.0, 2.5 * self.opacity)
+        return "#" + "".join(f"{round(255 - depth * (255 - c)):02x}" for c in (red, green, blue))
+
 
 #: The torque range beyond the drive's current limit, shaded on screen and on paper alike.
 REGIONS: dict[str, RegionStyle] = {
     "beyond_limit": RegionStyle("beyond the drive's limit", DRIVE_LIMIT_COLOUR, 0.10),
+    "loaded": RegionStyle("under the rated load", WINDING_COLOUR, 0.09),  #: the duty chart's S2 run, S3 spells
 }
 
 #: How a demagnetization case's state reads, in words, on screen, in the summary and on paper.
@@ -461,7 +522,25 @@ LINES: dict[str, LineStyle] = {
     "drive_limit": LineStyle("drive current limit", DRIVE_LIMIT_COLOUR, "dash_dot"),
     "rated_torque": LineStyle("rated torque", "#7b8490", "dash"),
     "load_line": LineStyle("load line", "#5b6470", "dot"),
+    #: the no-load load line moved along H until it passes through the worst case's worst spot
+    "shifted_load_line": LineStyle("load line shifted by the armature reaction", "#5b6470", "dash_dot",
+                                   short="shifted load line"),
+    # the duty chart: each part's temperature, and each limit in its part's colour (dash-dot)
+    "winding_temperature": LineStyle("winding", WINDING_COLOUR, "solid"),
+    "magnet_temperature": LineStyle("magnets", MAGNET_COLOUR, "dash"),
+    "housing_temperature": LineStyle("housing", "#5b6470", "dot"),
+    "insulation_limit": LineStyle("insulation class limit", WINDING_COLOUR, "dash_dot"),
+    "magnet_limit": LineStyle("magnet grade's maximum working temperature", MAGNET_COLOUR, "dash_dot"),
 }
+#: The duty chart's temperature axis.
+TEMPERATURE_AXIS = Figure("Temperature", "°C")
+
+#: The tolerance page: the drawn motors' bars, the design's own value, and the 0.135 % / 99.865 % points.
+SPREAD_BAR_COLOUR = "#6f8fb0"
+SPREAD_NOMINAL_LINE = LineStyle("design as drawn, no tolerance", REQUIRED_COLOUR, "solid", short="as drawn")
+SPREAD_LIMIT_LINE = LineStyle("0.135 % and 99.865 % points (±3σ)", WARNING_COLOUR, "dash", short="±3σ points")
+#: The band of the drawn motors' nominal speed-torque curves (lowest to highest speed at each torque).
+SPREAD_BAND = RegionStyle("spread of the drawn motors, nominal case", CASES["nominal"].colour, 0.16)
 
 
 def demagnetization_case_colour(case) -> str:
@@ -469,9 +548,10 @@ def demagnetization_case_colour(case) -> str:
     return CASES["cold" if "cold" in case.name else "hot"].colour
 
 
-def demagnetization_point(case) -> str:
-    """The :data:`POINTS` key of a demagnetization case."""
-    return "demagnetization_safe" if case.ok else "demagnetization_fails"
+def demagnetization_point(case, fault: bool = False) -> str:
+    """The :data:`POINTS` key of a demagnetization case by its state; ``fault``: one of ``results.faults``."""
+    state = "fails" if not case.ok else ("marginal" if case.status == "marginal" else "safe")
+    return f"{'fault' if fault else 'demagnetization'}_{state}"
 
 
 # ----------------------------------------------------------------------------------------------

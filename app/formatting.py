@@ -7,7 +7,10 @@ three significant figures (two for estimates), never more.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 
+from pmdc_sizer.core.checks import quoted_text
+from pmdc_sizer.core.results import Check, QuotedValue
 from pmdc_sizer.core.units import factor, from_si
 
 
@@ -62,3 +65,42 @@ def ratio(value_si: float, numerator_unit: str, denominator_unit: str, digits: i
 
 def money(amount: float, currency: str, digits: int = 3) -> str:
     return f"{significant(amount, digits)} {currency}"
+
+
+def significant_figures(text: str) -> int:
+    """How many significant figures a number written as ``text`` shows: "45.8" → 3, "0.0457" → 3, "8.0" → 2,
+    "2890" → 4 (trailing zeros of a whole number count: the writer chose them)."""
+    digits = "".join(ch for ch in text if ch.isdigit()).lstrip("0")
+    return max(len(digits), 1)
+
+
+def quoted_in(quoted: QuotedValue, unit: str) -> str:
+    """A number a check quotes, in ``unit`` (a view's unit for ``quoted.unit``), to the same significant figures.
+
+    In its own unit it reads exactly as the check's message; in another, a temperature keeps the message's
+    decimals (°C to °F: whole degrees stay whole degrees) and anything else its count of significant figures.
+    """
+    if unit == quoted.unit:
+        return quoted_text(quoted)
+    shown = from_si(quoted.value, unit)
+    own = quoted_text(QuotedValue(quoted.value, quoted.unit, quoted.digits, quoted.spec, bare=True))
+    if unit in ("°C", "°F"):
+        decimals = len(own.partition(".")[2])
+        number = f"{shown:.{decimals}f}"
+    else:
+        # A number rounded to significant figures keeps their count; one written with a format spec ("45.8"
+        # from ".1f") keeps as many as its text shows.
+        number = significant(shown, significant_figures(own) if quoted.spec else quoted.digits)
+    return number if quoted.bare else f"{number} {unit_label(unit)}"
+
+
+def check_message(check: Check, unit_of: Callable[[str], str]) -> str:
+    """A check's message with its quoted numbers in the view's units (``unit_of`` maps a unit to the shown one)."""
+    if not check.quoted:
+        return check.message
+    return check.filled([quoted_in(q, unit_of(q.unit)) for q in check.quoted])
+
+
+def check_sentence(check: Check, unit_of: Callable[[str], str]) -> str:
+    """Title, message in the view's units and advice as one line."""
+    return check.sentence_with(check_message(check, unit_of))

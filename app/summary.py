@@ -8,6 +8,7 @@ from pmdc_sizer.core.results import Results
 
 from .figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
 from .safety import SHORT_CAUTION
+from .thermal_text import stall_time_text
 
 NOT_REACHED = "stalls"  #: a rated figure where the rated torque is beyond the stall torque
 
@@ -98,7 +99,12 @@ def summary_text(r: Results) -> str:
         figures("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
                 "ratings.continuous_output_power_W", "ratings.stall_current_A")
         for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s"):
-            row(figure(key).title, "never reaches it" if value_of(r, key) is None else shown(r, key))
+            text = stall_time_text(r, key)
+            if len(text) > 14:  # a sentence, not a figure: on its own line under the title
+                lines.append(f"  {figure(key).title}")
+                lines.append(f"    {text}")
+            else:
+                row(figure(key).title, text)
     if r.commutation is not None:
         section(f"Brushes ({r.commutation.brush_grade}) and commutator")
         figures("commutation.brush_current_density_A_per_m2", "commutation.brush_density_high_A_per_m2",
@@ -106,6 +112,8 @@ def summary_text(r: Results) -> str:
 
     section("Mass and material cost")
     figures("mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg", "mass.total_kg")
+    if r.mass.estimated_total_kg is not None:
+        figures("mass.other_parts_kg", "mass.estimated_total_kg")
     row(figure("cost.total").title, figure("cost.total").text(r.cost.total, r.cost.currency))
 
     section("Checks")

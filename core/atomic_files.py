@@ -66,7 +66,7 @@ def resolve_target(path: str | os.PathLike[str]) -> Path:
     Parameters
     ----------
     path : str or os.PathLike
-        The target as the user gave it.
+        The target as the user gave it, perhaps a symbolic link or a file that does not exist yet.
 
     Returns
     -------

@@ -6,10 +6,11 @@ Thresholds that are engineering judgement rather than a standard are marked so b
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from .demagnetization import advice_for
-from .results import Check, CommutationResult, FaultsResult, Results
+from .results import Check, CommutationResult, FaultsResult, QuotedValue, Results
 from .units import from_si
 
 if TYPE_CHECKING:
@@ -39,6 +40,36 @@ def _figures(value: float, digits: int = 3) -> str:
     return f"{round(value, decimals):.{max(decimals, 0)}f}"
 
 
+def _quote(value: float, unit: str, digits: int = 3, spec: str = "", bare: bool = False) -> QuotedValue:
+    """A number the message quotes in ``unit`` (SI ``value``; °C for a temperature), for views in other units."""
+    return QuotedValue(float(value), unit, digits, spec, bare)
+
+
+def quoted_text(q: QuotedValue) -> str:
+    """A quoted number as the message writes it, in its own unit.
+
+    Parameters
+    ----------
+    q : QuotedValue
+        The value (SI; °C for a temperature), its unit and how it is rounded.
+
+    Returns
+    -------
+    str
+        e.g. "35.0 mN·m", "88 °C", or "8.0" for a bare value.
+    """
+    shown = from_si(q.value, q.unit)
+    number = format(shown, q.spec) if q.spec else _figures(shown, q.digits)
+    return number if q.bare else f"{number} {q.unit}"
+
+
+def _check(key: str, title: str, status: str, template: str, quoted: tuple[QuotedValue, ...] = (),
+           advice: str = "") -> Check:
+    """A check whose message has ⟦i⟧ where ``quoted[i]`` stands, filled in the quoted units."""
+    check = Check(key, title, status, template, advice, template=template, quoted=quoted)
+    return replace(check, message=check.filled([quoted_text(q) for q in quoted]))
+
+
 def _flux_check(key, title, value, steel, part, advice):
     limit = steel.recommended_max_flux_density
     if value > limit + SATURATION_MARGIN:
@@ -61,30 +92,31 @@ def _commutation_checks(cm: CommutationResult) -> list[Check]:
              else f"the {_figures(high)} A/cm² {cm.brush_grade} carries in continuous service")
     guessed = (f" (brush {', '.join(k.replace('_', ' ') for k in cm.estimated_inputs)} estimated: "
                "give them under [brushes])") if cm.estimated_inputs else ""
-    sizes = f"{from_si(cm.brush_width_m, 'mm'):.1f} × {from_si(cm.brush_length_m, 'mm'):.1f} mm"
+    sizes = "⟦0⟧ × ⟦1⟧"
+    brush = (_quote(cm.brush_width_m, "mm", spec=".1f", bare=True), _quote(cm.brush_length_m, "mm", spec=".1f"))
     if cm.brush_current_density_A_per_m2 > BRUSH_DENSITY_FAIL * cm.brush_density_high_A_per_m2:
-        out.append(Check("brush_current_density", "Brush current density", FAIL,
-                         f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point, far above "
-                         f"{limit}{guessed}.",
-                         "use larger or more brushes, or a metal-graphite grade"))
+        out.append(_check("brush_current_density", "Brush current density", FAIL,
+                          f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point, far above "
+                          f"{limit}{guessed}.", brush,
+                          "use larger or more brushes, or a metal-graphite grade"))
     elif cm.brush_current_density_A_per_m2 > cm.brush_density_high_A_per_m2:
-        out.append(Check("brush_current_density", "Brush current density", WARNING,
-                         f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point, above "
-                         f"{limit}{guessed}.",
-                         "use larger brushes or a grade rated for more current"))
+        out.append(_check("brush_current_density", "Brush current density", WARNING,
+                          f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point, above "
+                          f"{limit}{guessed}.", brush,
+                          "use larger brushes or a grade rated for more current"))
     else:
-        out.append(Check("brush_current_density", "Brush current density", PASS,
-                         f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point "
-                         f"(within {limit}){guessed}."))
+        out.append(_check("brush_current_density", "Brush current density", PASS,
+                          f"{_figures(density)} A/cm² under the {sizes} brushes at the hot rated point "
+                          f"(within {limit}){guessed}.", brush))
     speed = cm.surface_speed_m_per_s
     status = FAIL if speed > SURFACE_SPEED_FAIL else WARNING if speed > SURFACE_SPEED_WARNING else PASS
     words = {PASS: f"within the {SURFACE_SPEED_WARNING:g} m/s that plain commutators run at",
              WARNING: f"above the {SURFACE_SPEED_WARNING:g} m/s of plain commutators: brush bounce and wear",
              FAIL: f"beyond the {SURFACE_SPEED_FAIL:g} m/s a small commutator holds together at"}[status]
-    out.append(Check("commutator_speed", "Commutator surface speed", status,
-                     f"{_figures(speed)} m/s at the highest no-load speed on a "
-                     f"{from_si(cm.commutator_diameter_m, 'mm'):.1f} mm commutator, {words}.",
-                     "" if status == PASS else "use a smaller commutator or a lower no-load speed"))
+    out.append(_check("commutator_speed", "Commutator surface speed", status,
+                      f"{_figures(speed)} m/s at the highest no-load speed on a ⟦0⟧ commutator, {words}.",
+                      (_quote(cm.commutator_diameter_m, "mm", spec=".1f"),),
+                      "" if status == PASS else "use a smaller commutator or a lower no-load speed"))
     e_r = cm.reactance_voltage_V
     status = FAIL if e_r > REACTANCE_FAIL else WARNING if e_r > REACTANCE_WARNING else PASS
     words = {PASS: "commutation without visible sparking is likely",
@@ -178,28 +210,26 @@ def run_checks(design: Design, results: Results) -> list[Check]:
         return from_si(speed, "rpm")
 
     required = rpm(d.load_speed)
-    torque_mNm = from_si(d.load_torque, "mN·m")
+    rated = _quote(d.load_torque, "mN·m")
     short = [c for c in r.cases if not c.meets_load]
     if any(not c.rated_reached for c in r.cases):
         worst = min(r.cases, key=lambda c: c.stall_torque_N_m)
-        out.append(Check("load", "Rated load", FAIL,
-                         f"the rated {_figures(torque_mNm)} mN·m is beyond the stall torque in the {worst.name} case "
-                         f"({_figures(from_si(worst.stall_torque_N_m, 'mN·m'))} mN·m).",
-                         "raise the flux (thicker magnet, stronger grade), lengthen the stack, "
+        out.append(_check("load", "Rated load", FAIL,
+                          f"the rated ⟦0⟧ is beyond the stall torque in the {worst.name} case (⟦1⟧).",
+                          (rated, _quote(worst.stall_torque_N_m, "mN·m")),
+                          "raise the flux (thicker magnet, stronger grade), lengthen the stack, "
                          "or lower the resistance"))
     elif short:
         slow = min(short, key=lambda c: c.rated.speed_rad_per_s)
-        out.append(Check("load", "Rated load", FAIL,
-                         f"at {_figures(torque_mNm)} mN·m the motor turns "
-                         f"{_figures(rpm(slow.rated.speed_rad_per_s), 4)} rpm in the "
-                         f"{slow.name} case, below the required {_figures(required, 4)} rpm.",
-                         "use fewer turns per coil or thicker wire (lower Ke and R), or raise the supply voltage"))
+        out.append(_check("load", "Rated load", FAIL,
+                          f"at ⟦0⟧ the motor turns {_figures(rpm(slow.rated.speed_rad_per_s), 4)} rpm in the "
+                          f"{slow.name} case, below the required {_figures(required, 4)} rpm.", (rated,),
+                          "use fewer turns per coil or thicker wire (lower Ke and R), or raise the supply voltage"))
     else:
         slowest = min(r.cases, key=lambda c: c.rated.speed_rad_per_s)
-        out.append(Check("load", "Rated load", PASS,
-                         f"{_figures(torque_mNm)} mN·m at {_figures(rpm(slowest.rated.speed_rad_per_s))} rpm "
-                         "or more in every case "
-                         f"(required {_figures(required)} rpm)."))
+        out.append(_check("load", "Rated load", PASS,
+                          f"⟦0⟧ at {_figures(rpm(slowest.rated.speed_rad_per_s))} rpm or more in every case "
+                          f"(required {_figures(required)} rpm).", (rated,)))
     if any(c.stall_torque_N_m <= 0.0 for c in r.cases):
         out.append(Check("start", "Starting", FAIL,
                          "friction and drag exceed the stall torque: the motor cannot start.",
@@ -249,38 +279,41 @@ def run_checks(design: Design, results: Results) -> list[Check]:
     duty = {"S1": "steady state (S1)", "S2": f"after {t.duty_minutes:g} min (S2)",
             "S3": f"at the end of each loaded spell (S3, {t.cycle_duration_factor:.0%} of "
                   f"{t.cycle_minutes:g} min)"}[t.duty]
+    ambient = _quote(t.ambient_C, "°C", spec="g")
+    winding = _quote(t.winding_temperature_C, "°C", spec=".0f")
+    insulation = _quote(t.insulation_limit_C, "°C", spec=".0f")
     if not t.converged:
         when = ("" if t.time_to_limit_s is None else
                 f" The winding reaches its class limit after {_figures(from_si(t.time_to_limit_s, 'min'))} min "
                 "at the rated load from ambient; the hot case is shown at that moment.")
-        out.append(Check("thermal", "Winding temperature", FAIL,
-                         f"no usable thermal state at the rated load and {t.ambient_C:g} °C ambient ({t.duty}): "
-                         "the losses grow faster than the heat can leave, the hot motor stalls, "
-                         "or the magnets would pass the temperature their data hold to." + when,
-                         "lower the rated load or the winding resistance, or improve the cooling"))
+        out.append(_check("thermal", "Winding temperature", FAIL,
+                          f"no usable thermal state at the rated load and ⟦0⟧ ambient ({t.duty}): "
+                          "the losses grow faster than the heat can leave, the hot motor stalls, "
+                          "or the magnets would pass the temperature their data hold to." + when, (ambient,),
+                          "lower the rated load or the winding resistance, or improve the cooling"))
     elif t.winding_temperature_C > t.insulation_limit_C:
-        out.append(Check("thermal", "Winding temperature", FAIL,
-                         f"{t.winding_temperature_C:.0f} °C {duty} at {t.ambient_C:g} °C ambient exceeds class "
-                         f"{t.insulation_class} ({t.insulation_limit_C:.0f} °C, IEC 60085).",
-                         "lower the losses (thicker wire, fewer turns), improve the cooling, "
+        out.append(_check("thermal", "Winding temperature", FAIL,
+                          f"⟦0⟧ {duty} at ⟦1⟧ ambient exceeds class {t.insulation_class} (⟦2⟧, IEC 60085).",
+                          (winding, ambient, insulation),
+                          "lower the losses (thicker wire, fewer turns), improve the cooling, "
                          "or choose a higher class"))
     else:
-        out.append(Check("thermal", "Winding temperature", PASS,
-                         f"{t.winding_temperature_C:.0f} °C {duty} at {t.ambient_C:g} °C ambient, within class "
-                         f"{t.insulation_class} ({t.insulation_limit_C:.0f} °C)."))
+        out.append(_check("thermal", "Winding temperature", PASS,
+                          f"⟦0⟧ {duty} at ⟦1⟧ ambient, within class {t.insulation_class} (⟦2⟧).",
+                          (winding, ambient, insulation)))
+    magnets = (_quote(t.magnet_temperature_C, "°C", spec=".0f"), _quote(t.magnet_limit_C, "°C", spec=".0f"))
     if t.magnet_temperature_C > t.magnet_limit_C:
-        out.append(Check("magnet_temperature", "Magnet temperature", FAIL,
-                         f"the magnets reach {t.magnet_temperature_C:.0f} °C, above {r.magnet.name}'s working limit "
-                         f"of {t.magnet_limit_C:.0f} °C.",
-                         "choose a grade rated for higher temperature, or cool the housing"))
+        out.append(_check("magnet_temperature", "Magnet temperature", FAIL,
+                          f"the magnets reach ⟦0⟧, above {r.magnet.name}'s working limit of ⟦1⟧.", magnets,
+                          "choose a grade rated for higher temperature, or cool the housing"))
     else:
-        out.append(Check("magnet_temperature", "Magnet temperature", PASS,
-                         f"the magnets reach {t.magnet_temperature_C:.0f} °C (limit {t.magnet_limit_C:.0f} °C)."))
+        out.append(_check("magnet_temperature", "Magnet temperature", PASS,
+                          "the magnets reach ⟦0⟧ (limit ⟦1⟧).", magnets))
 
     # Envelope.
     envelope = r.geometry.max_outer_diameter_m
     if envelope is not None:
-        out.append(Check("envelope", "Envelope", PASS,
-                         f"housing {from_si(r.geometry.housing_outer_diameter_m, 'mm'):.1f} mm across, "
-                         f"within {from_si(envelope, 'mm'):g} mm."))
+        out.append(_check("envelope", "Envelope", PASS, "housing ⟦0⟧ across, within ⟦1⟧.",
+                          (_quote(r.geometry.housing_outer_diameter_m, "mm", spec=".1f"),
+                           _quote(envelope, "mm", spec="g"))))
     return out

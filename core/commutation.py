@@ -145,7 +145,7 @@ def brush_set(design: Design) -> BrushSet:
     Parameters
     ----------
     design : Design
-        The design in SI.
+        The design in SI: its ``[brushes]`` inputs, and the geometry and winding the estimates scale with.
 
     Returns
     -------

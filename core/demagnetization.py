@@ -166,6 +166,7 @@ class MagnetState:
     flux_per_pole: float  #: [Wb]
     segment_angle: np.ndarray  #: centres of the magnet segments [rad]
     segment_field: np.ndarray  #: field in each [A/m]
+    segment_share: np.ndarray | None = None  #: each segment's share of the magnet's area [1]; None: not known
 
 
 def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C: float, current: float,
@@ -211,6 +212,9 @@ def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C
         flux_per_pole_Wb=float(state.flux_per_pole), worst_angle_rad=float(state.worst_angle),
         magnet_area_past_knee_fraction=float(state.past_knee_fraction),
         segment_angle_rad=np.asarray(state.segment_angle), segment_field_A_per_m=np.asarray(state.segment_field),
+        segment_area_fraction=np.asarray(state.segment_share if state.segment_share is not None else [], dtype=float),
+        segment_flux_density_T=np.asarray(flux_density(grade, np.asarray(state.segment_field), temperature_C),
+                                          dtype=float),
     )
 
 

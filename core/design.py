@@ -11,6 +11,7 @@ from . import library
 from .conductors import Wire, wire
 from .errors import ProjectError
 from .geometry import Geometry
+from .magnet_grades import magnet_price_per_kg
 from .magnets import MagnetGrade
 from .schema import Project
 from .steel import Steel
@@ -35,6 +36,8 @@ class WindingData:
     insulation_class: str  #: IEC 60085 thermal class, e.g. "155 (F)"
     insulation_limit_C: float  #: IEC 60085 class temperature [°C]
     end_turn_factor: float  #: multiplier on the estimated end-turn length [1]
+    #: the copper's resistivity relative to IEC 60028 annealed copper (production spread of the wire) [1]
+    resistivity_factor: float = 1.0
 
 
 @dataclass(frozen=True)
@@ -205,7 +208,7 @@ def design_from_project(project: Project) -> Design:
     Raises
     ------
     ProjectError
-        Naming the key, if the wire size, the grade or a steel cannot be resolved.
+        Naming the key, if the wire size, the grade, a steel or the magnet's price cannot be resolved.
     """
     p = project
     try:
@@ -214,6 +217,11 @@ def design_from_project(project: Project) -> Design:
         raise ProjectError(f"winding.wire: {error}", key="winding.wire") from None
     geometry = geometry_of(p)
     w = p.winding
+    grade = magnet_grade_of(p)
+    try:
+        magnet_price = magnet_price_per_kg(p.prices.magnet_per_kg, p.prices.currency, grade)
+    except ValueError as error:
+        raise ProjectError(str(error), key="prices.magnet_per_kg") from None
     return Design(
         project=p,
         supply_voltage=p.supply.voltage_V,
@@ -226,7 +234,7 @@ def design_from_project(project: Project) -> Design:
         ambient_nominal_C=p.temperatures.ambient_nominal_C,
         ambient_max_C=p.temperatures.ambient_max_C,
         geometry=geometry,
-        magnet=magnet_grade_of(p),
+        magnet=grade,
         housing_steel=library.steel(p.housing.steel, "housing", "housing.steel"),
         lamination_steel=library.steel(p.armature.steel, "lamination", "armature.steel"),
         winding=WindingData(
@@ -274,7 +282,7 @@ def design_from_project(project: Project) -> Design:
                             else to_si(p.housing.max_outer_diameter_mm, "mm")),
         prices=Prices(
             currency=p.prices.currency,
-            magnet=p.prices.magnet_per_kg,
+            magnet=magnet_price,  # the project's, else the grade's (core.magnet_grades.magnet_price_per_kg)
             copper=p.prices.copper_per_kg,
             housing_steel=p.prices.housing_steel_per_kg,
             lamination=p.prices.lamination_per_kg,

@@ -53,7 +53,8 @@ def _children(value: Any) -> dict[str, Any] | None:
     """The named parts of a dataclass or mapping; plot arrays are not figures and are left out."""
     if is_dataclass(value) and not isinstance(value, type):
         return {f.name: getattr(value, f.name) for f in fields(value)
-                if f.name not in ("curve", "curves") and not isinstance(getattr(value, f.name), np.ndarray)}
+                if f.name not in ("curve", "curves", "quoted")  # a check's quoted numbers are in its message
+                and not isinstance(getattr(value, f.name), np.ndarray)}
     if isinstance(value, dict):
         return value
     return None
@@ -240,7 +241,11 @@ def compare(project_a: Project, project_b: Project, results_a: Results | None = 
 
 
 def with_grade(project: Project, grade_name: str) -> Project:
-    """The same design with a library magnet grade (an inline custom grade is dropped).
+    """The same design with a library magnet grade (an inline custom grade is dropped), priced as that grade.
+
+    The project's ``prices.magnet_per_kg`` is the price of its own grade, so it is dropped with the grade
+    and the new grade's typical library price applies (:func:`core.magnet_grades.magnet_price_per_kg`);
+    it is kept only when the new grade has no price in the project's currency.
 
     Parameters
     ----------
@@ -261,5 +266,9 @@ def with_grade(project: Project, grade_name: str) -> Project:
     """
     from .library import magnet_grade
 
-    magnet_grade(grade_name)  # an unknown name is a ProjectError naming magnets.grade
-    return with_values(project, {"magnets.custom_grade": None, "magnets.grade": grade_name})
+    grade = magnet_grade(grade_name)  # an unknown name is a ProjectError naming magnets.grade
+    changes: dict[str, Any] = {"magnets.custom_grade": None, "magnets.grade": grade_name}
+    if grade_name != project.magnets.grade and grade.price_per_kg is not None \
+            and grade.price_currency == project.prices.currency:
+        changes["prices.magnet_per_kg"] = None
+    return with_values(project, changes)

@@ -93,9 +93,9 @@ def judged(case: DemagnetizationCase, grade: MagnetGrade, share: float) -> Demag
     case : DemagnetizationCase
         A case's verdict against the knee.
     grade : MagnetGrade
-        The magnet grade.
+        The magnet grade, for HcJ at the case's own temperature.
     share : float
-        The project's required margin as a share of HcJ [1].
+        The required margin as a share of that HcJ [1] (``magnets.required_margin_pct_of_HcJ`` / 100).
 
     Returns
     -------
@@ -129,10 +129,8 @@ def with_required_margin(result: DemagnetizationResult, grade: MagnetGrade, shar
     ----------
     result : DemagnetizationResult
         The cases against the knee.
-    grade : MagnetGrade
-        The magnet grade.
-    share : float
-        The project's required margin as a share of HcJ [1].
+    grade, share : MagnetGrade, float
+        As for :func:`judged`, which judges each case.
 
     Returns
     -------
@@ -173,7 +171,7 @@ def direct_supply_faults(grade: MagnetGrade, temperature_cases: Sequence[Tempera
     grade : MagnetGrade
         The magnet grade.
     temperature_cases : sequence of TemperatureCase
-        The coldest and the hottest case.
+        The coldest and the hottest case, each with its motor model (resistance, Ke) and no-load speed.
     magnet_state : callable
         ``magnet_state(label, current)``: the magnet's field at that case and armature current [A]
         (the same model as the ordinary cases).

@@ -6,6 +6,23 @@ shaft as annuli/cylinders (J = m·(r_o² + r_i²)/2), teeth and slot copper at t
 copper at half the square of the mid-slot radius (our estimate: the end turns sweep from the slot to
 near the shaft), plus what the project adds for commutator and fan.
 
+The parts outside the magnetic circuit (the shaft's drive-end extension, end caps, brush gear,
+commutator and bearings) are not drawn in the project; :class:`Masses` estimates them from the section
+with the named proportions below, all common practice, no source (bearing proportions from the ISO 15
+boundary dimensions of the 60 series, from memory), so that a total motor mass can stand beside the
+active mass as an estimate:
+
+* the end caps sit inside the housing tube's ends (the body is as long as the tube): two discs of the
+  tube's inner diameter, each half as thick as the housing wall, in the housing's steel, bored for the
+  shaft;
+* the brush gear (holder plate, brushes, springs, terminals) weighs half an end cap;
+* the commutator is a cylinder of 0.6 armature diameters (as :mod:`core.commutation` estimates it) and
+  0.7 of its own diameter long, on the shaft, of a mean density 0.6 times copper's (segments, mica and
+  moulded hub);
+* two deep-groove ball bearings of the shaft's bore d, 2.6·d outside and 0.8·d wide, two thirds of the
+  ring's volume steel;
+* the shaft runs out of the drive end by three shaft diameters.
+
 Like :class:`~core.geometry.Geometry`, every figure is a float for one design or an array for a sweep.
 """
 
@@ -16,6 +33,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from .commutation import COMMUTATOR_PER_ARMATURE  # the commutator diameter the brush checks estimate
 from .conductors import COPPER_DENSITY
 from .geometry import Geometry
 
@@ -23,6 +41,18 @@ if TYPE_CHECKING:
     from .design import Prices
 
 STEEL_DENSITY_SHAFT = 7850.0  #: [kg/m³], carbon steel, common practice
+BEARING_STEEL_DENSITY = 7850.0  #: [kg/m³], bearing steel (common practice, no source)
+
+# The parts outside the magnetic circuit, in proportions of the section (common practice, no source).
+END_CAP_THICKNESS_PER_WALL = 0.5  #: each end cap's thickness over the housing wall [1]
+BRUSH_GEAR_PER_END_CAP = 0.5  #: brush holder, brushes, springs and terminals over one end cap's mass [1]
+COMMUTATOR_LENGTH_PER_DIAMETER = 0.7  #: commutator length over its diameter [1]
+COMMUTATOR_DENSITY_PER_COPPER = 0.6  #: segments, mica and hub together, over copper's density [1]
+#: deep-groove ball bearing of bore d: outside diameter and width over d, and the share of its ring
+#: volume that is steel (ISO 15 boundary dimensions of the 60 series and catalogue masses, from memory)
+BEARING_OUTER_PER_BORE, BEARING_WIDTH_PER_BORE, BEARING_FILL = 2.6, 0.8, 2.0 / 3.0
+BEARINGS = 2  #: one at each end [1]
+SHAFT_EXTENSION_PER_DIAMETER = 3.0  #: the shaft's run-out beyond the drive end over its diameter [1]
 
 
 @dataclass(frozen=True)
@@ -36,16 +66,33 @@ class Masses:
     teeth: float | np.ndarray  #: part of the stack [kg]
     core: float | np.ndarray  #: part of the stack [kg]
     shaft: float | np.ndarray  #: within the housing length [kg]
+    #: the parts outside the magnetic circuit, estimated (module docstring): all 0 unless given
+    shaft_extension: float | np.ndarray = 0.0  #: the shaft beyond the drive end [kg]
+    end_caps: float | np.ndarray = 0.0  #: both end caps [kg]
+    brush_gear: float | np.ndarray = 0.0  #: brush holder, brushes, springs and terminals [kg]
+    commutator: float | np.ndarray = 0.0  #: [kg]
+    bearings: float | np.ndarray = 0.0  #: both bearings [kg]
 
     @property
     def total(self) -> float | np.ndarray:
-        """Magnets, copper, housing, stack and shaft [kg] (commutator, brushes and bearings not included)."""
+        """Magnets, copper, housing, stack and shaft [kg]: the active mass with the shaft inside the housing."""
         return self.magnet + self.copper + self.housing + self.lamination + self.shaft
+
+    @property
+    def other_parts(self) -> float | np.ndarray:
+        """The estimated parts outside the magnetic circuit [kg] (module docstring)."""
+        return self.shaft_extension + self.end_caps + self.brush_gear + self.commutator + self.bearings
+
+    @property
+    def estimated_total(self) -> float | np.ndarray:
+        """The whole motor, the active mass and the estimate of the other parts [kg]."""
+        return self.total + self.other_parts
 
 
 def masses(geometry: Geometry, magnet_density: float, housing_density: float, lamination_density: float,
-           wire_length: float | np.ndarray, copper_area: float | np.ndarray) -> Masses:
-    """The masses of the parts from their volumes and densities.
+           wire_length: float | np.ndarray, copper_area: float | np.ndarray,
+           commutator_diameter: float | np.ndarray | None = None) -> Masses:
+    """The masses of the parts from their volumes and densities, with an estimate of the other parts.
 
     Parameters
     ----------
@@ -57,12 +104,15 @@ def masses(geometry: Geometry, magnet_density: float, housing_density: float, la
         Total length of the winding wire [m].
     copper_area : float or ndarray
         Copper cross-section of the wire [m²].
+    commutator_diameter : float or ndarray, optional
+        The project's commutator diameter [m]; None for 0.6 armature diameters.
 
     Returns
     -------
     Masses
         Each part's mass [kg]; the shaft in steel of 7850 kg/m³ over the housing length (common
-        practice, no source), the copper at the IEC 60028 density.
+        practice, no source), the copper at the IEC 60028 density; the parts outside the magnetic
+        circuit from :func:`other_parts`.
 
     References
     ----------
@@ -70,6 +120,7 @@ def masses(geometry: Geometry, magnet_density: float, housing_density: float, la
     """
     g = geometry
     return Masses(
+        **other_parts(g, housing_density, commutator_diameter),
         magnet=magnet_density * g.magnet_volume,
         copper=COPPER_DENSITY * wire_length * copper_area,
         housing=housing_density * g.housing_volume,
@@ -78,6 +129,53 @@ def masses(geometry: Geometry, magnet_density: float, housing_density: float, la
         core=lamination_density * g.core_volume,
         shaft=STEEL_DENSITY_SHAFT * np.pi * g.shaft_radius**2 * g.housing_length,
     )
+
+
+def other_parts(geometry: Geometry, housing_density: float,
+                commutator_diameter: float | np.ndarray | None = None) -> dict[str, float | np.ndarray]:
+    """An estimate of the parts outside the magnetic circuit, from the section's proportions.
+
+    Each part is a disc, cylinder or ring of plain geometry, sized by the named proportions of this
+    module (its docstring lists them): end caps set into the tube's ends, brush gear as a share of a
+    cap, a commutator on the shaft, two ball bearings of the shaft's bore, the shaft's drive-end run-out.
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The cross-section and lengths.
+    housing_density : float
+        Density of the housing steel, of which the end caps are taken to be [kg/m³].
+    commutator_diameter : float or ndarray, optional
+        The project's commutator diameter [m]; None for 0.6 armature diameters.
+
+    Returns
+    -------
+    dict
+        ``shaft_extension``, ``end_caps``, ``brush_gear``, ``commutator`` and ``bearings`` [kg], the
+        :class:`Masses` fields of the same names.
+
+    References
+    ----------
+    .. [1] the proportions are common practice, no source; the bearing proportions follow the ISO 15
+       boundary dimensions of the 60 series and its catalogue masses, from memory.
+    """
+    g = geometry
+    shaft_area = np.pi * g.shaft_radius**2
+    cap_thickness = END_CAP_THICKNESS_PER_WALL * g.housing_wall
+    end_cap = housing_density * (np.pi * g.housing_inner_radius**2 - shaft_area) * cap_thickness
+    if commutator_diameter is None:
+        commutator_diameter = COMMUTATOR_PER_ARMATURE * 2.0 * g.armature_radius
+    commutator_length = COMMUTATOR_LENGTH_PER_DIAMETER * commutator_diameter
+    commutator_ring = np.pi * (commutator_diameter**2 / 4.0 - g.shaft_radius**2)
+    bore = 2.0 * g.shaft_radius
+    bearing_ring = np.pi / 4.0 * ((BEARING_OUTER_PER_BORE * bore) ** 2 - bore**2) * BEARING_WIDTH_PER_BORE * bore
+    return {
+        "shaft_extension": STEEL_DENSITY_SHAFT * shaft_area * SHAFT_EXTENSION_PER_DIAMETER * bore,
+        "end_caps": 2.0 * end_cap,
+        "brush_gear": BRUSH_GEAR_PER_END_CAP * end_cap,
+        "commutator": COMMUTATOR_DENSITY_PER_COPPER * COPPER_DENSITY * commutator_ring * commutator_length,
+        "bearings": BEARINGS * BEARING_FILL * BEARING_STEEL_DENSITY * bearing_ring,
+    }
 
 
 def rotor_inertia(geometry: Geometry, parts: Masses, slot_copper_fraction: float | np.ndarray,

@@ -50,8 +50,11 @@ def winding_result(d: Design, paths: int, conductors: int, turn_length: float, w
 
 
 def mass_result(m: Masses) -> MassResult:
-    """The parts' masses [kg] as plain floats."""
+    """The parts' masses [kg] as plain floats, the estimated other parts and the whole motor included."""
     return MassResult(
         magnet_kg=float(m.magnet), copper_kg=float(m.copper), housing_kg=float(m.housing),
         lamination_kg=float(m.lamination), shaft_kg=float(m.shaft), total_kg=float(m.total),
+        shaft_extension_kg=float(m.shaft_extension), end_caps_kg=float(m.end_caps),
+        brush_gear_kg=float(m.brush_gear), commutator_kg=float(m.commutator), bearings_kg=float(m.bearings),
+        other_parts_kg=float(m.other_parts), estimated_total_kg=float(m.estimated_total),
     )

@@ -187,9 +187,27 @@ class DemagnetizationCase:
     segment_angle_rad: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
     #: the field at mid-thickness in each segment [A/m]
     segment_field_A_per_m: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
+    #: each segment's share of the magnet's area, summing to 1 [1]
+    segment_area_fraction: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
+    #: the normal-curve B at each segment's field, at the case's temperature [T]
+    segment_flux_density_T: np.ndarray = field(default_factory=lambda: np.zeros(0), repr=False, compare=False)
     #: least margin this case must keep to count as safe: the project's share of HcJ at its temperature [A/m]
     required_margin_A_per_m: float = 0.0
     status: str = ""  #: "safe" (margin ≥ required), "marginal" (0 < margin < required) or "past_knee"
+
+    @property
+    def mean_field_A_per_m(self) -> float:  # noqa: N802 - named with its unit, as the fields are
+        """The magnet's mean field under the case's current, weighted by the segments' areas [A/m]
+        (the worst segment's field is ``magnet_field_A_per_m``); NaN without segments."""
+        shares = self.segment_area_fraction
+        return float(np.dot(shares, self.segment_field_A_per_m)) if shares.size else np.nan
+
+    @property
+    def mean_flux_density_T(self) -> float:  # noqa: N802 - named with its unit, as the fields are
+        """The magnet's mean flux density under the case's current, weighted by the segments' areas [T];
+        NaN without segments."""
+        shares = self.segment_area_fraction
+        return float(np.dot(shares, self.segment_flux_density_T)) if shares.size else np.nan
 
 
 @dataclass(frozen=True)
@@ -314,14 +332,22 @@ class CommutationResult:
 
 @dataclass(frozen=True)
 class MassResult:
-    """Masses of the active parts and the shaft."""
+    """Masses of the active parts and the shaft, and an estimate of the rest of the motor (core.mass)."""
 
     magnet_kg: float  #: [kg]
     copper_kg: float  #: [kg]
     housing_kg: float  #: [kg]
     lamination_kg: float  #: [kg]
-    shaft_kg: float  #: [kg]
-    total_kg: float  #: sum of the above [kg]
+    shaft_kg: float  #: within the housing length [kg]
+    total_kg: float  #: sum of the above: the active mass, with the shaft [kg]
+    #: the parts outside the magnetic circuit, estimated from the section's proportions (core.mass)
+    shaft_extension_kg: float | None = None  #: the shaft beyond the drive end [kg]
+    end_caps_kg: float | None = None  #: both end caps [kg]
+    brush_gear_kg: float | None = None  #: brush holder, brushes, springs, terminals [kg]
+    commutator_kg: float | None = None  #: [kg]
+    bearings_kg: float | None = None  #: both bearings [kg]
+    other_parts_kg: float | None = None  #: the five above [kg]
+    estimated_total_kg: float | None = None  #: the whole motor: total_kg + other_parts_kg [kg]
 
 
 @dataclass(frozen=True)
@@ -384,20 +410,67 @@ class MagnetChartCase:
 
 
 @dataclass(frozen=True)
+class QuotedValue:
+    """A number a check's message quotes, kept with its unit so that a view can show it in its own units."""
+
+    value: float  #: in SI; a temperature in °C
+    unit: str  #: the ``core.units`` unit the message quotes it in, e.g. "mN·m", "°C", "mm"
+    digits: int = 3  #: significant figures it is quoted to
+    spec: str = ""  #: a format spec used instead of ``digits``, e.g. ".0f" for a temperature to the whole degree
+    bare: bool = False  #: the number without its unit (the unit follows later: "8.0 × 10.0 mm")
+
+
+@dataclass(frozen=True)
 class Check:
     """One design check: what was tested, the finding, and what to change."""
 
     key: str  #: stable identifier, e.g. "demagnetization" or "housing_flux_density"
     title: str  #: a short label for the checks panel
     status: str  #: "pass", "warning" or "fail"
-    message: str  #: the reason, in a sentence, with the numbers
+    message: str  #: the reason, in a sentence, with the numbers (in the units of ``quoted``)
     advice: str = ""  #: what to change, when it did not pass
+    #: the message with ⟦i⟧ where ``quoted[i]`` stands, for a view that shows the numbers in other units
+    template: str = ""
+    quoted: tuple[QuotedValue, ...] = ()  #: the numbers of the message that carry a unit a view may change
 
     @property
     def sentence(self) -> str:
         """Title, finding and advice as one line."""
-        text = f"{self.title}: {self.message}"
+        return self.sentence_with(self.message)
+
+    def sentence_with(self, message: str) -> str:
+        """Title, a message and the advice as one line.
+
+        Parameters
+        ----------
+        message : str
+            This check's message, as a view writes it (its numbers perhaps in other units).
+
+        Returns
+        -------
+        str
+            "Title: message Advice."
+        """
+        text = f"{self.title}: {message}"
         return f"{text} {self.advice[0].upper() + self.advice[1:]}." if self.advice else text
+
+    def filled(self, texts: tuple[str, ...] | list[str]) -> str:
+        """The message with its quoted numbers as a view writes them.
+
+        Parameters
+        ----------
+        texts : sequence of str
+            One text per :attr:`quoted` value, in order, its unit included unless the value is ``bare``.
+
+        Returns
+        -------
+        str
+            :attr:`template` with ``texts[i]`` in place of ⟦i⟧.
+        """
+        message = self.template
+        for index, text in enumerate(texts):
+            message = message.replace(f"⟦{index}⟧", text)
+        return message
 
 
 @dataclass(frozen=True)

@@ -22,8 +22,9 @@ from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF, QImage, QPainter
 from PySide6.QtSvg import QSvgGenerator
 
 from pmdc_sizer.core.results import Results
-from pmdc_sizer.core.units import from_si
+from pmdc_sizer.core.units import from_si, to_si
 
+from .. import magnet_marks
 from ..figures import (
     CASE_POINTS,
     CASES,
@@ -31,19 +32,20 @@ from ..figures import (
     LINES,
     POINTS,
     REGIONS,
-    demagnetization_case_colour,
-    demagnetization_point,
     drive_current_limit,
     figure,
     qt_pen_style,
     torque_unit,
 )
+from ..performance_view import axis_top, torque_end
+from ..thermal_text import chart_title, duty_plot, limit_reached_at, temperature_label
 from .outline import OUTLINE_ASPECT, draw_outline
 from .paper_units import paper_unit
 
 CANVAS_WIDTH = 1000.0
 PERFORMANCE_ASPECT = 0.78  #: height over width of the performance chart
-MAGNET_ASPECT = 0.56
+MAGNET_ASPECT = 0.56  #: a taller chart would push the magnet page's tables onto a page of their own
+THERMAL_ASPECT = 0.5
 
 FONT_FAMILY = "DejaVu Sans"
 TEXT = QColor("#1b1f24")
@@ -107,6 +109,7 @@ class Panel:
     markers: list[Marker] = field(default_factory=list)
     note: str = ""
     shaded_from: float | None = None  #: x from which the panel is shaded as beyond the drive's limit
+    bands: list[tuple[float, float, str]] = field(default_factory=list)  #: (x from, x to, a key of REGIONS)
 
 
 def nice_ticks(low: float, high: float, count: int = 7) -> list[float]:
@@ -297,9 +300,16 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
         colour.setAlphaF(shade.opacity)
         left = to_point(max(panel.shaded_from, x0), y0).x()
         painter.fillRect(QRectF(left, plot.top(), plot.right() - left, plot.height()), colour)
+    for start, end, region in panel.bands:
+        colour = QColor(REGIONS[region].colour)
+        colour.setAlphaF(REGIONS[region].opacity)
+        left, right = to_point(max(start, x0), y0).x(), to_point(min(end, x1), y0).x()
+        if right > left:
+            painter.fillRect(QRectF(left, plot.top(), right - left, plot.height()), colour)
 
     # Curves cut to the plot, then markers inside it.
     painter.setBrush(Qt.BrushStyle.NoBrush)
+    drawn: list[np.ndarray] = []  #: the curves as drawn, which the labels keep off
     for s in panel.series:
         finite = np.isfinite(s.x) & np.isfinite(s.y)
         points = [to_point(float(x), float(y)) for x, y in zip(s.x[finite], s.y[finite], strict=False)]
@@ -307,35 +317,43 @@ def draw_panel(painter: QPainter, frame: QRectF, panel: Panel) -> None:
             continue
         painter.setPen(_pen(s.colour, s.width, s.dash))
         painter.drawPath(clipped_path(points, plot))
+        drawn.append(np.array([(p.x(), p.y()) for p in points]))
     painter.setFont(_font(13, bold=True))
     metrics = QFontMetricsF(painter.font())
     inside = plot.adjusted(-2, -2, 2, 2)
     shown = [(m, to_point(m.x, m.y)) for m in panel.markers if math.isfinite(m.x) and math.isfinite(m.y)]
     shown = [(m, centre) for m, centre in shown if inside.contains(centre)]
-    # Labels keep clear of every marker and of each other: the first free corner around the point wins.
-    taken = [QRectF(c.x() - m.size / 2, c.y() - m.size / 2, m.size, m.size) for m, c in shown]
     for m, centre in shown:
         draw_marker(painter, centre, m.shape, m.colour, m.size, m.filled)
-    for m, centre in shown:
-        if not m.label:
-            continue
-        width, height = metrics.horizontalAdvance(m.label) + 4, 18.0
-        gap = m.size / 2 + 3
-        candidates = [QRectF(centre.x() + gap, centre.y() - gap - height + 4, width, height),
-                      QRectF(centre.x() + gap, centre.y() + gap - 4, width, height),
-                      QRectF(centre.x() - gap - width, centre.y() - gap - height + 4, width, height),
-                      QRectF(centre.x() - gap - width, centre.y() + gap - 4, width, height)]
-        fitting = [box for box in candidates if plot.contains(box)] or candidates
-        box = next((b for b in fitting if not any(b.intersects(t) for t in taken)), fitting[0])
-        taken.append(box)
-        painter.setPen(m.colour)
-        painter.drawText(box, Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter, m.label)
+    _draw_labels(painter, plot, shown, drawn, metrics)
     if panel.note:
         painter.setFont(_font(12))
         painter.setPen(AXIS)
         painter.drawText(QRectF(plot.left() + 6, plot.bottom() - 24, plot.width() - 12, 18),
                          Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter, panel.note)
     painter.restore()
+
+
+def _draw_labels(painter: QPainter, plot: QRectF, shown: list[tuple[Marker, QPointF]], curves: list[np.ndarray],
+                 metrics: QFontMetricsF) -> None:
+    """The markers' labels, clear of every marker, of each other and of the curves (app.magnet_marks, as on
+    screen); a thin line leads to a label that had to move away from its marker."""
+    labelled = [(m, centre) for m, centre in shown if m.label]
+    if not labelled:
+        return
+    marks = [(c.x() - m.size / 2, c.y() - m.size / 2, c.x() + m.size / 2, c.y() + m.size / 2) for m, c in shown]
+    gap = MAGNET_MARKER / 2 + 3
+    boxes = magnet_marks.place_labels([(c.x(), c.y()) for _m, c in labelled],
+                                      [(metrics.horizontalAdvance(m.label) + 4, 18.0) for m, _c in labelled],
+                                      marks, curves, (plot.left(), plot.top(), plot.right(), plot.bottom()), gap)
+    for (m, centre), box in zip(labelled, boxes, strict=True):
+        ends = magnet_marks.leader((centre.x(), centre.y()), box, gap)
+        if ends is not None:
+            painter.setPen(_pen(AXIS, 0.8))
+            painter.drawLine(QPointF(*ends[0]), QPointF(*ends[1]))
+        painter.setPen(m.colour)
+        painter.drawText(QRectF(box[0], box[1], box[2] - box[0], box[3] - box[1]),
+                         Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter, m.label)
 
 
 @dataclass
@@ -425,19 +443,14 @@ def performance_panels(results: Results) -> list[Panel]:
     unit = paper_unit(torque_unit(results))  # the sheet's system: oz·in or lbf·in on a US customary sheet
     torque = figure("curve.torque_N_m")
     stall = max(c.stall_torque_N_m for c in results.cases)
-    # With a drive limit the torque axis ends a little past it (core.envelope), the rest is out of reach.
-    shown_to = max(c.envelope.chart_torque_max_N_m if c.envelope else c.stall_torque_N_m for c in results.cases)
-
-    def highest(values, case) -> float:
-        return float(np.max(np.asarray(values)[np.asarray(case.curve.torque_N_m) <= shown_to * 1.0001]))
-
-    tops = {
-        "speed_rad_per_s": max(from_si(c.no_load_speed_rad_per_s, "rpm") for c in results.cases) * 1.02,
-        "current_A": max(highest(c.curve.current_A, c) for c in results.cases) * 1.02,
-        "output_power_W": max(highest(c.curve.output_power_W, c) for c in results.cases) * 1.08,
-    }
-    working = min(working_torque_limit(results), shown_to)
+    # With a drive limit the torque axis ends a little past it, and each axis is as tall as its curves there
+    # (app.performance_view, as on screen): the working range fills the panels, the region beyond is shaded.
+    shown_to = torque_end(results)
     x_full = nice_range(0.0, from_si(shown_to, unit))
+    torque_to = to_si(x_full[1], unit)
+    tops = {name: from_si(axis_top(results, name, torque_to), figure(f"curve.{name}").unit)
+            for name in CURVE_QUANTITIES if name != "efficiency"}
+    working = min(working_torque_limit(results), shown_to)
     x_work = nice_range(0.0, from_si(working, unit))
     panels = []
     for name in CURVE_QUANTITIES:
@@ -490,6 +503,13 @@ def _legend_point(point: str) -> LegendItem:
                       filled=style.filled)
 
 
+def _short_point(point: str) -> LegendItem:
+    """A point's sample with its short text, for a key that is short of room."""
+    item = _legend_point(point)
+    item.text = POINTS[point].key_text
+    return item
+
+
 def _legend_line(line: str, text: str = "") -> LegendItem:
     style = LINES[line]
     return LegendItem(text or style.title, QColor(style.colour), qt_pen_style(style.dash))
@@ -531,22 +551,23 @@ def draw_performance_chart(painter: QPainter, width: float, height: float, resul
 
 
 def demagnetization_point_labels(results: Results) -> list[str]:
-    """Number labels for the demagnetization cases; cases at the same point share one label."""
-    return [str(i + 1) for i in range(len(results.demagnetization.cases))]
+    """The numbers of the demagnetization cases, as the datasheet's table and the chart print them."""
+    return magnet_marks.design_labels(results)
 
 
 def magnet_panel(results: Results) -> Panel:
+    """Curves, load lines, knees and every case's marks, from :mod:`app.magnet_marks` as on screen."""
     chart = results.magnet_chart
-    cases = results.demagnetization.cases
+    marks = magnet_marks.case_marks(results)
     field_figure = figure("magnet_chart_case.curves.field_strength")
     density = figure("magnet_chart_case.curves.flux_density")
     field_unit = field_figure.unit
     fields = [from_si(c.curves.field_strength, field_unit) for c in chart]
     x_low = min(float(np.min(f)) for f in fields)
-    x_low = min([x_low] + [from_si(c.magnet_field_A_per_m, field_unit) * 1.05 for c in cases])
+    x_low = min([x_low] + [from_si(m.worst_field, field_unit) * 1.05 for m in marks])
     b_top = max(c.curves.remanence for c in chart)
-    b_low = min([0.0] + [c.curves.knee_flux_density for c in chart] + [c.magnet_flux_density_T for c in cases])
-    y_range = nice_range(b_low - (0.05 * b_top if b_low < 0 else 0.0), b_top * 1.08)
+    floor, bottom = magnet_marks.chart_floor(results, marks)
+    y_range = nice_range(bottom, b_top * 1.08)
     panel = Panel(f"Magnet {results.magnet.name}: second quadrant", field_figure.label(), density.label(),
                   nice_range(x_low, 0.0), y_range)
     load_dash = qt_pen_style(LINES["load_line"].dash)
@@ -566,32 +587,56 @@ def magnet_panel(results: Results) -> Panel:
         knee_j = float(np.interp(c.curves.knee_field, c.curves.field_strength, c.curves.polarization))
         for knee_b in (c.curves.knee_flux_density, knee_j):
             panel.markers.append(point_marker("knee", knee_h, knee_b, c.name, MAGNET_MARKER))
-    labels = demagnetization_point_labels(results)
-    groups: dict[tuple[float, float, bool], list[int]] = {}
-    for index, case in enumerate(cases):
-        key = (round(case.magnet_field_A_per_m, -2), round(case.magnet_flux_density_T, 3), case.ok)
-        groups.setdefault(key, []).append(index)
-    for members in groups.values():
-        case = cases[members[0]]
-        text = ",".join(labels[i] for i in members)
-        panel.markers.append(point_marker(
-            demagnetization_point(case), from_si(case.magnet_field_A_per_m, field_unit), case.magnet_flux_density_T,
-            case.name, MAGNET_MARKER, demagnetization_case_colour(case), text if case.ok else f"{text} FAILS"))
+    shifted = magnet_marks.shifted_load_line(results)
+    if shifted is not None:
+        h, b = shifted.points()
+        panel.series.append(Series(from_si(h, field_unit), b, case_colour(shifted.temperature_case),
+                                   qt_pen_style(LINES["shifted_load_line"].dash), 2.0, "shifted_load_line"))
+    least = magnet_marks.least_margin_mark(marks)
+    # The segments and the means first, so that the cases' own marks are drawn over them.
+    case_markers = []
+    for label, members in magnet_marks.grouped(marks):
+        mark = members[0]
+        seg_h, seg_b = mark.segments
+        shown = (seg_b >= floor) & (seg_h <= 0.0)  # magnetized segments sit right of the chart
+        for x, y in zip(from_si(seg_h[shown], field_unit), seg_b[shown], strict=True):
+            panel.markers.append(point_marker("magnet_segment", float(x), float(y), mark.name, MAGNET_MARKER,
+                                              mark.colour))
+        mean_h, mean_b = mark.mean
+        if mark.mean_on_curve and mean_b >= floor:
+            panel.markers.append(point_marker("magnet_mean", from_si(mean_h, field_unit), mean_b, mark.name,
+                                              MAGNET_MARKER, mark.colour))
+        b, off_scale = magnet_marks.on_scale(mark.worst_flux_density, floor)
+        text = magnet_marks.group_label(label, members, least) + (f" {magnet_marks.OFF_SCALE}" if off_scale else "")
+        case_markers.append(point_marker(mark.point, from_si(mark.worst_field, field_unit), b, mark.name,
+                                         MAGNET_MARKER, mark.colour, text))
+    # Labels are placed in this order: the failed cases first, they are what the chart is for.
+    panel.markers += sorted(case_markers, key=lambda m: "FAILS" not in m.label)
     return panel
 
 
 def magnet_legend(results: Results) -> list[list[LegendItem]]:
-    temperatures = {c.name: c.curves.temperature_C for c in results.magnet_chart}
+    temperatures = {c.name: c for c in results.magnet_chart}
+    marks = magnet_marks.case_marks(results)
+    present = {m.point for m in marks}
+    shifted = magnet_marks.shifted_load_line(results)
+    states = [point for point in ("demagnetization_safe", "demagnetization_marginal", "demagnetization_fails",
+                                  "fault_safe", "fault_marginal", "fault_fails")
+              if point in present or point == "demagnetization_safe"]
+    numbers = "cases numbered as in the table" + ("; faults (supply applied directly) F1, F2, ..."
+                                                   if results.faults is not None else "")
     return [
-        [LegendItem(f"{name} (magnet {_temperature(temperatures[name])})", QColor(style.colour), Qt.PenStyle.SolidLine)
+        [LegendItem(f"{name} (magnet {_temperature(temperatures[name].curves.temperature_C)}, Pc "
+                    f"{figure('magnet_chart_case.permeance_coefficient').text(temperatures[name].permeance_coefficient)})",
+                    QColor(style.colour), Qt.PenStyle.SolidLine)
          for name, style in CASES.items()],
         [LegendItem("normal curve B", AXIS, Qt.PenStyle.SolidLine),
-         LegendItem("intrinsic curve J", AXIS, Qt.PenStyle.DashLine),
-         _legend_line("load_line"), _legend_point("operating_point")],
-        [_legend_point("knee"), LegendItem(f"{POINTS['demagnetization_safe'].title}, numbered", AXIS,
-                                           shape=POINTS["demagnetization_safe"].marker,
-                                           filled=POINTS["demagnetization_safe"].filled),
-         _legend_point("demagnetization_fails")],
+         LegendItem("intrinsic curve J", AXIS, Qt.PenStyle.DashLine), _legend_line("load_line")]
+        + ([_legend_line("shifted_load_line", shifted.title(short=True))] if shifted is not None else []),
+        [_short_point("operating_point"), _legend_point("knee")] + [_short_point(point) for point in states]
+        + [_short_point("magnet_mean"), _short_point("magnet_segment")],
+        [LegendItem(numbers + "; each case's mark is its magnet's worst segment.", AXIS)],
+        [LegendItem(magnet_marks.PC_NOTE_PRINTED, AXIS)],
     ]
 
 
@@ -602,9 +647,59 @@ def draw_magnet_chart(painter: QPainter, width: float, height: float, results: R
     painter.restore()
 
 
+def thermal_panel(results: Results) -> Panel:
+    """Winding, magnet and housing temperatures against time over the duty, with both limits as lines."""
+    t = results.thermal
+    unit = paper_unit("°C")
+    plot = duty_plot(t, unit)
+    time = figure("thermal.transient.time_s")
+    if plot is None:
+        return Panel(chart_title(t, unit), time.label(), temperature_label(unit), (0.0, 1.0), (0.0, 1.0),
+                     note="no temperatures against time in these results")
+    panel = Panel(chart_title(t, unit), time.label(), temperature_label(unit),
+                  (0.0, float(plot.time[-1])), nice_range(*plot.temperature_range))  # time: to the transient's end
+    panel.bands = [(start, end, "loaded") for start, end in plot.spells]
+    for line, value in plot.limits.items():
+        style = LINES[line]
+        panel.series.append(Series(np.array(panel.x_range), np.array([value, value]), QColor(style.colour),
+                                   qt_pen_style(style.dash), 1.4, line))
+    for line, values in plot.curves.items():
+        style = LINES[line]
+        panel.series.append(Series(plot.time, values, QColor(style.colour), qt_pen_style(style.dash),
+                                   2.6 if line == "winding_temperature" else 2.0, line))
+    if plot.limit_reached is not None:
+        at, value = plot.limit_reached
+        panel.markers.append(point_marker("class_limit_reached", at, value, base_size=MAGNET_MARKER,
+                                          label=f"{figure('thermal.time_to_limit_s').text(at * 60.0)}"))
+    return panel
+
+
+def thermal_legend(results: Results) -> list[list[LegendItem]]:
+    t = results.thermal
+    limit = _temperature(t.insulation_limit_C)
+    rows = [[_legend_line(line) for line in ("winding_temperature", "magnet_temperature", "housing_temperature")]
+            + ([LegendItem(REGIONS["loaded"].title, QColor(REGIONS["loaded"].colour), shape="square")]
+               if t.duty != "S1" else []),
+            [_legend_line("insulation_limit", f"{LINES['insulation_limit'].title}, class {t.insulation_class}: "
+                                              f"{limit}"),
+             _legend_line("magnet_limit", f"{LINES['magnet_limit'].title} ({results.magnet.name}): "
+                                          f"{_temperature(t.magnet_limit_C)}")]]
+    if limit_reached_at(t) is not None:
+        rows[-1].append(_legend_point("class_limit_reached"))
+    return rows
+
+
+def draw_thermal_chart(painter: QPainter, width: float, height: float, results: Results) -> None:
+    """Temperatures against time over the duty, at the highest ambient."""
+    h, top = _begin_chart(painter, width, height, thermal_legend(results))
+    draw_panel(painter, QRectF(5, top, CANVAS_WIDTH - 10, h - top - 6), thermal_panel(results))
+    painter.restore()
+
+
 DRAWERS = {"performance": (draw_performance_chart, PERFORMANCE_ASPECT), "magnet": (draw_magnet_chart, MAGNET_ASPECT),
-           "outline": (draw_outline, OUTLINE_ASPECT)}
-SHEET_DRAWINGS = (*CHART_NAMES, "outline")  #: what the datasheet embeds; the charts alone are also exported
+           "thermal": (draw_thermal_chart, THERMAL_ASPECT), "outline": (draw_outline, OUTLINE_ASPECT)}
+#: what the datasheet embeds; the performance and magnet charts are also exported alone
+SHEET_DRAWINGS = (*CHART_NAMES, "thermal", "outline")
 
 
 # ----------------------------------------------------------------------------------------------

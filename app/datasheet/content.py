@@ -15,8 +15,9 @@ from pmdc_sizer.core.project import Project
 from pmdc_sizer.core.results import Results
 
 from ..figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
-from ..formatting import unit_label
+from ..formatting import check_message, unit_label
 from ..safety import caution_sentences
+from ..thermal_text import NO_STALL, chart_notes, stall_time_reason, stall_time_text
 from .charts import demagnetization_point_labels
 from .options import DEFAULT_OPTIONS, SheetOptions
 from .paper_units import paper_unit, printed_in
@@ -193,6 +194,21 @@ def performance_table(results: Results) -> Table:
                  key="performance_table")
 
 
+def tolerance_table(results: Results, study) -> Table:
+    """Min / typ / max of the figures a customer reads, over the production spread (a ``ToleranceStudy``)."""
+    from ..figures import DATASHEET_TOLERANCE_FIGURES, TOLERANCE_FIGURES
+    from ..tolerance_text import basis_text, figure_row, spread_text
+
+    rows = []
+    for name in DATASHEET_TOLERANCE_FIGURES:
+        title, low, typical, high, _ = figure_row(name, study, paper_unit(unit_for(TOLERANCE_FIGURES[name], results)))
+        rows.append(Row((title, low, typical, high)))
+    spreads = "; ".join(f"{s.label} {spread_text(s)}" for s in study.spreads if s.plus_minus > 0.0)
+    return Table(("At the nominal temperature", "min", "typ", "max"), tuple(rows), widths=(52, 16, 16, 16),
+                 caption=f"Production spread: {basis_text(study)}. Stated spreads: {spreads or 'none'}.",
+                 key="tolerance_table")
+
+
 def electrical_table(results: Results) -> Table:
     r = results
     limit = r.current_limit_A
@@ -338,13 +354,33 @@ def thermal_table(results: Results, internal: bool = True) -> Table:
     return _kv(rows, title="Heat", key="thermal")
 
 
+def performance_caption(results: Results) -> str:
+    """Under the performance chart: how far its torque axis runs."""
+    envelope = results.nominal.envelope
+    reach = ("to a little past the drive's current limit, the torques beyond it shaded"
+             if envelope is not None and envelope.limited else "to stall")
+    return f"Speed, current and output power from no load {reach}; efficiency over the working range. " \
+           "Cold, nominal and hot cases."
+
+
+def thermal_caption(results: Results) -> str:
+    """Under the duty chart: what it shows, and what the duty means for the winding (no steady state said so)."""
+    t = results.thermal
+    unit = paper_unit("°C")
+    return " ".join(["Winding, magnets and housing from ambient at the rated load, from the two-capacity thermal "
+                     "network; the limits as lines.", *chart_notes(t, unit)])
+
+
 def ratings_table(results: Results) -> Table:
     """The continuous (S1) rating and the permitted stall times at the highest ambient."""
     r = results
     rows = _figure_rows(r, "ratings.continuous_torque_N_m", "ratings.continuous_current_A")
-    rows += [(figure(key).title, "never reaches the limit" if value_of(r, key) is None else _shown(r, key, r))
-             for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")]
-    return _kv(rows, title="Ratings up to the class limit, hottest ambient", key="ratings")
+    keys = ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")
+    # Where there is no stall time the cell says so and the caption says why (a sentence is too wide for a cell).
+    rows += [(figure(key).title, NO_STALL if stall_time_reason(r, key) else
+              stall_time_text(r, key, paper_unit(figure(key).unit))) for key in keys]
+    caption = " ".join(f"{figure(key).title}: {stall_time_text(r, key)}." for key in keys if stall_time_reason(r, key))
+    return _kv(rows, caption=caption, title="Ratings up to the class limit, hottest ambient", key="ratings")
 
 
 def build_tables(results: Results, internal: bool = True) -> tuple[Table, Table, Table]:
@@ -365,17 +401,30 @@ def build_tables(results: Results, internal: bool = True) -> tuple[Table, Table,
                       "geometry.magnet_thickness_m", "geometry.magnet_arc_rad", "geometry.magnet_length_m",
                       "geometry.overhang_m", "geometry.shaft_diameter_m"),
     ]
+    estimated = r.mass.estimated_total_kg is not None
+    other_parts = ("mass.other_parts_kg",) if internal and estimated else ()
     mass_rows = _figure_rows(r, "mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg",
-                             "mass.shaft_kg", "mass.total_kg")
+                             "mass.shaft_kg", "mass.total_kg", *other_parts,
+                             *(("mass.estimated_total_kg",) if estimated else ()))
+    mass_caption = ("The active mass: magnets, copper, housing, laminations and shaft, from their volumes and "
+                    "densities. The estimated total adds end caps, brush gear, commutator, bearings and the shaft's "
+                    "run-out, estimated from the motor's proportions: weigh a sample to confirm it.")
+    if internal and estimated:
+        parts = ", ".join(f"{words} {_shown(r, key, r)}" for words, key in (
+            ("end caps", "mass.end_caps_kg"), ("brush gear", "mass.brush_gear_kg"),
+            ("commutator", "mass.commutator_kg"), ("bearings", "mass.bearings_kg"),
+            ("shaft run-out", "mass.shaft_extension_kg")))
+        mass_caption += (f" Other parts: {parts}; their proportions are common practice, no source (core/mass.py: "
+                         "caps half the wall thick, brush gear half a cap, commutator 0.6 armature diameters, ball "
+                         "bearings of the shaft's bore, a run-out of three shaft diameters).")
     currency = r.cost.currency
     cost_rows = [(figure(key).title, text_of(r, key, currency))
                  for key in ("cost.magnet", "cost.copper", "cost.housing", "cost.lamination", "cost.total")]
     return (_kv(winding_rows, title="Winding and construction", key="winding"),
-            _kv(mass_rows, caption="The active mass: magnets, copper, housing, laminations and shaft, from their "
-                                   "volumes and densities. Brushes, commutator, end caps and bearings are not "
-                                   "included: the finished motor weighs more.",
-                title="Masses", key="mass"),
-            _kv(cost_rows, caption="Raw material only, at the prices per kilogram set in the project.",
+            _kv(mass_rows, caption=mass_caption, title="Masses", key="mass"),
+            _kv(cost_rows, caption="Raw material only, at the prices per kilogram set in the project; where it "
+                                   "sets no magnet price, at the grade's typical price from the library (from "
+                                   "memory).",
                 title="Material cost", key="cost"))
 
 
@@ -383,7 +432,8 @@ def checks_table(results: Results, internal: bool = True) -> Table:
     """Every design check (internal edition), or the verdicts a customer reads: load, start, demagnetization, heat."""
     rows = tuple(
         Row((STATUSES[c.status].word, c.title,
-             c.message + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice and internal else "")), c.status)
+             check_message(c, paper_unit) + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice and internal
+                                             else "")), c.status)
         for c in results.checks if internal or c.key in CUSTOMER_CHECKS
     )
     return Table(("Status", "Check", "Finding"), rows, widths=(10, 19, 71), numeric_from=99, key="checks")
@@ -451,14 +501,18 @@ def identity_rows(project: Project, results: Results, issued: _dt.date, options:
 
 
 def build(project: Project, results: Results, issued: _dt.date | None = None,
-          appendix: tuple[Section, ...] = (), options: SheetOptions = DEFAULT_OPTIONS) -> Datasheet:
-    """The datasheet content of one evaluated design in one edition; ``appendix`` sections come last."""
+          appendix: tuple[Section, ...] = (), options: SheetOptions = DEFAULT_OPTIONS, tolerance=None) -> Datasheet:
+    """The datasheet content of one evaluated design in one edition; ``appendix`` sections come last.
+
+    ``tolerance``, a ``core.tolerance_study.ToleranceStudy`` of the same design, adds the tolerance column
+    (min / typ / max over the production spread) after the duty chart.
+    """
     with printed_in(options.units):
-        return _build(project, results, issued, appendix, options)
+        return _build(project, results, issued, appendix, options, tolerance)
 
 
 def _build(project: Project, results: Results, issued: _dt.date | None, appendix: tuple[Section, ...],
-           options: SheetOptions) -> Datasheet:
+           options: SheetOptions, tolerance=None) -> Datasheet:
     r = results
     internal = options.internal
     info = project.project
@@ -478,11 +532,15 @@ def _build(project: Project, results: Results, issued: _dt.date | None, appendix
             performance_table(r),
         )),
         Section("performance_chart", "Speed, current, power and efficiency against torque", (
-            Chart("performance", "Speed, current and output power from no load to stall; efficiency over the working "
-                                 "range. Cold, nominal and hot cases."),
+            Chart("performance", performance_caption(r)),
             Columns((electrical_table(r), *((ratings_table(r),) if r.ratings is not None else ())),
                     (thermal_table(r, internal),)),
         ), new_page=True),
+        Section("thermal_chart", "Temperatures over the duty", (
+            Chart("thermal", thermal_caption(r)),
+        )),
+        *((Section("tolerance", "Production spread", (tolerance_table(r, tolerance),)),) if tolerance is not None
+          else ()),
         Section("magnet", "Magnet and demagnetization", (
             Chart("magnet", "Second-quadrant curves of the grade at the three magnet temperatures with the load lines, "
                             "no-load operating points, knees and the demagnetization cases numbered as in the table."),

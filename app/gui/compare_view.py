@@ -2,10 +2,10 @@
 
 B is one of: the current design with another magnet grade (it follows every edit of A), a pinned copy
 of the current design as it was when pinned, or a second project file. The page shows the key figures
-of both with B − A, each side's checks, both magnet operating charts, and the speed-torque curves of A
-and B on the same axes. Three buttons re-fit B to one of A's figures (Ke by magnet thickness, no-load
-speed by turns per coil, stall torque by stack length); a re-fit runs off the GUI thread and leaves B
-pinned at its re-fitted design.
+of both with B − A, each side's checks, the speed-torque curves and the magnet curves of A and B on
+the same axes, and each side's own magnet operating chart. Three buttons re-fit B to one of A's
+figures (Ke by magnet thickness, no-load speed by turns per coil, stall torque by stack length); a
+re-fit runs off the GUI thread and leaves B pinned at its re-fitted design.
 
 The page computes nothing: ``core.compare`` differences and re-fits, ``core.evaluate`` evaluates.
 """
@@ -35,17 +35,20 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from pmdc_sizer.app.compare_text import figure_rows, parameter_text, refit_lines
-from pmdc_sizer.app.figures import POINTS, SIDES, STATUSES, figure, text_of
-from pmdc_sizer.app.refit_text import parameter_title, refit_message, target_title
+from pmdc_sizer.app.compare_text import figure_rows, refit_lines
+from pmdc_sizer.app.figures import POINTS, SIDES, STATUSES, figure, text_of, torque_unit
+from pmdc_sizer.app.formatting import check_sentence, unit_label
+from pmdc_sizer.app.refit_text import parameter_shown, parameter_title, refit_message, target_title
 from pmdc_sizer.core import difference, library, refit
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
 from pmdc_sizer.core.project import ProjectError
 from pmdc_sizer.core.units import from_si
 
+from .display_units import DisplayUnits
 from .evaluation import Evaluator
 from .magnet_chart import MagnetChart
+from .magnet_overlay import MagnetOverlay
 from .performance_chart import QUANTITIES
 from .style import line_pen, mark_style
 
@@ -95,6 +98,8 @@ class CompareView(QWidget):
         super().__init__()
         self.setObjectName("compare_view")
         self.main_window = main_window
+        #: every figure, check text and axis follows the window's display units (SI without a window)
+        self.display: DisplayUnits = getattr(main_window, "display", None) or DisplayUnits()
         self.project_a = self.results_a = None
         self.project_b = self.results_b = None
         self.b_mode = ""  # "grade", "pinned", "file" or "refit"
@@ -122,13 +127,18 @@ class CompareView(QWidget):
         self.side_labels.setTextFormat(Qt.TextFormat.RichText)
         self.side_labels.setWordWrap(True)
         layout.addWidget(self.side_labels)
+        # The re-fit buttons under B's choice, above the tables: in view at 1366×768 without scrolling.
+        layout.addWidget(self._build_refit_bar())
         splitter = QSplitter(Qt.Orientation.Horizontal)
         layout.addWidget(splitter, 1)
         splitter.addWidget(self._build_numbers_panel())
         self.tabs = QTabWidget()
         self.tabs.setObjectName("compare_tabs")
         self.tabs.addTab(self._build_curves(), "Speed-torque, A and B")
-        self.tabs.addTab(self._build_magnet_charts(), "Magnets, A and B")
+        # A's and B's magnet curves on the same axes; then each side's own chart with all its cases.
+        self.magnet_overlay = MagnetOverlay()
+        self.tabs.addTab(self.magnet_overlay, "Magnets, A and B")
+        self.tabs.addTab(self._build_magnet_charts(), "Magnet cases, A | B")
         splitter.addWidget(self.tabs)
         splitter.setStretchFactor(0, 2)
         splitter.setStretchFactor(1, 3)
@@ -184,29 +194,34 @@ class CompareView(QWidget):
         return bar
 
     def _build_numbers_panel(self) -> QWidget:
-        panel = QWidget()
-        panel.setMinimumWidth(440)  # the figure titles and five columns, unclipped
-        column = QVBoxLayout(panel)
-        column.setContentsMargins(0, 0, 0, 0)
+        # Figures, checks and the re-fit report in a splitter the user can move: at 1366×768 none of them
+        # needs all its rows in view at once, and each scrolls within its share.
+        column = QSplitter(Qt.Orientation.Vertical)
+        column.setObjectName("numbers_splitter")
+        column.setChildrenCollapsible(False)
+        column.setMinimumWidth(440)  # the figure titles and five columns, unclipped
+        panel = column
         self.figures_table = QTableWidget(0, 5)
         self.figures_table.setObjectName("figures_table")
         self.figures_table.setHorizontalHeaderLabels(["Nominal case unless marked", "A", "B", "B − A", "B vs A"])
         self._tidy_table(self.figures_table)
-        column.addWidget(self.figures_table, 3)
+        column.addWidget(self.figures_table)
 
         self.checks_table = QTableWidget(0, 3)
         self.checks_table.setObjectName("checks_table")
         self.checks_table.setHorizontalHeaderLabels(["Check", "A", "B"])
         self._tidy_table(self.checks_table)
-        column.addWidget(self.checks_table, 2)
+        column.addWidget(self.checks_table)
 
-        column.addWidget(self._build_refit_bar())
         self.refit_report = QTextBrowser()
         self.refit_report.setObjectName("refit_report")
         self.refit_report.setPlaceholderText(
             "No re-fit yet. A re-fit changes one input of B until B meets A's figure; it takes a few dozen "
             "evaluations, well under a second.")
-        column.addWidget(self.refit_report, 1)
+        column.addWidget(self.refit_report)
+        for index, stretch in enumerate((3, 2, 1)):
+            column.setStretchFactor(index, stretch)
+        column.setSizes([420, 280, 140])
         return panel
 
     def _build_refit_bar(self) -> QWidget:
@@ -215,12 +230,13 @@ class CompareView(QWidget):
         row = QHBoxLayout(box)
         self.refit_buttons: dict[str, QPushButton] = {}
         for target, label, tip in REFIT_BUTTONS:
-            button = QPushButton(label)
+            button = QPushButton(label.replace("\n", " "))  # one line: the bar spans the page
             button.setToolTip(tip)
             button.setObjectName(f"refit_{target}")
             button.clicked.connect(lambda _checked=False, t=target: self.start_refit(t))
             row.addWidget(button)
             self.refit_buttons[target] = button
+        row.addStretch(1)
         return box
 
     @staticmethod
@@ -456,10 +472,11 @@ class CompareView(QWidget):
         self.grade_combo.setCurrentText(fit.project.magnets.grade or NO_GRADE)
         self.grade_combo.blockSignals(False)
         self.b_mode = "refit"
+        unit_of = self.display.screen_unit
         self.b_source = (f"re-fitted to A's {target_title(fit.target)} "
                          f"({'reached' if fit.reached else 'out of reach'}): {parameter_title(fit.target)} "
-                         f"{parameter_text(fit.value_before, fit.parameter_unit)}"
-                         f" → {parameter_text(fit.value_after, fit.parameter_unit)}, pinned")
+                         f"{parameter_shown(fit, fit.value_before, unit_of)}"
+                         f" → {parameter_shown(fit, fit.value_after, unit_of)}, pinned")
         self.project_b, self.results_b = fit.project, fit.results
         self._show_refit(fit)
         # At once, not later: whoever hears refit_finished finds the page already showing it.
@@ -469,9 +486,10 @@ class CompareView(QWidget):
 
     def _show_refit(self, fit) -> None:
         colour = STATUSES["pass" if fit.reached else "fail"].colour
-        lines = refit_lines(fit)
+        unit_of = self.display.screen_unit
+        lines = refit_lines(fit, unit_of)
         head = "Reached" if fit.reached else "Out of reach"
-        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(refit_message(fit))}</p><ul>"]
+        html = [f"<p><b style='color:{colour}'>{head}.</b> {_escape(refit_message(fit, unit_of))}</p><ul>"]
         html += [f"<li>{_escape(line.strip())}</li>" for line in lines[1:]]
         html.append(f"</ul><p style='color:#666'>{fit.evaluations} evaluations. To start again from B before the "
                     "re-fit, choose it again above; to keep this B, save it as a project file.</p>")
@@ -542,13 +560,16 @@ class CompareView(QWidget):
         self.comparison_updated.emit(self.comparison)
 
     def _draw_charts(self) -> None:
-        if self.tabs.currentIndex() == 0:
+        index = self.tabs.currentIndex()
+        if index == 0:
             self._draw_curves()
+        elif self.tabs.widget(index) is self.magnet_overlay:
+            self.magnet_overlay.show_results(self.results_a, self.results_b)
         else:
             self._draw_magnets()
 
     def _fill_figures(self) -> None:
-        rows = figure_rows(self.comparison)
+        rows = figure_rows(self.comparison, self.display.screen_unit)
         table = self.figures_table
         if table.rowCount() != len(rows):
             table.setRowCount(len(rows))
@@ -585,15 +606,26 @@ class CompareView(QWidget):
                     status = STATUSES[check.status]
                     cell = QTableWidgetItem(f"{status.mark} {status.word}")
                     cell.setForeground(QBrush(QColor(status.colour)))
-                    cell.setToolTip(check.sentence)
+                    cell.setToolTip(check_sentence(check, self.display.screen_unit))
                 self.checks_table.setItem(index, column, cell)
         self.checks_table.setToolTip("Point at a result to read the reason and what to change.")
-        self.checks_table.setFixedHeight(self.checks_table.horizontalHeader().height() + 21 * len(keys) + 4)
+        # No taller than its rows; the splitter gives it less on a small screen and it scrolls.
+        self.checks_table.setMaximumHeight(self.checks_table.horizontalHeader().height() + 21 * len(keys) + 4)
+
+    def _torque_unit(self) -> str:
+        """The torque axis's unit: A's (mN·m, N·m for a large motor) in the display units."""
+        design = self.results_a if self.results_a is not None else self.results_b
+        return self.display.screen_unit(torque_unit(design) if design is not None else TORQUE.unit)
 
     def _draw_curves(self) -> None:
         case_name = self.case_combo.currentText()
         highest_stall = 0.0
         keys = []
+        torque_in = self._torque_unit()
+        temperature = figure("case.winding_temperature_C")
+        degrees = self.display.screen_unit(temperature.unit)
+        for plot in self.curve_plots.values():
+            plot.setLabel("bottom", TORQUE.title, units=unit_label(torque_in))
         for side, results in (("A", self.results_a), ("B", self.results_b)):
             case = getattr(results, case_name) if results is not None else None
             for attribute, _title, unit in QUANTITIES:
@@ -602,21 +634,23 @@ class CompareView(QWidget):
                     curve.setData([], [])
                     mark.setData([], [])
                     continue
-                torque = from_si(case.curve.torque_N_m, TORQUE.unit)
+                torque = from_si(case.curve.torque_N_m, torque_in)
                 curve.setData(torque, from_si(np.asarray(getattr(case.curve, attribute)), unit))
                 if case.rated_reached:
-                    mark.setData([from_si(case.rated.torque_N_m, TORQUE.unit)],
+                    mark.setData([from_si(case.rated.torque_N_m, torque_in)],
                                  [from_si(getattr(case.rated, attribute), unit)])
                 else:
                     mark.setData([], [])
             if case is not None:
-                highest_stall = max(highest_stall, from_si(case.stall_torque_N_m, TORQUE.unit))
+                highest_stall = max(highest_stall, from_si(case.stall_torque_N_m, torque_in))
                 style, rated = SIDES[side], POINTS["rated"]
                 keys.append(f"<span style='color:{style.colour}'><b>{style.line_glyph} {side}</b>: "
-                            f"{_escape(results.magnet.name)}, winding {case.winding_temperature_C:.0f} °C, magnet "
-                            f"{case.magnet_temperature_C:.0f} °C; {rated.glyph} {rated.title}</span>")
+                            f"{_escape(results.magnet.name)}, winding "
+                            f"{temperature.text(case.winding_temperature_C, degrees)}, magnet "
+                            f"{temperature.text(case.magnet_temperature_C, degrees)}; "
+                            f"{rated.glyph} {rated.title}</span>")
         if self.results_a is not None:
-            self.required_mark.setData([from_si(self.results_a.load_torque_N_m, TORQUE.unit)],
+            self.required_mark.setData([from_si(self.results_a.load_torque_N_m, torque_in)],
                                        [from_si(self.results_a.load_speed_rad_per_s, "rpm")])
             self.curve_note.setText(f"{case_name} case")
             required = POINTS["required"]
@@ -625,7 +659,7 @@ class CompareView(QWidget):
         if highest_stall > 0:
             right = highest_stall * 1.02
             if self.range_combo.currentIndex() == 1 and self.results_a is not None:
-                right = min(right, 3.0 * from_si(self.results_a.load_torque_N_m, TORQUE.unit))
+                right = min(right, 3.0 * from_si(self.results_a.load_torque_N_m, torque_in))
             for plot in self.curve_plots.values():
                 plot.setXRange(0.0, right, padding=0.0)
                 plot.getViewBox().setAutoVisible(y=True)  # scale each quantity to the torques in view
@@ -639,8 +673,9 @@ class CompareView(QWidget):
                 title.setText(f"{side}: –")
                 continue
             chart.show_results(results)
-            thickness_mm = from_si(results.geometry.magnet_thickness_m, "mm")
-            title.setText(f"{side}: {results.magnet.name}, {thickness_mm:.4g} mm arcs, "
+            thickness = figure("geometry.magnet_thickness_m")
+            arcs = thickness.text(results.geometry.magnet_thickness_m, self.display.screen_unit(thickness.unit))
+            title.setText(f"{side}: {results.magnet.name}, {arcs} arcs, "
                           f"Pc {text_of(results, 'magnetics.permeance_coefficient')} at no load")
 
 

@@ -56,7 +56,7 @@ from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import Project, ProjectError
 
-from . import compare_view, export_dialog, field_view
+from . import compare_view, export_dialog, field_view, tolerance_view
 from .collection import collect_on_gui_thread
 from .crash_dialog import active_main_window, install_exception_hook
 from .cross_section import CrossSection
@@ -70,6 +70,7 @@ from .performance_chart import PerformanceChart
 from .recovery import AutoSaver, offer_recovery
 from .results_panel import ChecksPanel, ResultsPanel
 from .settings import DISPLAY_UNIT_SYSTEMS, load_settings, save_settings
+from .thermal_chart import ThermalChart
 
 APP_NAME = "pmdc-sizer"
 DEMO_FOLDER = Path(__file__).resolve().parents[2] / "demo_projects"
@@ -79,8 +80,10 @@ SCREENSHOT_SIZE = (1600, 1000)
 PAGE_MAGNET = "Magnet operating chart"
 PAGE_PERFORMANCE = "Performance curves"
 PAGE_SECTION = "Cross-section"
+PAGE_HEAT = "Duty temperatures"
 PAGE_COMPARE = "Compare designs"
 PAGE_FIELD = "Field solution"
+PAGE_TOLERANCE = "Production spread"
 
 def demo_templates() -> list[Path]:
     return sorted(DEMO_FOLDER.glob("*.toml")) if DEMO_FOLDER.is_dir() else []
@@ -170,7 +173,7 @@ class MainWindow(QMainWindow):
         splitter.addWidget(self.pages)
         right = QSplitter(Qt.Orientation.Vertical)
         self.results_panel = ResultsPanel(self.display)
-        self.checks_panel = ChecksPanel()
+        self.checks_panel = ChecksPanel(self.display)
         right.addWidget(self._titled("Key figures", self.results_panel))
         right.addWidget(self._titled("Design checks", self.checks_panel))
         right.setSizes([560, 420])
@@ -180,10 +183,14 @@ class MainWindow(QMainWindow):
         self.splitter = splitter
         self._splitter_placed = False
         self.setCentralWidget(splitter)
+        self.thermal_chart = ThermalChart(self)
+        self.add_page(PAGE_HEAT, self.thermal_chart)
         self.compare_view = compare_view.CompareView(self)
         self.add_page(PAGE_COMPARE, self.compare_view)
         self.field_view = field_view.FieldView(self)
         self.add_page(PAGE_FIELD, self.field_view)
+        self.tolerance_view = tolerance_view.ToleranceView(self)
+        self.add_page(PAGE_TOLERANCE, self.tolerance_view)
         self._sizes_before_wide_page: list[int] | None = None
         self.pages.currentChanged.connect(self._fit_wide_page)
         # A solved field shows its numbers beside the picture: the page may need more room than before.
@@ -575,7 +582,7 @@ class MainWindow(QMainWindow):
             self.figures_splitter.setSizes([int(height * share) for share in shares])
             self._splitter_placed = True
 
-    WIDE_PAGES = (PAGE_COMPARE, PAGE_FIELD)  #: pages with side-by-side views that need the whole width
+    WIDE_PAGES = (PAGE_COMPARE, PAGE_FIELD, PAGE_TOLERANCE)  #: pages with side-by-side views that need the whole width
 
     def _fit_wide_page(self, index: int) -> None:
         """The comparison gets the window's width when the editor and figures would squeeze it into scrolling;

@@ -10,8 +10,10 @@ PAGE_TITLES: dict[str, str] = {
     "magnet": "Magnet operating chart",
     "performance": "Performance curves",
     "cross-section": "Cross-section",
+    "heat": "Duty temperatures",
     "compare": "Compare designs",
     "field": "Field solution",
+    "tolerance": "Production spread",
 }
 #: Window sizes worth checking a page at: a common laptop and a common desktop screen.
 REVIEW_SIZES = ((1366, 768), (1920, 1080))

@@ -26,6 +26,7 @@ from pmdc_sizer.app.figures import (
     figure,
 )
 from pmdc_sizer.app.figures import torque_unit as design_torque_unit
+from pmdc_sizer.app.performance_view import axis_top, torque_end
 from pmdc_sizer.core.units import from_si
 
 from .display_units import DisplayUnits
@@ -47,7 +48,7 @@ def _key_html() -> str:
             f"&nbsp;&nbsp;&nbsp;<span style='color:{rated.colour}'>{DASH_GLYPHS[rated.dash]} {rated.title}</span>"
             f"&nbsp;&nbsp;&nbsp;<span style='color:{limit.colour}'>{DASH_GLYPHS[limit.dash]} {limit.title} "
             "(its torque: nominal case)</span>"
-            f"&nbsp;&nbsp;&nbsp;<span style='background:{REGIONS['beyond_limit'].colour}33'>&nbsp;&nbsp;&nbsp;</span> "
+            f"&nbsp;&nbsp;&nbsp;<span style='background:{REGIONS['beyond_limit'].swatch}'>&nbsp;&nbsp;&nbsp;</span> "
             f"{REGIONS['beyond_limit'].title}")
 
 
@@ -129,7 +130,7 @@ class PerformanceChart(QWidget):
         self.plots["current_A"].addItem(self.limit_current_line, ignoreBounds=True)
         self.required_mark = pg.ScatterPlotItem(**mark_style("required"))
         self.plots["speed_rad_per_s"].addItem(self.required_mark)
-        self._x_range = None
+        self._x_range: tuple[float, ...] | None = None  #: the default view shown last: torque end, then tops
         self.key = QLabel(_key_html())
         self.key.setObjectName("performance_key")
         self.key.setWordWrap(True)
@@ -194,12 +195,16 @@ class PerformanceChart(QWidget):
         self.limit_current_line.setVisible(limit_current is not None)
         if limit_current is not None:
             self.limit_current_line.setValue(limit_current)
-        # With a drive limit the default range ends a little past it (core.envelope); else at the stall.
-        x_range = (0.0, 1.02 * max(from_si(c.envelope.chart_torque_max_N_m if c.envelope else c.stall_torque_N_m,
-                                           torque_unit) for c in results.cases))
-        if self._x_range is None or abs(self._x_range[1] - x_range[1]) > 1e-3 * x_range[1]:
-            self._x_range = x_range
-            self.plots["speed_rad_per_s"].setXRange(*x_range, padding=0.0)  # the other plots are linked
+        # The default view, as on paper (app.performance_view): with a drive limit the torques end a little past
+        # it and each axis is as tall as its curves there, not as the unlimited stall; else up to the stall.
+        torque_to = 1.02 * torque_end(results)
+        view = (from_si(torque_to, torque_unit),
+                *(float(self._to_screen(name, axis_top(results, name, torque_to))) for name, _t, _u in QUANTITIES))
+        if self._x_range is None or any(abs(a - b) > 1e-3 * abs(b) for a, b in zip(self._x_range, view, strict=True)):
+            self._x_range = view
+            self.plots["speed_rad_per_s"].setXRange(0.0, view[0], padding=0.0)  # the other plots are linked
+            for (name, _title, _unit), top in zip(QUANTITIES, view[1:], strict=True):
+                self.plots[name].setYRange(0.0, top, padding=0.0)
         if self.cursors[0].isVisible():
             self.show_cursor(self.cursors[0].value())
 

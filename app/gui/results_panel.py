@@ -22,6 +22,8 @@ from PySide6.QtWidgets import (
 )
 
 from pmdc_sizer.app.figures import LABELS, STATUSES, figure, unit_for, value_of
+from pmdc_sizer.app.formatting import check_message
+from pmdc_sizer.app.thermal_text import NEVER_REACHED, NO_STALL, stall_time_reason
 
 from .display_units import DisplayUnits
 
@@ -62,6 +64,20 @@ CASE_KEYS = (
 NOT_REACHED = "stalls"
 
 
+def _wrapped(title: str, fits) -> str:
+    """``title`` on one line if it fits, else broken onto two at the last comma or space that lets the
+    first line fit ("Maximum output power,\nno current limit")."""
+    if fits(title):
+        return title
+    for separator in (", ", " "):
+        cuts = [index for index in range(len(title)) if title.startswith(separator, index)]
+        for index in reversed(cuts):
+            head = title[:index + len(separator)].rstrip()
+            if fits(head):
+                return f"{head}\n{title[index + len(separator):]}"
+    return title
+
+
 def _case_rows(f: Figures, results):
     """(label, function of a CaseResult giving its text)"""
     def text_of(key):
@@ -70,6 +86,16 @@ def _case_rows(f: Figures, results):
         return lambda c: f(c, key, results)
 
     return tuple((f.title(key), text_of(key)) for key in CASE_KEYS)
+
+
+def _stall_time_rows(f: Figures, r, key: str):
+    """A permitted stall time; where there is none, "no stall allowed" and the reason on a row of its own."""
+    if value_of(r, key) is None:
+        return ((f.title(key), NEVER_REACHED),)
+    reason = stall_time_reason(r, key)
+    if reason:
+        return ((f.title(key), NO_STALL), (f"   ↳ {reason}", ""))
+    return (key,)
 
 
 def _design_groups(f: Figures, r):
@@ -96,12 +122,11 @@ def _design_groups(f: Figures, r):
             (f.title("thermal.insulation_limit_C"),
              f"{f(r, 'thermal.insulation_limit_C', r)} (class {t.insulation_class})"),
             "thermal.magnet_temperature_C", "thermal.losses_W", "thermal.housing_to_ambient_K_per_W")),
-        (f"Ratings at {f(r, 'thermal.ambient_C', r)} ambient, winding up to its class", tuple(
-            ((f.title(key), "never reaches it") if value_of(r, key) is None else key)
-            for key in ("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
-                        "ratings.continuous_speed_rad_per_s", "ratings.continuous_output_power_W",
-                        "ratings.stall_current_A", "ratings.stall_time_cold_s", "ratings.stall_time_hot_s"))
-         if r.ratings is not None else ()),
+        (f"Ratings at {f(r, 'thermal.ambient_C', r)} ambient, winding up to its class", (
+            "ratings.continuous_torque_N_m", "ratings.continuous_current_A", "ratings.continuous_speed_rad_per_s",
+            "ratings.continuous_output_power_W", "ratings.stall_current_A",
+            *(entry for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")
+              for entry in _stall_time_rows(f, r, key))) if r.ratings is not None else ()),
         ("Thermal network", (
             "thermal.housing_temperature_C", "thermal.steady_winding_temperature_C",
             (f.title("thermal.time_to_limit_s"), "not reached") if t.time_to_limit_s is None
@@ -118,6 +143,8 @@ def _design_groups(f: Figures, r):
             "commutation.commutator_diameter_m") if r.commutation is not None else ()),
         ("Mass and material cost", (
             "mass.magnet_kg", "mass.copper_kg", "mass.housing_kg", "mass.lamination_kg", "mass.total_kg",
+            *(("mass.end_caps_kg", "mass.brush_gear_kg", "mass.commutator_kg", "mass.bearings_kg",
+               "mass.shaft_extension_kg", "mass.estimated_total_kg") if r.mass.estimated_total_kg is not None else ()),
             (f.title("cost.total"), figure("cost.total").text(cost.total, cost.currency)))),
     )
     return tuple((title, tuple((f.title(e), f(r, e, r)) if isinstance(e, str) else e for e in entries))
@@ -165,13 +192,43 @@ class ResultsPanel(QWidget):
     def resizeEvent(self, event) -> None:  # noqa: N802 - Qt's name
         super().resizeEvent(event)
         self._fit_case_columns()
+        self._fit_verdict()
+
+    def _fit_verdict(self) -> None:
+        """As tall as its wrapped text: inside a splitter the layout would give it one line and cut the rest."""
+        width = self.verdict.width() or self.width()
+        if width > 0:
+            self.verdict.setMinimumHeight(self.verdict.heightForWidth(width))
 
     def _fit_case_columns(self) -> None:
-        """The three figures keep the room they need ("19800 rpm"); the row titles take what is left and
-        are cut at the end if they must (their full text is the row's tooltip)."""
-        column = self.case_table.fontMetrics().horizontalAdvance("00000 mN·m") + 14
-        room = self.case_table.viewport().width() + self.case_table.verticalHeader().width()
-        self.case_table.verticalHeader().setMaximumWidth(max(90, room - 3 * column))
+        """The three figures keep the room their widest text needs ("19800 rpm", "4.96 oz·in"); the row
+        titles take all that is left and are whole: one too long for it wraps onto a second line of a
+        taller row (the full title is also the row's tooltip)."""
+        table = self.case_table
+        metrics = table.fontMetrics()
+        texts = [item.text() for row in range(table.rowCount()) for column in range(table.columnCount())
+                 if (item := table.item(row, column)) is not None] or ["00000 mN·m"]
+        headers = [line for column in range(table.columnCount())
+                   if (header := table.horizontalHeaderItem(column)) is not None
+                   for line in header.text().splitlines()]
+        column = max(metrics.horizontalAdvance(text) for text in texts + headers) + 10
+        room = table.viewport().width() + table.verticalHeader().width()
+        title_room = max(90, room - 3 * column)
+        widest = 90
+        line = table.verticalHeader().defaultSectionSize()
+        for row in range(table.rowCount()):
+            item = table.verticalHeaderItem(row)
+            if item is None:
+                continue
+            title = item.toolTip() or item.text().replace("\n", " ")
+            text = _wrapped(title, lambda s: metrics.horizontalAdvance(s) + 12 <= title_room)
+            if item.text() != text:
+                item.setText(text)
+            widest = max(widest, *(metrics.horizontalAdvance(part) for part in text.splitlines()))
+            height = line if "\n" not in text else 2 * metrics.height() + 6
+            if table.rowHeight(row) != height:
+                table.setRowHeight(row, height)
+        table.verticalHeader().setMaximumWidth(min(widest + 12, title_room))
 
     def show_results(self, results) -> None:
         self.values = {}
@@ -180,6 +237,8 @@ class ResultsPanel(QWidget):
         if table.rowCount() != len(rows):
             table.setRowCount(len(rows))
             table.setVerticalHeaderLabels([label for label, _ in rows])
+            for row, (label, _) in enumerate(rows):
+                table.verticalHeaderItem(row).setToolTip(label)
         table.setHorizontalHeaderLabels(
             [f"{c.name}\n{self.figures(c, 'case.ambient_C', results)}" for c in results.cases])
         for column, case in enumerate(results.cases):
@@ -216,6 +275,7 @@ class ResultsPanel(QWidget):
                     item.setTextAlignment(1, Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
                     self._items[(index, label)] = item
                 item.setText(1, text)
+        self._fit_case_columns()  # the texts changed: so may the room the figures need
         self._show_verdict(results)
 
     def _show_verdict(self, results) -> None:
@@ -234,11 +294,13 @@ class ResultsPanel(QWidget):
             text = "<b>Every check passes</b>: the motor meets the load at every temperature and does not demagnetize."
         self.verdict.setStyleSheet(f"font-size: 14px; padding: 6px; border-radius: 4px; background: {background};")
         self.verdict.setText(f"<span style='color:{colour}'>{text}</span>")
+        self._fit_verdict()
 
     def show_failure(self, message: str) -> None:
         fail = STATUSES["fail"]
         self.verdict.setStyleSheet(f"font-size: 14px; padding: 6px; border-radius: 4px; background: {fail.shade};")
         self.verdict.setText(f"<span style='color:{fail.colour}'><b>No solution for this design</b>: {message}</span>")
+        self._fit_verdict()
         for row in range(self.case_table.rowCount()):
             for column in range(self.case_table.columnCount()):
                 item = self.case_table.item(row, column)
@@ -258,8 +320,9 @@ class ChecksPanel(QTextBrowser):
 
     ORDER: ClassVar[dict[str, int]] = {"fail": 0, "warning": 1, "pass": 2}
 
-    def __init__(self):
+    def __init__(self, display: DisplayUnits | None = None):
         super().__init__()
+        self.display = display or DisplayUnits()  #: the checks' numbers follow the display units
         self.setObjectName("checks_panel")
         self.setOpenLinks(False)
         self.statuses: dict[str, str] = {}
@@ -279,7 +342,7 @@ class ChecksPanel(QTextBrowser):
                 f"<p style='margin-top:0; margin-bottom:6px'>"
                 f"<span style='color:{status.colour}; font-weight:bold'>{status.mark} {status.word}</span>"
                 f"&nbsp; <b>{check.title}</b><br>"
-                f"{check.message}{advice}</p>")
+                f"{check_message(check, self.display.screen_unit)}{advice}</p>")
         scroll = self.verticalScrollBar().value()
         self.setHtml("".join(entries))
         self.verticalScrollBar().setValue(scroll)

@@ -147,7 +147,7 @@ def magnet_at(grade: MagnetGrade, temperature_C: float) -> MagnetAtTemperature:
     Parameters
     ----------
     grade : MagnetGrade
-        The magnet grade.
+        The magnet grade: Br and its coefficient α, μrec, and the knee of :func:`core.magnets.knee_field_at`.
     temperature_C : float
         Magnet temperature [°C].
 

@@ -19,14 +19,10 @@ import tomli_w
 from pmdc_sizer.app.cli import main
 from pmdc_sizer.core import library
 
+from .command_line import run
+
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
-
-
-def run(capsys, *argv):
-    status = main([str(a) for a in argv])
-    out, err = capsys.readouterr()
-    return status, out, err
 
 
 def evaluate_json(capsys, path, *extra) -> dict:

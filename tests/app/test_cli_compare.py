@@ -11,14 +11,10 @@ from pmdc_sizer.app.safety import SHORT_CAUTION
 from pmdc_sizer.core import difference
 from tests.conftest import DEMO_FOLDER
 
+from .command_line import run
+
 FERRITE = str(DEMO_FOLDER / "appliance_ferrite_12v.toml")
 NDFEB = str(DEMO_FOLDER / "mobility_ndfeb_24v.toml")
-
-
-def run(capsys, *argv):
-    status = main(list(argv))
-    captured = capsys.readouterr()
-    return status, captured.out, captured.err
 
 
 def leaves(node):

@@ -8,9 +8,10 @@ from pathlib import Path
 
 from PySide6.QtGui import QImage
 
-from pmdc_sizer.app.cli import main
 from pmdc_sizer.core.evaluate import evaluate
 from pmdc_sizer.core.project import load
+
+from .command_line import run
 
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
@@ -20,12 +21,6 @@ COARSE = ("--fineness", "0.5")  # a quarter of the default's elements: the comma
 PROMISED_KEYS = ("flux_per_pole_Wb", "flux_per_pole_2d_Wb_per_m", "airgap_flux_density_T", "airgap_angle_deg",
                  "housing_flux_density_max_T", "magnet_area_past_knee_fraction", "iterations", "elements",
                  "seconds", "agreement")
-
-
-def run(capsys, *argv):
-    status = main([str(a) for a in argv])
-    out, err = capsys.readouterr()
-    return status, out, err
 
 
 def test_json_has_every_promised_key_on_the_same_basis_as_evaluate(capsys):

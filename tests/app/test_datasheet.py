@@ -49,7 +49,6 @@ def headline_strings(results) -> dict[str, str]:
         "stall torque": quantity(n.stall_torque_N_m, unit),
         "stall current": quantity(n.stall_current_A, "A"),
         "Ke V/krpm": quantity(c.ke_V_s_per_rad, "V/krpm"),
-        "Ke V·s/rad": quantity(c.ke_V_s_per_rad, "V·s/rad"),
         "Kt": quantity(c.kt_N_m_per_A, "mN·m/A"),
         "max efficiency": percent(n.max_efficiency),
         "max output power": quantity(n.max_output_power_W, "W"),
@@ -150,9 +149,10 @@ def test_html_is_well_formed_and_complete(evaluated, tmp_path):
     ids = {element.get("id") for element in root.iter() if element.get("id")}
     for key in ("headline", "performance", "performance_table", "electrical", "thermal", "magnet", "demagnetization",
                 "magnet_grade", "operating_point", "winding", "mass", "cost", "terminals", "checks", "notes",
-                "cautions", "chart-performance", "chart-magnet", "chart-outline", "model_notes"):
+                "cautions", "chart-performance", "chart-magnet", "chart-outline", "model_notes", "thermal_chart",
+                "chart-thermal"):
         assert key in ids, key
-    assert len(root.findall(".//svg:svg", namespace)) == 3, "both charts and the outline inline as SVG"
+    assert len(root.findall(".//svg:svg", namespace)) == 4, "the three charts and the outline inline as SVG"
     assert "src=\"http" not in raw and "href=\"http" not in raw, "self-contained: nothing fetched"
     text = _squash(" ".join(root.itertext()))
     for what, expected in headline_strings(results).items():

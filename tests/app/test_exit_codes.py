@@ -14,20 +14,15 @@ import pytest
 import tomli_w
 
 from pmdc_sizer.app import cli
-from pmdc_sizer.app.cli import display_problem, main
+from pmdc_sizer.app.cli import display_problem
 from pmdc_sizer.core import library
 
 from ..conftest import DEMO_FOLDER
 from ..core.test_library import USER_GRADE
+from .command_line import run
 
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = DEMO_FOLDER / "appliance_ferrite_12v.toml"
-
-
-def run(capsys, *argv):
-    status = main([str(a) for a in argv])
-    out, err = capsys.readouterr()
-    return status, out, err
 
 
 def one_error_line(err: str, fragment: str = "") -> str:

@@ -50,7 +50,8 @@ def test_whole_turns_say_which_neighbour_was_closer(ferrite):
 
 def test_the_stack_refit_and_mixed_currencies_are_noted(ferrite):
     design, results_a = ferrite
-    dollars = project.with_values(difference.with_grade(design, "Y25"), {"prices.currency": "USD"})
+    dollars = project.with_values(difference.with_grade(design, "Y25"),
+                                  {"prices.currency": "USD", "prices.magnet_per_kg": 4.0})  # the grade is priced in EUR
     notes = refit_notes(refit.refit("stall-torque", results_a, dollars))
     assert any("mix currencies" in n for n in notes)
     assert any("overhang of 3 mm" in n and "12 mm beyond the magnets" in n for n in notes)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from pmdc_sizer.core import difference, evaluate, project
+from pmdc_sizer.core import difference, evaluate, library, project
 from pmdc_sizer.core.project import ProjectError
 
 #: The issue asks re-fits to meet their target within 0.5 %.
@@ -80,4 +80,19 @@ def test_with_grade_replaces_an_inline_custom_grade(ferrite):
         "coercivity_temp_coeff_pct_per_K": 0.3, "max_working_temperature_C": 250.0, "density_kg_per_m3": 4900.0}})
     swapped = difference.with_grade(custom, design.magnets.grade)
     assert swapped.magnets.custom_grade is None and swapped.magnets.grade == design.magnets.grade
-    assert project.with_values(swapped, {}) == design  # nothing else moved
+    # The project's magnet price went with the custom grade; nothing else moved.
+    assert swapped.prices.magnet_per_kg is None
+    assert project.with_values(swapped, {"prices.magnet_per_kg": design.prices.magnet_per_kg}) == design
+
+
+def test_with_grade_prices_b_as_its_own_grade(ferrite):
+    """A's project price is for A's ferrite; B with N42SH costs N42SH's library price, not the ferrite's."""
+    design, results = ferrite
+    b = difference.with_grade(design, "N42SH")
+    b_results = evaluate(b)
+    n42sh = library.magnet_grade("N42SH")
+    assert b.prices.magnet_per_kg is None and n42sh.price_per_kg > 10 * design.prices.magnet_per_kg
+    assert b_results.cost.magnet == pytest.approx(b_results.mass.magnet_kg * n42sh.price_per_kg, rel=1e-12)
+    assert results.cost.magnet == pytest.approx(results.mass.magnet_kg * design.prices.magnet_per_kg, rel=1e-12)
+    # The same grade again keeps the project's own price.
+    assert difference.with_grade(design, design.magnets.grade).prices.magnet_per_kg == design.prices.magnet_per_kg

@@ -31,6 +31,7 @@ import pmdc_sizer.core
 # The modules whose docstrings are complete. The list grows until it holds every module of core;
 # then the test runs on ALL_CORE_MODULES, the walk of the package, and this list goes.
 COMPLETE_MODULES = (
+    "pmdc_sizer.core.batch",
     "pmdc_sizer.core.checks",
     "pmdc_sizer.core.commutation",
     "pmdc_sizer.core.conductors",
@@ -77,6 +78,7 @@ COMPLETE_MODULES = (
     "pmdc_sizer.core.solvers",
     "pmdc_sizer.core.steel",
     "pmdc_sizer.core.sweep",
+    "pmdc_sizer.core.text_files",
     "pmdc_sizer.core.thermal",
     "pmdc_sizer.core.thermal_network",
     "pmdc_sizer.core.thermal_ratings",

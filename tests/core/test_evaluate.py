@@ -126,6 +126,11 @@ def worst_case_of(results: Results):
     return worst[0]
 
 
+def margins_by_case(results: Results) -> dict[str, float]:
+    """Each demagnetization case's margin to the knee [A/m], by the case's name."""
+    return {c.name: c.margin_A_per_m for c in results.demagnetization.cases}
+
+
 def test_worst_demagnetization_case_by_family():
     # Common practice: hard ferrite is worst cold, NdFeB hot.
     ferrite = demo_results(FERRITE_DEMO)
@@ -195,7 +200,9 @@ _UNITLESS = {
     "magnet_embrace", "slot_fill_bare", "slot_fill_gross", "parallel_paths", "commutator_segments",
     "turns_per_coil", "conductors", "conductors_per_slot", "coil_span_slots", "enamel_grade", "iterations",
     "converged", "ok", "rated_reached", "meets_load", "magnet_area_past_knee_fraction", "curve", "curves", "checks",
-    "magnet_chart",
+    "magnet_chart", "segment_area_fraction",
+    # A check's quoted numbers carry their unit beside them (QuotedValue.unit), for the views to convert.
+    "quoted", "template", "value", "unit", "digits", "spec", "bare",
     "poles", "slots", "reversing", "key", "title", "status", "message", "advice",
     "steady_state_exists", "steady_state_s1_exists", "drive_limited", "cycle_duration_factor",
     "envelope", "limited",
@@ -329,10 +336,10 @@ def test_ndfeb_worst_demagnetization_case_is_hot(project):
     # whose stall current is far past the knee anyway can be worst cold, because cold copper passes
     # ~20 % more current: see test_ndfeb_with_unlimited_stall_current_can_be_worst_cold.)
     r = evaluate(project)
-    cases = {c.name: c for c in r.demagnetization.cases}
-    assert cases["rotor removed, hot"].margin_A_per_m < cases["rotor removed, cold"].margin_A_per_m
-    if "drive current limit, hot" in cases:
-        assert cases["drive current limit, hot"].margin_A_per_m < cases["drive current limit, cold"].margin_A_per_m
+    margin = margins_by_case(r)
+    assert margin["rotor removed, hot"] < margin["rotor removed, cold"]
+    if "drive current limit, hot" in margin:
+        assert margin["drive current limit, hot"] < margin["drive current limit, cold"]
     if project.supply.current_limit_A is not None and all(
         c.current_A == project.supply.current_limit_A for c in r.demagnetization.cases if c.kind != "rotor removed"
     ):
@@ -342,9 +349,8 @@ def test_ndfeb_worst_demagnetization_case_is_hot(project):
 @_PROPERTY
 @given(ferrite_designs())
 def test_ferrite_rotor_removed_is_worse_cold(project):
-    r = evaluate(project)
-    cases = {c.name: c for c in r.demagnetization.cases}
-    assert cases["rotor removed, cold"].margin_A_per_m < cases["rotor removed, hot"].margin_A_per_m
+    margin = margins_by_case(evaluate(project))
+    assert margin["rotor removed, cold"] < margin["rotor removed, hot"]
 
 
 def test_ndfeb_drive_limited_demos_are_worst_hot():

@@ -11,13 +11,9 @@ from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import CustomGrade, ProjectError
 from pmdc_sizer.core.units import to_si
 
-USER_GRADE = {
-    "name": "certified Y30 lot 7", "family": "hard ferrite, anisotropic", "remanence_T": 0.392,
-    "coercivity_HcB_kA_per_m": 192.0, "coercivity_HcJ_kA_per_m": 205.0, "energy_product_kJ_per_m3": 29.0,
-    "recoil_permeability": 1.07, "squareness": 0.9, "remanence_temp_coeff_pct_per_K": -0.19,
-    "coercivity_temp_coeff_pct_per_K": 0.3, "max_working_temperature_C": 250.0, "density_kg_per_m3": 4900.0,
-    "source": "lot certificate (invented for this test)",
-}
+from ..grade_tables import CERTIFIED_LOT
+
+USER_GRADE = CERTIFIED_LOT
 
 
 def test_builtin_library_has_grades_and_steels_with_sources():

@@ -6,7 +6,7 @@ from __future__ import annotations
 import pytest
 import tomli_w
 
-from pmdc_sizer.core import library
+from pmdc_sizer.core import library, text_files
 from pmdc_sizer.core import project as pf
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import ProjectError
@@ -61,17 +61,17 @@ def test_each_bad_file_is_skipped_and_reported_once_with_its_reason(_isolated_us
 
 
 def test_an_unreadable_file_is_skipped(_isolated_user_library, monkeypatch):
-    # Root reads every file, so the refusal is made by hand: the library's open() answers as the OS would.
+    # Root reads every file, so the refusal is made by hand: the reader's open() answers as the OS would.
     path = _isolated_user_library / "locked.toml"
     path.write_text(tomli_w.dumps({"grade": [USER_GRADE]}), encoding="utf-8")
 
     def refused(*_args, **_kwargs):
         raise PermissionError(13, "Permission denied")
 
-    monkeypatch.setattr(library, "open", refused, raising=False)
+    monkeypatch.setattr(text_files, "open", refused, raising=False)
     library.reload()
     (problem,) = library.problems()
-    assert problem.reason == "cannot be read (Permission denied)"
+    assert problem.reason == "cannot read the file (Permission denied)"
 
 
 def test_a_user_steel_with_nan_never_reaches_the_interpolator(_isolated_user_library):

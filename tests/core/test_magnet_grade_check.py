@@ -4,7 +4,6 @@ AlNiCo refused for this motor type wherever a grade comes from."""
 from __future__ import annotations
 
 import dataclasses
-import tomllib
 
 import pytest
 import tomli_w
@@ -16,16 +15,10 @@ from pmdc_sizer.core.magnet_grade_check import FIT_TOLERANCE, require_faithful_c
 from pmdc_sizer.core.magnet_grades import REFUSED_FAMILIES, GradeDataError
 from pmdc_sizer.core.project import ProjectError
 
+from ..grade_tables import ALNICO_5, Y40_AS_ONCE_STORED, with_inline_grade
+
 GRADES = library.magnet_grades()
 
-# The AlNiCo 5 entry the library carried before (typical, from memory: cast AlNiCo 5, MMPA 0100-00
-# class): its straight-from-Br curve plotted points at B = -1.6 T.
-ALNICO_5 = {
-    "name": "AlNiCo 5", "family": "AlNiCo", "remanence_T": 1.25, "coercivity_HcB_kA_per_m": 50.0,
-    "coercivity_HcJ_kA_per_m": 52.0, "energy_product_kJ_per_m3": 40.0, "recoil_permeability": 3.0,
-    "squareness": 0.55, "remanence_temp_coeff_pct_per_K": -0.02, "coercivity_temp_coeff_pct_per_K": 0.01,
-    "max_working_temperature_C": 525.0, "density_kg_per_m3": 7300.0, "source": "test copy of the old entry",
-}
 
 
 @pytest.mark.parametrize("name", sorted(GRADES))
@@ -69,29 +62,17 @@ def test_alnico_in_a_user_library_file_is_refused_with_the_reason(_isolated_user
 
 
 def test_a_user_grade_that_misses_its_hcb_is_refused_when_loaded(_isolated_user_library):
-    bad = {**ALNICO_5, "name": "lot 9", "family": "hard ferrite, anisotropic", "remanence_T": 0.445,
-           "coercivity_HcB_kA_per_m": 330.0, "coercivity_HcJ_kA_per_m": 345.0, "energy_product_kJ_per_m3": 37.5,
-           "recoil_permeability": 1.05, "squareness": 0.90, "remanence_temp_coeff_pct_per_K": -0.19,
-           "coercivity_temp_coeff_pct_per_K": 0.15, "max_working_temperature_C": 250.0}
+    bad = {**Y40_AS_ONCE_STORED, "name": "lot 9"}
     (_isolated_user_library / "lots.toml").write_text(tomli_w.dumps({"grade": [bad]}), encoding="utf-8")
     library.reload()
     (problem,) = library.problems()
     assert "'lot 9'" in str(problem) and "coercivity_HcB_kA_per_m" in str(problem)
 
 
-def _inline(ferrite_demo, tmp_path, grade_table):
-    data = tomllib.loads(ferrite_demo.read_text(encoding="utf-8"))
-    del data["magnets"]["grade"]
-    data["magnets"]["custom_grade"] = grade_table
-    path = tmp_path / "inline.toml"
-    path.write_text(tomli_w.dumps(data), encoding="utf-8")
-    return path
-
-
 def test_an_inline_alnico_grade_is_refused_before_any_curve_is_drawn(ferrite_demo, tmp_path):
     # AlNiCo's recoil lines start from its working point; the tool refuses it rather than plot its old
     # straight-from-Br curve down to B = -1.6 T.
-    path = _inline(ferrite_demo, tmp_path, ALNICO_5)
+    path = with_inline_grade(ferrite_demo, tmp_path, ALNICO_5)
     with pytest.raises(ProjectError, match=r"'AlNiCo 5'.*armature reaction") as caught:
         design_from_project(pf.load(path))
     assert caught.value.key == "magnets.custom_grade.family"
@@ -102,7 +83,7 @@ def test_an_inline_grade_that_misses_its_energy_product_names_the_key(ferrite_de
              "coercivity_HcB_kA_per_m": 680.0, "coercivity_HcJ_kA_per_m": 1500.0, "energy_product_kJ_per_m3": 175.0,
              "recoil_permeability": 1.04, "squareness": 0.85, "remanence_temp_coeff_pct_per_K": -0.04,
              "coercivity_temp_coeff_pct_per_K": -0.3, "max_working_temperature_C": 250.0}
-    path = _inline(ferrite_demo, tmp_path, table)
+    path = with_inline_grade(ferrite_demo, tmp_path, table)
     with pytest.raises(ProjectError, match=r"'supplier SmCo'.*energy_product_kJ_per_m3") as caught:
         design_from_project(pf.load(path))
     assert caught.value.key == "magnets.custom_grade.energy_product_kJ_per_m3"

@@ -176,12 +176,10 @@ def test_ndfeb_knee_moves_toward_the_operating_region_when_hot(name):
 @pytest.mark.parametrize("temperature", [-30.0, 20.0, 90.0])
 def test_knee_is_where_the_curve_has_left_its_recoil_line_by_one_percent(name, temperature):
     # By definition (core.magnets.KNEE_LOSS_FRACTION): J has fallen 1 % of Br(T) below the recoil line.
-    grade = GRADES[name]
-    knee = float(mg.knee_field_at(grade, temperature))
-    br = float(mg.remanence_at(grade, temperature))
-    recoil_line = br + mg.MU_0 * (grade.recoil_permeability - 1.0) * knee
-    assert_allclose(recoil_line - float(mg.polarization(grade, knee, temperature)), mg.KNEE_LOSS_FRACTION * br,
-                    rtol=1e-9)
+    grade, knee = GRADES[name], float(mg.knee_field_at(GRADES[name], temperature))
+    curve = mg.curve_at(grade, temperature)
+    recoil_line = curve.remanence + mg.MU_0 * (grade.recoil_permeability - 1.0) * knee
+    assert_allclose(recoil_line - curve.polarization(knee), mg.KNEE_LOSS_FRACTION * curve.remanence, rtol=1e-9)
     # It comes before HcJ, and for the square sintered grades also before the trade's Hk (J = 0.9·Br).
     assert -float(mg.intrinsic_coercivity_at(grade, temperature)) < knee < 0.0
     if grade.squareness >= 0.85:
@@ -217,7 +215,7 @@ def test_model_temperature_range():
 def test_squareness_too_low_for_the_recoil_line_is_refused():
     grade = dataclasses.replace(LINEAR, recoil_permeability=1.3, squareness=0.9)
     with pytest.raises(ValueError, match="squareness"):
-        mg.knee_width_ratio(grade)
+        mg.curve_at(grade, 20.0)
 
 
 def test_demagnetization_curves_for_charts():

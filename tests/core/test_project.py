@@ -11,6 +11,8 @@ import tomli_w
 from pmdc_sizer.core import project as pf
 from pmdc_sizer.core.project import ProjectError
 
+from ..grade_tables import SUPPLIER_FERRITE
+
 DEMO = Path(__file__).resolve().parents[2] / "demo_projects" / "appliance_ferrite_12v.toml"
 
 
@@ -44,13 +46,7 @@ def edited(section_key: str, value) -> dict:
 
 _DELETE = object()
 
-CUSTOM_GRADE = {
-    "name": "supplier ABC-30", "family": "hard ferrite, anisotropic", "remanence_T": 0.39,
-    "coercivity_HcB_kA_per_m": 235.0, "coercivity_HcJ_kA_per_m": 245.0, "energy_product_kJ_per_m3": 29.0,
-    "recoil_permeability": 1.07, "squareness": 0.9, "remanence_temp_coeff_pct_per_K": -0.19,
-    "coercivity_temp_coeff_pct_per_K": 0.27, "max_working_temperature_C": 250.0, "density_kg_per_m3": 4900.0,
-    "source": "certificate 123 (invented for this test)",
-}
+CUSTOM_GRADE = SUPPLIER_FERRITE
 
 
 def with_custom_grade(**changes) -> dict:

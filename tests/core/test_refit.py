@@ -118,7 +118,8 @@ def test_thickness_refit_agrees_with_scipy_brentq(ferrite):
 
 def test_cost_differences_across_currencies_are_flagged(ferrite):
     design, results_a = ferrite
-    dollars = project.with_values(difference.with_grade(design, "Y25"), {"prices.currency": "USD"})
+    dollars = project.with_values(difference.with_grade(design, "Y25"),
+                                  {"prices.currency": "USD", "prices.magnet_per_kg": 4.0})  # the grade is priced in EUR
     fit = refit.refit("stall-torque", results_a, dollars)
     assert (fit.currency_a, fit.currency) == ("EUR", "USD")
 

@@ -66,7 +66,8 @@ def test_pinned_copy_of_a_shows_no_difference_then_follows_edits_of_a(page, qtbo
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         window.edit({"magnets.thickness_mm": 7.0})
     row = row_of(table, "Magnet thickness")
-    assert (cell(table, row, 1), cell(table, row, 2), cell(table, row, 3)) == ("7.000", "6.000", "-1.00")
+    # A and B as the key figures show them (three figures); B − A one figure finer
+    assert (cell(table, row, 1), cell(table, row, 2), cell(table, row, 3)) == ("7.00", "6.00", "-1.00")
     assert cell(table, row_of(table, figure("constants.ke_V_s_per_rad").title), 4).startswith("-")
 
 
@@ -93,9 +94,9 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
     view.range_combo.setCurrentIndex(1)
     _left, right = view.curve_plots["speed_rad_per_s"].getViewBox().viewRange()[0]
     assert right == pytest.approx(3 * 35.0)  # three times the rated 35 mN·m
-    view.tabs.setCurrentIndex(1)  # the magnet charts are drawn when their tab is in view
+    view.tabs.setCurrentIndex(2)  # each side's magnet chart is drawn when its tab is in view
     for side, grade in (("A", "Y40"), ("B", "N42")):
-        assert view.magnet_titles[side].text().startswith(f"{side}: {grade}, 6 mm arcs")
+        assert view.magnet_titles[side].text().startswith(f"{side}: {grade}, 6.00 mm arcs")
         normal, _ = view.magnet_charts[side].normal_curves["nominal"].getData()
         assert len(normal) > 10
     assert "N42" in view.curve_key.text() and "Y40" in view.curve_key.text()
@@ -117,7 +118,9 @@ def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
     assert view.b_mode == "refit" and view.project_b is fit.project
     assert view.grade_combo.currentText() == "Y25"  # B's box still names the grade B is made of
     report = view.refit_report.toPlainText()
-    assert "Reached" in report and "armature.stack_length_mm" in report and "magnets.length_mm" in report
+    # the changed inputs as the key figures name and round them, not as file keys
+    assert "Reached" in report and "Stack length: 25.0 mm → " in report and "Magnet length: 28.0 mm → " in report
+    assert "armature.stack_length_mm" not in report
     table = view.figures_table
     assert cell(table, row_of(table, "Stall torque"), 3) == "0"
     assert all(button.isEnabled() for button in view.refit_buttons.values())
@@ -135,7 +138,7 @@ def test_out_of_reach_refit_says_why(page, qtbot):
         view.start_refit("ke")
     assert not blocker.args[0].reached
     report = view.refit_report.toPlainText()
-    assert "Out of reach" in report and "thinner than 0.5 mm" in report
+    assert "Out of reach" in report and "thinner than 0.500 mm" in report
     assert "out of reach" in view.side_labels.text()
 
 
@@ -162,3 +165,55 @@ def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
     assert not view.save_b(tmp_path / "no such folder" / "b.toml")
     assert "B not saved" in view.side_labels.text() and not (tmp_path / "no such folder").exists()
     assert not view.grab().isNull()
+
+
+class UsWindow(StandInWindow):
+    """The stand-in window with the display set to US customary units."""
+
+    def __init__(self, path):
+        super().__init__(path)
+        from pmdc_sizer.app.gui.display_units import DisplayUnits
+
+        self.display = DisplayUnits("US customary")
+
+
+def test_the_page_follows_us_customary_units(qtbot):
+    window = UsWindow(FERRITE)
+    view = CompareView(window)
+    qtbot.addWidget(view)
+    view.resize(1366, 768)
+    view.show()
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.use_grade_for_b("N42SH")
+    table = view.figures_table
+    titles = [cell(table, row, 0) for row in range(table.rowCount())]
+    assert not any(unit in title for title in titles for unit in ("[mm]", "[mN·m]", "[°C]", "[g]"))
+    assert any("[in]" in t for t in titles) and any("[oz·in]" in t for t in titles) and any("[°F]" in t for t in titles)
+    tips = [view.checks_table.item(row, column).toolTip() for row in range(view.checks_table.rowCount())
+            for column in (1, 2)]
+    assert not any("°C" in tip or "mN·m" in tip for tip in tips) and any("°F" in tip for tip in tips)
+    assert "°F" in view.curve_key.text() and "°C" not in view.curve_key.text()
+    assert view.curve_plots["speed_rad_per_s"].getAxis("bottom").labelUnits == "oz·in"
+    with qtbot.waitSignal(view.refit_finished, timeout=20000) as blocker:
+        view.start_refit("stall-torque")
+    fit = blocker.args[0]
+    assert view.grade_combo.currentText() == "N42SH"
+    # the re-fitted value in the B line rounded as the key figures round it, in the display unit
+    assert f"→ {figure('geometry.stack_length_m').text(fit.project.armature.stack_length_mm / 1000, 'in')}" \
+        in view.side_labels.text()
+    assert " mm" not in view.refit_report.toPlainText()
+    view.evaluator_b.wait()
+    view._refit_pool.waitForDone(5000)
+
+
+def test_b_with_another_grade_is_priced_as_that_grade(page, qtbot):
+    from pmdc_sizer.core import library
+
+    _window, view = page
+    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+        view.use_grade_for_b("N42SH")
+    price = library.magnet_grade("N42SH").price_per_kg
+    assert view.results_b.cost.magnet == pytest.approx(view.results_b.mass.magnet_kg * price, rel=1e-12)
+    table = view.figures_table
+    for title in ("Housing outer diameter", "Housing length", "Magnet mass", "Estimated total mass"):
+        row_of(table, title)  # shown

@@ -105,15 +105,24 @@ def test_magnet_chart_points_are_the_same_on_screen_and_paper(open_window, qtbot
         screen = _screen_spots(item)
         assert screen == _paper_marks(panel.markers, (point,)), point
         assert len(screen) == (3 if point == "operating_point" else 6)  # knees on B and on J, both charts
-    # Demagnetization cases: the paper draws coincident cases as one numbered mark.
-    screen = _screen_spots(chart.safe_item) | _screen_spots(chart.failed_item)
-    on_paper = _paper_marks(panel.markers, ("demagnetization_safe", "demagnetization_fails"))
-    assert _without_position(on_paper) <= _without_position(screen)
+    # Demagnetization cases and faults, in each of their states: the paper draws coincident cases as one
+    # numbered mark, the screen one mark per case at the same place.
+    states = ("demagnetization_safe", "demagnetization_marginal", "demagnetization_fails", "fault_safe",
+              "fault_marginal", "fault_fails")
+    screen = set().union(*(_screen_spots(chart.case_items[point]) for point in states))
+    on_paper = _paper_marks(panel.markers, states)
+    assert on_paper <= screen
     assert {(p, m, c) for p, _case, m, c in _without_position(screen)} == \
         {(p, m, c) for p, _case, m, c in _without_position(on_paper)}
+    assert len(screen) == len(results.demagnetization.cases) + len(results.faults.cases)
     failing = {mark for mark in screen if mark[0] == "demagnetization_fails"}
     assert bool(failing) == (not results.demagnetization.ok)
     assert all(mark[2] == "cross" and mark[3] == POINTS["demagnetization_fails"].colour for mark in failing)
+    marginal = {mark[1] for mark in screen if mark[0] == "demagnetization_marginal"}
+    assert marginal == {c.name for c in results.demagnetization.cases if c.status == "marginal"}
+    # The magnet's segments and means: the same points, shapes and colours on both.
+    for point, item in (("magnet_segment", chart.segment_item), ("magnet_mean", chart.mean_item)):
+        assert _screen_spots(item) == _paper_marks(panel.markers, (point,)), point
 
 
 def test_every_entry_of_the_table_is_shown_somewhere(open_window, qtbot, monkeypatch):

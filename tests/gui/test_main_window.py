@@ -35,7 +35,8 @@ def test_each_demo_opens_evaluated_with_every_view_filled(open_window, demo_path
         np.testing.assert_allclose(y, from_si(case.curve.speed_rad_per_s, "rpm"))
         _h, b = window.magnet_chart.normal_curves[case.name].getData()
         assert len(b) == len(results.magnet_chart[0].curves.flux_density)
-    assert window.magnet_chart.table.rowCount() == len(results.demagnetization.cases)
+    # the demagnetization cases, then the faults with the supply applied directly
+    assert window.magnet_chart.table.rowCount() == len(results.demagnetization.cases) + len(results.faults.cases)
     assert sorted(window.checks_panel.shown) == sorted(c.key for c in results.checks)
     text = window.checks_panel.toPlainText()
     assert all(c.title in text and c.message[:20] in text for c in results.checks)
