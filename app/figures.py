@@ -178,8 +178,8 @@ FIGURES: dict[str, Figure] = {
     "demagnetization.worst_margin_A_per_m": _f("Least margin to the knee", "kA/m"),
     "demagnetization_case.temperature_C": _f("Magnet temperature", "°C"),
     "demagnetization_case.current_A": _f("Current", "A"),
-    "demagnetization_case.magnet_field_A_per_m": _f("Field at the magnet's worst spot", "kA/m"),
-    "demagnetization_case.magnet_flux_density_T": _f("Flux density at the worst spot", "T"),
+    "demagnetization_case.magnet_field_A_per_m": _f("Field over the magnet's worst 5 %", "kA/m"),
+    "demagnetization_case.magnet_flux_density_T": _f("Flux density at that field", "T"),
     "demagnetization_case.worst_angle_rad": _f("Worst spot from the pole centre", "°"),
     "demagnetization_case.mean_field_A_per_m": _f("Mean field over the magnet", "kA/m"),
     "demagnetization_case.mean_flux_density_T": _f("Mean flux density over the magnet", "T"),
@@ -475,7 +475,7 @@ POINTS: dict[str, PointStyle] = {
     # magnet chart
     "operating_point": PointStyle("no-load operating point, on its load line", "circle", None, short="no load"),
     "knee": PointStyle("knee: irreversible loss begins", "diamond", None, filled=False, short="knee"),
-    # a case's mark sits at the magnet's worst segment, the one its verdict rests on
+    # a case's mark sits at the mean over the worst 5 % of the magnet's area, the one its verdict rests on
     "demagnetization_safe": PointStyle("demagnetization case, safe", "triangle", None, filled=False, short="safe"),
     "demagnetization_marginal": PointStyle("demagnetization case inside the required margin: marginal", "square",
                                            WARNING_COLOUR, filled=False, size=1.3, short="marginal"),

@@ -4,7 +4,7 @@ Both charts (``app.gui.magnet_chart`` and ``app.datasheet.charts``) draw from he
 
 * :func:`case_marks`: every demagnetization case and every fault (supply applied directly) as a mark:
   its number as the datasheet's table gives it (faults "F1", "F2", ...), its state's point key and
-  colour from ``app.figures``, the worst segment (the case's verdict), the magnet's mean under the
+  colour from ``app.figures``, the worst 5 % of the magnet's area (the case's verdict), the magnet's mean under the
   case's current and every segment's point, and a description for tooltips.
 * :func:`grouped`: cases at the same point in the same state share one mark and one label ("1,2,3").
 * :func:`shifted_load_line`: the no-load load line moved along H by the armature reaction until it
@@ -57,7 +57,7 @@ class CaseMark:
 
     @property
     def worst_field(self) -> float:
-        """The worst segment's field, the case's verdict [A/m]."""
+        """The mean field over the worst 5 % of the magnet's area, the case's verdict [A/m]."""
         return self.case.magnet_field_A_per_m
 
     @property
@@ -116,13 +116,14 @@ def text(name: str, case) -> str:
 
 
 def angle_text(case) -> str:
-    """The worst segment's angle from the pole centre, signed: "+34.9°", "0°" at the centre."""
+    """The angle from the pole centre of the segment holding the magnet's most demagnetized cell, signed:
+    "+34.9°", "0°" at the centre."""
     angle = case.worst_angle_rad if abs(case.worst_angle_rad) > 1e-9 else 0.0  # the centre, not -3e-17 rad
     return ("+" if angle > 0 else "") + figure("demagnetization_case.worst_angle_rad").text(angle)
 
 
 def worst_spot_text(case) -> str:
-    """Where on the arc the worst segment is: the angle from the pole centre and, in words, which part."""
+    """Where on the arc the magnet is most demagnetized: the angle from the pole centre and, in words, which part."""
     angles = np.abs(np.asarray(case.segment_angle_rad, dtype=float))
     angle = case.worst_angle_rad
     shown = angle_text(case)

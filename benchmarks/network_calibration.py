@@ -148,6 +148,7 @@ def _solution_record(solution) -> dict:
         "core_section_flux_density_T": solution.core_section_flux_density_T,
         "tooth_flux_density_mean_T": solution.tooth_flux_density_mean_T,
         "worst_magnet_field_A_per_m": solution.worst_magnet_field_A_per_m,
+        "worst_share_magnet_field_A_per_m": solution.worst_share_magnet_field_A_per_m,
         "knee_field_A_per_m": solution.knee_field_A_per_m,
         "magnet_area_past_knee_fraction": solution.magnet_area_past_knee_fraction,
         "torque_N_m_per_m": solution.torque_N_m_per_m,

@@ -36,6 +36,7 @@ import numpy as np
 from .design import Design, design_from_project
 from .errors import MagneticCircuitError, ProjectError
 from .geometry import Geometry
+from .magnet_field_share import worst_share_field
 from .magnets import require_ambient_inside_model
 from .results import CaseResult, DemagnetizationCase, Results
 from .schema import Project
@@ -622,7 +623,7 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
         "magnetics.worst_magnet_field_A_per_m": magnetics["worst_field"],
     })
 
-    # 9. Demagnetization: the worst segment's field at each case's current, against the knee.
+    # 9. Demagnetization: the worst share of the magnet's field at each case's current, against the knee.
     share = per(lambda d: d.required_margin_share)
 
     def per_grade(function, temperature_C):
@@ -632,11 +633,13 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
         return values
 
     def magnet_field_at(case: int, current):
-        """Worst segment field and flux per pole at a current, interpolated in I² (core.pole_magnetics)."""
-        fields = loaded["segment_field"].reshape(n, 3, points, -1)[:, case]  # (n, points, m)
+        """The mean field over the magnet's worst area share at a current, each cell's field interpolated in
+        I² (core.pole_magnetics, core.magnet_field_share)."""
+        fields = loaded["cell_field"].reshape(n, 3, points, -1)[:, case]  # (n, points, cells)
+        shares = loaded["cell_share"].reshape(n, 3, points, -1)[:, case, 0]  # (n, cells)
         grid_sq = np.square(table_currents[:, case])
         field = interp_rows(np.square(current)[:, None], grid_sq[:, None, :], np.swapaxes(fields, 1, 2))
-        return field.min(axis=1)
+        return worst_share_field(field, shares)
 
     cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}  # key: (margin, current, temperature)
     fault_cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}

@@ -3,7 +3,8 @@ rotor removed, against the knee; the worst spot and the share of the magnet past
 
 The chain takes the fields from the pole's reluctance network (core.pole_magnetics: the magnet in
 angular segments, the armature's current as a sheet in the slots, the rotor-removed case with the
-armature's region as air), so the worst segment is wherever the network puts it, not only at a tip.
+armature's region as air), so the worst spot is wherever the network puts it, not only at a tip; the
+verdict rests on the mean field over the magnet's most-demagnetized 5 % of area (core.magnet_field_share).
 :func:`demagnetization_cases` turns those fields into the cases and their verdicts.
 
 The lumped estimate below (the armature reaction at the magnet tip on a local load line, and the
@@ -160,7 +161,7 @@ def advice_for(case: DemagnetizationCase) -> str:
 class MagnetState:
     """The field in the magnet for one case, from the network (core.pole_magnetics.PoleState)."""
 
-    worst_field: float  #: most negative segment field [A/m]
+    worst_field: float  #: mean over the most-demagnetized WORST_AREA_SHARE of the magnet [A/m]
     worst_angle: float  #: where it is, from the pole centre [rad]
     past_knee_fraction: float  #: share of the magnet's area past the knee [1]
     flux_per_pole: float  #: [Wb]
@@ -171,7 +172,7 @@ class MagnetState:
 
 def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C: float, current: float,
                          state: MagnetState) -> DemagnetizationCase:
-    """A case's verdict: the worst segment's field against the knee at the case's temperature.
+    """A case's verdict: the magnet's worst-area field against the knee at the case's temperature.
 
     Parameters
     ----------
@@ -190,12 +191,15 @@ def demagnetization_case(name: str, kind: str, grade: MagnetGrade, temperature_C
     Returns
     -------
     DemagnetizationCase
-        With the margin H - H_knee [A/m] of the worst segment; positive is safe.
+        With the margin H - H_knee [A/m] of the worst-area field; positive is safe.
 
     Notes
     -----
     The knee is where irreversible loss begins (``core.magnets.knee_field_at``: J has fallen 1 % of Br
-    below its recoil line, our definition); a case passes while every segment's field stays above it.
+    below its recoil line, our definition); a case passes while the mean field over the magnet's
+    most-demagnetized 5 % of area stays above it (core.magnet_field_share: a single corner point is a
+    figure of the mesh or of the segments, not of the magnet). The share of the magnet past the knee is
+    reported beside it.
 
     References
     ----------

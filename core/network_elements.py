@@ -156,6 +156,7 @@ class NetworkElements:
     centre_angle: np.ndarray  #: θk of each branch, from the pole centre [rad]
     yoke_angle: np.ndarray  #: Δψk, from branch k to branch k+1 [rad]
     magnet_thickness: np.ndarray  #: (batch,) lm [m]
+    magnet_inner_radius: np.ndarray  #: (batch,) of the magnets' inner face, armature radius plus gap [m]
     column_area: np.ndarray  #: of the magnet or air column [m²]
     column_height: np.ndarray  #: lm [m]
     column_permeability: np.ndarray  #: μ0·μrec in the magnet, μ0 in the air [H/m]
@@ -357,6 +358,7 @@ def network_elements(geometry: Geometry, recoil_permeability: float, housing_ste
     return NetworkElements(
         tangential_reluctance=inner_face, surface_reluctance=surface,
         magnet_mask=mask, segment_angle=widths, centre_angle=centres, yoke_angle=yoke, magnet_thickness=lm,
+        magnet_inner_radius=magnet_inner,
         column_area=column_area, column_height=lm[:, None] * np.ones_like(widths),
         column_permeability=column_permeability, gap_area=gap_area,
         gap_series=gap_series, tooth_series=tooth_series, housing=outside, core=core, carter_factor=carter,

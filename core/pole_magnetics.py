@@ -13,7 +13,13 @@ Definitions (the same as the field solution's, core.field.postprocess, so the tw
 * leakage factor: the magnet's flux at mid-thickness over the flux per pole;
 * magnet field of a segment: at mid-thickness, the mean of the field at the magnet's outer face (from the
   flux entering the column from the housing) and at its inner face (from the flux leaving it across the
-  gap), on the recoil line.
+  gap), on the recoil line;
+* across the thickness, each magnet segment is cut into :data:`RADIAL_CELLS` cells: the column's flux runs
+  linearly from its inner-face value to its outer-face value and crosses an area growing with the radius,
+  so B(r) = Φ(r)/(Δθ·r·Lm) (the 1/r of a radially magnetized arc); each cell's H is on the recoil line;
+* worst magnet field: the area mean over the most-demagnetized share of the magnet's cells
+  (core.magnet_field_share, the same rule as the field solution's ``worst_share_magnet_field_A_per_m``);
+  the share past the knee is the cells' area past it.
 
 Axial ends. The network is per pole over the stack with the magnet's useful overhang and one gap of end
 fringing (core.network_elements); the field solution is 2-D and multiplies by the lumped circuit's end
@@ -27,6 +33,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .armature_mmf import enclosed_currents
+from .magnet_field_share import worst_share_field
 from .network_elements import Element, NetworkElements, ParallelPair, TipPath, magnet_segment_mask, network_elements
 from .reluctance_network import NetworkSolution, solve_network
 from .units import MU_0
@@ -58,10 +65,40 @@ class PoleState:
     segment_angle: np.ndarray  #: (B, m) centre of each magnet segment from the pole centre [rad]
     segment_share: np.ndarray  #: (B, m) each magnet segment's share of the magnet's area [1]
     segment_field: np.ndarray  #: (B, m) H at mid-thickness in each magnet segment [A/m]
-    worst_field: np.ndarray  #: the most negative segment field [A/m]
-    worst_angle: np.ndarray  #: where it is, from the pole centre [rad]
+    cell_angle: np.ndarray  #: (B, m·RADIAL_CELLS) of each magnet cell, its segment's centre [rad]
+    cell_share: np.ndarray  #: (B, m·RADIAL_CELLS) each cell's share of the magnet's area [1]
+    cell_field: np.ndarray  #: (B, m·RADIAL_CELLS) H in each cell, the 1/r profile (module docstring) [A/m]
+    worst_field: np.ndarray  #: mean over the most-demagnetized WORST_AREA_SHARE of the cells [A/m]
+    worst_angle: np.ndarray  #: of the most negative cell, from the pole centre [rad]
     knee_field: np.ndarray  #: at the temperature (negative) [A/m]
     past_knee_fraction: np.ndarray  #: share of the magnet's area whose field is past the knee [1]
+
+
+#: Cells across the magnet's thickness in each segment, for the radial profile of its field [1].
+RADIAL_CELLS = 8
+
+
+def _radial_cells(solution: NetworkSolution, e: NetworkElements, magnet: np.ndarray):
+    """Field [A/m], area share [1] and angle [rad] of every magnet cell, (B, m·RADIAL_CELLS) each.
+
+    The column's flux runs linearly in r from the flux leaving the inner face to the flux entering the
+    outer face, over the area Δθ·r·Lm at each radius (the column's area is at mid-thickness rm).
+    """
+    area = e.column_area[..., magnet]
+    permeability = e.column_permeability[..., magnet]
+    inner_b = solution.lower_flux[..., magnet] / area
+    outer_b = solution.upper_flux[..., magnet] / area
+    depth = (np.arange(RADIAL_CELLS) + 0.5) / RADIAL_CELLS  # from the inner face, share of lm
+    thickness = e.magnet_thickness[:, None]
+    mid = e.magnet_inner_radius[:, None] + 0.5 * thickness
+    radius_ratio = ((e.magnet_inner_radius[:, None] + depth * thickness) / mid)[:, None, :]  # (B, 1, cells) r/rm
+    b = (inner_b[..., None] + (outer_b - inner_b)[..., None] * depth) / radius_ratio
+    field = (b - solution.remanence[:, None, None]) / permeability[..., None]
+    share = area[..., None] * radius_ratio
+    share = share / share.sum(axis=(-2, -1), keepdims=True)
+    angle = np.broadcast_to(e.centre_angle[..., magnet][..., None], field.shape)
+    cells = field.shape[0], -1
+    return field.reshape(cells), share.reshape(cells), angle.reshape(cells)
 
 
 def _reduce(solution: NetworkSolution, e: NetworkElements, temperature, current) -> PoleState:
@@ -73,7 +110,8 @@ def _reduce(solution: NetworkSolution, e: NetworkElements, temperature, current)
     share = columns / area[..., None]
     mean_field = (field * share).sum(axis=-1)
     magnet_b = solution.magnet_flux / area
-    worst = np.argmin(field, axis=-1)
+    cell_field, cell_share, cell_angle = _radial_cells(solution, e, magnet)
+    worst = np.argmin(cell_field, axis=-1)
     rows = np.arange(field.shape[0])
     knee = solution.knee_field
     gap_flux = solution.lower_flux
@@ -98,8 +136,9 @@ def _reduce(solution: NetworkSolution, e: NetworkElements, temperature, current)
         gap_mmf=solution.gap_drop[..., centre], teeth_mmf=solution.teeth_drop[..., centre],
         core_mmf=core[..., right].sum(axis=-1), housing_mmf=housing[..., right].sum(axis=-1),
         segment_angle=e.centre_angle[..., magnet], segment_share=share, segment_field=field,
-        worst_field=field[rows, worst], worst_angle=e.centre_angle[..., magnet][rows, worst],
-        knee_field=knee, past_knee_fraction=(share * (field < knee[..., None])).sum(axis=-1),
+        cell_angle=cell_angle, cell_share=cell_share, cell_field=cell_field,
+        worst_field=worst_share_field(cell_field, cell_share), worst_angle=cell_angle[rows, worst],
+        knee_field=knee, past_knee_fraction=(cell_share * (cell_field < knee[..., None])).sum(axis=-1),
     )
 
 
@@ -294,25 +333,35 @@ class LoadTable:
         Returns
         -------
         MagnetState
-            Worst segment, its position, the share past the knee and the flux per pole.
+            The worst-area field, its position, the share past the knee and the flux per pole.
         """
         from .demagnetization import MagnetState
 
         points = self.currents.shape[1]
         rows = slice(case * points, (case + 1) * points)
+        first = case * points
         grid = self.currents[case]
-        fields = self.states.segment_field[rows]
-        # in I², as the flux (core.motor_model.constant_at): the fields are even in the current near 0
-        field = np.array([np.interp(current**2, grid**2, fields[:, k]) for k in range(fields.shape[1])])
-        angles = self.states.segment_angle[case * points]
-        shares = self.states.segment_share[case * points]
-        knee = float(self.states.knee_field[case * points])
-        worst = int(np.argmin(field))
+
+        # in I², as the flux (core.motor_model.constant_at): the fields are even in the current near 0; one
+        # position on the grid for every column (np.interp's, as a fractional index)
+        position = float(np.interp(current**2, grid**2, np.arange(points, dtype=float)))
+        below = min(int(position), points - 2)
+        weight = position - below
+
+        def at_current(values: np.ndarray) -> np.ndarray:
+            return np.asarray(values[below] + weight * (values[below + 1] - values[below]))
+
+        field = at_current(self.states.segment_field[rows])
+        cells = at_current(self.states.cell_field[rows])
+        cell_share = self.states.cell_share[first]
+        knee = float(self.states.knee_field[first])
         return MagnetState(
-            worst_field=float(field[worst]), worst_angle=float(angles[worst]),
-            past_knee_fraction=float(shares[field < knee].sum()),
+            worst_field=float(worst_share_field(cells, cell_share)),
+            worst_angle=float(self.states.cell_angle[first][int(np.argmin(cells))]),
+            past_knee_fraction=float(cell_share[cells < knee].sum()),
             flux_per_pole=float(np.interp(current**2, grid**2, self.states.flux_per_pole[rows])),
-            segment_angle=angles, segment_field=field, segment_share=shares,
+            segment_angle=self.states.segment_angle[first], segment_field=field,
+            segment_share=self.states.segment_share[first],
         )
 
 
@@ -355,7 +404,7 @@ def magnet_state_of(states: PoleState, index: int):
     Returns
     -------
     MagnetState
-        Worst segment, its position, the share past the knee and the flux per pole.
+        The worst-area field, its position, the share past the knee and the flux per pole.
     """
     from .demagnetization import MagnetState
 

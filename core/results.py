@@ -174,13 +174,15 @@ class DemagnetizationCase:
     kind: str  #: "stall", "reversal", "current limit" or "rotor removed"
     temperature_C: float  #: magnet temperature of the case [°C]
     current_A: float  #: armature current [A] (0 for the rotor removed)
-    magnet_field_A_per_m: float  #: field at the worst point of the magnet [A/m]
+    #: mean field over the magnet's most-demagnetized 5 % of area (core.magnet_field_share) [A/m]
+    magnet_field_A_per_m: float
     magnet_flux_density_T: float  #: normal-curve B there [T]
     knee_field_A_per_m: float  #: knee field at the case's temperature (negative) [A/m]
     margin_A_per_m: float  #: magnet field minus knee field; positive is safe [A/m]
     ok: bool  #: the field stays above the knee
     flux_per_pole_Wb: float = 0.0  #: flux per pole under the case's current (0 with the rotor removed) [Wb]
-    #: where the worst segment sits, from the pole centre (positive: towards the direction of rotation) [rad]
+    #: the segment holding the magnet's most demagnetized cell, from the pole centre (positive: towards the
+    #: direction of rotation) [rad]
     worst_angle_rad: float = 0.0
     magnet_area_past_knee_fraction: float = 0.0  #: share of the magnet's area whose field is past the knee [1]
     #: centres of the magnet's segments from the pole centre [rad]
@@ -198,7 +200,7 @@ class DemagnetizationCase:
     @property
     def mean_field_A_per_m(self) -> float:  # noqa: N802 - named with its unit, as the fields are
         """The magnet's mean field under the case's current, weighted by the segments' areas [A/m]
-        (the worst segment's field is ``magnet_field_A_per_m``); NaN without segments."""
+        (the verdict's worst-area field is ``magnet_field_A_per_m``); NaN without segments."""
         shares = self.segment_area_fraction
         return float(np.dot(shares, self.segment_field_A_per_m)) if shares.size else np.nan
 

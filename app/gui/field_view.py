@@ -316,7 +316,8 @@ class FieldView(QWidget):
             f"mWb/m). Housing up to {solution.housing_flux_density_peak_T:.2f} T, teeth "
             f"{solution.tooth_flux_density_peak_T:.2f} T, core {solution.core_flux_density_peak_T:.2f} T. "
             f"Magnets past the knee: {100 * solution.magnet_area_past_knee_fraction:.1f} % of their area "
-            f"(worst {solution.worst_magnet_field_A_per_m / 1e3:.0f} kA/m, knee "
+            f"(worst 5 % {solution.worst_share_magnet_field_A_per_m / 1e3:.0f} kA/m, worst element "
+            f"{solution.worst_magnet_field_A_per_m / 1e3:.0f} kA/m, knee "
             f"{solution.knee_field_A_per_m / 1e3:.0f} kA/m).")
         self.solved.emit(solution)
 

@@ -4,11 +4,11 @@ demagnetization case comes to the knee.
 Draws what ``Results.magnet_chart``, ``Results.demagnetization`` and ``Results.faults`` hold: the normal
 B(H) and intrinsic J(H) curves at the cold, nominal and hot magnet temperatures, their knees, the load
 line through each no-load operating point, and every case numbered as the datasheet numbers it (faults
-F1, F2, ...): the magnet's worst segment (the verdict), the mean over the magnet and every segment under
-the case's current, with the load line shifted by the armature reaction for the worst case. Which case
-is which, where on the arc its worst spot is and why Pc changes with temperature: in the key above the
-plot, in the tooltips and in the table under it (the worst first). The marks and their labels come from
-``app.magnet_marks``, as on paper.
+F1, F2, ...): the mean over the worst 5 % of the magnet's area (the verdict), the mean over the magnet
+and every segment under the case's current, with the load line shifted by the armature reaction for the
+worst case. Which case is which, where on the arc its worst spot is and why Pc changes with temperature:
+in the key above the plot, in the tooltips and in the table under it (the worst first). The marks and
+their labels come from ``app.magnet_marks``, as on paper.
 """
 
 from __future__ import annotations
@@ -321,11 +321,12 @@ class MagnetChart(QWidget):
                          f"{_escape(magnet_marks.PC_NOTE_SHORT)} (point here for more)</span>")
         self.key.setToolTip("<p>" + "</p><p>".join(_escape(t) for t in (
             magnet_marks.PC_NOTE,
-            "Each case's mark sits at its magnet's worst segment, the one its verdict rests on; the small dots "
+            "Each case's mark sits at the mean field over the worst 5 % of its magnet's area, the one its "
+            "verdict rests on; the small dots "
             "are the other segments, the hollow circle the mean over the magnet (left out where part of the "
             "magnet is past the knee: the mean of such a magnet is no point of its curve).",
             f"{LINES['shifted_load_line'].title}: the no-load load line moved along H by the armature's MMF "
-            "until it passes through the worst case's worst segment.")) + "</p>")
+            "until it passes through the worst case's mark.")) + "</p>")
 
     def _place_labels(self) -> None:
         """Number every mark, clear of the marks, of each other and of the curves (in the plot's pixels)."""

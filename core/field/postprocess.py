@@ -24,6 +24,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..magnet_field_share import worst_share_field
 from ..units import MU_0
 from .cases import FieldCase
 from .materials import sheet_flux_density
@@ -73,6 +74,9 @@ class FieldSolution:
     magnet_area_past_knee_fraction: float  #: of all magnet area in the sector [1]
     magnet_past_knee_fractions: tuple[float, ...]  #: per magnet of the sector [1]
     worst_magnet_field_A_per_m: float  #: the most negative element field [A/m]
+    #: area mean over the most-demagnetized WORST_AREA_SHARE of each magnet, the worst magnet's
+    #: (core.magnet_field_share) [A/m]
+    worst_share_magnet_field_A_per_m: float
     worst_magnet_position_m: tuple[float, float]  #: x, y of that element's centroid [m]
     worst_magnet: int  #: which magnet of the sector
     # load
@@ -324,6 +328,8 @@ def field_solution(design, case: FieldCase, problem: Problem, result: NewtonResu
     fractions = tuple(float(areas[in_magnet][past & (which == k)].sum() / areas[in_magnet][which == k].sum())
                       for k in range(section.sector.poles))
     worst = int(np.argmin(magnet_field))
+    worst_share = min(float(worst_share_field(magnet_field[which == k], areas[in_magnet][which == k]))
+                      for k in range(section.sector.poles))
     centroid = section.mesh.p[:, section.mesh.t[:, in_magnet[worst]]].mean(axis=1)
     margin = np.full(section.elements, np.nan)
     margin[in_magnet] = magnet_field - knee
@@ -354,6 +360,7 @@ def field_solution(design, case: FieldCase, problem: Problem, result: NewtonResu
         magnet_elements=in_magnet, magnet_field_A_per_m=magnet_field, knee_field_A_per_m=knee,
         magnet_area_past_knee_fraction=float(areas[in_magnet][past].sum() / areas[in_magnet].sum()),
         magnet_past_knee_fractions=fractions, worst_magnet_field_A_per_m=float(magnet_field[worst]),
+        worst_share_magnet_field_A_per_m=worst_share,
         worst_magnet_position_m=(float(centroid[0]), float(centroid[1])), worst_magnet=int(which[worst]),
         current_A=float(case.current_A), slot_currents_A=problem.slot_currents,
         torque_N_m_per_m=torque, torque_N_m=torque * length,

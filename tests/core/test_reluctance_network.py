@@ -143,36 +143,84 @@ def test_no_load_flux_against_the_stored_field_solutions(reference):
     # Source: the built-in 2-D field solution (core.field, default mesh) of 99 sampled designs and the
     # demos, stored with how they were made. Measured (docs/network-calibration.md): within 3 % on 88 of 99,
     # worst 4.1 %; the test holds the sample within 4.5 % and its mean bias within 1 %, and the past-knee
-    # verdict equal on every one.
-    errors = []
+    # verdict (the worst 5 % of the magnet's area past the knee) equal on every one.
+    errors, worst_errors = [], []
     for entry in reference["designs"]:
         record = next(r for r in entry["cases"] if r["case"]["kind"] == "no load")
         field = record["field"]
         state = two_dimensional_states(_sample_design(entry), record["case"]["magnet_temperature_C"])
         errors.append(100.0 * (state.flux_per_pole[0] / field["flux_per_pole_Wb_per_m"] - 1.0))
-        assert (state.worst_field[0] < state.knee_field[0]) == (field["magnet_area_past_knee_fraction"] > 0.0)
-    errors = np.array(errors)
+        field_worst = field["worst_share_magnet_field_A_per_m"]
+        assert (state.worst_field[0] < state.knee_field[0]) == (field_worst < field["knee_field_A_per_m"])
+        worst_errors.append(100.0 * (state.worst_field[0] / field_worst - 1.0))
+    errors, worst_errors = np.array(errors), np.abs(worst_errors)
     assert np.max(np.abs(errors)) < 4.5, errors
     assert abs(errors.mean()) < 1.0
+    # the worst 5 % of the magnet's area (core.magnet_field_share): measured within 10 % on 71 of 99,
+    # worst 41 %; the single-point rule it replaced, 35 of 99
+    assert (worst_errors <= 10.0).sum() >= 65 and worst_errors.max() < 50.0
 
 
 def test_loaded_and_rotor_removed_cases_against_the_stored_field_solutions(reference):
-    # The same source. Measured: under load within 5 % on 98 of 110 (worst +14.6 % at an armature MMF equal
+    # The same source. Measured: under load within 5 % on 97 of 110 (worst +14.6 % at an armature MMF equal
     # to the magnet's own on a 6-pole ferrite design, where the network understates the loss of flux);
-    # rotor removed, the worst field within 5.5 % on all 38. Pinned: the demos' own cases and every case at
-    # 0.3 times the magnet's MMF within 5 %, all within 15 %; rotor removed within 10 %.
+    # rotor removed, the worst 5 % of the magnet within 6.2 % on all 38. Pinned: the demos' own cases and
+    # every case at 0.3 times the magnet's MMF within 5 %, all within 15 %; rotor removed within 10 %. The
+    # past-knee verdict under load differs on 2 of 110 (measured), both with the network the more
+    # cautious; it may never pass a magnet the field solution fails by more than 2 % of the knee field.
+    loaded_misses = []
     for entry in reference["designs"]:
         design = _sample_design(entry)
         for record in entry["cases"]:
             case, field = record["case"], record["field"]
+            knee, field_worst = field["knee_field_A_per_m"], field["worst_share_magnet_field_A_per_m"]
             if case["kind"] == "armature current":
                 state = two_dimensional_states(design, case["magnet_temperature_C"], case["current_A"])
                 error = 100.0 * abs(state.flux_per_pole[0] / field["flux_per_pole_Wb_per_m"] - 1.0)
                 strict = case["name"] == "load-0.3" or not entry["label"].startswith("S")
                 assert error < (5.0 if strict else 15.0), (entry["label"], case["name"], error)
+                if (state.worst_field[0] < knee) != (field_worst < knee):
+                    loaded_misses.append((entry["label"], case["name"]))
+                    assert state.worst_field[0] < knee or field_worst > 1.02 * knee, loaded_misses[-1]
             elif case["kind"] == "rotor removed":
                 state = two_dimensional_states(design, case["magnet_temperature_C"], rotor_present=False)
-                assert_allclose(state.worst_field[0], field["worst_magnet_field_A_per_m"], rtol=0.10)
+                assert_allclose(state.worst_field[0], field_worst, rtol=0.10)
+                assert (state.worst_field[0] < knee) == (field_worst < knee), entry["label"]
+    assert len(loaded_misses) <= 3, loaded_misses
+
+
+def test_magnet_cells_follow_the_1_over_r_profile_and_average_to_the_segment():
+    # By hand from the solved network: a cell's B is the column's flux, linear in r from the inner face's
+    # to the outer face's, over the area Δθ·r·Lm; H on the recoil line. Over a segment's cells the area
+    # mean of H is the segment's mid-thickness field (B·r is linear in r, so the midpoint rule is exact).
+    from pmdc_sizer.core.magnet_field_share import worst_share_field
+    from pmdc_sizer.core.pole_magnetics import RADIAL_CELLS, design_network
+    from pmdc_sizer.core.units import MU_0
+
+    design = design_from_project(project.load(FERRITE_DEMO))
+    state = pole_states(design, 23.0, 40.0)
+    segments = state.segment_field.shape[1]
+    cells = state.cell_field[0].reshape(segments, RADIAL_CELLS)
+    shares = state.cell_share[0].reshape(segments, RADIAL_CELLS)
+    assert shares.sum() == pytest.approx(1.0, rel=1e-12)
+    assert_allclose(shares.sum(axis=1), state.segment_share[0], rtol=1e-12)
+    assert_allclose((cells * shares).sum(axis=1) / shares.sum(axis=1), state.segment_field[0], rtol=1e-9)
+    assert np.all(np.diff(shares, axis=1) > 0.0)  # outer cells are wider
+    assert state.worst_field[0] == pytest.approx(float(worst_share_field(state.cell_field[0], state.cell_share[0])))
+    assert state.cell_field[0].min() <= state.worst_field[0] < np.dot(state.cell_share[0], state.cell_field[0])
+    # one cell by hand, at no load: the outermost cell of the first magnet segment
+    e = design_network(design)
+    solution = reluctance_network.solve_network(design.magnet, np.array([23.0]), e, 0.0)
+    no_load = pole_states(design, 23.0)
+    g, grade, magnet = design.geometry, design.magnet, e.magnet_mask > 0.0
+    inner, lm = float(g.armature_radius + g.airgap), float(g.magnet_thickness)
+    depth = 1.0 - 0.5 / RADIAL_CELLS
+    radius, mid = inner + depth * lm, inner + 0.5 * lm
+    flux_in, flux_out = solution.lower_flux[0, magnet][0], solution.upper_flux[0, magnet][0]
+    area = e.column_area[0, magnet][0] * radius / mid
+    b = (flux_in + (flux_out - flux_in) * depth) / area
+    h = (b - solution.remanence[0]) / (MU_0 * grade.recoil_permeability)
+    assert no_load.cell_field[0, RADIAL_CELLS - 1] == pytest.approx(h, rel=1e-9)
 
 
 def test_one_live_coarse_field_solution_agrees():

@@ -14,6 +14,7 @@ from pmdc_sizer.core.field import COARSE, FieldOptions, Region, no_load_case, so
 from pmdc_sizer.core.field.mesh import build_mesh
 from pmdc_sizer.core.field.postprocess import PointLocator
 from pmdc_sizer.core.field.solve import build_problem
+from pmdc_sizer.core.magnet_field_share import WORST_AREA_SHARE
 from pmdc_sizer.core.project import load
 
 from .conftest import FERRITE, with_wall
@@ -67,6 +68,20 @@ def test_magnet_field_knee_fractions_and_worst_spot():
     assert s.magnet_field_A_per_m.size == s.magnet_elements.size
     assert np.all(s.region[s.magnet_elements] == Region.MAGNET)
     assert s.worst_magnet_field_A_per_m == s.magnet_field_A_per_m.min()
+    # the worst 5 % of the magnet's area, by hand: its elements sorted by field, the last one in part
+    corners = s.nodes_m[:, s.triangles[:, s.magnet_elements]]  # (2, 3, elements)
+    (x1, y1), (x2, y2) = corners[:, 1] - corners[:, 0], corners[:, 2] - corners[:, 0]
+    areas = 0.5 * np.abs(x1 * y2 - x2 * y1)
+    assert s.sector_poles == 1  # one magnet: its worst share is the sector's
+    order = np.argsort(s.magnet_field_A_per_m)
+    need, total, weighted = WORST_AREA_SHARE * areas.sum(), 0.0, 0.0
+    for k in order:
+        take = min(areas[k], need - total)
+        total, weighted = total + take, weighted + take * s.magnet_field_A_per_m[k]
+        if total >= need:
+            break
+    assert s.worst_share_magnet_field_A_per_m == pytest.approx(weighted / total, rel=1e-9)
+    assert s.worst_magnet_field_A_per_m < s.worst_share_magnet_field_A_per_m < np.mean(s.magnet_field_A_per_m)
     past = s.magnet_field_A_per_m < s.knee_field_A_per_m
     assert 0.0 < s.magnet_area_past_knee_fraction < 1.0 and past.any()  # the ferrite's corners go past
     assert s.magnet_past_knee_fractions[0] == pytest.approx(s.magnet_area_past_knee_fraction)
