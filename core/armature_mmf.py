@@ -65,21 +65,27 @@ def current_share(angle, poles: int, zone: float) -> np.ndarray:
     k = np.rint(np.asarray(angle) / pitch)
     from_neutral = 0.5 * pitch - np.abs(np.asarray(angle) - k * pitch)
     ramp = np.clip(from_neutral / (0.5 * zone), 0.0, 1.0) if zone > 0.0 else np.ones_like(from_neutral)
-    return -((-1.0) ** k) * ramp
+    # -(-1)^k: -1 on this pole (k even), +1 on its neighbours (k odd)
+    return np.where(np.fmod(k, 2.0) == 0.0, -ramp, ramp)
 
 
 def enclosed_currents(elements: NetworkElements, current, poles: int, slots: int, commutator_segments: int,
-                      conductors: int, paths: int) -> np.ndarray:
+                      conductors, paths, rows: np.ndarray | None = None) -> np.ndarray:
     """Armature current enclosed by each lower loop of the network [A], shape (batch, segments).
 
     Parameters
     ----------
     elements : NetworkElements
-        The network (its branch centres and yoke angles), batch (B,).
+        The network (its branch centres and yoke angles), cross-sections (D,).
     current : float or ndarray
         Armature current I [A], broadcasting to (B,).
-    poles, slots, commutator_segments, conductors, paths : int
-        Of the machine and winding [1].
+    poles, slots, commutator_segments : int
+        Of the machine [1].
+    conductors, paths : int or ndarray
+        Of the winding [1], broadcasting to (B,).
+    rows : ndarray of int, optional
+        Shape (B,): the cross-section of each entry (the current pattern is integrated once per
+        cross-section); by default entry i is cross-section i.
 
     Returns
     -------
@@ -95,5 +101,7 @@ def enclosed_currents(elements: NetworkElements, current, poles: int, slots: int
     fractions = (np.arange(_SAMPLES) + 0.5) / _SAMPLES
     angles = elements.centre_angle[..., None] + elements.yoke_angle[..., None] * fractions
     shares = current_share(angles, poles, zone).mean(axis=-1) * elements.yoke_angle
+    if rows is not None:
+        shares = shares[rows]
     density = conductors * np.asarray(current, dtype=float) / (paths * 2.0 * np.pi)
     return np.asarray(np.atleast_1d(density)[..., None] * shares)

@@ -37,7 +37,7 @@ from .design import Design, design_from_project
 from .errors import MagneticCircuitError, ProjectError
 from .geometry import Geometry
 from .magnet_field_share import worst_share_field
-from .magnets import require_ambient_inside_model
+from .magnets import GradeLots, MagnetGrade, require_ambient_inside_model
 from .results import CaseResult, DemagnetizationCase, Results
 from .schema import Project
 
@@ -98,6 +98,16 @@ def _case_figures(case: CaseResult) -> dict[str, float]:
         "rated_output_power_W": case.rated.output_power_W,
         "rated_efficiency": case.rated.efficiency,
         "current_limit_torque_N_m": _optional(case.current_limit_torque_N_m),
+        "max_efficiency": case.max_efficiency,
+        "max_efficiency_torque_N_m": case.max_efficiency_point.torque_N_m,
+        "max_efficiency_speed_rad_per_s": case.max_efficiency_point.speed_rad_per_s,
+        "max_efficiency_current_A": case.max_efficiency_point.current_A,
+        "max_efficiency_output_power_W": case.max_efficiency_point.output_power_W,
+        "max_output_power_W": case.max_output_power_W,
+        "max_power_torque_N_m": case.max_power_point.torque_N_m,
+        "max_power_speed_rad_per_s": case.max_power_point.speed_rad_per_s,
+        "max_power_current_A": case.max_power_point.current_A,
+        "max_power_efficiency": case.max_power_point.efficiency,
     }
 
 
@@ -224,8 +234,10 @@ def evaluate_many(designs: Sequence[Design | Project]) -> BatchFigures:
     The chain is :func:`core.evaluate.evaluate`'s, step for step, on arrays: the topic modules' functions
     take arrays of designs, the thermal fixed points and the root finders run each design to its own end
     (so a design's figures do not depend on its batch), and the reluctance network is solved once per
-    group of designs that share a magnet grade, a pair of steels, a shaft and a slot, pole and segment
-    count (what one network solve and one armature current sheet take).
+    group of designs that share a magnet grade family (a grade and its lots: Br and HcJ go in per design,
+    so a tolerance study's motors are one group), a pair of steels, a shaft and a slot, pole and segment
+    count (what one network solve and one armature current sheet take); each design's cross-section is
+    built once for all its temperatures and currents.
 
     Parameters
     ----------
@@ -360,10 +372,16 @@ class _Steels:
                        self.excess_coeff[rows])
 
 
+def _grade_family(grade: MagnetGrade) -> MagnetGrade:
+    """The grade with its lot values (Br, HcJ, HcB, (BH)max) cleared: the lots of one grade share it, and
+    the network takes those values per design (:class:`core.magnets.GradeLots`)."""
+    return dataclasses.replace(grade, remanence=0.0, coercivity_hcj=0.0, coercivity_hcb=0.0, energy_product=0.0)
+
+
 def _group_key(d: Design):
     g, w = d.geometry, d.winding
-    return (d.magnet, id(d.housing_steel), id(d.lamination_steel), bool(d.shaft_magnetic), int(g.poles), int(g.slots),
-            int(w.commutator_segments))
+    return (_grade_family(d.magnet), id(d.housing_steel), id(d.lamination_steel), bool(d.shaft_magnetic),
+            int(g.poles), int(g.slots), int(w.commutator_segments))
 
 
 def _groups(designs: Sequence[Design]) -> list[np.ndarray]:
@@ -373,9 +391,10 @@ def _groups(designs: Sequence[Design]) -> list[np.ndarray]:
     return [np.array(members) for members in groups.values()]
 
 
-def _solve_groups(designs, groups, geometry, repeat: int, temperatures, currents, rotor_present: bool, winding,
-                  what: str):
-    """The pole states of every design at ``repeat`` (temperature, current) pairs each, group by group.
+def _solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temperatures, currents,
+                  rotor_present: bool, winding, what: str):
+    """The pole states of every design at ``repeat`` (temperature, current) pairs each, group by group
+    (each design's cross-section built once, its magnet lot's Br and HcJ per design).
 
     Returns the PoleState fields as arrays of shape (N, repeat, ...), or raises _DesignsFailed naming the
     designs whose network has no solution."""
@@ -386,11 +405,11 @@ def _solve_groups(designs, groups, geometry, repeat: int, temperatures, currents
     failures: dict[int, str] = {}
     for members in groups:
         d = designs[members[0]]
-        rows = np.repeat(members, repeat)
 
-        def solve(rows, d=d):
+        def solve(members, d=d):
+            rows = np.repeat(members, repeat)  # the design of each entry
             part = Geometry(**{f.name: (getattr(d.geometry, f.name) if f.name in ("poles", "slots")
-                                        else np.asarray(getattr(geometry, f.name))[rows])
+                                        else np.asarray(getattr(geometry, f.name))[members])
                                for f in dataclasses.fields(Geometry)})
             part_winding = None if winding is None else (int(d.geometry.poles), int(d.geometry.slots),
                                                           int(d.winding.commutator_segments),
@@ -399,13 +418,14 @@ def _solve_groups(designs, groups, geometry, repeat: int, temperatures, currents
                                        temperatures.reshape(count * repeat)[_flat(rows, repeat)],
                                        np.broadcast_to(currents, temperatures.shape).reshape(count * repeat)[
                                            _flat(rows, repeat)],
-                                       rotor_present, part_winding, what)
+                                       rotor_present, part_winding, what,
+                                       rows=np.repeat(np.arange(members.size), repeat), lots=lots.at(rows))
         try:
-            states = solve(rows)
+            states = solve(members)
         except MagneticCircuitError:
             for member in members:  # which of the group has no solution
                 try:
-                    solve(np.repeat(np.array([member]), repeat))
+                    solve(np.array([member]))
                 except MagneticCircuitError as error:
                     failures[int(member)] = str(error)
             if failures:
@@ -440,11 +460,12 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     )
     from .commutation import brush_current_density, brush_set, reactance_voltage, surface_speed
     from .magnetic_circuit import pole_circuit
-    from .magnets import intrinsic_coercivity_at, knee_field_at, model_temperature_range_C
+    from .magnets import grade_lots, intrinsic_coercivity_at, knee_field_at, model_temperature_ranges_C
     from .margins import must_survive_faults
     from .mass import masses, material_cost, rotor_inertia
     from .motor_model import interp_rows
     from .performance import (
+        MAXIMA,
         MotorModel,
         constant_at,
         electrical_time_constant,
@@ -454,6 +475,7 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
         mechanical_time_constant,
         operating_points,
         plugging_current,
+        refined_maxima,
         stall_current,
         stall_torque,
     )
@@ -500,12 +522,13 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     steels = _Steels(*(per(lambda d, name=name: getattr(d.lamination_steel, name))
                        for name in ("hysteresis_coeff", "hysteresis_exponent", "eddy_coeff", "excess_coeff")))
 
-    # 1. Materials: each grade's model range holds over the design's ambients.
-    ranges = {}
-    for grade in grades:
-        if grade not in ranges:
-            ranges[grade] = model_temperature_range_C(grade)
-    model_low, model_high = per(lambda d: ranges[d.magnet][0]), per(lambda d: ranges[d.magnet][1])
+    # 1. Materials: each grade's model range holds over the design's ambients (each distinct grade or
+    # magnet lot taken once).
+    distinct = {grade: position for position, grade in enumerate(dict.fromkeys(grades))}
+    distinct_lots = grade_lots(list(distinct))
+    lot_of = np.array([distinct[grade] for grade in grades], dtype=np.intp)
+    lots = distinct_lots.at(lot_of)
+    model_low, model_high = (values[lot_of] for values in model_temperature_ranges_C(distinct_lots))
     outside = np.flatnonzero(~((model_low < ambient_min) & (ambient_max < model_high)))
     if outside.size:
         failures = {}
@@ -520,7 +543,10 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     # 2. No-load magnetic circuit over each design's temperature grid.
     grid = flux_grid_temperatures(ambient_min, ambient_nominal, ambient_max,
                                   per(lambda d: d.magnet.max_working_temperature_C), model_high)
-    no_load = _solve_groups(designs, groups, g, grid.shape[1], grid, 0.0, True, None, "the magnetic circuit")
+    # (the rising grid starts at the coldest ambient, the grid's first temperature: solved once)
+    rising_grid = _solve_groups(designs, groups, g, lots, grid.shape[1] - 1, grid[:, 1:], 0.0, True, None,
+                                "the magnetic circuit")
+    no_load = {key: np.concatenate([values[:, 1:2], values], axis=1) for key, values in rising_grid.items()}
     grid_flux = no_load["flux_per_pole"]
 
     def flux_at(rows, temperature_C):
@@ -573,10 +599,20 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     points = LOAD_POINTS
     currents = (np.linspace(0.0, 1.0, points)[None, None, :] * largest[:, :, None]).reshape(n, 3 * points)
     temperatures = np.repeat(np.stack([case_magnet[c] for c in _CASE_NAMES], axis=1), points, axis=1)
-    loaded = _solve_groups(designs, groups, g, 3 * points, temperatures, currents, True, (conductors, paths),
+    # the cold and nominal cases at zero current are the no-load grid's first two temperatures: not solved again
+    again = {0: 0, points: 1}  # entry of the load table: column of the no-load grid
+    under_load = np.array([j for j in range(3 * points) if j not in again])
+    solved = _solve_groups(designs, groups, g, lots, under_load.size, temperatures[:, under_load],
+                           currents[:, under_load], True, (conductors, paths),
                            "the magnetic circuit under load (cold, nominal or hot)")
-    rotor_out = _solve_groups(designs, groups, g, 2, np.stack([ambient_min, ambient_max], axis=1), 0.0, False, None,
-                              "the magnetic circuit with the rotor removed")
+    loaded = {}
+    for key, values in solved.items():
+        loaded[key] = np.empty((n, 3 * points, *values.shape[2:]), dtype=values.dtype)
+        loaded[key][:, under_load] = values
+        for entry, column in again.items():
+            loaded[key][:, entry] = no_load[key][:, column]
+    rotor_out = _solve_groups(designs, groups, g, lots, 2, np.stack([ambient_min, ambient_max], axis=1), 0.0, False,
+                              None, "the magnetic circuit with the rotor removed")
     table_currents = currents.reshape(n, 3, points)
     table_flux = loaded["flux_per_pole"].reshape(n, 3, points)
 
@@ -595,6 +631,8 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
         rated_reached = load_torque < stall
         points_of[name] = (no_load_point, stall, rated, rated_reached)
         ke_stall = _array(constant_at(model, stall_point.current))
+        efficiency_torque, power_torque = refined_maxima(model, stall, MAXIMA)
+        best_efficiency, best_power = operating_points(model, efficiency_torque), operating_points(model, power_torque)
         figures_of_case = {
             "flux_per_pole_Wb": flux, "ke_V_s_per_rad": model.constant,
             "terminal_resistance_ohm": model.resistance, "magnet_temperature_C": case_magnet[name],
@@ -605,6 +643,13 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
             "rated_torque_N_m": rated.torque, "rated_speed_rad_per_s": rated.speed, "rated_current_A": rated.current,
             "rated_input_power_W": rated.input_power, "rated_output_power_W": rated.output_power,
             "rated_efficiency": rated.efficiency, "current_limit_torque_N_m": limit_torque(model, current_limit),
+            "max_efficiency": best_efficiency.efficiency, "max_efficiency_torque_N_m": best_efficiency.torque,
+            "max_efficiency_speed_rad_per_s": best_efficiency.speed,
+            "max_efficiency_current_A": best_efficiency.current,
+            "max_efficiency_output_power_W": best_efficiency.output_power,
+            "max_output_power_W": best_power.output_power, "max_power_torque_N_m": best_power.torque,
+            "max_power_speed_rad_per_s": best_power.speed, "max_power_current_A": best_power.current,
+            "max_power_efficiency": best_power.efficiency,
         }
         out.update({f"{name}.{key}": _array(value) for key, value in figures_of_case.items()})
 
@@ -626,12 +671,6 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     # 9. Demagnetization: the worst share of the magnet's field at each case's current, against the knee.
     share = per(lambda d: d.required_margin_share)
 
-    def per_grade(function, temperature_C):
-        values = np.empty(n)
-        for members in groups:
-            values[members] = function(designs[members[0]].magnet, temperature_C[members])
-        return values
-
     def magnet_field_at(case: int, current):
         """The mean field over the magnet's worst area share at a current, each cell's field interpolated in
         I² (core.pole_magnetics, core.magnet_field_share)."""
@@ -645,7 +684,7 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     fault_cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
     for label, case in (("cold", 0), ("hot", 2)):
         model, temperature = models[label], case_magnet[label]
-        knee = per_grade(knee_field_at, temperature)
+        knee = knee_field_at(lots, temperature)
         no_load_speed = points_of[label][0].speed
         stall_i = _array(stall_current(model))
         reversal_i = _array(plugging_current(model, no_load_speed))
@@ -666,14 +705,14 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
         fault_cases[f"reversal_{label}"] = (np.where(finite, fault_reversal, nan), np.where(finite, reversal_i, nan),
                                             temperature)
     for position, (label, ambient) in enumerate((("cold", ambient_min), ("hot", ambient_max))):
-        knee = per_grade(knee_field_at, ambient)
+        knee = knee_field_at(lots, ambient)
         cases[f"rotor_removed_{label}"] = (rotor_out["worst_field"][:, position] - knee, np.zeros(n), ambient)
 
     def judged(group):
         """Each case's state: 2 past the knee, 1 inside the required margin, 0 safe (NaN cases: -1)."""
         states = {}
         for key, (margin, _, temperature) in group.items():
-            required = share * np.abs(per_grade(intrinsic_coercivity_at, temperature))
+            required = share * np.abs(intrinsic_coercivity_at(lots, temperature))
             states[key] = np.where(np.isnan(margin), -1, np.where(margin <= 0.0, 2, np.where(margin < required, 1, 0)))
         return states
 
@@ -749,10 +788,8 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
     brush_density = _array(brush_current_density(_array(hot_rated.current), _array(count_b), _array(width_b),
                                                  _array(length_b)))
     speed_c = _array(surface_speed(top_speed, _array(diameter_b)))
-    # one design at a time: core.commutation.reactance_voltage takes floats (a scalar max inside)
-    reactance = np.array([reactance_voltage(float(hot_rated.current[i]), int(paths[i]), d.winding.turns_per_coil,
-                                            float(d.geometry.stack_length), float(hot_rated.speed[i]),
-                                            float(diameter_b[i]), float(width_b[i])) for i, d in enumerate(designs)])
+    reactance = _array(reactance_voltage(_array(hot_rated.current), paths, per(lambda d: d.winding.turns_per_coil),
+                                         g.stack_length, _array(hot_rated.speed), diameter_b, width_b))
     out.update({"commutation.brush_current_density_A_per_m2": brush_density,
                 "commutation.surface_speed_m_per_s": speed_c, "commutation.reactance_voltage_V": reactance})
 

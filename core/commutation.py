@@ -28,6 +28,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
 from scipy.constants import mu_0
 
 from .design import Design
@@ -90,31 +91,30 @@ def surface_speed(speed: float, diameter: float) -> float:
     return abs(speed) * diameter / 2.0
 
 
-def reactance_voltage(current: float, paths: int, turns_per_coil: int, stack_length: float, speed: float,
-                      commutator_diameter: float, brush_width: float,
-                      specific_permeance: float = SPECIFIC_PERMEANCE) -> float:
+def reactance_voltage(current, paths, turns_per_coil, stack_length, speed, commutator_diameter, brush_width,
+                      specific_permeance: float = SPECIFIC_PERMEANCE):
     """Average reactance voltage of the coil in commutation, e_r = L_c·2·(I/a)/T_c.
 
     Parameters
     ----------
-    current : float
+    current : float or ndarray
         Armature current I [A].
-    paths : int
+    paths : int or ndarray
         Parallel paths a [1].
-    turns_per_coil : int
+    turns_per_coil : int or ndarray
         N_c [1].
-    stack_length : float
+    stack_length : float or ndarray
         L [m].
-    speed : float
+    speed : float or ndarray
         Rotor speed [rad/s].
-    commutator_diameter, brush_width : float
-        D_c and w_b [m].
+    commutator_diameter, brush_width : float or ndarray
+        D_c and w_b [m] (arrays broadcast: many designs at once).
     specific_permeance : float, optional
         λ in units of μ0 per unit length of a coil side [1].
 
     Returns
     -------
-    float
+    float or ndarray
         e_r [V], with L_c = 2·μ0·N_c²·L·λ and T_c = w_b/v_c.
 
     References
@@ -122,8 +122,9 @@ def reactance_voltage(current: float, paths: int, turns_per_coil: int, stack_len
     .. [1] Say and Taylor 1986, commutation (average reactance voltage, Pichelmayer's λ; from memory).
     """
     coil_inductance = 2.0 * mu_0 * turns_per_coil**2 * stack_length * specific_permeance
-    commutation_time = brush_width / max(surface_speed(speed, commutator_diameter), 1e-12)
-    return float(coil_inductance * 2.0 * abs(current) / paths / commutation_time)
+    commutation_time = brush_width / np.maximum(surface_speed(speed, commutator_diameter), 1e-12)
+    voltage = coil_inductance * 2.0 * np.abs(current) / paths / commutation_time
+    return float(voltage) if np.ndim(voltage) == 0 else voltage
 
 
 @dataclass(frozen=True)

@@ -15,7 +15,7 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, fields
 from functools import lru_cache
 
 import numpy as np
@@ -115,13 +115,47 @@ class MagnetGrade:
     custom: bool = field(default=False, compare=False)  #: a user's grade rather than a built-in one
 
 
-def remanence_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
+@dataclass(frozen=True)
+class GradeLots:
+    """Many magnet lots at once, what the curve model reads of each: one array per grade value, one entry
+    per lot (a grade family whose lots differ in Br and HcJ, or any grades: nothing here is shared).
+
+    The temperature functions (:func:`remanence_at`, :func:`intrinsic_coercivity_at`, and
+    :func:`core.magnets.knee_field_at` and :func:`core.magnets.curve_at`) take it in place of a grade and
+    give one value per lot; :func:`core.magnets.grade_lots` makes it from grades.
+    """
+
+    remanence: np.ndarray  #: Br at 20 °C [T]
+    coercivity_hcj: np.ndarray  #: HcJ at 20 °C [A/m]
+    remanence_temp_coeff: np.ndarray  #: α [1/K]
+    coercivity_temp_coeff: np.ndarray  #: β [1/K]
+    recoil_permeability: np.ndarray  #: μrec [1]
+    centre_ratio: np.ndarray  #: each lot's knee centre over HcJ (:func:`core.magnet_knee.knee_shape`) [1]
+    width_ratio: np.ndarray  #: its width over HcJ [1]
+
+    def at(self, rows) -> GradeLots:
+        """The lots ``rows`` picks (an index array, repeats allowed).
+
+        Parameters
+        ----------
+        rows : ndarray of int
+            Which lots, in order.
+
+        Returns
+        -------
+        GradeLots
+            Arrays of ``len(rows)``.
+        """
+        return GradeLots(**{f.name: getattr(self, f.name)[rows] for f in fields(self)})
+
+
+def remanence_at(grade: MagnetGrade | GradeLots, temperature_C: float | np.ndarray):
     """Remanence at a temperature, Br(T) = Br20·(1 + α·(T - 20 °C)), with the reversible coefficient α.
 
     Parameters
     ----------
-    grade : MagnetGrade
-        The grade, with Br at 20 °C and α.
+    grade : MagnetGrade or GradeLots
+        The grade, with Br at 20 °C and α (or many lots, broadcasting with ``temperature_C``).
     temperature_C : float or ndarray
         Magnet temperature [°C].
 
@@ -137,15 +171,15 @@ def remanence_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     return _reversible(grade.remanence, grade.remanence_temp_coeff, temperature_C)
 
 
-def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
+def intrinsic_coercivity_at(grade: MagnetGrade | GradeLots, temperature_C: float | np.ndarray):
     """Intrinsic coercivity at a temperature, HcJ(T) = HcJ20·(1 + β·(T - 20 °C)).
 
     β is positive for hard ferrite (its knee moves in when cold) and negative for NdFeB and SmCo.
 
     Parameters
     ----------
-    grade : MagnetGrade
-        Its HcJ at 20 °C and β.
+    grade : MagnetGrade or GradeLots
+        Its HcJ at 20 °C and β (or many lots, broadcasting with ``temperature_C``).
     temperature_C : float or ndarray
         Magnet temperature [°C] (cold is the worst case for ferrite, hot for NdFeB).
 
@@ -161,7 +195,8 @@ def intrinsic_coercivity_at(grade: MagnetGrade, temperature_C: float | np.ndarra
     return _reversible(grade.coercivity_hcj, grade.coercivity_temp_coeff, temperature_C)
 
 
-def _reversible(value_at_reference: float, coefficient: float, temperature_C: float | np.ndarray):
+def _reversible(value_at_reference: float | np.ndarray, coefficient: float | np.ndarray,
+                temperature_C: float | np.ndarray):
     # value·(1 + coefficient·(T - 20 °C)): the linear reversible law of IEC 60404-8-1, for Br and for HcJ
     return value_at_reference * (1.0 + coefficient * (temperature_C - REFERENCE_TEMPERATURE_C))
 
@@ -189,19 +224,47 @@ def model_temperature_range_C(grade: MagnetGrade) -> tuple[float, float]:  # noq
     ----------
     .. [1] the project's own bound on its curve model (no published source)
     """
+    def one(value: float) -> np.ndarray:
+        return np.array([value], dtype=float)
+
+    low, high = model_temperature_ranges_C(GradeLots(
+        one(grade.remanence), one(grade.coercivity_hcj), one(grade.remanence_temp_coeff),
+        one(grade.coercivity_temp_coeff), one(grade.recoil_permeability), centre_ratio=one(np.nan),
+        width_ratio=one(np.nan)))  # the range does not read the knee
+    return float(low[0]), float(high[0])
+
+
+def model_temperature_ranges_C(lots: GradeLots) -> tuple[np.ndarray, np.ndarray]:  # noqa: N802 - unit suffix
+    """:func:`model_temperature_range_C` of many lots at once (their knees are not read).
+
+    Parameters
+    ----------
+    lots : GradeLots
+        The lots, (L,).
+
+    Returns
+    -------
+    tuple of ndarray
+        Lowest and highest temperature of each [°C], (L,).
+
+    References
+    ----------
+    .. [1] the project's own bound on its curve model (no published source)
+    """
     temperatures = np.arange(-273.0, 1000.5, 0.5)
-    br = remanence_at(grade, temperatures)
-    hcj = intrinsic_coercivity_at(grade, temperatures)
-    amplitude = br - MU_0 * (grade.recoil_permeability - 1.0) * hcj
-    valid = (br > 0.25 * grade.remanence) & (hcj > 0.25 * grade.coercivity_hcj) & (amplitude > 0.05 * br)
+    column = {name: np.asarray(getattr(lots, name), dtype=float)[:, None] for name in (
+        "remanence", "coercivity_hcj", "remanence_temp_coeff", "coercivity_temp_coeff", "recoil_permeability")}
+    br = _reversible(column["remanence"], column["remanence_temp_coeff"], temperatures)
+    hcj = _reversible(column["coercivity_hcj"], column["coercivity_temp_coeff"], temperatures)
+    amplitude = br - MU_0 * (column["recoil_permeability"] - 1.0) * hcj
+    valid = (br > 0.25 * column["remanence"]) & (hcj > 0.25 * column["coercivity_hcj"]) & (amplitude > 0.05 * br)
     reference = int(np.searchsorted(temperatures, REFERENCE_TEMPERATURE_C))
-    low_index = reference
-    while low_index > 0 and valid[low_index - 1]:
-        low_index -= 1
-    high_index = reference
-    while high_index < temperatures.size - 1 and valid[high_index + 1]:
-        high_index += 1
-    return float(temperatures[low_index]), float(temperatures[high_index])
+    # from 20 °C outwards while the bound holds: down to just above the last failure below 20 °C, up to
+    # just below the first failure above it (the ends of the grid where there is none)
+    below, above = ~valid[:, :reference], ~valid[:, reference + 1:]
+    last_failure = np.where(below.any(axis=1), reference - 1 - np.argmax(below[:, ::-1], axis=1), -1)
+    first_failure = np.where(above.any(axis=1), reference + 1 + np.argmax(above, axis=1), temperatures.size)
+    return temperatures[last_failure + 1], temperatures[first_failure - 1]
 
 
 def require_ambient_inside_model(grade: MagnetGrade, ambient_min_C: float, ambient_max_C: float) -> None:

@@ -42,6 +42,7 @@ from scipy.optimize import brentq
 from scipy.special import expit, logit
 
 from .magnet_grades import GradeDataError, MagnetGrade
+from .solvers import find_root
 from .units import MU_0
 
 #: The knee used by the demagnetization checks: where the intrinsic curve has fallen this fraction of
@@ -143,16 +144,76 @@ def knee_shape(grade: MagnetGrade) -> KneeShape:
     ----------
     .. [1] the project's own fit (module docstring)
     """
-    br, hcj, hcb, squareness = grade.remanence, grade.coercivity_hcj, grade.coercivity_hcb, grade.squareness
-    recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
-    amplitude = br - recoil_slope * hcj
-    hk_fraction = (br - recoil_slope * squareness * hcj - 0.9 * br) / amplitude
-    if not 0.0 < hk_fraction < 1.0:
-        highest = 0.1 * br / (recoil_slope * hcj) if recoil_slope > 0.0 else 1.0
-        raise GradeDataError(
-            f"magnet grade {grade.name!r}: squareness {squareness:g} is too high for its recoil permeability "
-            f"{grade.recoil_permeability:g}: the recoil line alone falls below 0.9·Br at "
-            f"{highest:.3g}·HcJ, before Hk (lower squareness or recoil_permeability)", key="squareness")
+    return _fitted(_FitData.of(grade), None)
+
+
+#: Up to this many grades :func:`knee_shapes` fits one by one through :func:`knee_shape`'s cache; more (the
+#: drawn magnet lots of a tolerance study, each new) share one width scan [1].
+_FEW_GRADES = 8
+
+
+def knee_shapes(grades) -> list[KneeShape]:
+    """:func:`knee_shape` of many grades (magnet lots, say), the width scan of all of them at once.
+
+    Parameters
+    ----------
+    grades : sequence of MagnetGrade
+        The grades.
+
+    Returns
+    -------
+    list of KneeShape
+        One per grade, what :func:`knee_shape` gives for it.
+
+    Raises
+    ------
+    GradeDataError
+        As :func:`knee_shape`, for the first grade that has no knee.
+    """
+    if len(grades) <= _FEW_GRADES:  # a few (the grades of a comparison, say): from knee_shape's cache
+        return [knee_shape(grade) for grade in grades]
+    data = [_FitData.of(grade) for grade in grades]
+    scanned = [d for d in data if d.through_hcb]
+    misses = _scan_misses(*(np.array([getattr(d, name) for d in scanned])[:, None] for name in
+                            ("squareness", "hk_fraction", "hcb_ratio", "hcb_fraction"))) if scanned else None
+    rows = iter(range(len(scanned)))
+    return [_fitted(d, misses[next(rows)] if d.through_hcb and misses is not None else None) for d in data]
+
+
+@dataclass(frozen=True)
+class _FitData:
+    """What the fit reads of a grade, in units of its HcJ and its knee's amplitude."""
+
+    grade: MagnetGrade
+    hk_fraction: float  #: the knee's share of the amplitude lost at Hk [1]
+    hcb_ratio: float  #: HcB/HcJ [1]
+    hcb_fraction: float  #: the share lost at HcB [1]
+    through_hcb: bool  #: HcB lies on the knee (the two-point fit applies)
+
+    @property
+    def squareness(self) -> float:
+        return self.grade.squareness
+
+    @classmethod
+    def of(cls, grade: MagnetGrade) -> _FitData:
+        br, hcj, hcb, squareness = grade.remanence, grade.coercivity_hcj, grade.coercivity_hcb, grade.squareness
+        recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
+        amplitude = br - recoil_slope * hcj
+        hk_fraction = (br - recoil_slope * squareness * hcj - 0.9 * br) / amplitude
+        if not 0.0 < hk_fraction < 1.0:
+            highest = 0.1 * br / (recoil_slope * hcj) if recoil_slope > 0.0 else 1.0
+            raise GradeDataError(
+                f"magnet grade {grade.name!r}: squareness {squareness:g} is too high for its recoil permeability "
+                f"{grade.recoil_permeability:g}: the recoil line alone falls below 0.9·Br at "
+                f"{highest:.3g}·HcJ, before Hk (lower squareness or recoil_permeability)", key="squareness")
+        hcb_drop = br - recoil_slope * hcb - MU_0 * hcb
+        on_knee = not (hcb_drop <= KNEE_LOSS_FRACTION * br or hcb_drop >= amplitude)
+        return cls(grade, hk_fraction, hcb / hcj, hcb_drop / amplitude, on_knee)
+
+
+def _fitted(d: _FitData, misses: np.ndarray | None) -> KneeShape:
+    """The fit of :func:`knee_shape`; ``misses``: the width scan's, if already computed."""
+    squareness, hk_fraction = d.squareness, d.hk_fraction
 
     def exponential_miss(log_width: float) -> float:
         width = float(np.exp(log_width))
@@ -160,18 +221,17 @@ def knee_shape(grade: MagnetGrade) -> KneeShape:
 
     exponential_width = float(np.exp(brentq(exponential_miss, np.log(1e-6), np.log(1e3), xtol=1e-14)))
     exponential = KneeShape(_exponential_centre(exponential_width), exponential_width, through_hcb=False)
-    hcb_drop = br - recoil_slope * hcb - MU_0 * hcb
-    if hcb_drop <= KNEE_LOSS_FRACTION * br or hcb_drop >= amplitude:
+    if not d.through_hcb:
         return exponential
-    shape = _through_hk_and_hcb(squareness, hk_fraction, hcb / hcj, hcb_drop / amplitude)
+    shape = _through_hk_and_hcb(squareness, hk_fraction, d.hcb_ratio, d.hcb_fraction, misses)
     if shape is None:
         return exponential
     if float(knee_fraction(COLLAPSE_CHECK_RATIO, shape.centre_ratio, shape.width_ratio)) > 0.9:
         raise GradeDataError(
-            f"magnet grade {grade.name!r}: squareness {squareness:g} puts Hk so close to the recoil line that the "
-            f"knee through HcB {hcb / 1e3:.4g} kA/m would collapse J before {COLLAPSE_CHECK_RATIO:g}·HcJ, not at "
-            "HcJ; a rounded curve through these Br, HcB and HcJ has a lower squareness (lower squareness)",
-            key="squareness")
+            f"magnet grade {d.grade.name!r}: squareness {squareness:g} puts Hk so close to the recoil line that the "
+            f"knee through HcB {d.grade.coercivity_hcb / 1e3:.4g} kA/m would collapse J before "
+            f"{COLLAPSE_CHECK_RATIO:g}·HcJ, not at HcJ; a rounded curve through these Br, HcB and HcJ has a lower "
+            "squareness (lower squareness)", key="squareness")
     return shape
 
 
@@ -185,15 +245,28 @@ def _centre_through_hk(squareness: float, hk_fraction: float, width: float) -> f
     return float(brentq(miss, low, high, xtol=1e-15))
 
 
-def _through_hk_and_hcb(squareness: float, hk_fraction: float, hcb_ratio: float,
-                        hcb_fraction: float) -> KneeShape | None:
-    """The step through both points, or None when no centre in [0, exponential limit] gets there."""
+def _scan_misses(squareness, hk_fraction, hcb_ratio, hcb_fraction) -> np.ndarray:
+    """The miss at HcB of the step through Hk at every width of :data:`_WIDTH_SCAN` at once (NaN where no
+    centre reaches Hk): only where it changes sign matters, to bracket the width. Arrays of shape (L, 1)
+    give the scans of L grades, (L, widths)."""
+    widths = _WIDTH_SCAN
+    result = find_root(lambda centre: knee_fraction(squareness, centre, widths) - hk_fraction,
+                       np.zeros_like(widths), _exponential_centre(widths), xtol=1e-15, rtol=1e-15, max_iterations=100)
+    centres = np.where(result.bracketed, result.root, np.nan)
+    return np.asarray(knee_fraction(hcb_ratio, centres, widths) - hcb_fraction, dtype=float)
+
+
+def _through_hk_and_hcb(squareness: float, hk_fraction: float, hcb_ratio: float, hcb_fraction: float,
+                        scanned: np.ndarray | None = None) -> KneeShape | None:
+    """The step through both points, or None when no centre in [0, exponential limit] gets there
+    (``scanned``: the misses over the width scan, if already computed)."""
 
     def miss(width: float) -> float:
         centre = _centre_through_hk(squareness, hk_fraction, width)
         return np.nan if centre is None else float(knee_fraction(hcb_ratio, centre, width)) - hcb_fraction
 
-    misses = [miss(float(width)) for width in _WIDTH_SCAN]
+    misses = (_scan_misses(squareness, hk_fraction, hcb_ratio, hcb_fraction) if scanned is None
+              else scanned).tolist()
     for index in range(len(misses) - 1):
         first, second = misses[index], misses[index + 1]
         if np.isfinite(first) and np.isfinite(second) and first * second <= 0.0:
@@ -208,4 +281,4 @@ def _through_hk_and_hcb(squareness: float, hk_fraction: float, hcb_ratio: float,
 
 
 __all__ = ["COLLAPSE_CHECK_RATIO", "EXPONENTIAL_LIMIT_WIDTHS", "KNEE_LOSS_FRACTION", "KneeShape", "knee_fraction",
-           "knee_fraction_inverse", "knee_shape"]
+           "knee_fraction_inverse", "knee_shape", "knee_shapes"]

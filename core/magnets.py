@@ -58,18 +58,20 @@ from .magnet_grades import (
     FAMILIES,
     REFERENCE_TEMPERATURE_C,
     GradeDataError,
+    GradeLots,
     MagnetGrade,
     intrinsic_coercivity_at,
     model_temperature_range_C,
+    model_temperature_ranges_C,
     remanence_at,
     require_ambient_inside_model,
 )
-from .magnet_knee import KNEE_LOSS_FRACTION, knee_fraction_inverse, knee_shape
+from .magnet_knee import KNEE_LOSS_FRACTION, knee_fraction_inverse, knee_shape, knee_shapes
 from .solvers import find_root
 from .units import MU_0
 
 
-def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
+def knee_field_at(grade: MagnetGrade | GradeLots, temperature_C: float | np.ndarray):
     """The knee: the field at which the intrinsic curve has fallen ``KNEE_LOSS_FRACTION``·Br(T) below
     its recoil line, the onset of irreversible loss.
 
@@ -78,8 +80,9 @@ def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
 
     Parameters
     ----------
-    grade : MagnetGrade
-        The grade, whose knee shape is fitted once (:func:`core.magnet_knee.knee_shape`).
+    grade : MagnetGrade or GradeLots
+        The grade, whose knee shape is fitted once (:func:`core.magnet_knee.knee_shape`), or many lots
+        (their knees' shapes fitted already), broadcasting with ``temperature_C``.
     temperature_C : float or ndarray
         Magnet temperature [°C]; an array gives the knee at each.
 
@@ -93,7 +96,7 @@ def knee_field_at(grade: MagnetGrade, temperature_C: float | np.ndarray):
     .. [1] the project's own definition on its own curve model (module docstring); no published source
     """
     curve = curve_at(grade, np.asarray(temperature_C, dtype=float))
-    shape = knee_shape(grade)
+    shape = _shape_of(grade)
     fraction = KNEE_LOSS_FRACTION * curve.remanence / curve.amplitude
     return -curve.coercivity_hcj * knee_fraction_inverse(fraction, shape.centre_ratio, shape.width_ratio)
 
@@ -129,7 +132,7 @@ class CurveAtTemperature:
 
     remanence: float | np.ndarray  #: Br(T) [T]
     coercivity_hcj: float | np.ndarray  #: HcJ(T) [A/m]
-    recoil_slope: float  #: μ0·(μrec - 1) [T·m/A]
+    recoil_slope: float | np.ndarray  #: μ0·(μrec - 1) [T·m/A]
     amplitude: float | np.ndarray  #: A = Jr(-HcJ) [T]
     width: float | np.ndarray  #: width w of the knee's logistic step [A/m]
     centre: float | np.ndarray  #: its centre, a demagnetizing field -H [A/m]
@@ -198,13 +201,45 @@ class CurveAtTemperature:
         return self.remanence + (MU_0 + self.recoil_slope) * field_strength
 
 
-def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTemperature:
+def grade_lots(grades) -> GradeLots:
+    """The lots of a sequence of grades, as arrays (each distinct grade's knee fitted once, all in one scan).
+
+    Parameters
+    ----------
+    grades : sequence of MagnetGrade
+        One per lot.
+
+    Returns
+    -------
+    GradeLots
+        Arrays of ``len(grades)``.
+    """
+    distinct = list(dict.fromkeys(grades))
+    shapes = {grade: (shape.centre_ratio, shape.width_ratio)
+              for grade, shape in zip(distinct, knee_shapes(distinct), strict=True)}
+
+    def column(read) -> np.ndarray:
+        return np.array([read(grade) for grade in grades], dtype=float)
+
+    return GradeLots(column(lambda g: g.remanence), column(lambda g: g.coercivity_hcj),
+                     column(lambda g: g.remanence_temp_coeff), column(lambda g: g.coercivity_temp_coeff),
+                     column(lambda g: g.recoil_permeability), column(lambda g: shapes[g][0]),
+                     column(lambda g: shapes[g][1]))
+
+
+def _shape_of(grade: MagnetGrade | GradeLots):
+    """The knee's shape: fitted to a grade (cached), or the lots' own."""
+    return grade if isinstance(grade, GradeLots) else knee_shape(grade)
+
+
+def curve_at(grade: MagnetGrade | GradeLots, temperature_C: float | np.ndarray) -> CurveAtTemperature:
     """The curve model's constants at a temperature, for repeated lookups of J(H) and B(H).
 
     Parameters
     ----------
-    grade : MagnetGrade
-        Br and HcJ at 20 °C with their coefficients, μrec and the squareness the knee is fitted to.
+    grade : MagnetGrade or GradeLots
+        Br and HcJ at 20 °C with their coefficients, μrec and the squareness the knee is fitted to (or
+        many lots, broadcasting with ``temperature_C``).
     temperature_C : float or ndarray
         Magnet temperature [°C]; an array gives a curve whose constants are arrays (they broadcast).
 
@@ -221,7 +256,7 @@ def curve_at(grade: MagnetGrade, temperature_C: float | np.ndarray) -> CurveAtTe
     br = remanence_at(grade, temperature_C)
     hcj = intrinsic_coercivity_at(grade, temperature_C)
     recoil_slope = MU_0 * (grade.recoil_permeability - 1.0)
-    shape = knee_shape(grade)
+    shape = _shape_of(grade)
     return CurveAtTemperature(br, hcj, recoil_slope, br - recoil_slope * hcj, shape.width_ratio * hcj,
                               shape.centre_ratio * hcj)
 
@@ -411,8 +446,8 @@ def demagnetization_curves(grade: MagnetGrade, temperature_C: float, samples: in
 
 __all__ = [
     "FAMILIES", "KNEE_LOSS_FRACTION", "REFERENCE_TEMPERATURE_C", "CurveAtTemperature", "DemagnetizationCurves",
-    "GradeDataError", "MagnetGrade", "curve_at", "demagnetization_curves", "energy_product_of_curve", "flux_density",
-    "intrinsic_coercivity_at", "knee_field_at", "linear_energy_product",
-    "model_temperature_range_C", "normal_coercivity_at", "polarization", "remanence_at",
+    "GradeDataError", "GradeLots", "MagnetGrade", "curve_at", "demagnetization_curves", "energy_product_of_curve",
+    "flux_density", "grade_lots", "intrinsic_coercivity_at", "knee_field_at", "linear_energy_product",
+    "model_temperature_range_C", "model_temperature_ranges_C", "normal_coercivity_at", "polarization", "remanence_at",
     "require_ambient_inside_model", "squareness_field_at",
 ]

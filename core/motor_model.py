@@ -169,15 +169,26 @@ def interp_rows(x, xp, fp):
     xp, fp = np.asarray(xp, dtype=float), np.asarray(fp, dtype=float)
     shape = np.broadcast_shapes(x.shape, xp.shape[:-1], fp.shape[:-1])
     x = np.broadcast_to(x, shape)
-    xp = np.broadcast_to(xp, (*shape, xp.shape[-1]))
-    fp = np.broadcast_to(fp, (*shape, fp.shape[-1]))
-    last = xp.shape[-1] - 1
-    j = np.clip((xp <= x[..., None]).sum(axis=-1) - 1, 0, last - 1)[..., None]
-    x0, x1 = np.take_along_axis(xp, j, -1)[..., 0], np.take_along_axis(xp, j + 1, -1)[..., 0]
-    f0, f1 = np.take_along_axis(fp, j, -1)[..., 0], np.take_along_axis(fp, j + 1, -1)[..., 0]
+    # the tables once each, flat, and each point's table: the lookups below index them directly
+    tables = np.broadcast_shapes(xp.shape[:-1], fp.shape[:-1])
+    size = xp.shape[-1]
+    xp_flat = np.broadcast_to(xp, (*tables, size)).ravel()
+    fp_flat = np.broadcast_to(fp, (*tables, size)).ravel()
+    start = np.broadcast_to((np.arange(int(np.prod(tables)), dtype=np.intp) * size).reshape(tables), shape)
+    last = size - 1
+    # the last node at or below x (-1 if none), by bisection over the increasing nodes: the same index
+    # as counting the nodes at or below x
+    low, high = np.full(shape, -1, dtype=np.intp), np.full(shape, last, dtype=np.intp)
+    for _ in range(int(np.ceil(np.log2(size + 1)))):
+        middle = (low + high + 1) // 2
+        below = xp_flat[start + middle] <= x
+        low, high = np.where(below, middle, low), np.where(below, high, middle - 1)
+    j = start + np.clip(low, 0, last - 1)
+    x0, x1, f0, f1 = xp_flat[j], xp_flat[j + 1], fp_flat[j], fp_flat[j + 1]
     with np.errstate(divide="ignore", invalid="ignore"):
         inside = (f1 - f0) / (x1 - x0) * (x - x0) + f0
-    return np.where(x >= xp[..., last], fp[..., last], np.where(x <= xp[..., 0], fp[..., 0], inside))
+    return np.where(x >= xp_flat[start + last], fp_flat[start + last],
+                    np.where(x <= xp_flat[start], fp_flat[start], inside))
 
 
 def speed_at_current(model: MotorModel, current):
@@ -214,7 +225,10 @@ def shaft_torque_at_current(model: MotorModel, current):
     float or ndarray
         [N·m].
     """
-    return constant_at(model, current) * current - loss_torque(model, speed_at_current(model, current))
+    constant = constant_at(model, current)
+    # speed_at_current with this constant (looked up once)
+    speed = np.maximum((model.voltage - model.brush_drop - model.resistance * current) / constant, 0.0)
+    return constant * current - loss_torque(model, speed)
 
 
 def current_at_torque(model: MotorModel, torque: float | np.ndarray):

@@ -121,25 +121,69 @@ def operating_points(model: MotorModel, torque: float | np.ndarray) -> Operating
     )
 
 
-def _refined_maxima(model: MotorModel, stall: float,
-                    values_of: tuple[Callable[[OperatingPoints], np.ndarray], ...],
-                    samples: int = 64, rounds: int = 3) -> list[float]:
+def refined_maxima(model: MotorModel, stall, values_of: tuple[Callable[[OperatingPoints], np.ndarray], ...],
+                   samples: int = 64, rounds: int = 3) -> np.ndarray:
     """Torques of the maxima of each ``values_of(points)`` by a grid search refined around the best cell.
 
-    The grids of every maximum are solved in one call of :func:`operating_points` per round (each point's
-    root does not depend on the others', so this is the same as one search after the other).
+    The grids of every maximum (and of every motor, for a model of arrays) are solved in one call of
+    :func:`operating_points` per round (each point's root does not depend on the others', so this is the
+    same as one search after the other).
+
+    Parameters
+    ----------
+    model : MotorModel
+        The motor at one case's temperatures, or many (array fields of shape (N,), tables (N, P)).
+    stall : float or ndarray
+        Stall torque [N·m], of the model's shape; where it is not positive the maxima are at 0.
+    values_of : tuple of callable
+        What to maximise, each read off the operating points (efficiency, output power, ...).
+    samples : int, optional
+        Torques of each grid [1].
+    rounds : int, optional
+        Refinements around the best cell [1].
+
+    Returns
+    -------
+    ndarray
+        Shape (len(values_of), *stall's shape): the torques of the maxima [N·m].
+
+    References
+    ----------
+    .. [1] our numerical choice: a uniform grid from no load to stall, refined ``rounds`` times to the
+       cells beside its best point (no source).
     """
+    stall = np.asarray(stall, dtype=float)
     count = len(values_of)
-    low, high = np.zeros(count), np.full(count, stall)
-    best = np.zeros(count)
+    # the motors' values along a leading axis of maxima and a trailing axis of the grid's torques
+    grid_model = model if stall.ndim == 0 else _with_grid_axis(model)
+    low, high = np.zeros((count, *stall.shape)), np.broadcast_to(stall, (count, *stall.shape))
+    best = np.zeros((count, *stall.shape))
     for _ in range(rounds + 1):
         torque = np.linspace(low, high, samples, axis=-1)
-        points = operating_points(model, torque)
-        index = np.array([int(np.argmax(values(points)[k])) for k, values in enumerate(values_of)])
-        best = torque[np.arange(count), index]
+        points = operating_points(grid_model, torque)
+        index = np.stack([np.argmax(values(points)[k], axis=-1) for k, values in enumerate(values_of)])
+        best = np.take_along_axis(torque, index[..., None], axis=-1)[..., 0]
         step = (high - low) / (samples - 1)
         low, high = np.maximum(best - step, 0.0), np.minimum(best + step, stall)
-    return [float(b) for b in best]
+    return np.where(stall > 0.0, best, 0.0)
+
+
+def _with_grid_axis(model: MotorModel) -> MotorModel:
+    """The motors of a model of arrays with a trailing axis on every array, to broadcast over a grid."""
+    def lifted(value):
+        return np.asarray(value)[..., None] if np.ndim(value) else value
+
+    iron = IronLossTerms(*(lifted(getattr(model.iron, f.name)) for f in fields(model.iron)))
+    table = model.constant_table
+    return MotorModel(voltage=lifted(model.voltage), brush_drop=lifted(model.brush_drop),
+                      resistance=lifted(model.resistance), constant=lifted(model.constant),
+                      friction_torque=lifted(model.friction_torque), viscous_coeff=lifted(model.viscous_coeff),
+                      iron=iron, constant_table=None if table is None else
+                      (np.asarray(table[0])[..., None, :], np.asarray(table[1])[..., None, :]))
+
+
+#: What the named maxima of a speed-torque curve maximise: the efficiency, then the output power.
+MAXIMA = (lambda p: p.efficiency, lambda p: p.output_power)
 
 
 def _point(points: OperatingPoints, index: int) -> OperatingPoints:
@@ -186,10 +230,7 @@ def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 20
     """
     stall = float(stall_torque(model))
     curve = operating_points(model, stall * np.linspace(0.0, 1.0, samples) ** 2)
-    if stall > 0.0:
-        eta_torque, power_torque = _refined_maxima(model, stall, (lambda p: p.efficiency, lambda p: p.output_power))
-    else:
-        eta_torque = power_torque = 0.0
+    eta_torque, power_torque = (float(t) for t in refined_maxima(model, stall, MAXIMA))
     # the named points in one call (each point's root is its own: the same as one call each)
     named = operating_points(model, np.array([0.0, stall, eta_torque, power_torque, min(rated_torque, stall)]))
     no_load = _point(named, 0)

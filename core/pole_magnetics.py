@@ -34,6 +34,7 @@ import numpy as np
 
 from .armature_mmf import enclosed_currents
 from .magnet_field_share import worst_share_field
+from .magnets import GradeLots
 from .network_elements import Element, NetworkElements, ParallelPair, TipPath, magnet_segment_mask, network_elements
 from .reluctance_network import NetworkSolution, solve_network
 from .units import MU_0
@@ -198,28 +199,28 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
     temperature, current = np.broadcast_arrays(np.atleast_1d(np.asarray(temperatures_C, dtype=float)),
                                                np.atleast_1d(np.asarray(currents, dtype=float)))
     single = design_network(design, rotor_present)
-    batch = temperature.shape[0]
-    elements = _repeat(single, batch)
+    rows = np.zeros(temperature.shape[0], dtype=np.intp)  # every entry solves the one cross-section
     enclosed: float | np.ndarray = 0.0
     if rotor_present and np.any(current != 0.0):
         g, w = design.geometry, design.winding
-        enclosed = enclosed_currents(elements, current, int(g.poles), int(g.slots), w.commutator_segments,
+        enclosed = enclosed_currents(single, current, int(g.poles), int(g.slots), w.commutator_segments,
                                      int(total_conductors(w.commutator_segments, w.turns_per_coil)),
-                                     int(parallel_paths(w.kind, g.poles, w.multiplicity)))
-    solution = solve_network(design.magnet, temperature, elements, enclosed, what)
-    return _reduce(solution, elements, temperature, current)
+                                     int(parallel_paths(w.kind, g.poles, w.multiplicity)), rows)
+    solution = solve_network(design.magnet, temperature, single, enclosed, what, rows)
+    return _reduce(solution, _entries(single, rows), temperature, current)
 
 
 def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_magnetic, temperatures_C, currents=0.0,
-                     rotor_present: bool = True, winding=None, what: str = "the magnetic circuit") -> PoleState:
-    """Solve the networks of many cross-sections of one grade and pair of steels at once, one entry each.
+                     rotor_present: bool = True, winding=None, what: str = "the magnetic circuit",
+                     rows: np.ndarray | None = None, lots: GradeLots | None = None) -> PoleState:
+    """Solve the networks of many cross-sections of one grade family and pair of steels at once.
 
     Parameters
     ----------
     geometry : Geometry
-        One cross-section per entry, fields arrays of shape (B,) [m, rad].
+        The cross-sections, fields arrays of shape (D,) [m, rad].
     grade : MagnetGrade
-        The magnet grade of every entry.
+        The magnet grade of every entry (its recoil permeability that of every lot).
     housing_steel, lamination_steel : Steel
         The steels of every entry.
     shaft_magnetic : bool or ndarray
@@ -233,6 +234,11 @@ def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_mag
         ints shared by the entries, the last two ints or arrays (B,) [1].
     what : str
         For the error message.
+    rows : ndarray of int, optional
+        Shape (B,): the cross-section each entry solves; by default entry i solves cross-section i (B = D).
+    lots : GradeLots, optional
+        Br, HcJ and the knee of each entry's magnet lot (B,), lots of ``grade``'s family; by default
+        every entry is of ``grade``.
 
     Returns
     -------
@@ -247,32 +253,37 @@ def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_mag
     """
     elements = network_elements(geometry, grade.recoil_permeability, housing_steel, lamination_steel, shaft_magnetic,
                                 rotor_present)
-    batch = elements.column_area.shape[0]
+    rows = np.arange(elements.column_area.shape[0]) if rows is None else np.asarray(rows, dtype=np.intp)
+    batch = rows.shape[0]
     temperature = np.broadcast_to(np.asarray(temperatures_C, dtype=float), (batch,))
     current = np.broadcast_to(np.asarray(currents, dtype=float), (batch,))
     enclosed: float | np.ndarray = 0.0
     if rotor_present and np.any(current != 0.0):
         poles, slots, segments, conductors, paths = winding
-        enclosed = enclosed_currents(elements, current, poles, slots, segments, conductors, paths)
-    solution = solve_network(grade, temperature, elements, enclosed, what)
-    return _reduce(solution, elements, temperature, current)
+        enclosed = enclosed_currents(elements, current, poles, slots, segments, conductors, paths, rows)
+    solution = solve_network(grade if lots is None else lots, temperature, elements, enclosed, what, rows)
+    return _reduce(solution, _entries(elements, rows), temperature, current)
 
 
-def _repeat(elements: NetworkElements, batch: int) -> NetworkElements:
-    """A batch of ``batch`` copies of a one-design network (every array's first axis repeated)."""
+def _entries(elements: NetworkElements, rows: np.ndarray) -> NetworkElements:
+    """The network of each entry, row ``rows[i]`` of ``elements`` (views, not copies, of a one-design
+    network)."""
     import dataclasses
 
-    def grow(value):
-        if isinstance(value, np.ndarray) and value.ndim >= 1 and value.shape[0] == 1:
-            return np.repeat(value, batch, axis=0)
+    single = elements.column_area.shape[0] == 1
+
+    def take(value):
+        if isinstance(value, np.ndarray) and value.ndim >= 1 and value.shape[0] == elements.column_area.shape[0] \
+                and value is not elements.magnet_mask:
+            return np.broadcast_to(value, (rows.size, *value.shape[1:])) if single else value[rows]
         if isinstance(value, (NetworkElements, ParallelPair, Element, TipPath)):
-            return type(value)(**{f.name: grow(getattr(value, f.name)) for f in dataclasses.fields(value)})
+            return type(value)(**{f.name: take(getattr(value, f.name)) for f in dataclasses.fields(value)})
         if isinstance(value, tuple):
-            return tuple(grow(v) for v in value)
+            return tuple(take(v) for v in value)
         return value
 
-    grown: NetworkElements = grow(elements)
-    return grown
+    taken: NetworkElements = take(elements)
+    return taken
 
 
 #: Currents of each case's table of flux against current, from 0 to the largest current [1].

@@ -55,7 +55,7 @@ import numpy as np
 
 from .cyclic_tridiagonal import solve_symmetric_cyclic_3x3
 from .errors import MagneticCircuitError
-from .magnets import MagnetGrade, knee_field_at, remanence_at
+from .magnets import GradeLots, MagnetGrade, knee_field_at, remanence_at
 from .network_elements import NetworkElements, TipPath
 from .units import MU_0
 
@@ -157,14 +157,16 @@ def _path_terms(path, part) -> tuple[np.ndarray, list]:
     return np.zeros(np.shape(part(path.area))), [(path.steel, part(path.path), 1.0 / part(path.area))]
 
 
-def _stack(e: NetworkElements, designs: slice, remanence, enclosed) -> _Stacked:
-    """The chunk ``designs`` of the network, stacked (see :class:`_Stacked`)."""
+def _stack(e: NetworkElements, designs: slice, remanence, enclosed, rows: np.ndarray) -> _Stacked:
+    """The chunk ``designs`` of the network, stacked (see :class:`_Stacked`); entry i of the batch takes
+    its elements from row ``rows[i]`` of ``e``."""
     segments = e.column_area.shape[-1]
-    count = len(range(*designs.indices(e.column_area.shape[0])))
+    count = len(range(*designs.indices(rows.shape[0])))
+    picks = rows[designs]
 
     def part(value) -> np.ndarray:
         array = np.asarray(value, dtype=float)
-        picked: np.ndarray = array[designs] if array.ndim == 2 else array
+        picked: np.ndarray = array[picks] if array.ndim == 2 else array
         return picked
 
     def per_segment(value) -> np.ndarray:
@@ -196,7 +198,7 @@ def _stack(e: NetworkElements, designs: slice, remanence, enclosed) -> _Stacked:
         column_area=column_area, column_height=column_height, column_slope=column_height / column_area,
         source=e.magnet_mask[:, None] * remanence[designs][None, :],
         tangential=per_segment(part(e.tangential_reluctance)), surface=per_segment(part(e.surface_reluctance)),
-        enclosed=per_segment(part(enclosed)), linear=np.array(linear),
+        enclosed=per_segment(enclosed[designs]), linear=np.array(linear),
         term_side=tuple(side for side, *_ in terms),
         term_position=position if terms else empty, term_weight=weight if terms else empty,
         term_slope=weight * position if terms else empty,
@@ -270,13 +272,17 @@ def _residual(s: _Stacked, state):
     slopes = s.linear.copy()
     if s.term_side:
         # every steel term at once, from one table: the cell, then H within it and its slope
-        flux = sides[list(s.term_side)]
-        position = np.abs(flux) * s.term_position
+        flux = np.take(sides, s.term_side, axis=0)
+        position = np.abs(flux)
+        position *= s.term_position
         cell = np.fmin(position, s.term_last).astype(np.intp)  # fmin drops a NaN: H stays NaN, the cast valid
         position -= cell
         cell[s.offset_from:] += s.term_offset[s.offset_from:]
-        rise = s.rises[cell]
-        field = np.copysign(s.nodes[cell] + position * rise, flux)
+        rise = np.take(s.rises, cell)
+        field = np.take(s.nodes, cell)
+        position *= rise
+        field += position  # H at the node plus the rise across the cell (in place: the sum of the same two)
+        np.copysign(field, flux, out=field)
         field *= s.term_weight
         rise *= s.term_slope
         for term, side in enumerate(s.term_side):
@@ -413,23 +419,27 @@ def _trial(state, steps, damping):
     return trial
 
 
-def solve_network(grade: MagnetGrade, temperature_C, elements: NetworkElements, enclosed_current=0.0,
-                  what: str = "the magnetic circuit") -> NetworkSolution:
+def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: NetworkElements, enclosed_current=0.0,
+                  what: str = "the magnetic circuit", rows: np.ndarray | None = None) -> NetworkSolution:
     """Solve the pole's network by Newton's method (see the module docstring).
 
     Parameters
     ----------
-    grade : MagnetGrade
-        The magnet grade (on its recoil line at the temperature: B = Br(T) + μ0·μrec·H).
+    grade : MagnetGrade or GradeLots
+        The magnet grade (on its recoil line at the temperature: B = Br(T) + μ0·μrec·H), or one magnet
+        lot per entry of the batch.
     temperature_C : float or ndarray
-        Magnet temperature [°C], broadcasting with the batch of ``elements``.
+        Magnet temperature [°C], broadcasting with the batch.
     elements : NetworkElements
-        The network's element values (:func:`.network_elements.network_elements`), batch shape (B,).
+        The network's element values (:func:`.network_elements.network_elements`), batch shape (D,).
     enclosed_current : float or ndarray
         Armature current enclosed by each lower loop [A], broadcasting to (B, segments)
         (:func:`.armature_mmf.enclosed_currents`); 0 at no load.
     what : str
         What is solved, for the error message.
+    rows : ndarray of int, optional
+        Shape (B,): the row of ``elements`` each entry of the batch solves (several temperatures or
+        currents of one cross-section share its row); by default entry i solves row i (B = D).
 
     Returns
     -------
@@ -448,17 +458,19 @@ def solve_network(grade: MagnetGrade, temperature_C, elements: NetworkElements, 
        Optimization and Nonlinear Equations", SIAM, 1996, §6.3 (backtracking line search).
     """
     e = elements
-    shape = e.column_area.shape
-    batch = shape[:-1]
+    rows = np.arange(e.column_area.shape[0]) if rows is None else np.asarray(rows, dtype=np.intp)
+    batch = rows.shape
+    shape = (*batch, e.column_area.shape[-1])
     temperature = np.asarray(temperature_C, dtype=float)
     remanence = np.broadcast_to(np.asarray(remanence_at(grade, temperature), dtype=float), batch)
     enclosed = np.broadcast_to(np.asarray(enclosed_current, dtype=float), shape)
-    scale = np.maximum(remanence * e.magnet_thickness / (MU_0 * grade.recoil_permeability), 1.0)
-    designs = shape[0]
+    recoil = np.asarray(grade.recoil_permeability, dtype=float)
+    scale = np.maximum(remanence * e.magnet_thickness[rows] / (MU_0 * recoil), 1.0)
+    designs = batch[0]
     chunks = []
     for start in range(0, designs, CHUNK):
         part = slice(start, min(start + CHUNK, designs))
-        chunks.append(_newton(_stack(e, part, remanence, enclosed), scale[part]))
+        chunks.append(_newton(_stack(e, part, remanence, enclosed, rows), scale[part]))
     norm = np.concatenate([norm for _, _, norm, _ in chunks])
     converged = norm <= TOLERANCE
     if not np.all(converged):
@@ -482,8 +494,8 @@ def solve_network(grade: MagnetGrade, temperature_C, elements: NetworkElements, 
 
     def magnet_field(flux):
         with np.errstate(invalid="ignore"):
-            return np.where(e.magnet_mask > 0.0, (flux / e.column_area - remanence[..., None])
-                            / (MU_0 * grade.recoil_permeability), np.nan)
+            return np.where(e.magnet_mask > 0.0, (flux / e.column_area[rows] - remanence[..., None])
+                            / (MU_0 * recoil[..., None]), np.nan)
 
     return NetworkSolution(
         housing_flux=upper_loop, gap_loop_flux=middle_loop, core_flux=lower_loop, upper_flux=upper_flux,

@@ -131,12 +131,14 @@ def field_appendix(project: Project, results: Results) -> tuple:
 
 
 def preview_pages(project: Project, results: Results, dots_per_inch: float = 96.0, issued: _dt.date | None = None,
-                  options: SheetOptions = DEFAULT_OPTIONS, project_folder: str | os.PathLike | None = None):
-    """The PDF's pages as images, for the preview."""
+                  options: SheetOptions = DEFAULT_OPTIONS, project_folder: str | os.PathLike | None = None,
+                  tolerance=None):
+    """The PDF's pages as images, for the preview (``tolerance`` as :func:`export` takes it)."""
     ensure_qt()
     from .document import PagedDatasheet
 
-    paged = PagedDatasheet(build(project, results, issued, (), options), results, logo_png(project, project_folder))
+    paged = PagedDatasheet(build(project, results, issued, (), options, tolerance), results,
+                           logo_png(project, project_folder))
     return [paged.page_image(i, dots_per_inch) for i in range(paged.page_count)]
 
 

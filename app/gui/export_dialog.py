@@ -3,6 +3,11 @@
 The preview pages are painted by the same routine as the PDF, so what is shown is what is saved.
 Saving never blocks on a message box: the outcome (the path written, or the reason it failed) is
 shown in the dialog's status line.
+
+The production spread (the min/typ/max column of the figures a customer reads, as ``datasheet
+--with-tolerance`` writes it) is offered when the dialog opens: the study already run on the
+production-spread page is taken if it is of this design and draw; otherwise ticking the box runs one
+here, with the file's motors and seed, behind a progress bar that can cancel it.
 """
 
 from __future__ import annotations
@@ -13,6 +18,8 @@ from pathlib import Path
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QPixmap
 from PySide6.QtWidgets import (
+    QApplication,
+    QCheckBox,
     QComboBox,
     QDialog,
     QFileDialog,
@@ -20,6 +27,7 @@ from PySide6.QtWidgets import (
     QHBoxLayout,
     QLabel,
     QMessageBox,
+    QProgressDialog,
     QPushButton,
     QScrollArea,
     QVBoxLayout,
@@ -58,10 +66,12 @@ def _safe_stem(text: str) -> str:
 class ExportDialog(QDialog):
     """Preview of the datasheet of one evaluated design, with a save button per format."""
 
-    def __init__(self, project, results, path_hint=None, parent: QWidget | None = None, issued: _dt.date | None = None):
+    def __init__(self, project, results, path_hint=None, parent: QWidget | None = None, issued: _dt.date | None = None,
+                 study=None):
         super().__init__(parent)
         self.project = project
         self.results = results
+        self.study = study  #: a ToleranceStudy of this design (the production-spread page's), or None
         self.issued = issued or _dt.date.today()
         self.path_hint = Path(path_hint) if path_hint else None
         self.last_saved: Path | None = None
@@ -85,6 +95,19 @@ class ExportDialog(QDialog):
         choices.addRow("Paper", self.paper)
         choices.addRow("Units", self.units)
         side.addLayout(choices)
+        self.spread = QCheckBox("Production spread column")
+        self.spread.setObjectName("export_spread")
+        self.spread.setToolTip("Add the min / typ / max column of no-load speed and current, Ke, terminal resistance "
+                               "and stall torque over the production spread (±3σ of the file's tolerances)")
+        self.spread_note = QLabel()
+        self.spread_note.setObjectName("export_spread_note")
+        self.spread_note.setWordWrap(True)
+        self.spread_note.setStyleSheet("color: #5b6470; margin-left: 22px;")
+        self._label_spread()
+        self.spread.setChecked(study is not None)
+        self.spread.toggled.connect(self._on_spread_toggled)
+        side.addWidget(self.spread)
+        side.addWidget(self.spread_note)
         self.heading = heading = QLabel()
         heading.setObjectName("export_heading")
         heading.setWordWrap(True)
@@ -128,6 +151,57 @@ class ExportDialog(QDialog):
         box.currentIndexChanged.connect(self.show_preview)
         return box
 
+    def _label_spread(self) -> None:
+        if self.study is not None:
+            self.spread_note.setText(f"min / typ / max of {self.study.samples:,} motors (seed {self.study.seed})")
+        else:
+            t = self.project.tolerances
+            self.spread_note.setText(f"no study of this design yet: ticking runs {t.samples:,} motors (seed {t.seed})")
+
+    @property
+    def tolerance(self):
+        """The study the sheet carries: the current one while the box is ticked, else None."""
+        return self.study if self.spread.isChecked() else None
+
+    def _on_spread_toggled(self, checked: bool) -> None:
+        if checked and self.study is None:
+            self.study = self.run_study()
+            self._label_spread()
+            if self.study is None:  # cancelled or refused: the box goes back, the reason in the status line
+                self.spread.blockSignals(True)
+                self.spread.setChecked(False)
+                self.spread.blockSignals(False)
+        self.show_preview()
+
+    def run_study(self):
+        """Run the project's tolerance study here, with a progress bar that can cancel it; None if it did not
+        finish (the status line says why)."""
+        from pmdc_sizer.core.errors import ProjectError
+        from pmdc_sizer.core.tolerance_study import StudyCancelled, run_study
+
+        samples = self.project.tolerances.samples
+        progress = QProgressDialog(f"Drawing and evaluating {samples:,} motors…", "Cancel", 0, samples, self)
+        progress.setObjectName("export_spread_progress")
+        progress.setWindowTitle("Production spread")
+        progress.setWindowModality(Qt.WindowModality.WindowModal)
+        progress.setMinimumDuration(0)
+
+        def report(done: int, total: int) -> bool:
+            progress.setValue(done)
+            QApplication.processEvents()
+            return not progress.wasCanceled()
+
+        try:
+            return run_study(self.project, progress=report)
+        except StudyCancelled:
+            self.status.setText("The production spread was not added: the study was cancelled.")
+        except ProjectError as error:
+            self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>No production spread.</b> '
+                                f'{error}</span>')
+        finally:
+            progress.close()
+        return None
+
     @property
     def options(self) -> SheetOptions:
         """The sheet as chosen in the dialog: edition, paper and units."""
@@ -143,7 +217,8 @@ class ExportDialog(QDialog):
         self.page_labels = []
         folder = self.path_hint.parent if self.path_hint else None
         try:
-            images = datasheet.preview_pages(self.project, self.results, PREVIEW_DPI, self.issued, options, folder)
+            images = datasheet.preview_pages(self.project, self.results, PREVIEW_DPI, self.issued, options, folder,
+                                             self.tolerance)
         except CommandError as error:  # e.g. the project's logo cannot be read: say so, keep the dialog
             images = []
             self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>No preview.</b> {error}</span>')
@@ -202,21 +277,24 @@ class ExportDialog(QDialog):
         if key in ("pdf", "html"):
             folder = self.path_hint.parent if self.path_hint else None
             datasheet.export(self.project, self.results, path, self.issued, options=self.options,
-                             project_folder=folder)
+                             project_folder=folder, tolerance=self.tolerance)
         elif key == "csv":
             write_text_atomically(path, curves_csv(self.results), verify=check_csv)
         else:
             datasheet.write_chart(self.results, key, path)
 
 
-def open_export_dialog(parent, project, results, path_hint=None):
-    """Open the export dialog for the current design (window-modal, not blocking); returns it."""
+def open_export_dialog(parent, project, results, path_hint=None, study=None):
+    """Open the export dialog for the current design (window-modal, not blocking); returns it.
+
+    ``study``: the tolerance study of this design already run (the production-spread page's), if any.
+    """
     if project is None or results is None:
         QMessageBox.information(parent, "Export datasheet",
                                 "There is nothing to export yet: the design has no results. "
                                 "Correct the inputs the checks panel names, then export again.")
         return None
-    dialog = ExportDialog(project, results, path_hint, parent)
+    dialog = ExportDialog(project, results, path_hint, parent, study=study)
     dialog.setAttribute(Qt.WidgetAttribute.WA_DeleteOnClose)
     dialog.setWindowModality(Qt.WindowModality.WindowModal)
     dialog.show()

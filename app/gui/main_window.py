@@ -18,7 +18,7 @@ Extension points (names kept stable for other modules):
     central area and returns its index.
 ``MainWindow.current_path``
     The file the design came from or was saved to, or None for an unsaved design.
-``app.gui.export_dialog.open_export_dialog(parent, project, results, path_hint)``
+``app.gui.export_dialog.open_export_dialog(parent, project, results, path_hint, study)``
     Called by File ▸ Export datasheet….
 ``app.gui.compare_view.CompareView(main_window)``
     Its widget is the "Compare designs" page.
@@ -542,7 +542,8 @@ class MainWindow(QMainWindow):
 
     def export_datasheet(self) -> None:
         self.model.flush()
-        export_dialog.open_export_dialog(self, self.current_project, self.current_results, self.current_path)
+        export_dialog.open_export_dialog(self, self.current_project, self.current_results, self.current_path,
+                                         study=self.tolerance_view.current_study())
 
     # ------------------------------------------------------------------ display units, about, closing
     def set_display_units(self, system: str) -> None:

@@ -296,6 +296,11 @@ class ToleranceView(QWidget):
         self.progress_bar.setValue(0)
         self._set_state(f"drawing and evaluating {key[1]:,} motors…", stale=self.study is not None)
 
+    def current_study(self):
+        """The study shown, if it is of the current design and draw (not stale); else None."""
+        key = self._key()
+        return self.study if key is not None and key == self._shown_key else None
+
     def cancel(self) -> None:
         """Stop the running study; nothing of it is kept."""
         if self._stop is not None:

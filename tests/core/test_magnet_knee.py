@@ -86,3 +86,33 @@ def test_a_squareness_the_recoil_line_cannot_reach_is_refused_by_key():
     with pytest.raises(GradeDataError, match=r"'Y30'.*squareness 0\.9") as caught:
         knee_shape(grade)
     assert caught.value.key == "squareness"
+
+
+def test_many_lots_fitted_at_once_have_the_knee_each_has_alone():
+    # knee_shapes scans the widths of every lot in one root finding; the bracket it picks, and so the fit,
+    # must be the one knee_shape picks lot by lot
+    from pmdc_sizer.core.magnet_knee import knee_shapes
+    from pmdc_sizer.core.tolerances import lot_grade
+
+    rng = np.random.default_rng(7)
+    for name in ("Y30BH", "Y40", "N35"):
+        if name not in GRADES:
+            continue
+        lots = lot_grade(GRADES[name], rng.uniform(0.96, 1.04, 40), rng.uniform(0.9, 1.1, 40))
+        knee_shape.cache_clear()
+        together = knee_shapes(lots)
+        knee_shape.cache_clear()
+        assert together == [knee_shape(lot) for lot in lots], name
+    assert any(shape.through_hcb for shape in together)  # the two-point fit was exercised
+
+
+def test_lots_as_arrays_give_each_lot_its_knee_and_coercivity():
+    from pmdc_sizer.core.tolerances import lot_grade
+
+    lots = lot_grade(GRADES["Y30BH"], np.array([0.97, 1.0, 1.03]), np.array([1.05, 1.0, 0.93]))
+    arrays = mg.grade_lots(lots)
+    temperatures = np.array([-20.0, 23.0, 95.0])
+    assert_allclose(mg.knee_field_at(arrays, temperatures),
+                    [float(mg.knee_field_at(lot, t)) for lot, t in zip(lots, temperatures, strict=True)], rtol=1e-15)
+    assert_allclose(mg.intrinsic_coercivity_at(arrays.at(np.array([2, 2])), 60.0),
+                    float(mg.intrinsic_coercivity_at(lots[2], 60.0)), rtol=1e-15)

@@ -9,6 +9,7 @@ import pytest
 
 from pmdc_sizer.app.gui import export_dialog
 from pmdc_sizer.core import project as project_file
+from pmdc_sizer.core import with_values
 from pmdc_sizer.core.evaluate import evaluate
 
 
@@ -138,3 +139,57 @@ def test_dialog_letter_paper_and_us_units(dialog, monkeypatch, tmp_path):
     dialog.buttons["pdf"].click()
     text = _pdf_text(tmp_path / "us.pdf")
     assert "oz·in" in text and "°F" in text
+
+
+SPREAD_CAPTION = "Production spread: min and max are the"  #: the tolerance table's caption on the sheet
+FEW_MOTORS = 120  #: enough for the drivers' ranking (core.tolerance_study.MIN_MOTORS_RANKED), quick to run
+
+
+def _few_motors(design):
+    return with_values(design, {"tolerances.samples": FEW_MOTORS})
+
+
+def _saved_html(dialog, monkeypatch, path) -> str:
+    _answer_save_dialog(monkeypatch, path)
+    dialog.buttons["html"].click()
+    return path.read_text(encoding="utf-8")
+
+
+def test_the_study_of_the_spread_page_goes_on_the_sheet(qtbot, ferrite_demo, monkeypatch, tmp_path):
+    from pmdc_sizer.core.tolerance_study import run_study
+
+    design = _few_motors(project_file.load(ferrite_demo))
+    study = run_study(design)
+    window = export_dialog.ExportDialog(design, evaluate(design), ferrite_demo, issued=dt.date(2026, 3, 14),
+                                        study=study)
+    qtbot.addWidget(window)
+    assert window.spread.isChecked() and f"{FEW_MOTORS} motors" in window.spread_note.text()
+    assert window.tolerance is study
+    assert SPREAD_CAPTION in _saved_html(window, monkeypatch, tmp_path / "with.html")
+    window.spread.setChecked(False)  # the engineer may leave it off
+    assert window.tolerance is None
+    assert SPREAD_CAPTION not in _saved_html(window, monkeypatch, tmp_path / "without.html")
+
+
+def test_without_a_study_ticking_the_box_runs_one(qtbot, ferrite_demo, monkeypatch, tmp_path):
+    design = _few_motors(project_file.load(ferrite_demo))
+    window = export_dialog.ExportDialog(design, evaluate(design), ferrite_demo, issued=dt.date(2026, 3, 14))
+    qtbot.addWidget(window)
+    assert not window.spread.isChecked() and "ticking runs" in window.spread_note.text()
+    assert SPREAD_CAPTION not in _saved_html(window, monkeypatch, tmp_path / "before.html")
+    pages = len(window.page_labels)
+    window.spread.setChecked(True)
+    assert window.study is not None and window.study.samples == FEW_MOTORS
+    assert window.study.seed == design.tolerances.seed
+    assert len(window.page_labels) >= pages  # the preview was laid out again, with the section
+    assert SPREAD_CAPTION in _saved_html(window, monkeypatch, tmp_path / "after.html")
+
+
+def test_a_cancelled_study_leaves_the_box_unticked(qtbot, ferrite_demo, monkeypatch):
+    design = _few_motors(project_file.load(ferrite_demo))
+    window = export_dialog.ExportDialog(design, evaluate(design), ferrite_demo, issued=dt.date(2026, 3, 14))
+    qtbot.addWidget(window)
+    monkeypatch.setattr(export_dialog.QProgressDialog, "wasCanceled", lambda self: True)
+    window.spread.setChecked(True)
+    assert not window.spread.isChecked() and window.study is None and window.tolerance is None
+    assert "cancelled" in window.status.text()

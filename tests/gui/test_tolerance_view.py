@@ -58,12 +58,15 @@ def test_an_edit_marks_the_figures_stale_until_the_study_runs_again(page, qtbot)
     window, view = page
     _run(qtbot, view)
     shown = view.study
+    assert view.current_study() is shown  # what the export dialog is handed
     # the page is not the one on screen, so nothing runs by itself: the state must say what is shown
     with qtbot.waitSignal(window.results_ready, timeout=10000):
         window.model.propose("airgap.length_mm", 0.5, final=True)
     assert view.study is shown and "earlier design" in view.state_label.text()
+    assert view.current_study() is None  # a stale study never reaches a datasheet
     _run(qtbot, view)
     assert view.study is not shown and view.state_label.text() == "up to date"
+    assert view.current_study() is view.study
 
 
 def test_cancel_stops_the_study_and_keeps_nothing(page, qtbot):
