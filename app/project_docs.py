@@ -8,6 +8,7 @@ from __future__ import annotations
 import sys
 
 from pmdc_sizer.core.project import FORMAT_VERSION, key_specs
+from pmdc_sizer.core.schema import MAX_FURTHER_POINTS
 
 _INTRO = f"""# The project file (format version {FORMAT_VERSION})
 
@@ -25,7 +26,8 @@ Rules:
   at least as long as the stack (overhang not negative), housing at least as long as the magnet, core
   of at least 1 mm under the slots, teeth narrower than the slot pitch at the slot bottom, slot opening
   narrower than the slot, commutator segments a whole multiple of the slots, wave windings only where
-  segments ± multiplicity divide by the pole pairs, housing within `max_outer_diameter_mm` if given,
+  segments ± multiplicity divide by the pole pairs, housing within `max_outer_diameter_mm` and its tube
+  within `max_length_mm` if given,
   `ambient_min_C ≤ ambient_nominal_C ≤ ambient_max_C`, and exactly one of `magnets.grade` and
   `[magnets.custom_grade]`.
 * `format_version` newer than this program reads is refused with a message to update.
@@ -61,6 +63,8 @@ def project_file_markdown() -> str:
             allowed = f"{_cell(spec.minimum)} to {_cell(spec.maximum)}"
         elif spec.kind == "str":
             allowed = "text"
+        elif spec.kind == "points":
+            allowed = f"1 to {MAX_FURTHER_POINTS} points, each within the [load] limits"
         else:
             allowed = spec.kind
         if spec.optional and spec.default is None:

@@ -45,6 +45,8 @@ def _plain(value):
 
 def _rename(name: str, value):
     if name.endswith(_SPEED_SUFFIX):
+        if isinstance(value, tuple):  # one speed per further load point
+            return name[: -len(_SPEED_SUFFIX)] + "_rpm", tuple(from_si(v, "rpm") for v in value)
         return name[: -len(_SPEED_SUFFIX)] + "_rpm", from_si(value, "rpm")
     if name == "speed_torque_gradient_rad_per_s_per_N_m":
         return "speed_torque_gradient_rpm_per_N_m", from_si(value, "rpm")

@@ -53,7 +53,7 @@ _DEMAGNETIZATION_KEYS = (*(f"{kind}_{label}" for label in ("cold", "hot")
 _FAULT_KEYS = ("stall_cold", "reversal_cold", "stall_hot", "reversal_hot")
 #: Every check a design can carry (a check a design does not carry, e.g. the envelope without a limit,
 #: counts as passed).
-CHECK_KEYS = ("load", "start", "demagnetization", "fault_demagnetization", "housing_flux_density",
+CHECK_KEYS = ("load", "load_points", "start", "demagnetization", "fault_demagnetization", "housing_flux_density",
               "tooth_flux_density", "core_flux_density", "slot_fill", "current_density", "brush_current_density",
               "commutator_speed", "reactance_voltage", "thermal", "magnet_temperature", "envelope")
 
@@ -194,6 +194,7 @@ def screening_figures(results: Results) -> dict[str, float]:
             "ratings.stall_time_cold_s": _optional(g.stall_time_cold_s),
             "ratings.stall_time_hot_s": _optional(g.stall_time_hot_s),
         })
+    out["load_points.least_speed_share"] = _least_speed_share(results)
     ms = r.mass
     out.update({f"mass.{f.name}": getattr(ms, f.name) for f in dataclasses.fields(ms)})
     out["mass.active_kg"] = ms.magnet_kg + ms.copper_kg + ms.housing_kg + ms.lamination_kg
@@ -208,6 +209,14 @@ def screening_figures(results: Results) -> dict[str, float]:
             "commutation.reactance_voltage_V": cm.reactance_voltage_V,
         })
     return {name: float(value) for name, value in out.items()}
+
+
+def _least_speed_share(results: Results) -> float:
+    """The least share of a further point's required speed reached over the cases (NaN without points)."""
+    required = results.further_point_required_speeds_rad_per_s
+    shares = [(speed / need if np.isfinite(speed) else 0.0) for case in results.cases
+              for speed, need in zip(case.further_point_speeds_rad_per_s, required, strict=True) if need > 0]
+    return min(shares) if shares else float("nan")
 
 
 def check_status(results: Results) -> dict[str, int]:
@@ -826,7 +835,35 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
         "magnet_temperature": graded(hot_state.magnet_C > per(lambda d: d.magnet.max_working_temperature_C), no),
         "envelope": graded(no, no),
     }
+    status["load_points"], out["load_points.least_speed_share"] = _further_points(designs, models, points_of)
     return out, status
+
+
+# ----------------------------------------------------------------------------------------------
+# load.further_points: each point at every case, one point at a time over the designs (core.load_points).
+
+
+def _further_points(designs, models, points_of) -> tuple[np.ndarray, np.ndarray]:
+    """The further points' status codes (fail where a point is missed in a case) and the least share of a
+    point's required speed reached (NaN without points; 0 where a torque is beyond stall)."""
+    from .load_points import point_speeds, points_met
+
+    n = len(designs)
+    met = np.ones(n, dtype=bool)
+    least = np.full(n, np.nan)
+    for j in range(max((len(d.load_points) for d in designs), default=0)):
+        has = np.array([len(d.load_points) > j for d in designs])
+        torque = np.array([d.load_points[j][0] if len(d.load_points) > j else 0.0 for d in designs])
+        required = np.array([d.load_points[j][1] if len(d.load_points) > j else 0.0 for d in designs])
+        for name in _CASE_NAMES:
+            speed = point_speeds(models[name], points_of[name][1], torque)
+            met &= ~has | points_met(speed, required)
+            with np.errstate(invalid="ignore", divide="ignore"):
+                share = np.where(np.isfinite(speed), speed / np.where(required > 0, required, np.inf), 0.0)
+            share = np.where(required > 0, share, np.inf)
+            least = np.where(has, np.fmin(least, share), least)
+    least = np.where(np.isinf(least), np.nan, least)
+    return np.where(met, PASS_CODE, FAIL_CODE).astype(np.int8), least
 
 
 def _array(value: Any) -> Any:

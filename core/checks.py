@@ -9,7 +9,10 @@ import math
 from dataclasses import replace
 from typing import TYPE_CHECKING
 
+import numpy as np
+
 from .demagnetization import advice_for
+from .load_points import points_met
 from .results import Check, CommutationResult, FaultsResult, QuotedValue, Results
 from .units import from_si
 
@@ -177,6 +180,31 @@ def _fault_check(faults: FaultsResult, share: float) -> Check:
                  "higher HcJ, or thicken the magnet")
 
 
+def _further_points_check(d: Design, r: Results) -> Check:
+    """``load.further_points``: each point reached at its speed in every temperature case."""
+    title = "Further load points"
+    missed = []  # (share of the required speed reached, point, case name, speed or NaN)
+    for index, (_, required) in enumerate(d.load_points):
+        for case in r.cases:
+            speed = case.further_point_speeds_rad_per_s[index]
+            if not points_met(np.array([speed]), required)[0]:
+                reached = speed / required if np.isfinite(speed) and required > 0 else 0.0
+                missed.append((reached, index, case.name, speed))
+    points = len(d.load_points)
+    if not missed:
+        return Check("load_points", title, PASS, f"all {points} further load points are reached at their speed in "
+                                                 "every case.")
+    _, index, case_name, speed = min(missed)
+    torque, required = d.load_points[index]
+    where = (f"point {index + 1} (⟦0⟧ at {_figures(from_si(required, 'rpm'), 4)} rpm): "
+             + (f"the stall torque is lower in the {case_name} case" if not np.isfinite(speed) else
+                f"{_figures(from_si(speed, 'rpm'), 4)} rpm in the {case_name} case"))
+    count = len({i for _, i, _, _ in missed})
+    return _check("load_points", title, FAIL, f"{count} of {points} further load points missed; worst {where}.",
+                  (_quote(torque, "mN·m"),),
+                  "raise the flux or lower Ke and R as for the rated load, or relax the point")
+
+
 def run_checks(design: Design, results: Results) -> list[Check]:
     """What passes, what warns and what fails in a design's results, each with its reason and advice.
 
@@ -230,6 +258,8 @@ def run_checks(design: Design, results: Results) -> list[Check]:
         out.append(_check("load", "Rated load", PASS,
                           f"⟦0⟧ at {_figures(rpm(slowest.rated.speed_rad_per_s))} rpm or more in every case "
                           f"(required {_figures(required)} rpm).", (rated,)))
+    if d.load_points:
+        out.append(_further_points_check(d, r))
     if any(c.stall_torque_N_m <= 0.0 for c in r.cases):
         out.append(Check("start", "Starting", FAIL,
                          "friction and drag exceed the stall torque: the motor cannot start.",
@@ -311,9 +341,16 @@ def run_checks(design: Design, results: Results) -> list[Check]:
                           "the magnets reach ⟦0⟧ (limit ⟦1⟧).", magnets))
 
     # Envelope.
-    envelope = r.geometry.max_outer_diameter_m
-    if envelope is not None:
-        out.append(_check("envelope", "Envelope", PASS, "housing ⟦0⟧ across, within ⟦1⟧.",
-                          (_quote(r.geometry.housing_outer_diameter_m, "mm", spec=".1f"),
-                           _quote(envelope, "mm", spec="g"))))
+    # (a design outside its envelope is refused by the fit rules, core.fit_rules.check_fit)
+    envelope, longest = r.geometry.max_outer_diameter_m, r.geometry.max_length_m
+    across = (_quote(r.geometry.housing_outer_diameter_m, "mm", spec=".1f"),
+              _quote(envelope or 0.0, "mm", spec="g"))
+    along = (_quote(r.geometry.overall_length_m, "mm", spec=".1f"), _quote(longest or 0.0, "mm", spec="g"))
+    if envelope is not None and longest is not None:
+        out.append(_check("envelope", "Envelope", PASS, "housing ⟦0⟧ across, within ⟦1⟧; body ⟦2⟧ long, within ⟦3⟧.",
+                          (*across, *along)))
+    elif envelope is not None:
+        out.append(_check("envelope", "Envelope", PASS, "housing ⟦0⟧ across, within ⟦1⟧.", across))
+    elif longest is not None:
+        out.append(_check("envelope", "Envelope", PASS, "body ⟦0⟧ long, within ⟦1⟧.", along))
     return out

@@ -114,9 +114,12 @@ class Design:
     magnetization: str = "radial"  #: "radial" or "parallel", for the field solution
     shaft_magnetic: bool = True  #: a steel shaft (housing steel's B(H)) or a non-magnetic one
     max_outer_diameter: float | None = None  #: envelope limit on the housing diameter [m]
+    max_length: float | None = None  #: envelope limit on the overall length (the housing tube) [m]
     brushes: BrushData = BrushData()  #: brushes and commutator
     fault_cases: str = "must survive if reversing"  #: whether the direct-supply faults must pass
     required_margin_share: float = 0.05  #: least margin to the knee, a share of HcJ at the case's temperature [1]
+    #: further (torque [N·m], speed [rad/s]) points the motor must reach at every temperature
+    load_points: tuple[tuple[float, float], ...] = ()
 
     @property
     def name(self) -> str:
@@ -275,11 +278,14 @@ def design_from_project(project: Project) -> Design:
         ),
         fault_cases=p.supply.fault_cases,
         required_margin_share=to_si(p.magnets.required_margin_pct_of_HcJ, "%"),
+        load_points=tuple((to_si(point.torque_mNm, "mN·m"), to_si(point.speed_rpm, "rpm"))
+                          for point in p.load.further_points or ()),
         extra_inertia=to_si(p.rotor.extra_inertia_gcm2, "g·cm2"),
         magnetization=p.magnets.magnetization,
         shaft_magnetic=p.armature.shaft_magnetic,
         max_outer_diameter=(None if p.housing.max_outer_diameter_mm is None
                             else to_si(p.housing.max_outer_diameter_mm, "mm")),
+        max_length=None if p.housing.max_length_mm is None else to_si(p.housing.max_length_mm, "mm"),
         prices=Prices(
             currency=p.prices.currency,
             magnet=magnet_price,  # the project's, else the grade's (core.magnet_grades.magnet_price_per_kg)

@@ -38,6 +38,7 @@ from .commutation import commutation_result
 from .demagnetization import TemperatureCase, demagnetization_cases
 from .design import Design, design_from_project
 from .envelope import operating_envelope
+from .load_points import point_speeds
 from .loadings import armature_loadings
 from .magnets import (
     MagnetGrade,
@@ -194,6 +195,11 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
 
     cases = {name: replace(case, envelope=operating_envelope(models[name], case, d.current_limit))
              for name, case in cases.items()}
+    if d.load_points:
+        torques = np.array([torque for torque, _ in d.load_points])
+        cases = {name: replace(case, further_point_speeds_rad_per_s=tuple(
+            float(v) for v in point_speeds(models[name], case.stall_torque_N_m, torques)))
+            for name, case in cases.items()}
 
     # 9. Demagnetization at the coldest and hottest case, then with the rotor removed.
     case_index = {"cold": 0, "hot": 2}
@@ -228,8 +234,10 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
     results = Results(
         name=d.name, supply_voltage_V=d.supply_voltage, brush_drop_V=d.brush_drop,
         load_torque_N_m=d.load_torque, load_speed_rad_per_s=d.load_speed,
+        further_point_torques_N_m=tuple(t for t, _ in d.load_points),
+        further_point_required_speeds_rad_per_s=tuple(w for _, w in d.load_points),
         magnet=_magnet_result(grade, d.ambient_nominal_C),
-        geometry=geometry_result(g, d.max_outer_diameter),
+        geometry=geometry_result(g, d.max_outer_diameter, d.max_length),
         magnetics=_magnetics_result(table.states, table.currents.shape[1], d.ambient_nominal_C),
         winding=winding_result(d, paths, conductors, turn_length, wire_length, float(resistance_at(20.0)),
                                 cases["hot"].rated.current_A),

@@ -125,6 +125,12 @@ def check_fit(project: Project) -> None:
             fail("housing.max_outer_diameter_mm",
                  f"the housing comes out at {outer:.4g} mm across (armature + 2 × (gap + magnet + wall)), over the "
                  f"envelope of {h.max_outer_diameter_mm:g} mm")
+    if h.max_length_mm is not None:
+        length = _mm(g.overall_length)
+        if length > h.max_length_mm + 1e-9:
+            fail("housing.max_length_mm",
+                 f"the motor body comes out at {length:.4g} mm long (the housing tube, end caps inside), over the "
+                 f"envelope of {h.max_length_mm:g} mm")
 
 
 #: Each dimensional tolerance of ``[tolerances]`` → the key it spreads and whether its ± is a share (%) of it.
@@ -148,6 +154,7 @@ def _spread_corner(data: dict, changes: dict[str, float]) -> None:
     # the envelope is a requirement a spread may miss (the study counts it against the yield), not a part
     # that cannot be made
     corner["housing"].pop("max_outer_diameter_mm", None)
+    corner["housing"].pop("max_length_mm", None)
     check_fit(Project.model_validate(corner))
 
 

@@ -62,6 +62,15 @@ class Geometry:
         return self.housing_inner_radius + self.housing_wall
 
     @property
+    def overall_length(self):
+        """Overall length of the motor body [m]: the housing tube's length.
+
+        The end caps sit inside the tube's ends (as :mod:`core.mass` draws them), so the body runs from
+        end cap to end cap over the tube; the shaft's run-out beyond the drive end is not counted.
+        """
+        return self.housing_length
+
+    @property
     def slot_bottom_radius(self):
         """Radius of the slot bottoms, armature radius less slot depth [m]."""
         return self.armature_radius - self.slot_depth

@@ -29,7 +29,7 @@ class KeySpec:
     maximum: Any  #: inclusive upper limit in ``unit``, or None
     default: Any  #: in ``unit``; None for a required key or an optional key left out
     description: str  #: one sentence
-    kind: str  #: "float", "int", "str", "choice" or "bool"
+    kind: str  #: "float", "int", "str", "choice", "bool" or "points" (a list of torque-speed tables)
     choices: tuple[Any, ...] = ()  #: the allowed values of a "choice"
     optional: bool = False  #: the value may be absent (None): the tool then does what the description says
     required_in_file: bool = True  #: a file that leaves the key out is refused
@@ -50,6 +50,8 @@ def _spec_of(path: str, info) -> KeySpec:
     extra = info.json_schema_extra or {}
     if typing.get_origin(annotation) is Literal:
         kind, choices = "choice", typing.get_args(annotation)
+    elif typing.get_origin(annotation) is tuple:  # a list of tables, e.g. load.further_points
+        kind, choices = "points", ()
     else:
         kind, choices = {float: "float", int: "int", str: "str", bool: "bool"}[annotation], ()
     default = None if info.is_required() else info.default

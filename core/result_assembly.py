@@ -12,8 +12,8 @@ from .results import GeometryResult, MassResult, WindingResult
 from .winding import coil_span_slots, conductors_per_slot, current_density, slot_fill
 
 
-def geometry_result(g: Geometry, max_outer_diameter: float | None) -> GeometryResult:
-    """The cross-section as evaluated [m, rad], derived dimensions included; the envelope limit [m] echoed."""
+def geometry_result(g: Geometry, max_outer_diameter: float | None, max_length: float | None = None) -> GeometryResult:
+    """The cross-section as evaluated [m, rad], derived dimensions included; the envelope limits [m] echoed."""
     return GeometryResult(
         poles=int(g.poles), slots=int(g.slots),
         housing_outer_diameter_m=2.0 * float(g.housing_outer_radius),
@@ -26,6 +26,7 @@ def geometry_result(g: Geometry, max_outer_diameter: float | None) -> GeometryRe
         armature_diameter_m=2.0 * float(g.armature_radius), stack_length_m=float(g.stack_length),
         shaft_diameter_m=2.0 * float(g.shaft_radius), slot_pitch_m=float(g.slot_pitch),
         core_depth_m=float(g.core_depth), max_outer_diameter_m=max_outer_diameter,
+        overall_length_m=float(g.overall_length), max_length_m=max_length,
     )
 
 

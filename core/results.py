@@ -158,6 +158,9 @@ class CaseResult:
     #: or when the limit is above the stall current (the curve beyond it is not reachable with that drive)
     current_limit_torque_N_m: float | None = None
     envelope: EnvelopeResult | None = None  #: what this case reaches inside the drive's current limit
+    #: the steady speed at each of load.further_points' torques, in their order; NaN where the torque is at
+    #: or beyond stall [rad/s]; empty without further points
+    further_point_speeds_rad_per_s: tuple[float, ...] = ()
     flux_per_pole_stall_Wb: float = 0.0  #: under the stall current (the armature's reaction lowers it) [Wb]
     ke_stall_V_s_per_rad: float = 0.0  #: K·Φ at the stall current [V·s/rad]
     #: the flux per pole against armature current that the curve uses (interpolated linearly in I²):
@@ -387,6 +390,8 @@ class GeometryResult:
     slot_pitch_m: float  #: at the armature surface [m]
     core_depth_m: float  #: armature back iron, slot bottom to shaft [m]
     max_outer_diameter_m: float | None = None  #: the envelope limit, if the project sets one [m]
+    overall_length_m: float = 0.0  #: the motor body, the housing tube with the end caps inside it [m]
+    max_length_m: float | None = None  #: the envelope limit on the overall length, if the project sets one [m]
 
 
 @dataclass(frozen=True)
@@ -504,6 +509,10 @@ class Results:
     ambient_min_C: float = 20.0  #: coldest ambient [°C]
     ambient_nominal_C: float = 20.0  #: nominal ambient [°C]
     ambient_max_C: float = 20.0  #: hottest ambient [°C]
+    #: load.further_points: the torques [N·m] and the speeds required at them [rad/s], in order (the speeds
+    #: reached are in each case)
+    further_point_torques_N_m: tuple[float, ...] = ()
+    further_point_required_speeds_rad_per_s: tuple[float, ...] = ()
     ratings: RatingsResult | None = None  #: continuous rating and permitted stall times
     commutation: CommutationResult | None = None  #: brush current density, surface speed, reactance voltage
     faults: FaultsResult | None = None  #: demagnetization with the supply applied directly, no limiter

@@ -136,12 +136,35 @@ class Supply(_Section):
         "no limiter): a failing fault case fails the design, or is only reported with a warning.")
 
 
+class LoadPoint(_Section):
+    """One further torque-speed point the motor must reach, an entry of ``load.further_points``."""
+
+    torque_mNm: float = quantity(..., "mN·m", 0.0, 1.0e5, "Shaft torque of the point.")
+    speed_rpm: float = quantity(..., "rpm", 0.0, 60000.0,
+                                "Lowest acceptable speed at that torque, at every temperature.")
+
+
+#: At most this many further load points (a duty's few corners, not a curve).
+MAX_FURTHER_POINTS = 20
+
+
 class Load(_Section):
-    """``[load]``: the rated point the motor must meet."""
+    """``[load]``: the rated point the motor must meet, and any further points."""
 
     torque_mNm: float = quantity(50.0, "mN·m", 0.0, 1.0e5, "Shaft torque at the rated point.")
     speed_rpm: float = quantity(3000.0, "rpm", 0.0, 60000.0,
                                 "Lowest acceptable speed at the rated torque, at every temperature.")
+    further_points: tuple[LoadPoint, ...] | None = Field(
+        None, min_length=1, max_length=MAX_FURTHER_POINTS,
+        description="Further torque-speed points the motor must also reach at every temperature, each "
+                    "{ torque_mNm = …, speed_rpm = … } (e.g. a start-up torque at a low speed); leave out for none.",
+        json_schema_extra={"unit": "mN·m, rpm"})
+
+    @field_validator("further_points", mode="before")
+    @classmethod
+    def _toml_array_as_tuple(cls, value):
+        # TOML gives an array as a list; the frozen project holds a tuple
+        return tuple(value) if isinstance(value, list) else value
 
 
 class Temperatures(_Section):
@@ -220,6 +243,10 @@ class Housing(_Section):
     steel: str = Field("low-carbon steel 1010", min_length=1, description="Housing steel from the library.")
     max_outer_diameter_mm: float | None = quantity(
         None, "mm", 5.0, 500.0, "Envelope limit on the housing diameter, if there is one.")
+    max_length_mm: float | None = quantity(
+        None, "mm", 5.0, 1000.0,
+        "Envelope limit on the overall length of the motor body, if there is one: the housing tube's length, "
+        "end cap to end cap (the end caps sit inside the tube), without the shaft's run-out at the drive end.")
 
 
 class Airgap(_Section):
@@ -454,7 +481,7 @@ SECTIONS = tuple(name for name in Project.model_fields if name != "format_versio
 MAY_BE_LEFT_OUT = frozenset({
     "project.description", "project.revision", "project.notes",
     "project.part_number", "project.customer", "project.drawn_by", "project.logo",
-    "supply.reversing", "winding.multiplicity", "winding.end_turn_factor",
+    "supply.reversing", "load.further_points", "winding.multiplicity", "winding.end_turn_factor",
     "losses.iron_loss_build_factor", "thermal.duty_minutes", "rotor.extra_inertia_gcm2",
     "magnets.magnetization", "armature.shaft_magnetic",
     "supply.fault_cases", "magnets.required_margin_pct_of_HcJ", "thermal.cycle_duration_factor_pct",

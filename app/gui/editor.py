@@ -80,6 +80,7 @@ _LABELS = {
     "housing.length_mm": "Housing length",
     "housing.steel": "Housing steel",
     "housing.max_outer_diameter_mm": "Envelope diameter",
+    "housing.max_length_mm": "Envelope length",
     "armature.outer_diameter_mm": "Armature diameter",
     "armature.steel": "Lamination steel",
     "winding.type": "Winding type",
