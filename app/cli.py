@@ -23,7 +23,7 @@ from pmdc_sizer.core.keys import one_line
 from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
 from pmdc_sizer.core.project import ProjectError
 
-from . import cli_compare, cli_datasheet, cli_field, cli_tolerance
+from . import cli_compare, cli_datasheet, cli_field, cli_size, cli_tolerance
 from .cli_inputs import add_set_option, evaluate_project, load_project
 from .crash import report_line
 from .errors import EXIT_BAD_INPUT, EXIT_INTERNAL, EXIT_NO_SOLUTION, CommandError
@@ -191,6 +191,7 @@ def build_parser() -> argparse.ArgumentParser:
     cli_compare.register(sub)
     cli_datasheet.register(sub)
     cli_field.register(sub)
+    cli_size.register(sub)
     cli_tolerance.register(sub)
     return parser
 

@@ -389,6 +389,20 @@ TOLERANCE_FIGURES: dict[str, str] = {
 }
 DATASHEET_TOLERANCE_FIGURES = tuple(TOLERANCE_FIGURES)[:5]
 
+#: The screening figures (core.batch names) a sizing result's table shows for each design: how each is
+#: shown (the :data:`FIGURES` entry of the same quantity; the active mass, which only the batch chain
+#: names, its own), and the short heading of its column in the terminal's table.
+SIZING_FIGURES: dict[str, tuple[Figure, str]] = {
+    "mass.active_kg": (_f("Active mass (magnets, copper, steels)", "g"), "mass"),
+    "cost.total": (FIGURES["cost.total"], "cost"),
+    "envelope.outer_diameter_m": (FIGURES["geometry.housing_outer_diameter_m"], "outer dia."),
+    "nominal.no_load_speed_rad_per_s": (FIGURES["case.no_load_speed_rad_per_s"], "no-load"),
+    "hot.rated_speed_rad_per_s": (FIGURES["case.rated.speed_rad_per_s"], "rated hot"),
+    "hot.rated_efficiency": (FIGURES["case.rated.efficiency"], "eff. hot"),
+    "thermal.winding_temperature_C": (FIGURES["thermal.winding_temperature_C"], "winding"),
+    "worst_demagnetization_margin_A_per_m": (FIGURES["demagnetization.worst_margin_A_per_m"], "knee margin"),
+}
+
 # ----------------------------------------------------------------------------------------------
 # Named points and lines on the charts
 

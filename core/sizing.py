@@ -58,7 +58,7 @@ from .fit_rules import check_fit
 from .schema import Project
 from .sizing_objectives import OBJECTIVES, derived_figures, non_dominated, objective_matrix, validate_objectives
 from .sizing_shortfall import Shortfall, explain
-from .sizing_space import FreeRange, file_value, from_unit, sample_unit, values_at
+from .sizing_space import FreeRange, SizingSpec, file_value, from_unit, sample_unit, values_at
 
 #: The keys :func:`core.design.geometry_of` reads: a candidate that differs from another only in these
 #: shares its materials, winding and every other input of :class:`core.design.Design` (a test checks
@@ -81,18 +81,6 @@ KEY_FIGURES = ("nominal.no_load_speed_rad_per_s", "nominal.stall_torque_N_m", "c
 _CASES = ("cold", "nominal", "hot")
 #: The constraint value of a candidate whose parts do not fit or whose chain has no solution.
 _UNUSABLE = 1.0e3
-
-
-@dataclass(frozen=True)
-class SizingSpec:
-    """What a search frees, what it optimises and how hard it looks."""
-
-    free: tuple[FreeRange, ...]  #: the free variables (grades and steels as choices too)
-    objectives: tuple[str, ...] = ("mass",)  #: names of :data:`core.sizing_objectives.OBJECTIVES`
-    candidates: int = 20_000  #: the space-filling sample [1]
-    seed: int = 1  #: the same seed gives the same designs
-    generations: int = 30  #: NSGA-II generations of the refinement [1]; 0 skips it
-    population: int = 200  #: NSGA-II population [1]
 
 
 @dataclass(frozen=True)

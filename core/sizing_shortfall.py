@@ -1,89 +1,459 @@
-"""Why a sizing search found no design: the requirement the closest designs miss, and by how much.
+"""Why a sizing search found no feasible design, in words, with a relaxation that was evaluated.
 
-TEMPORARY COPY written in the sizing core's worktree so that :func:`core.sizing.size` runs end to end;
-the CLI helper owns this module (with the evaluated relaxations: a supply or an envelope that would
-make the closest design pass) and the merge takes theirs.
+When no candidate of a search passes every check, :func:`explain` picks the *closest* candidate (the
+fewest failed checks; among those, the smallest miss of the rated load), evaluates it in full to say
+which checks it fails and by how much, names the free variables it presses against the end of their
+ranges (the limits that bind), and then re-evaluates that same design with the requirement relaxed (a
+higher supply voltage, a lower rated torque) through the batch chain (:func:`core.sweep.figure_sweep`)
+to report the least relaxation found, in the grid tried, at which it passes every check. Nothing in the
+sentence is estimated: every number is one the chain computed.
 
 References
 ----------
-.. [1] the checks of :mod:`core.checks`, as :mod:`core.batch` codes them.
+.. [1] the checks of :func:`core.checks.run_checks` and the screening figures of :mod:`core.batch`.
 """
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any
 
 import numpy as np
 
-from .batch import CHECK_KEYS, FAIL_CODE, BatchFigures
+from .batch import CHECK_KEYS, FAIL_CODE, BatchFigures, evaluate_many
+from .design import design_from_project
+from .edits import with_values
+from .errors import ProjectError
+from .evaluate import evaluate
+from .keys import key_spec
 from .schema import Project
+from .sizing_space import FreeRange, SizingSpec
+from .units import to_si
 
 _CASES = ("cold", "nominal", "hot")
+#: The supply voltages tried, as multiples of the file's (the first that passes is reported).
+VOLTAGE_STEPS = tuple(1.0 + 0.025 * i for i in range(1, 41))  # +2.5 % ... +100 %
+#: The rated torques tried, as fractions of the file's.
+TORQUE_STEPS = tuple(1.0 - 0.025 * i for i in range(1, 37))  # -2.5 % ... -90 %
+#: The step of the hottest ambient tried [K], down to the nominal ambient.
+AMBIENT_STEP_K = 2.5
+#: A free variable within this share of its range's width from an end "presses against" that end.
+BOUND_SHARE = 0.03
+#: How many of the nearest candidates (and of those nearest the rated load) are re-evaluated relaxed.
+RELAXED_DESIGNS = 3
 
 
 @dataclass(frozen=True)
 class Shortfall:
-    """One requirement no screened design met: what, in words, and how far the closest design misses."""
+    """One requirement the closest design of a search misses."""
 
-    requirement: str  #: check key ("load", "demagnetization", ...) or "fit" / "solution"
+    requirement: str  #: the check's key ("load", "demagnetization", "thermal", ...) or "fit"
     text: str  #: the sentence, with numbers and units
-    closest_share: float  #: how far the closest design misses, as a share (0.04 = 4 %); NaN if not measured
+    closest_share: float  #: how far the closest design misses it (0.04 = 4 %); NaN where no measure
 
 
-def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarray],
-            spec: Any) -> tuple[tuple[Shortfall, ...], str]:
-    """The requirements no screened design met, closest first, and a paragraph saying so.
+def load_shortfall_share(figures: Mapping[str, np.ndarray], torque_N_m: float, speed_rad_per_s: float) -> np.ndarray:
+    """How far each design falls short of the rated load, as a share of the requirement.
 
     Parameters
     ----------
-    project : Project
-        The requirement (the design the search started from).
-    batch : BatchFigures
-        The screened candidates' figures.
-    values : mapping of str to ndarray
-        Free key to the candidates' values (file units).
-    spec : SizingSpec
-        The search.
+    figures : mapping of str to ndarray
+        Screening figures (:func:`core.batch.evaluate_many`), shape (n,) each.
+    torque_N_m : float
+        The rated load torque [N·m].
+    speed_rad_per_s : float
+        The speed required at that torque [rad/s].
 
     Returns
     -------
-    tuple
-        The shortfalls and the paragraph in words.
+    ndarray
+        Shape (n,): 0 where every temperature case meets the load; else the worst case's missing share of
+        the speed, ``1 - speed / required``, or, where the rated torque is beyond stall in some case, one
+        plus the missing share of the stall torque (so a motor that cannot reach the torque at all ranks
+        behind one that is only slow) [1]. NaN where the chain failed.
+
+    References
+    ----------
+    .. [1] the rated-load check of :func:`core.checks.run_checks` (every case must turn the rated torque at
+       the required speed or faster).
+    """
+    speed = np.stack([np.asarray(figures[f"{case}.rated_speed_rad_per_s"], dtype=float) for case in _CASES])
+    stall = np.stack([np.asarray(figures[f"{case}.stall_torque_N_m"], dtype=float) for case in _CASES])
+    slow = np.max(np.clip(1.0 - speed / speed_rad_per_s, 0.0, None), axis=0) if speed_rad_per_s > 0 else \
+        np.zeros(speed.shape[1])
+    weak = np.max(np.clip(1.0 - stall / torque_N_m, 0.0, None), axis=0) if torque_N_m > 0 else \
+        np.zeros(stall.shape[1])
+    beyond_stall = np.any(stall <= torque_N_m, axis=0)
+    share = np.where(beyond_stall, 1.0 + weak, slow)
+    solved = np.all(np.isfinite(stall), axis=0)
+    return np.where(solved, np.nan_to_num(share, nan=1.0), np.nan)
+
+
+def closest_candidates(batch: BatchFigures, load_share: np.ndarray) -> np.ndarray:
+    """The candidates from nearest to passing to farthest: fewest failed checks, then the smallest load miss.
+
+    Parameters
+    ----------
+    batch : BatchFigures
+        The candidates' figures and check codes.
+    load_share : ndarray
+        :func:`load_shortfall_share` of the candidates.
+
+    Returns
+    -------
+    ndarray of int
+        The solved candidates' indices, nearest first; empty when none solved.
 
     References
     ----------
     .. [1] module docstring.
     """
-    if batch.size == 0:
-        text = ("none of the sampled designs fits together (every candidate broke a fit rule of the file); "
-                "widen the ranges")
-        return (Shortfall("fit", text, float("nan")),), text[0].upper() + text[1:] + "."
-    solved = ~batch.failed
-    failing = {key: (batch.status[key] == FAIL_CODE) & solved for key in CHECK_KEYS}
-    shortfalls = []
-    required = project.load.speed_rpm
-    speeds = np.min(np.stack([batch.figures[f"{c}.rated_speed_rad_per_s"] for c in _CASES]), axis=0) * 30 / np.pi
-    for key in sorted(CHECK_KEYS, key=lambda k: -int(failing[k].sum())):
-        count = int(failing[key].sum())
-        if count == 0:
+    if batch.size == 0 or bool(np.all(batch.failed)):
+        return np.zeros(0, dtype=int)
+    fails = sum((batch.status[key] == FAIL_CODE).astype(int) for key in CHECK_KEYS if key in batch.status)
+    fails = np.where(batch.failed, len(CHECK_KEYS) + 1, fails)
+    order = np.lexsort((np.nan_to_num(load_share, nan=np.inf), fails))
+    solved: np.ndarray = order[~batch.failed[order]]
+    return solved
+
+
+def _value_text(key: str, value: object) -> str:
+    unit = key_spec(key).unit
+    if isinstance(value, str):
+        return f"{key} = {value}"
+    return f"{key} = {value:.4g}" + (f" {unit}" if unit and unit != "1" else "")
+
+
+def _pressed_end(variable: FreeRange, value: object) -> float | None:
+    """-1 or +1 when a numeric value lies within ``BOUND_SHARE`` of its range's low or high end, else None."""
+    if variable.choices or variable.low is None or variable.high is None or variable.high <= variable.low:
+        return None
+    width = variable.high - variable.low
+    if float(value) <= variable.low + BOUND_SHARE * width:  # type: ignore[arg-type]
+        return -1.0
+    if float(value) >= variable.high - BOUND_SHARE * width:  # type: ignore[arg-type]
+        return 1.0
+    return None
+
+
+def binding_ranges(free: Sequence[FreeRange], values: Mapping[str, object]) -> list[str]:
+    """The free variables a design presses against the end of their ranges, in words.
+
+    Parameters
+    ----------
+    free : sequence of FreeRange
+        The search's free variables (numeric ranges; choices are skipped).
+    values : mapping of str to object
+        The design's values in the keys' file units.
+
+    Returns
+    -------
+    list of str
+        E.g. ``"winding.turns_per_coil at the low end of its range (10)"``.
+
+    References
+    ----------
+    .. [1] module docstring (``BOUND_SHARE`` of the range's width).
+    """
+    out = []
+    for variable in free:
+        pressed = _pressed_end(variable, values[variable.key])
+        if pressed is not None:
+            out.append(f"{variable.key} at the {'low' if pressed < 0 else 'high'} end of its range "
+                       f"({variable.low if pressed < 0 else variable.high:g})")
+    return out
+
+
+def _first_passing(designs: Sequence[Project], key: str,
+                   values: Sequence[float] | Sequence[str]) -> tuple[float | str | None, int, str]:
+    """The first value of ``key`` (in order) at which one of ``designs`` passes every check, which one, and,
+    when none does, what still fails for the first design at the last value."""
+    spec = key_spec(key)
+    low = -np.inf if spec.minimum is None else spec.minimum
+    high = np.inf if spec.maximum is None else spec.maximum
+    accepted: list[float | str] = [v if isinstance(v, str) else round(v, 6) for v in values
+                                   if isinstance(v, str) or low <= v <= high]
+    if not accepted:
+        return None, -1, ""
+    built, owners = [], []
+    for value in accepted:
+        for index, project in enumerate(designs):
+            try:
+                built.append(design_from_project(with_values(project, {key: value})))
+            except ProjectError:
+                continue
+            owners.append((value, index))
+    if not built:
+        return None, -1, ""
+    batch = evaluate_many(built)
+    passing = np.flatnonzero(batch.passes_all)
+    if passing.size:
+        value, index = owners[int(passing[0])]
+        return value, index, ""
+    last = max(i for i, (_, owner) in enumerate(owners) if owner == owners[0][1])
+    still = [k for k in CHECK_KEYS if k in batch.status and int(batch.status[k][last]) == FAIL_CODE]
+    return None, -1, ", ".join(k.replace("_", " ") for k in still) if still else "the chain"
+
+
+#: The envelope keys: a design refused by one of them is tried again without it, to say what it would need.
+ENVELOPE_KEYS = ("housing.max_outer_diameter_mm", "housing.max_length_mm")
+#: Steps beyond a range's end tried for a binding free variable, as shares of the range's width.
+EXTENSION_STEPS = (0.1, 0.2, 0.35, 0.5)
+
+
+def range_extensions(project: Project, free: Sequence[FreeRange], values: Mapping[str, object]) -> list[str]:
+    """Whether the design passes once a range it presses against is widened, found by re-evaluating it.
+
+    For each numeric free variable at the end of its range (:func:`binding_ranges`), the design is built
+    with the value stepped beyond that end (``EXTENSION_STEPS`` of the range's width, whole numbers for
+    counts, within the schema's limits) and evaluated through :func:`core.batch.evaluate_many`. A value the
+    envelope refuses (a fit rule on ``ENVELOPE_KEYS``) is tried without that limit, and the sentence says
+    what envelope it would need.
+
+    Parameters
+    ----------
+    project : Project
+        The design (the closest candidate), with the search's requirement.
+    free : sequence of FreeRange
+        The search's free variables.
+    values : mapping of str to object
+        The design's free values, in file units.
+
+    Returns
+    -------
+    list of str
+        E.g. ``"with magnets.thickness_mm = 9.6 mm (beyond the range's 9) it passes every check"``.
+
+    References
+    ----------
+    .. [1] module docstring; :func:`core.fit_rules.check_fit` (the envelope rule).
+    """
+    out = []
+    for variable in free:
+        sign = _pressed_end(variable, values[variable.key])
+        if sign is None or variable.low is None or variable.high is None:
             continue
-        share = float("nan")
-        missing = failing[key]
-        if key == "load" and np.isfinite(speeds[missing]).any():
-            best = float(np.nanmax(speeds[missing]))
-            share = max(0.0, 1.0 - best / required) if required > 0 else float("nan")
-            text = (f"{count} of {int(solved.sum())} solved designs miss the rated load "
-                    f"({project.load.torque_mNm:g} mN·m at {required:g} rpm at every temperature); the fastest "
-                    f"of them reaches {best:.4g} rpm ({share:.1%} slow)")
+        end, width = (variable.low if sign < 0 else variable.high), variable.high - variable.low
+        spec = key_spec(variable.key)
+        tried: list[float | int] = []
+        for step in EXTENSION_STEPS:
+            beyond = end + sign * step * width
+            candidate: float | int = max(round(beyond), 0) if variable.integer else round(beyond, 6)
+            inside = ((spec.minimum is None or candidate >= spec.minimum)
+                      and (spec.maximum is None or candidate <= spec.maximum))
+            if inside and candidate != end and candidate not in tried:
+                tried.append(candidate)
+        built, labels = [], []
+        for candidate in tried:
+            changes: dict[str, object] = {variable.key: candidate}
+            try:
+                built.append(design_from_project(with_values(project, changes)))
+                labels.append((candidate, ""))
+            except ProjectError as error:
+                if error.key not in ENVELOPE_KEYS:
+                    continue
+                try:
+                    built.append(design_from_project(with_values(project, {**changes, error.key: None})))
+                except ProjectError:
+                    continue
+                labels.append((candidate, error.key))
+        if not built:
+            continue
+        batch = evaluate_many(built)
+        passing = np.flatnonzero(batch.passes_all)
+        if not passing.size:
+            continue
+        candidate, envelope = labels[int(passing[0])]
+        shown = _value_text(variable.key, candidate)
+        sentence = f"with {shown} (beyond the range's {end:g}) it passes every check"
+        if envelope:
+            design = built[int(passing[0])]
+            needed = (2.0 * float(design.geometry.housing_outer_radius) if envelope.endswith("diameter_mm")
+                      else float(design.geometry.housing_length))
+            limit = project.housing.max_outer_diameter_mm if envelope.endswith("diameter_mm") else \
+                getattr(project.housing, "max_length_mm", None)
+            sentence += (f", but only with the envelope {envelope} widened to {1e3 * needed:.1f} mm "
+                         f"(it is {limit:g} mm)")
+        out.append(sentence)
+    return out
+
+
+def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
+                names: Sequence[str] | None = None) -> list[str]:
+    """Relaxed requirements at which one of the given designs passes every check, found by re-evaluating them.
+
+    Tries a higher supply voltage (``VOLTAGE_STEPS`` of the file's), a lower rated torque and, when the
+    load fails, a lower required speed (``TORQUE_STEPS`` of the file's); when the winding or the magnets
+    run too hot, a cooler hottest ambient (``AMBIENT_STEP_K`` steps down to the nominal) and each higher
+    insulation class (IEC 60085); every design at every step in one
+    batch of :func:`core.batch.evaluate_many`; reports the least relaxation of each kind that makes one of
+    them pass, or, when none in the grid does, the checks still failing for the first design at the end of
+    the grid.
+
+    Parameters
+    ----------
+    designs : sequence of Project
+        The designs (the closest candidates of a search, closest first), with the search's requirement.
+    failed_checks : sequence of str
+        The check keys the closest design fails (the voltage and the speed are tried when the load or the
+        start fails; the torque always).
+    names : sequence of str, optional
+        How to name each design in the sentence ("the closest design", ...).
+
+    Returns
+    -------
+    list of str
+        Sentences, e.g. ``"with a 13.8 V supply (instead of 12 V) the closest design passes every check"``.
+
+    References
+    ----------
+    .. [1] :func:`core.batch.evaluate_many` (the same chain and checks as :func:`core.evaluate.evaluate`).
+    """
+    if not designs:
+        return []
+    names = list(names) if names is not None else [f"design {i + 1}" for i in range(len(designs))]
+    first = designs[0]
+    load_fails = bool({"load", "start"} & set(failed_checks))
+    out = []
+    if load_fails:
+        volts = float(first.supply.voltage_V)
+        found, who, still = _first_passing(designs, "supply.voltage_V", [volts * s for s in VOLTAGE_STEPS])
+        if found is not None:
+            out.append(f"with a {found:.3g} V supply (instead of {volts:g} V) {names[who]} passes every check")
+        elif still:
+            out.append(f"a supply of up to {volts * VOLTAGE_STEPS[-1]:.3g} V makes none of them pass "
+                       f"({still} still failing for the closest)")
+    torque = float(first.load.torque_mNm)
+    speed = float(first.load.speed_rpm)
+    found, who, still = _first_passing(designs, "load.torque_mNm", [torque * s for s in TORQUE_STEPS])
+    if found is not None:
+        out.append(f"at a rated torque of {found:.3g} mN·m (instead of {torque:g} mN·m) at {speed:g} rpm "
+                   f"{names[who]} passes every check")
+    elif still:
+        out.append(f"a rated torque as low as {torque * TORQUE_STEPS[-1]:.3g} mN·m makes none of them pass "
+                   f"({still} still failing for the closest)")
+    if load_fails:
+        found, who, _ = _first_passing(designs, "load.speed_rpm", [speed * s for s in TORQUE_STEPS])
+        if found is not None:
+            out.append(f"at a required speed of {found:.4g} rpm (instead of {speed:g} rpm) {names[who]} passes "
+                       "every check")
+    if {"thermal", "magnet_temperature"} & set(failed_checks):
+        hottest = float(first.temperatures.ambient_max_C)
+        nominal = float(first.temperatures.ambient_nominal_C)
+        cooler = [hottest - AMBIENT_STEP_K * i for i in range(1, 41) if hottest - AMBIENT_STEP_K * i >= nominal]
+        found, who, _ = _first_passing(designs, "temperatures.ambient_max_C", cooler)
+        if found is not None:
+            out.append(f"up to {found:g} °C ambient (instead of {hottest:g} °C) {names[who]} passes every check")
+        classes = key_spec("winding.insulation_class").choices
+        current = first.winding.insulation_class
+        higher = list(classes[classes.index(current) + 1:]) if current in classes else []
+        found, who, _ = _first_passing(designs, "winding.insulation_class", higher)
+        if found is not None:
+            out.append(f"with insulation class {found} (instead of {current}) {names[who]} passes every check")
+    return out
+
+
+def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarray],
+            spec: SizingSpec) -> tuple[tuple[Shortfall, ...], str]:
+    """Why none of a search's candidates is feasible: the closest design's misses and an evaluated relaxation.
+
+    Parameters
+    ----------
+    project : Project
+        The requirement and the fixed parts (the file the search started from, with any ``--set``).
+    batch : BatchFigures
+        :func:`core.batch.evaluate_many` over the candidates screened (all, or the closest few hundred).
+    values : mapping of str to ndarray
+        Free key to the candidates' values, in file units, in the order of ``batch``.
+    spec : SizingSpec
+        The search (its ``free`` ranges are read).
+
+    Returns
+    -------
+    shortfalls : tuple of Shortfall
+        One per check the closest design fails (its message, with numbers and units, and its share of
+        miss where there is a measure); a single ``"fit"`` shortfall when no candidate could be built.
+    explanation : str
+        The paragraph in words: how many candidates fail which requirement, the closest design and what
+        it misses, the limits that bind, and the relaxations evaluated.
+
+    References
+    ----------
+    .. [1] module docstring; :func:`core.checks.run_checks` for the checks' messages.
+    """
+    n = batch.size
+    if n == 0 or bool(np.all(batch.failed)):
+        reason = next((m for m in batch.failure_messages if m), "") if n else ""
+        text = (f"None of the {n} candidates could be evaluated" if n else "No candidate could be built")
+        text += (f" ({reason})." if reason else ": no combination of the free ranges fits the fixed parts and the "
+                 "envelope (the fit rules refuse every one). Widen the ranges or the envelope.")
+        return (Shortfall("fit", text, float("nan")),), text
+
+    torque = to_si(float(project.load.torque_mNm), "mN·m")
+    speed = to_si(float(project.load.speed_rpm), "rpm")
+    load_share = load_shortfall_share(batch.figures, torque, speed)
+    order = closest_candidates(batch, load_share)
+    index = int(order[0])
+    # The designs re-evaluated with relaxed requirements: the nearest few, and the few nearest the load alone.
+    by_load = np.argsort(np.nan_to_num(load_share, nan=np.inf), kind="stable")[:RELAXED_DESIGNS]
+    tried = list(dict.fromkeys([*order[:RELAXED_DESIGNS].tolist(), *by_load.tolist()]))
+
+    def values_of(i: int) -> dict[str, float | int | str]:
+        return {v.key: _file_value(v, values[v.key][i]) for v in spec.free}
+
+    design_values = values_of(index)
+    closest = with_values(project, design_values)
+
+    counts = {key: int(np.sum(batch.status[key] == FAIL_CODE)) for key in CHECK_KEYS if key in batch.status}
+    solved = int(np.sum(~batch.failed))
+    failing = sorted(((c, k) for k, c in counts.items() if c), reverse=True)
+    results = evaluate(closest)
+    titles = {c.key: c.title for c in results.checks}
+    missed = [c for c in results.checks if c.status == "fail"]
+
+    shortfalls = []
+    for check in missed:
+        share = float(load_share[index]) if check.key == "load" else float("nan")
+        if check.key == "load" and share <= 1.0:
+            tail = f" (the closest design is {100 * share:.1f} % slow)"
+        elif check.key == "load":
+            tail = f" (the closest design's stall torque is {100 * (share - 1.0):.1f} % short)"
         else:
-            text = f"{count} of {int(solved.sum())} solved designs fail the {key.replace('_', ' ')} check"
-        shortfalls.append(Shortfall(key, text, share))
-    if not solved.any():
-        shortfalls.append(Shortfall("solution", "no screened design's magnetic circuit could be solved", float("nan")))
-    paragraph = "No design passes every check. " + "; ".join(s.text for s in shortfalls) + "."
-    return tuple(shortfalls), paragraph
+            tail = ""
+        message = check.message.rstrip(".")
+        shortfalls.append(Shortfall(check.key, f"{check.title}: {message}{tail}.", share))
+
+    never = [k for k, c in counts.items() if c == solved]
+    parts = [f"None of the {n} candidates examined passes every check ({solved} solved)."]
+    if failing:
+        parts.append("Failed: " + "; ".join(f"{titles.get(k, k).lower()} by {c}" for c, k in failing) + ".")
+    if never:
+        parts.append("No candidate meets " + ", ".join(titles.get(k, k).lower() for k in never)
+                     + (" at all." if len(never) > 1 else " at any point of the free ranges."))
+    shown = ", ".join(_value_text(k, v) for k, v in design_values.items())
+    parts.append(f"The closest design ({shown}) fails: " + " ".join(s.text for s in shortfalls))
+    bound = binding_ranges(spec.free, design_values)
+    if bound:
+        parts.append("It presses against " + "; ".join(bound) + ", so that range binds.")
+        widened = range_extensions(closest, spec.free, design_values)
+        if widened:
+            parts.append("Re-evaluated with the range widened: " + "; ".join(widened) + ".")
+    names = ["the closest design", *(f"the design with {', '.join(_value_text(k, v) for k, v in values_of(i).items())}"
+                                     for i in tried[1:])]
+    relaxed = relaxations([closest, *(with_values(project, values_of(i)) for i in tried[1:])],
+                          [c.key for c in missed], names)
+    if relaxed:
+        parts.append("Re-evaluated with the requirement relaxed: " + "; ".join(relaxed) + ".")
+    else:
+        parts.append("No supply voltage, rated torque or rated speed tried makes it pass.")
+    return tuple(shortfalls), " ".join(parts)
 
 
-__all__ = ["Shortfall", "explain"]
+def _file_value(variable: FreeRange, value: object) -> float | int | str:
+    if variable.choices:
+        return int(str(value)) if variable.integer else str(value)
+    return int(value) if variable.integer else float(value)  # type: ignore[call-overload, arg-type]
+
+
+__all__ = ["Shortfall", "binding_ranges", "closest_candidates", "explain", "load_shortfall_share", "range_extensions",
+           "relaxations"]

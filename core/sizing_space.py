@@ -423,5 +423,18 @@ def values_at(free: Sequence[FreeRange], values: Mapping[str, np.ndarray], index
     return {v.key: file_value(v, values[v.key][index]) for v in free}
 
 
-__all__ = ["CHOICE_KEYS", "FreeKey", "FreeRange", "file_value", "free_keys", "from_unit", "grade_choices",
+@dataclass(frozen=True)
+class SizingSpec:
+    """What a search frees, what it optimises and how hard it looks."""
+
+    free: tuple[FreeRange, ...]  #: the free variables (grades and steels as choices too)
+    objectives: tuple[str, ...] = ("mass",)  #: names of :data:`core.sizing_objectives.OBJECTIVES`
+    candidates: int = 20_000  #: the space-filling sample [1]
+    seed: int = 1  #: the same seed gives the same designs
+    generations: int = 30  #: NSGA-II generations of the refinement [1]; 0 skips it
+    population: int = 200  #: NSGA-II population [1]
+
+
+
+__all__ = ["CHOICE_KEYS", "FreeKey", "FreeRange", "SizingSpec", "file_value", "free_keys", "from_unit", "grade_choices",
            "parse_free", "sample_unit", "steel_choices", "values_at"]
