@@ -80,6 +80,7 @@ COMPLETE_MODULES = (
     "pmdc_sizer.core.load_points",
     "pmdc_sizer.core.sizing",
     "pmdc_sizer.core.sizing_objectives",
+    "pmdc_sizer.core.sizing_field_check",
     "pmdc_sizer.core.sizing_shortfall",
     "pmdc_sizer.core.sizing_space",
     "pmdc_sizer.core.sweep",
@@ -88,6 +89,14 @@ COMPLETE_MODULES = (
     "pmdc_sizer.core.thermal_network",
     "pmdc_sizer.core.thermal_ratings",
     "pmdc_sizer.core.units",
+    "pmdc_sizer.core.tolerances",
+    "pmdc_sizer.core.tolerance_study",
+    "pmdc_sizer.core.migrations",
+    "pmdc_sizer.core.magnet_knee",
+    "pmdc_sizer.core.magnet_grade_check",
+    "pmdc_sizer.core.magnet_field_share",
+    "pmdc_sizer.core.envelope",
+    "pmdc_sizer.core.atomic_files",
     "pmdc_sizer.core.winding",
 )
 
