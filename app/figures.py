@@ -389,18 +389,34 @@ TOLERANCE_FIGURES: dict[str, str] = {
 }
 DATASHEET_TOLERANCE_FIGURES = tuple(TOLERANCE_FIGURES)[:5]
 
-#: The screening figures (core.batch names) a sizing result's table shows for each design: how each is
-#: shown (the :data:`FIGURES` entry of the same quantity; the active mass, which only the batch chain
-#: names, its own), and the short heading of its column in the terminal's table.
-SIZING_FIGURES: dict[str, tuple[Figure, str]] = {
-    "mass.active_kg": (_f("Active mass (magnets, copper, steels)", "g"), "mass"),
-    "cost.total": (FIGURES["cost.total"], "cost"),
-    "envelope.outer_diameter_m": (FIGURES["geometry.housing_outer_diameter_m"], "outer dia."),
-    "nominal.no_load_speed_rad_per_s": (FIGURES["case.no_load_speed_rad_per_s"], "no-load"),
-    "hot.rated_speed_rad_per_s": (FIGURES["case.rated.speed_rad_per_s"], "rated hot"),
-    "hot.rated_efficiency": (FIGURES["case.rated.efficiency"], "eff. hot"),
-    "thermal.winding_temperature_C": (FIGURES["thermal.winding_temperature_C"], "winding"),
-    "worst_demagnetization_margin_A_per_m": (FIGURES["demagnetization.worst_margin_A_per_m"], "knee margin"),
+#: The figures a sizing search keeps of every feasible design, by the names ``core.sizing`` gives them
+#: (``core.batch`` names, and the few it derives: the worst case's efficiency, the envelope), as the sizing
+#: page plots, colours and lists them: each objective's figure and the key figures.
+SIZING_FIGURES: dict[str, Figure] = {
+    "mass.active_kg": _f("Active mass: magnets, copper, steel", "g"),
+    "mass.magnet_kg": FIGURES["mass.magnet_kg"],
+    "mass.copper_kg": FIGURES["mass.copper_kg"],
+    "cost.total": FIGURES["cost.total"],
+    "worst.rated_efficiency": _f("Efficiency at rated torque, worst case", "%"),
+    "nominal.rated_efficiency": _f("Efficiency at rated torque, nominal", "%"),
+    "envelope.outer_diameter_m": FIGURES["geometry.housing_outer_diameter_m"],
+    "envelope.overall_length_m": _f("Overall length", "mm"),
+    "worst_demagnetization_margin_A_per_m": FIGURES["demagnetization.worst_margin_A_per_m"],
+    "hot.rated_copper_loss_W": _f("Copper loss at rated torque, hot", "W"),
+    "nominal.no_load_speed_rad_per_s": _f("No-load speed, nominal", "rpm"),
+    "nominal.stall_torque_N_m": _f("Stall torque, nominal, no current limit", "mN·m"),
+    "constants.ke_V_s_per_rad": FIGURES["constants.ke_V_s_per_rad"],
+    "hot.rated_speed_rad_per_s": FIGURES["case.rated.speed_rad_per_s"],
+    "hot.rated_efficiency": FIGURES["case.rated.efficiency"],
+    "thermal.winding_temperature_C": FIGURES["thermal.winding_temperature_C"],
+}
+
+#: The :data:`SIZING_FIGURES` the terminal's table of returned designs shows, with their short column headings.
+SIZING_COLUMN_HEADINGS: dict[str, str] = {
+    "mass.active_kg": "mass", "cost.total": "cost", "envelope.outer_diameter_m": "outer dia.",
+    "nominal.no_load_speed_rad_per_s": "no-load", "hot.rated_speed_rad_per_s": "rated hot",
+    "hot.rated_efficiency": "eff. hot", "thermal.winding_temperature_C": "winding",
+    "worst_demagnetization_margin_A_per_m": "knee margin",
 }
 
 # ----------------------------------------------------------------------------------------------
@@ -504,7 +520,21 @@ POINTS: dict[str, PointStyle] = {
     "magnet_mean": PointStyle("mean over the magnet", "circle", None, filled=False, size=0.8, short="mean"),
     # the duty chart: where a duty with no steady state takes the winding to its class limit
     "class_limit_reached": PointStyle("winding reaches its class limit", "diamond", FAIL_COLOUR, size=1.3),
+    # the sizing page: every feasible design (coloured by the chosen figure), the trade-off front over
+    # them, the best design for each objective alone, and the one picked to open
+    "sizing_feasible": PointStyle("feasible design", "circle", None, size=0.55, short="feasible"),
+    "sizing_front": PointStyle("on the trade-off front (no other feasible design is better in every objective)",
+                               "circle", REQUIRED_COLOUR, filled=False, size=1.2, short="front"),
+    "sizing_best": PointStyle("best for one objective alone", "diamond", REQUIRED_COLOUR, filled=False, size=1.8,
+                              short="best for one objective"),
+    "sizing_picked": PointStyle("design picked", "plus", FAIL_COLOUR, size=1.8, short="picked"),
 }
+#: The sizing page's colour scale for the third figure, low to high: a dark blue through teal to straw,
+#: light enough at the top that the front's dark rings stay visible and ordered in grey print too.
+SIZING_COLOUR_STOPS: tuple[tuple[float, str], ...] = (
+    (0.0, "#27306b"), (0.3, "#2c6f9e"), (0.6, "#3fa39a"), (0.82, "#a3c96b"), (1.0, "#f0d66a"),
+)
+SIZING_PLAIN_COLOUR = "#7b8490"  #: feasible designs when no figure is chosen for the colour
 
 @dataclass(frozen=True)
 class RegionStyle:

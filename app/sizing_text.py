@@ -1,7 +1,8 @@
 """A sizing result in words and tables: the terminal's table, the JSON, and the header of a written design.
 
-Titles and units come from :mod:`app.figures` (:data:`~app.figures.SIZING_FIGURES`); the free variables
-are shown in their file units (:func:`core.keys.key_spec`).
+Titles and units come from :mod:`app.figures` (:data:`~app.figures.SIZING_FIGURES`, the columns from
+:data:`~app.figures.SIZING_COLUMN_HEADINGS`); the free variables are shown in their file units
+(:func:`core.keys.key_spec`).
 """
 
 from __future__ import annotations
@@ -15,7 +16,7 @@ from typing import Any
 from pmdc_sizer.core.keys import key_spec
 from pmdc_sizer.core.sizing_objectives import OBJECTIVES
 
-from .figures import SIZING_FIGURES
+from .figures import SIZING_COLUMN_HEADINGS, SIZING_FIGURES
 from .formatting import significant
 
 
@@ -50,13 +51,13 @@ def _column_label(key: str) -> str:
 
 
 def _figure_label(name: str, currency: str) -> str:
-    shown = SIZING_FIGURES[name][0]
+    shown, heading = SIZING_FIGURES[name], SIZING_COLUMN_HEADINGS[name]
     unit = currency if shown.unit == "currency" else shown.unit
-    return f"{SIZING_FIGURES[name][1]} [{unit}]" if unit != "1" else SIZING_FIGURES[name][1]
+    return f"{heading} [{unit}]" if unit != "1" else heading
 
 
 def _figure_text(name: str, value: float) -> str:
-    shown = SIZING_FIGURES[name][0]
+    shown = SIZING_FIGURES[name]
     if shown.unit == "currency":
         return significant(value, shown.digits) if math.isfinite(value) else "–"
     return shown.number(value)
@@ -65,7 +66,7 @@ def _figure_text(name: str, value: float) -> str:
 def figure_legend(currency: str) -> str:
     """What each figure column of :func:`designs_table` is, in the words of :data:`app.figures.FIGURES`."""
     return "; ".join(f"{_figure_label(name, currency)}: {shown.title}" + (", hot" if name.startswith("hot.") else "")
-                     for name, (shown, _short) in SIZING_FIGURES.items())
+                     for name, shown in ((n, SIZING_FIGURES[n]) for n in SIZING_COLUMN_HEADINGS))
 
 
 def designs_table(result, currency: str) -> str:
@@ -84,7 +85,7 @@ def designs_table(result, currency: str) -> str:
         Lines of text, a header row first; columns in file and display units.
     """
     keys = [v.key for v in result.spec.free]
-    names = [name for name in SIZING_FIGURES if any(name in d.figures for d in result.designs)]
+    names = [name for name in SIZING_COLUMN_HEADINGS if any(name in d.figures for d in result.designs)]
     header = ["#", *(_column_label(k) for k in keys), *(_figure_label(n, currency) for n in names), "front",
               "best for"]
     rows = []

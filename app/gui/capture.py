@@ -2,7 +2,9 @@
 
 ``pmdc-sizer gui FILE --screenshot OUT.png --page NAME --size WxH`` calls :func:`capture_page`. The
 field-solution page solves its case first (the picture is the point of that page) and waits for the
-``solved`` or ``solve_failed`` signal; the tolerance page runs its study first in the same way.
+``solved`` or ``solve_failed`` signal; the tolerance page runs its study first in the same way, and the
+sizing page a small search (:data:`SCREENSHOT_CANDIDATES` candidates, a short refinement, its first
+free keys and objectives).
 """
 
 from __future__ import annotations
@@ -17,70 +19,61 @@ from pmdc_sizer.core.errors import ProjectError
 from .pages import PAGE_TITLES
 
 FIELD_SOLVE_TIMEOUT_MS = 600_000  #: a fine mesh of a large design on a slow machine
+SCREENSHOT_CANDIDATES = 2_000  #: enough feasible designs to show the front, quick on a shared machine
+SCREENSHOT_GENERATIONS = 10  #: a short refinement towards the front
 
 
 def show_page(window, name: str) -> None:
     """Bring the page with short name ``name`` to the front."""
     title = PAGE_TITLES[name]
-    for index in range(window.pages.count()):
-        if window.pages.tabText(index) == title:
-            window.pages.setCurrentIndex(index)
-            return
-    raise ProjectError(f"--page {name}: the window has no page {title!r}")
+    if not window.show_page(title):
+        raise ProjectError(f"--page {name}: the window has no page {title!r}")
 
 
 def solve_field(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
     """Solve the field page's case and wait for it; returns "" or why it gave nothing."""
     view = window.field_view
+    return _run_and_wait(view.solved, view.solve_failed, view.solve, timeout_ms, "the field solution")
+
+
+def _run_and_wait(finished_signal, failed_signal, start, timeout_ms: int, what: str) -> str:
+    """Call ``start()`` and wait for ``finished_signal`` or ``failed_signal``; returns "" or why nothing came."""
     loop = QEventLoop()
     outcome: list[str] = []
 
-    def solved(_solution) -> None:
+    def finished(_result) -> None:
         outcome.append("")
         loop.quit()
 
     def failed(message: str) -> None:
-        outcome.append(message or "the field solution failed")
+        outcome.append(message or f"{what} failed")
         loop.quit()
 
-    view.solved.connect(solved)
-    view.solve_failed.connect(failed)
+    finished_signal.connect(finished)
+    failed_signal.connect(failed)
     try:
-        view.solve()
+        start()
         QTimer.singleShot(timeout_ms, loop.quit)
         if not outcome:
             loop.exec()
     finally:
-        view.solved.disconnect(solved)
-        view.solve_failed.disconnect(failed)
-    return outcome[0] if outcome else f"the field solution took longer than {timeout_ms / 1000:.0f} s"
+        finished_signal.disconnect(finished)
+        failed_signal.disconnect(failed)
+    return outcome[0] if outcome else f"{what} took longer than {timeout_ms / 1000:.0f} s"
 
 
 def run_tolerance_study(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
     """Run the tolerance page's study (the file's motors and seed) and wait; returns "" or why it gave nothing."""
     view = window.tolerance_view
-    loop = QEventLoop()
-    outcome: list[str] = []
+    return _run_and_wait(view.finished, view.failed, view.run, timeout_ms, "the tolerance study")
 
-    def finished(_study) -> None:
-        outcome.append("")
-        loop.quit()
 
-    def failed(message: str) -> None:
-        outcome.append(message or "the tolerance study failed")
-        loop.quit()
-
-    view.finished.connect(finished)
-    view.failed.connect(failed)
-    try:
-        view.run()
-        QTimer.singleShot(timeout_ms, loop.quit)
-        if not outcome:
-            loop.exec()
-    finally:
-        view.finished.disconnect(finished)
-        view.failed.disconnect(failed)
-    return outcome[0] if outcome else f"the tolerance study took longer than {timeout_ms / 1000:.0f} s"
+def run_sizing_search(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
+    """Run a small search on the sizing page and wait; returns "" or why it gave nothing."""
+    view = window.sizing_view
+    view.candidates_box.setValue(SCREENSHOT_CANDIDATES)
+    view.generations_box.setValue(SCREENSHOT_GENERATIONS)
+    return _run_and_wait(view.finished, view.failed, view.run, timeout_ms, "the sizing search")
 
 
 def capture_page(window, out: str | os.PathLike, page: str | None, size: tuple[int, int]) -> None:
@@ -96,10 +89,11 @@ def capture_page(window, out: str | os.PathLike, page: str | None, size: tuple[i
             problem = solve_field(window)
             if problem:
                 raise ProjectError(f"--page field: {problem}")
-        if page == "tolerance":
-            problem = run_tolerance_study(window)
+        runs = {"tolerance": run_tolerance_study, "sizing": run_sizing_search}
+        if page in runs:
+            problem = runs[page](window)
             if problem:
-                raise ProjectError(f"--page tolerance: {problem}")
+                raise ProjectError(f"--page {page}: {problem}")
     for _ in range(3):
         QApplication.processEvents()
     if not window.grab().save(str(out)):

@@ -102,7 +102,7 @@ class CompareView(QWidget):
         self.display: DisplayUnits = getattr(main_window, "display", None) or DisplayUnits()
         self.project_a = self.results_a = None
         self.project_b = self.results_b = None
-        self.b_mode = ""  # "grade", "pinned", "file" or "refit"
+        self.b_mode = ""  # "grade", "pinned", "file", "design" (handed in, e.g. by the sizing page) or "refit"
         self.b_source = ""  # words for the B line
         self.comparison: difference.Comparison | None = None
         self.last_refit: refit.Refit | None = None
@@ -402,6 +402,15 @@ class CompareView(QWidget):
         self._update_later()
         return True
 
+    def show_as_b(self, project, source: str) -> None:
+        """B = ``project`` (a validated design handed in by another page); ``source`` says where it came from."""
+        self._reset_grade_combo()
+        self.status_text = ""
+        self.b_mode, self.b_source = "design", source
+        self.project_b = self.results_b = None
+        self.evaluator_b.request(project)
+        self._update_later()
+
     def _choose_b_save_path(self) -> None:
         path, _filter = QFileDialog.getSaveFileName(self, "Save design B", "", "pmdc-sizer projects (*.toml)")
         if path:
@@ -425,7 +434,7 @@ class CompareView(QWidget):
         self.grade_combo.blockSignals(False)
 
     def _on_b_evaluated(self, project, results) -> None:
-        if self.b_mode not in ("grade", "file"):
+        if self.b_mode not in ("grade", "file", "design"):
             return  # B was pinned or re-fitted meanwhile
         if self.b_mode == "grade" and project.magnets.grade != self.grade_combo.currentText():
             return  # an earlier choice of grade, overtaken

@@ -11,20 +11,16 @@ any edit that changes the design makes a new one.
 
 from __future__ import annotations
 
-import threading
 from collections import OrderedDict
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, QTimer, Signal
+from PySide6.QtCore import Qt, Signal
 from PySide6.QtGui import QColor, QPixmap
 from PySide6.QtWidgets import (
     QComboBox,
-    QHBoxLayout,
     QHeaderView,
     QLabel,
-    QProgressBar,
-    QPushButton,
     QSizePolicy,
     QSplitter,
     QTableWidget,
@@ -47,6 +43,7 @@ from pmdc_sizer.core.field import (
 
 from ..field_picture import section_image
 from ..figures import FAIL_COLOUR, FIELD_FLUX_LINE_COLOUR
+from .background_job import CANCELLED, JobPage
 
 #: Mesh settings the page offers: label → mesh fineness.
 MESHES = {"Standard mesh": 1.0, "Fine mesh (slower)": 2.0}
@@ -58,101 +55,33 @@ _PICTURE_SIZE = 900
 _SHOWN_UNITS = {"Wb": ("mWb", 1e3), "Wb/m": ("mWb/m", 1e3), "A/m": ("kA/m", 1e-3), "1": ("", 1.0), "T": ("T", 1.0)}
 
 
-class _Signals(QObject):
-    progress = Signal(int, float, str)  # job, fraction, message
-    done = Signal(int, object, object, str)  # job, key, solution or None, error message
-
-
-class _Job(QRunnable):
-    def __init__(self, job: int, key, design, case, options: FieldOptions, stop: threading.Event,
-                 signals: _Signals):
-        super().__init__()
-        self.job, self.key, self.design, self.case, self.options = job, key, design, case, options
-        self.stop, self.signals = stop, signals
-        self.setAutoDelete(True)
-
-    def run(self) -> None:
-        def progress(fraction: float, message: str) -> None:
-            self.signals.progress.emit(self.job, fraction, message)
-
-        try:
-            solution = solve_case(self.design, self.case, self.options, progress, self.stop.is_set)
-        except FieldCancelled:
-            self.signals.done.emit(self.job, self.key, None, "cancelled")
-            return
-        except (FieldInputError, FieldConvergenceError, ValueError, ArithmeticError) as error:
-            self.signals.done.emit(self.job, self.key, None, str(error))
-            return
-        except Exception as error:  # noqa: BLE001 - the window must survive any failure of one solve
-            self.signals.done.emit(self.job, self.key, None,
-                                   f"the field solution failed ({type(error).__name__}: {error}); this is a defect "
-                                   "in pmdc-sizer, please report it with the project file")
-            return
-        self.signals.done.emit(self.job, self.key, solution, "")
-
-
-class FieldView(QWidget):
-    """The page. ``main_window`` provides ``current_project``, ``current_results`` and ``results_ready``."""
+class FieldView(JobPage):
+    """The field-solution page: the case and mesh, the picture, the gap waveform and the agreement table."""
 
     solved = Signal(object)  #: a FieldSolution now shown
     solve_failed = Signal(str)  #: why the last solve gave nothing
 
     def __init__(self, main_window):
-        super().__init__()
-        self.setObjectName("field_view")
-        self.main_window = main_window
-        self.project = None
-        self.results = None
+        super().__init__(main_window, "field_view")
         self.solution = None
         self.cache: OrderedDict = OrderedDict()
-        self._pool = QThreadPool(self)
-        self._pool.setMaxThreadCount(1)
-        self._signals = _Signals(self)
-        self._signals.progress.connect(self._on_progress)
-        self._signals.done.connect(self._on_done)
-        self._job = 0
-        self._running_key = None
-        self._stop: threading.Event | None = None
-        self._auto = QTimer(self)
-        self._auto.setSingleShot(True)
-        self._auto.setInterval(_AUTO_DELAY_MS)
-        self._auto.timeout.connect(self._solve_if_needed)
+        self._start_job("the field solution", FieldCancelled,
+                        (FieldInputError, FieldConvergenceError, ValueError, ArithmeticError), _AUTO_DELAY_MS,
+                        lambda key: key in self.cache, self.solve, "Solve", "Solve the 2-D field of this case now")
         self._build()
-        main_window.results_ready.connect(self.set_design)
-        if main_window.current_results is not None:
-            self.set_design(main_window.current_project, main_window.current_results)
+        self._follow(main_window)
 
     # ------------------------------------------------------------------ layout
     def _build(self) -> None:
-        layout = QVBoxLayout(self)
-        controls = QHBoxLayout()
-        controls.addWidget(QLabel("Case:"))
         self.case_combo = QComboBox()
         self.case_combo.setObjectName("field_case")
         self.case_combo.setToolTip("What drives the field: the magnets alone, or with the armature current of a "
                                    "demagnetization case, or with the rotor pulled out")
         self.case_combo.currentIndexChanged.connect(self._on_choice_changed)
-        controls.addWidget(self.case_combo)
         self.mesh_combo = QComboBox()
         self.mesh_combo.addItems(list(MESHES))
         self.mesh_combo.currentIndexChanged.connect(self._on_choice_changed)
-        controls.addWidget(self.mesh_combo)
-        self.solve_button = QPushButton("Solve")
-        self.solve_button.setToolTip("Solve the 2-D field of this case now")
-        self.solve_button.clicked.connect(self.solve)
-        controls.addWidget(self.solve_button)
-        self.cancel_button = QPushButton("Cancel")
-        self.cancel_button.setEnabled(False)
-        self.cancel_button.clicked.connect(self.cancel)
-        controls.addWidget(self.cancel_button)
-        self.progress_bar = QProgressBar()
-        self.progress_bar.setRange(0, 100)
-        self.progress_bar.setMaximumWidth(180)
-        controls.addWidget(self.progress_bar)
-        self.state_label = QLabel("")
-        self.state_label.setWordWrap(True)
-        controls.addWidget(self.state_label, 1)
-        layout.addLayout(controls)
+        layout = self._page_layout([QLabel("Case:"), self.case_combo, self.mesh_combo])
 
         top = QSplitter(Qt.Orientation.Horizontal)
         self.picture = QLabel("The field appears here once solved.")
@@ -230,18 +159,7 @@ class FieldView(QWidget):
             self.state_label.setText("solved (kept from before)")
             return
         self._mark_stale()
-        if self.isVisible():
-            self._auto.start()
-
-    def showEvent(self, event) -> None:  # noqa: N802 - Qt's name
-        super().showEvent(event)
-        if self._key() is not None and self._key() not in self.cache:
-            self._auto.start()
-
-    def _solve_if_needed(self) -> None:
-        key = self._key()
-        if key is not None and key not in self.cache and key != self._running_key:
-            self.solve()
+        self.job.schedule()
 
     # ------------------------------------------------------------------ solving
     def solve(self) -> None:
@@ -249,49 +167,24 @@ class FieldView(QWidget):
         key = self._key()
         if key is None:
             return
-        if self._stop is not None:
-            self._stop.set()
-        self._job += 1
-        self._running_key = key
-        self._stop = threading.Event()
-        options = FieldOptions(mesh_fineness=key[2])
-        self._pool.start(_Job(self._job, key, design_from_project(self.project), key[1], options, self._stop,
-                              self._signals))
-        self.cancel_button.setEnabled(True)
-        self.progress_bar.setValue(0)
-        self.state_label.setText(f"solving {key[1].name.replace('-', ' ')}…")
+        design, case, options = design_from_project(self.project), key[1], FieldOptions(mesh_fineness=key[2])
+        self.job.start(key, lambda report, stop: solve_case(design, case, options, report, stop.is_set))
+        self.state_label.setText(f"solving {case.name.replace('-', ' ')}…")
 
-    def cancel(self) -> None:
-        """Stop the running solve; nothing of it is kept."""
-        if self._stop is not None:
-            self._stop.set()
+    def _on_progress(self, fraction: float, message: str) -> None:
+        self.progress_bar.setValue(round(100 * fraction))
+        self.state_label.setText(message)
 
-    def wait(self, milliseconds: int = 30000) -> bool:
-        """Block until no solve runs (tests, closing)."""
-        return self._pool.waitForDone(milliseconds)
+    def _on_failed(self, _key, message: str) -> None:
+        cancelled = message == CANCELLED
+        self.controls.show_state("cancelled: nothing was kept" if cancelled else message, error=not cancelled)
+        self.solve_failed.emit(message)
 
-    def _on_progress(self, job: int, fraction: float, message: str) -> None:
-        if job == self._job:
-            self.progress_bar.setValue(round(100 * fraction))
-            self.state_label.setText(message)
-
-    def _on_done(self, job: int, key, solution, message: str) -> None:
-        if job != self._job:
-            return  # a cancelled or replaced solve
-        self._running_key = None
-        self._stop = None
-        self.cancel_button.setEnabled(False)
-        if solution is None:
-            self.progress_bar.setValue(0)
-            self.state_label.setText("cancelled: nothing was kept" if message == "cancelled" else message)
-            self.state_label.setStyleSheet("" if message == "cancelled" else f"color: {FAIL_COLOUR};")
-            self.solve_failed.emit(message)
-            return
+    def _on_done(self, key, solution) -> None:
         self.state_label.setStyleSheet("")
         self.cache[key] = solution
         while len(self.cache) > _CACHE_SIZE:
             self.cache.popitem(last=False)
-        self.progress_bar.setValue(100)
         self.state_label.setText(f"solved: {solution.iterations} Newton steps, {solution.elements} elements, "
                                  f"{solution.seconds:.1f} s")
         if key == self._key():

@@ -56,7 +56,7 @@ from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import Project, ProjectError
 
-from . import compare_view, export_dialog, field_view, tolerance_view
+from . import compare_view, export_dialog, field_view, sizing_view, tolerance_view
 from .collection import collect_on_gui_thread
 from .crash_dialog import active_main_window, install_exception_hook
 from .cross_section import CrossSection
@@ -84,6 +84,7 @@ PAGE_HEAT = "Duty temperatures"
 PAGE_COMPARE = "Compare designs"
 PAGE_FIELD = "Field solution"
 PAGE_TOLERANCE = "Production spread"
+PAGE_SIZING = "Sizing search"
 
 def demo_templates() -> list[Path]:
     return sorted(DEMO_FOLDER.glob("*.toml")) if DEMO_FOLDER.is_dir() else []
@@ -191,6 +192,8 @@ class MainWindow(QMainWindow):
         self.add_page(PAGE_FIELD, self.field_view)
         self.tolerance_view = tolerance_view.ToleranceView(self)
         self.add_page(PAGE_TOLERANCE, self.tolerance_view)
+        self.sizing_view = sizing_view.SizingView(self)
+        self.add_page(PAGE_SIZING, self.sizing_view)
         self._sizes_before_wide_page: list[int] | None = None
         self.pages.currentChanged.connect(self._fit_wide_page)
         # A solved field shows its numbers beside the picture: the page may need more room than before.
@@ -316,6 +319,14 @@ class MainWindow(QMainWindow):
             self._add_page_action(index)
         return index
 
+    def show_page(self, title: str) -> bool:
+        """Bring the page titled ``title`` to the front; False when the window has none."""
+        for index in range(self.pages.count()):
+            if self.pages.tabText(index) == title:
+                self.pages.setCurrentIndex(index)
+                return True
+        return False
+
     # ------------------------------------------------------------------ status and title
     def show_status(self, message: str, error: bool = False) -> None:
         self.status_label.setText(message)
@@ -435,6 +446,18 @@ class MainWindow(QMainWindow):
         self.model.replace_project(project)
         self.show_status("New design from " + (template.name if template and not defaults else "the schema defaults")
                          + ". Save as… to give it a file.")
+        self._update_title()
+        return True
+
+    def open_unsaved(self, project: Project, origin: str) -> bool:
+        """Open ``project`` (validated) as a new design with no file, its changes unsaved until saved."""
+        if not self.maybe_keep_changes():
+            return False
+        self.current_path = None
+        self.file_guard.opened(None)
+        self.model.replace_project(project)
+        self.model.undo_stack.resetClean()  # unsaved until the user saves it
+        self.show_status(f"Opened {origin} as a new design; Save as… to give it a file.")
         self._update_title()
         return True
 
@@ -583,7 +606,8 @@ class MainWindow(QMainWindow):
             self.figures_splitter.setSizes([int(height * share) for share in shares])
             self._splitter_placed = True
 
-    WIDE_PAGES = (PAGE_COMPARE, PAGE_FIELD, PAGE_TOLERANCE)  #: pages with side-by-side views that need the whole width
+    #: pages with side-by-side views that need the whole width
+    WIDE_PAGES = (PAGE_COMPARE, PAGE_FIELD, PAGE_TOLERANCE, PAGE_SIZING)
 
     def _fit_wide_page(self, index: int) -> None:
         """The comparison gets the window's width when the editor and figures would squeeze it into scrolling;

@@ -14,6 +14,7 @@ PAGE_TITLES: dict[str, str] = {
     "compare": "Compare designs",
     "field": "Field solution",
     "tolerance": "Production spread",
+    "sizing": "Sizing search",
 }
 #: Window sizes worth checking a page at: a common laptop and a common desktop screen.
 REVIEW_SIZES = ((1366, 768), (1920, 1080))

@@ -35,6 +35,16 @@ def mark_style(point: str, colour: str | None = None) -> dict:
     return {"symbol": SYMBOLS[style.marker], "size": MARKER_PX * style.size, "brush": brush, "pen": pen}
 
 
+def plot_canvas(object_name: str) -> pg.PlotWidget:
+    """A chart on white with a light grid and no context menu, as the pages draw theirs."""
+    canvas = pg.PlotWidget(background="w")
+    canvas.setObjectName(object_name)
+    plot = canvas.getPlotItem()
+    plot.showGrid(x=True, y=True, alpha=0.25)
+    plot.setMenuEnabled(False)
+    return canvas
+
+
 def line_pen(colour: str, dash: str, width: float = 1.4):
     return pg.mkPen(colour, width=width, style=qt_pen_style(dash))
 

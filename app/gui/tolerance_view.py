@@ -11,24 +11,17 @@ figures shown are marked as those of an earlier design. Titles, units and colour
 
 from __future__ import annotations
 
-import threading
-
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, QTimer, Signal
+from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import (
-    QHBoxLayout,
     QHeaderView,
     QLabel,
-    QProgressBar,
-    QPushButton,
     QSizePolicy,
     QSpinBox,
     QSplitter,
     QTableWidget,
     QTableWidgetItem,
-    QVBoxLayout,
-    QWidget,
 )
 
 from pmdc_sizer.core import project as project_file
@@ -52,7 +45,8 @@ from ..figures import (
 )
 from ..formatting import unit_label
 from ..tolerance_text import basis_text, check_names, figure_row, spread_text
-from .style import line_pen
+from .background_job import CANCELLED, JobPage
+from .style import line_pen, plot_canvas
 
 _AUTO_DELAY_MS = 800
 _BINS = 40
@@ -64,83 +58,31 @@ def _rgba(colour: str, opacity: float) -> tuple[int, int, int, int]:
     return int(colour[1:3], 16), int(colour[3:5], 16), int(colour[5:7], 16), round(255 * opacity)
 
 
-class _Signals(QObject):
-    progress = Signal(int, int, int)  # job, done, total
-    done = Signal(int, object, object, object, str)  # job, key, study or None, band or None, error message
-
-
-class _Job(QRunnable):
-    def __init__(self, job: int, key, project, samples: int, seed: int, stop: threading.Event, signals: _Signals):
-        super().__init__()
-        self.job, self.key, self.project, self.samples, self.seed = job, key, project, samples, seed
-        self.stop, self.signals = stop, signals
-        self.setAutoDelete(True)
-
-    def run(self) -> None:
-        def progress(done: int, total: int) -> bool:
-            self.signals.progress.emit(self.job, done, total)
-            return not self.stop.is_set()
-
-        try:
-            design = design_from_project(self.project)
-            study = run_study(self.project, self.samples, self.seed, progress, design=design)
-            band = None if self.stop.is_set() else speed_band(design, study)
-        except StudyCancelled:
-            self.signals.done.emit(self.job, self.key, None, None, "cancelled")
-            return
-        except (ProjectError, MagneticCircuitError, ValueError, ArithmeticError) as error:
-            self.signals.done.emit(self.job, self.key, None, None, str(error))
-            return
-        except Exception as error:  # noqa: BLE001 - the window must survive any failure of one study
-            self.signals.done.emit(self.job, self.key, None, None,
-                                   f"the tolerance study failed ({type(error).__name__}: {error}); this is a defect "
-                                   "in pmdc-sizer, please report it with the project file")
-            return
-        self.signals.done.emit(self.job, self.key, study, band, "")
-
-
 def _sample(colour: str, dash: str, text: str) -> str:
     return f"<span style='color:{colour}'>{DASH_GLYPHS[dash]} {text}</span>"
 
 
-class ToleranceView(QWidget):
-    """The page. ``main_window`` provides ``current_project``, ``current_results`` and ``results_ready``."""
+class ToleranceView(JobPage):
+    """The production-spread page: yield, histograms, band and table of the drawn motors."""
 
     finished = Signal(object)  #: a ToleranceStudy now shown
     failed = Signal(str)  #: why the last run gave nothing
 
     def __init__(self, main_window):
-        super().__init__()
-        self.setObjectName("tolerance_view")
-        self.main_window = main_window
-        self.project = None
-        self.results = None
+        super().__init__(main_window, "tolerance_view")
         self.study = None
         self.band = None
         self._shown_key = None
         self._file_samples = None
-        self._pool = QThreadPool(self)
-        self._pool.setMaxThreadCount(1)
-        self._signals = _Signals(self)
-        self._signals.progress.connect(self._on_progress)
-        self._signals.done.connect(self._on_done)
-        self._job = 0
-        self._running_key = None
-        self._stop: threading.Event | None = None
-        self._auto = QTimer(self)
-        self._auto.setSingleShot(True)
-        self._auto.setInterval(_AUTO_DELAY_MS)
-        self._auto.timeout.connect(self._run_if_needed)
+        self._start_job("the tolerance study", StudyCancelled,
+                        (ProjectError, MagneticCircuitError, ValueError, ArithmeticError), _AUTO_DELAY_MS,
+                        lambda key: key == self._shown_key, self.run, "Run study",
+                        "Draw the motors and evaluate every one now", "tolerance_state")
         self._build()
-        main_window.results_ready.connect(self.set_design)
-        if main_window.current_results is not None:
-            self.set_design(main_window.current_project, main_window.current_results)
+        self._follow(main_window)
 
     # ------------------------------------------------------------------ layout
     def _build(self) -> None:
-        layout = QVBoxLayout(self)
-        controls = QHBoxLayout()
-        controls.addWidget(QLabel("Motors:"))
         self.samples_box = QSpinBox()
         self.samples_box.setObjectName("tolerance_samples")
         self.samples_box.setRange(100, MAX_MOTORS)
@@ -148,37 +90,13 @@ class ToleranceView(QWidget):
         self.samples_box.setGroupSeparatorShown(True)
         self.samples_box.setToolTip("How many motors to draw from the tolerances (the file's tolerances.samples)")
         self.samples_box.valueChanged.connect(self._on_choice_changed)
-        controls.addWidget(self.samples_box)
-        controls.addWidget(QLabel("Seed:"))
-        self.seed_box = QSpinBox()
-        self.seed_box.setObjectName("tolerance_seed")
-        self.seed_box.setRange(0, 2**31 - 1)
-        self.seed_box.setToolTip("Seed of the draw: the same seed draws the same motors (the file's tolerances.seed)")
+        self.seed_box = self._seed_box(
+            "tolerance_seed", "Seed of the draw: the same seed draws the same motors (the file's tolerances.seed)")
         self.seed_box.valueChanged.connect(self._on_choice_changed)
-        controls.addWidget(self.seed_box)
-        self.run_button = QPushButton("Run study")
-        self.run_button.setToolTip("Draw the motors and evaluate every one now")
-        self.run_button.clicked.connect(self.run)
-        controls.addWidget(self.run_button)
-        self.cancel_button = QPushButton("Cancel")
-        self.cancel_button.setEnabled(False)
-        self.cancel_button.clicked.connect(self.cancel)
-        controls.addWidget(self.cancel_button)
-        self.progress_bar = QProgressBar()
-        self.progress_bar.setRange(0, 100)
-        self.progress_bar.setMaximumWidth(180)
-        controls.addWidget(self.progress_bar)
-        self.state_label = QLabel("")
-        self.state_label.setObjectName("tolerance_state")
-        self.state_label.setWordWrap(True)
-        controls.addWidget(self.state_label, 1)
-        layout.addLayout(controls)
+        layout = self._page_layout([QLabel("Motors:"), self.samples_box, QLabel("Seed:"), self.seed_box])
 
-        self.headline = QLabel("The study runs when this page is shown.")
-        self.headline.setObjectName("tolerance_headline")
-        self.headline.setWordWrap(True)
-        self.headline.setTextFormat(Qt.TextFormat.RichText)
-        self.headline.setStyleSheet("padding: 2px 4px; font-size: 11pt;")
+        self.headline = self._headline("The study runs when this page is shown.", "tolerance_headline",
+                                       "padding: 2px 4px; font-size: 11pt;")
         layout.addWidget(self.headline)
 
         splitter = QSplitter(Qt.Orientation.Horizontal)
@@ -198,11 +116,8 @@ class ToleranceView(QWidget):
         splitter.addWidget(self.histograms)
 
         right = QSplitter(Qt.Orientation.Vertical)
-        self.band_canvas = pg.PlotWidget(background="w")
-        self.band_canvas.setObjectName("tolerance_band")
+        self.band_canvas = plot_canvas("tolerance_band")
         self.band_plot = self.band_canvas.getPlotItem()
-        self.band_plot.showGrid(x=True, y=True, alpha=0.25)
-        self.band_plot.setMenuEnabled(False)
         self.band_plot.setTitle("Speed against torque, nominal case", color="#222222")
         right.addWidget(self.band_canvas)
         self.table = QTableWidget(0, 5)
@@ -267,18 +182,7 @@ class ToleranceView(QWidget):
         if self.study is not None:
             self._set_state("the design or the draw changed: the figures below are of an earlier design until the "
                             "study runs again", stale=True)
-        if self.isVisible():
-            self._auto.start()
-
-    def showEvent(self, event) -> None:  # noqa: N802 - Qt's name
-        super().showEvent(event)
-        if self._key() is not None and self._key() != self._shown_key:
-            self._auto.start()
-
-    def _run_if_needed(self) -> None:
-        key = self._key()
-        if key is not None and key != self._shown_key and key != self._running_key:
-            self.run()
+        self.job.schedule()
 
     # ------------------------------------------------------------------ running
     def run(self) -> None:
@@ -286,57 +190,40 @@ class ToleranceView(QWidget):
         key = self._key()
         if key is None:
             return
-        if self._stop is not None:
-            self._stop.set()
-        self._job += 1
-        self._running_key = key
-        self._stop = threading.Event()
-        self._pool.start(_Job(self._job, key, self.project, key[1], key[2], self._stop, self._signals))
-        self.cancel_button.setEnabled(True)
-        self.progress_bar.setValue(0)
-        self._set_state(f"drawing and evaluating {key[1]:,} motors…", stale=self.study is not None)
+        project, samples, seed = self.project, key[1], key[2]
+
+        def work(report, stop):
+            design = design_from_project(project)
+            study = run_study(project, samples, seed, report, design=design)
+            return study, None if stop.is_set() else speed_band(design, study)
+
+        self.job.start(key, work)
+        self._set_state(f"drawing and evaluating {samples:,} motors…", stale=self.study is not None)
 
     def current_study(self):
         """The study shown, if it is of the current design and draw (not stale); else None."""
         key = self._key()
         return self.study if key is not None and key == self._shown_key else None
 
-    def cancel(self) -> None:
-        """Stop the running study; nothing of it is kept."""
-        if self._stop is not None:
-            self._stop.set()
-
-    def wait(self, milliseconds: int = 60000) -> bool:
-        """Block until no study runs (tests, closing)."""
-        return self._pool.waitForDone(milliseconds)
-
     def _set_state(self, text: str, stale: bool = False, error: bool = False) -> None:
-        self.state_label.setText(text)
-        self.state_label.setStyleSheet(f"color: {FAIL_COLOUR};" if error else ("color: #9a6200;" if stale else ""))
+        self.controls.show_state(text, stale, error)
         if self.study is not None:
             self.histograms.setEnabled(not stale)
             self.headline.setStyleSheet("padding: 2px 4px; font-size: 11pt;" + (" color: #888;" if stale else ""))
 
-    def _on_progress(self, job: int, done: int, total: int) -> None:
-        if job == self._job:
-            self.progress_bar.setValue(round(100 * done / total))
-            self.state_label.setText(f"{done:,} of {total:,} motors evaluated…")
+    def _on_progress(self, done: int, total: int) -> None:
+        self.progress_bar.setValue(round(100 * done / total))
+        self.state_label.setText(f"{done:,} of {total:,} motors evaluated…")
 
-    def _on_done(self, job: int, key, study, band, message: str) -> None:
-        if job != self._job:
-            return  # a cancelled or replaced run
-        self._running_key = None
-        self._stop = None
-        self.cancel_button.setEnabled(False)
-        if study is None:
-            self.progress_bar.setValue(0)
-            if message == "cancelled":
-                self._set_state("cancelled: nothing was kept", stale=self.study is not None)
-            else:
-                self._set_state(message, error=True)
-            self.failed.emit(message)
-            return
-        self.progress_bar.setValue(100)
+    def _on_failed(self, _key, message: str) -> None:
+        if message == CANCELLED:
+            self._set_state("cancelled: nothing was kept", stale=self.study is not None)
+        else:
+            self._set_state(message, error=True)
+        self.failed.emit(message)
+
+    def _on_done(self, key, result) -> None:
+        study, band = result
         self.study, self.band, self._shown_key = study, band, key
         self._show(study, band)
         self._set_state("up to date" if key == self._key() else "the design changed while the study ran",

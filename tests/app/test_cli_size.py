@@ -101,7 +101,7 @@ def test_text_output_is_a_table_with_units(capsys):
     assert status == 0, err
     assert "candidates evaluated" in out and "pass every check at every temperature" in out
     assert "magnets.thickness [mm]" in out and "mass [g]" in out and "cost [EUR]" in out
-    assert "mass [g]: Active mass (magnets, copper, steels)" in out
+    assert "mass [g]: Active mass: magnets, copper, steel" in out
 
 
 def test_an_impossible_requirement_exits_1_with_the_explanation(capsys):

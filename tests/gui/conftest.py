@@ -53,3 +53,21 @@ def open_window(qtbot):
 
     QCoreApplication.sendPostedEvents(None, QEvent.Type.DeferredDelete)
     gc.collect()
+
+
+@pytest.fixture
+def job_page(open_window):
+    """``job_page(path, attribute, timeout_ms)``: a window on that project and its page that runs a long job
+    (app/gui/background_job.py); the job is cancelled and waited for afterwards."""
+    pages = []
+
+    def make(path, attribute: str, timeout_ms: int):
+        window = open_window(path)
+        view = getattr(window, attribute)
+        pages.append((view, timeout_ms))
+        return window, view
+
+    yield make
+    for view, timeout_ms in pages:
+        view.cancel()
+        view.wait(timeout_ms)

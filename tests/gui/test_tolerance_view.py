@@ -14,13 +14,10 @@ STUDY_TIMEOUT_MS = 180_000  #: 100 motors through the per-design chain on a load
 
 
 @pytest.fixture
-def page(open_window):
-    window = open_window(FERRITE)
-    view = window.tolerance_view
+def page(job_page):
+    window, view = job_page(FERRITE, "tolerance_view", STUDY_TIMEOUT_MS)
     view.samples_box.setValue(100)
-    yield window, view
-    view.cancel()
-    view.wait(STUDY_TIMEOUT_MS)
+    return window, view
 
 
 def _run(qtbot, view):
