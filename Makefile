@@ -29,6 +29,7 @@ bench: $(STAMP)
 	$(BIN)/python benchmarks/bench_magnetics.py
 	$(BIN)/python benchmarks/bench_evaluate.py
 	$(BIN)/python benchmarks/bench_batch.py
+	$(BIN)/python benchmarks/bench_sizing.py
 	$(BIN)/python benchmarks/bench_refit.py
 	$(BIN)/python benchmarks/bench_field.py
 	QT_QPA_PLATFORM=offscreen $(BIN)/python benchmarks/bench_gui_latency.py
