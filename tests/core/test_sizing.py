@@ -128,6 +128,24 @@ def test_the_mobility_requirement_is_feasible():
     assert min(d.objectives["mass"] for d in result.designs) <= own
 
 
+def test_the_power_tool_requirement_is_feasible_with_its_faults_reported():
+    # as drawn it fails the direct-supply faults (3.4 kA on reversal, cold: no magnet of this size survives
+    # 48 V applied directly) and its tooth flux. The requirement sized here keeps its drive limit and states
+    # that a fuse in the pack guards a failed drive: faults are reported, not required to be survived
+    base = project.load(DEMO_FOLDER / "power_tool_4pole_48v.toml")
+    failing = {c.key for c in evaluate(base).checks if c.status == "fail"}
+    assert failing == {"fault_demagnetization", "tooth_flux_density"}
+    requirement = with_values(base, {"supply.fault_cases": "report"})
+    ranges = ("magnets.thickness_mm=2:6", "housing.wall_mm=4:9", "winding.turns_per_coil=1:4",
+              "armature.tooth_width_mm=2.5:5", "armature.stack_length_mm=25:50")
+    result = size(requirement, _spec(requirement, ranges, ("N42SH", "N38UH", "N35EH"), objectives=("mass",),
+                                     candidates=1024, generations=3, population=64, seed=1))
+    assert result.designs
+    assert all(c.status != "fail" for d in result.designs for c in evaluate(d.project).checks)
+    own = screening_figures(evaluate(base))["mass.active_kg"]
+    assert min(d.objectives["mass"] for d in result.designs) <= own
+
+
 def test_cancel(ferrite_base):
     spec = _spec(ferrite_base, FERRITE_RANGES, FERRITE_GRADES, candidates=16, generations=0)
     with pytest.raises(SizingCancelled):
