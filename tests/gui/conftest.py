@@ -53,3 +53,25 @@ def open_window(qtbot):
 
     QCoreApplication.sendPostedEvents(None, QEvent.Type.DeferredDelete)
     gc.collect()
+
+
+@pytest.fixture
+def open_compare_view(qtbot):
+    """``open_compare_view(window, size)``: a shown comparison page on a stand-in main window; its
+    background work is waited for at the end."""
+    from pmdc_sizer.app.gui.compare_view import CompareView
+
+    views = []
+
+    def make(window, size=(1500, 950)):
+        view = CompareView(window)
+        qtbot.addWidget(view)
+        view.resize(*size)
+        view.show()
+        views.append(view)
+        return view
+
+    yield make
+    for view in views:
+        view.evaluator_b.wait()
+        view._refit_pool.waitForDone(5000)
