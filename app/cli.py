@@ -24,7 +24,7 @@ from pmdc_sizer.core.magnetic_circuit import MagneticCircuitError
 from pmdc_sizer.core.project import ProjectError
 
 from . import cli_compare, cli_datasheet, cli_field, cli_size, cli_tolerance
-from .cli_inputs import add_set_option, evaluate_project, load_project
+from .cli_inputs import add_json_option, add_set_option, evaluate_project, load_project
 from .crash import report_line
 from .errors import EXIT_BAD_INPUT, EXIT_INTERNAL, EXIT_NO_SOLUTION, CommandError
 from .export_checks import check_csv
@@ -158,12 +158,12 @@ def build_parser() -> argparse.ArgumentParser:
 
     p = sub.add_parser("evaluate", help="evaluate a project file and print a summary or JSON")
     p.add_argument("file")
-    p.add_argument("--json", action="store_true", help="one JSON object on stdout; keys carry SI unit suffixes")
+    add_json_option(p)
     add_set_option(p)
     p.set_defaults(handler=cmd_evaluate)
 
     p = sub.add_parser("grades", help="list the magnet library")
-    p.add_argument("--json", action="store_true")
+    add_json_option(p, "one JSON object per grade, SI")
     p.set_defaults(handler=cmd_grades)
 
     p = sub.add_parser("curves", help="the speed-torque table")

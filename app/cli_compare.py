@@ -14,7 +14,7 @@ import json
 from pmdc_sizer.core import difference, refit
 from pmdc_sizer.core.units import from_si
 
-from .cli_inputs import evaluate_project, load_project
+from .cli_inputs import add_command, add_json_option, evaluate_project, load_project
 from .compare_text import check_lines, figure_rows, refit_lines, table_lines
 from .errors import EXIT_NO_SOLUTION, CommandError
 from .refit_text import refit_message, refit_notes, target_title
@@ -23,20 +23,18 @@ from .safety import SHORT_CAUTION
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser(
-        "compare", help="compare two designs, or a design with another magnet grade; optionally re-fit B to A",
-        description="Design A against design B: every figure B − A, each side's checks, and optionally B "
-                    "re-fitted to one of A's figures (Ke by magnet thickness, no-load speed by turns per "
-                    "coil, stall torque by stack length).")
+    p = add_command(
+        subparsers, "compare", cmd_compare,
+        "compare two designs, or a design with another magnet grade; optionally re-fit B to A",
+        "Design A against design B: every figure B − A, each side's checks, and optionally B re-fitted to one "
+        "of A's figures (Ke by magnet thickness, no-load speed by turns per coil, stall torque by stack length).")
     p.add_argument("file_a", metavar="A.toml", help="design A, the reference")
     p.add_argument("file_b", metavar="B.toml", nargs="?", help="design B (or give --grade-b instead)")
     p.add_argument("--grade-b", metavar="NAME", help="B is A with this library magnet grade (see `pmdc-sizer grades`)")
     p.add_argument("--refit", choices=tuple(refit.TARGETS),
                    help="change B until it meets A's Ke (magnet thickness), no-load speed (turns per coil) or "
                         "stall torque (stack length)")
-    p.add_argument("--json", action="store_true",
-                   help="one JSON object: a, b, difference (B − A), relative_difference and refit")
-    p.set_defaults(handler=cmd_compare)
+    add_json_option(p, "one JSON object: a, b, difference (B − A), relative_difference and refit")
 
 
 def _design_b(args, design_a):

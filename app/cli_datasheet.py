@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from .cli_inputs import add_set_option, evaluate_project, load_project
+from .cli_inputs import add_command, add_set_option, evaluate_project, load_project
 from .datasheet.options import EDITIONS, PAPER_SIZES_MM
 from .errors import EXIT_NO_SOLUTION, CommandError
 
@@ -47,9 +47,9 @@ def cmd_datasheet(args) -> int:
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser(
-        "datasheet", help="write the design datasheet as PDF or HTML",
-        description="Evaluate a project and write its datasheet; the format follows the file name (.pdf or .html).")
+    p = add_command(
+        subparsers, "datasheet", cmd_datasheet, "write the design datasheet as PDF or HTML",
+        "Evaluate a project and write its datasheet; the format follows the file name (.pdf or .html).")
     p.add_argument("file", help="project file (.toml)")
     p.add_argument("-o", "--output", required=True, metavar="OUT.pdf|OUT.html", help="the datasheet file to write")
     p.add_argument("--charts", metavar="DIR",
@@ -68,4 +68,3 @@ def register(subparsers) -> None:
                         "resistance and stall torque over the production spread): runs the tolerance study with the "
                         "file's tolerances.samples and tolerances.seed")
     add_set_option(p)
-    p.set_defaults(handler=cmd_datasheet)

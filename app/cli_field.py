@@ -26,7 +26,7 @@ import numpy as np
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.errors import MagneticCircuitError, ProjectError
 
-from .cli_inputs import add_set_option, evaluate_project, load_project
+from .cli_inputs import add_command, add_json_option, add_set_option, evaluate_project, load_project
 from .errors import EXIT_BAD_INPUT, EXIT_NO_SOLUTION, CommandError
 from .files import atomic_output, write_text_atomically
 
@@ -252,16 +252,16 @@ def _batch(args) -> int:
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser(
-        "field", help="the built-in 2-D field solution of a design (one, or a batch on dask)",
-        description="Solve the motor's cross-section as a 2-D nonlinear magnetostatic field (scikit-fem) for a "
-                    "case, compare it with the fast model, and optionally draw it. With --batch, solve many "
-                    "designs in parallel on dask.distributed.")
+    p = add_command(
+        subparsers, "field", cmd_field, "the built-in 2-D field solution of a design (one, or a batch on dask)",
+        "Solve the motor's cross-section as a 2-D nonlinear magnetostatic field (scikit-fem) for a case, compare "
+        "it with the fast model, and optionally draw it. With --batch, solve many designs in parallel on "
+        "dask.distributed.")
     p.add_argument("files", nargs="*", metavar="FILE", help="project file(s) (.toml)")
     p.add_argument("--case", default="no-load",
                    help="no-load (default), stall-cold, stall-hot, reversal-cold, reversal-hot, drive-limit-cold, "
                         "drive-limit-hot, rotor-removed-cold, rotor-removed-hot, or all")
-    p.add_argument("--json", action="store_true", help="print JSON (SI, unit-suffixed keys)")
+    add_json_option(p, "print JSON (SI, unit-suffixed keys)")
     p.add_argument("--png", metavar="OUT.png", help="draw the flux-density map, flux lines and air-gap waveform")
     p.add_argument("--fineness", type=float, default=1.0, help="mesh fineness (1 default, 2 for twice as fine)")
     add_set_option(p)
@@ -272,7 +272,6 @@ def register(subparsers) -> None:
     p.add_argument("--scheduler", metavar="ADDRESS",
                    help="with --batch: an existing dask scheduler (e.g. tcp://10.0.0.5:8786) instead of a local "
                         "cluster")
-    p.set_defaults(handler=cmd_field)
 
 
 __all__ = ["EXIT_BAD_INPUT", "agreement_json", "cmd_field", "register", "solution_json"]

@@ -33,6 +33,22 @@ def evaluate_project(project):
     return evaluate(project)
 
 
+#: The ``--json`` help of the subcommands that print one results object.
+JSON_HELP = "one JSON object on stdout; keys carry SI unit suffixes"
+
+
+def add_command(subparsers, name: str, handler, summary: str, description: str):
+    """A subcommand's parser: its one-line summary for ``--help``, its description, and its handler."""
+    parser = subparsers.add_parser(name, help=summary, description=description)
+    parser.set_defaults(handler=handler)
+    return parser
+
+
+def add_json_option(parser, what: str = JSON_HELP) -> None:
+    """The ``--json`` switch: print JSON instead of the text summary."""
+    parser.add_argument("--json", action="store_true", help=what)
+
+
 def add_set_option(parser) -> None:
     """The ``--set KEY=VALUE`` option every subcommand that reads a project takes."""
     parser.add_argument("--set", action="append", default=[], metavar="KEY=VALUE",

@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
-from .cli_inputs import add_set_option, load_project
+from .cli_inputs import add_command, add_json_option, add_set_option, load_project
 from .errors import CommandError
 from .export_checks import check_csv
 from .files import write_text_atomically
@@ -46,17 +46,17 @@ def cmd_tolerance(args) -> int:
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser(
-        "tolerance", help="the spread of the key figures over the production tolerances, the yield and what drives it",
-        description="Draw motors from the project's [tolerances] (Br, HcJ, magnet thickness, air gap, wire, copper, "
-                    "brush drop, friction, supply), evaluate every one, and report each key figure's median and "
-                    "0.135 %% / 99.865 %% points, the share passing every check, the worst margin to the knee, and "
-                    "which tolerance drives each figure (first-order Sobol indices, RBD-FAST).")
+    p = add_command(
+        subparsers, "tolerance", cmd_tolerance,
+        "the spread of the key figures over the production tolerances, the yield and what drives it",
+        "Draw motors from the project's [tolerances] (Br, HcJ, magnet thickness, air gap, wire, copper, "
+        "brush drop, friction, supply), evaluate every one, and report each key figure's median and "
+        "0.135 %% / 99.865 %% points, the share passing every check, the worst margin to the knee, and "
+        "which tolerance drives each figure (first-order Sobol indices, RBD-FAST).")
     p.add_argument("file", help="project file (.toml)")
     p.add_argument("--samples", type=int, metavar="N", help="motors to draw (default: tolerances.samples, 10000)")
     p.add_argument("--seed", type=int, metavar="S", help="seed of the draw (default: tolerances.seed); the same seed "
                                                          "draws the same motors")
-    p.add_argument("--json", action="store_true", help="one JSON object on stdout; keys carry SI unit suffixes")
+    add_json_option(p)
     p.add_argument("--csv", metavar="OUT.csv", help="also write one row per motor (its parts, figures, verdict), SI")
     add_set_option(p)
-    p.set_defaults(handler=cmd_tolerance)

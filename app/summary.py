@@ -8,7 +8,7 @@ from pmdc_sizer.core.results import Results
 
 from .figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
 from .safety import SHORT_CAUTION
-from .thermal_text import stall_time_text
+from .thermal_text import no_continuous_rating, stall_time_text
 
 NOT_REACHED = "stalls"  #: a rated figure where the rated torque is beyond the stall torque
 
@@ -96,8 +96,14 @@ def summary_text(r: Results) -> str:
     row(LABELS["thermal.insulation_class"], t.insulation_class)
     if r.ratings is not None:
         section(f"Ratings at {shown(r, 'thermal.ambient_C')} ambient (winding up to its class limit)")
-        figures("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
-                "ratings.continuous_output_power_W", "ratings.stall_current_A")
+        no_rating = no_continuous_rating(r)
+        if no_rating is None:
+            figures("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
+                    "ratings.continuous_output_power_W")
+        else:
+            lines.append(f"  {figure('ratings.continuous_torque_N_m').title}")
+            lines.append(f"    {no_rating}")
+        figures("ratings.stall_current_A")
         for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s"):
             text = stall_time_text(r, key)
             if len(text) > 14:  # a sentence, not a figure: on its own line under the title

@@ -65,6 +65,16 @@ def loaded_spells(t: ThermalResult) -> list[tuple[float, float]]:
     return [(0.0, end)]
 
 
+def no_continuous_rating(results: Results, unit: str = "°C") -> str | None:
+    """Where the winding reaches its class limit with no load on the shaft, the continuous rating in words
+    ("none: ..."), since "0 mN·m" reads as a number to be worked with; None where a rating exists."""
+    ra = results.ratings
+    if ra is None or ra.continuous_torque_N_m > 0.0:
+        return None
+    return (f"none: at no load the winding already reaches its class limit "
+            f"({_temperature(ra.insulation_limit_C, unit)}) at {_temperature(ra.ambient_C, unit)} ambient")
+
+
 def limit_reached_at(t: ThermalResult) -> float | None:
     """When the winding reaches its class limit at the rated load from ambient, where no steady state
     exists and the duty passes the limit [s]; None otherwise (the chart marks it)."""

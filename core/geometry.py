@@ -21,6 +21,26 @@ import numpy as np
 TOOTH_TIP_HEIGHT = 0.5e-3
 
 
+def tooth_tip_height(slot_depth):
+    """Radial height of the tooth tips that overhang the slot: the one rule every model uses.
+
+    Parameters
+    ----------
+    slot_depth : float or ndarray
+        Radial depth of the slots [m].
+
+    Returns
+    -------
+    float or ndarray
+        Tip height [m]: :data:`TOOTH_TIP_HEIGHT`, at most a quarter of the slot depth.
+
+    References
+    ----------
+    .. [1] common practice, no source (the height and the quarter-depth cap are our rule).
+    """
+    return np.minimum(TOOTH_TIP_HEIGHT, 0.25 * np.asarray(slot_depth, dtype=float))
+
+
 @dataclass(frozen=True)
 class Geometry:
     """The cross-section and axial lengths of one motor (or of a sweep: arrays of one shape), SI.
@@ -84,7 +104,7 @@ class Geometry:
     def tooth_tip_height(self):
         """Radial height of the tooth tips [m]: :data:`TOOTH_TIP_HEIGHT`, at most a quarter of the slot
         depth (the areas and volumes here leave the tips out; the field solution meshes them)."""
-        return np.minimum(TOOTH_TIP_HEIGHT, 0.25 * self.slot_depth)
+        return tooth_tip_height(self.slot_depth)
 
     # --- angles and pitches
     @property

@@ -43,16 +43,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .geometry import Geometry
+from .geometry import Geometry, tooth_tip_height
 from .magnetic_circuit import carter_coefficient
 from .steel import Steel
 from .units import MU_0
 
 #: Segments over the magnet arc [1] (odd, so one branch sits on the pole centre).
 MAGNET_SEGMENTS = 9
-#: Radial height of the tooth tips that overhang the slot, at most a quarter of the slot depth [m]: the
-#: value the field solution meshes (core.field.mesh) and core.winding takes (common practice, no source).
-TOOTH_TIP_HEIGHT = 0.5e-3
 #: Radial layers of the teeth and slots [1].
 TOOTH_LAYERS = 3
 #: Fitted (once, over the sample of docs/network-calibration.md, to the least worst-case error of the
@@ -309,7 +306,7 @@ def network_elements(geometry: Geometry, recoil_permeability: float, housing_ste
         # the tooth's face at the gap (pitch less opening): the body's width, and the overhangs
         face = np.maximum(slot_pitch - fields["slot_opening"], tooth_width)
         overhang = np.maximum(0.5 * (face - tooth_width), 1e-6)
-        tip = np.minimum(TOOTH_TIP_HEIGHT, 0.25 * slot_depth)
+        tip = tooth_tip_height(slot_depth)
         body_share, tip_share = tooth_width / face, 2.0 * overhang / face
         gap = ParallelPair(
             Element(None, gap_area * body_share[:, None], effective_gap[:, None] * np.ones_like(widths)),
@@ -350,7 +347,7 @@ def network_elements(geometry: Geometry, recoil_permeability: float, housing_ste
     magnet_layer = np.where(mask > 0.0, recoil_permeability, 1.0) * MAGNET_LAYER_SHARE * lm[:, None]
     inner_face = tangential(magnet_layer + half_gap[:, None], magnet_inner)
     if rotor_present:
-        tips = np.minimum(np.minimum(TOOTH_TIP_HEIGHT, 0.25 * slot_depth) * slot_pitch
+        tips = np.minimum(tooth_tip_height(slot_depth) * slot_pitch
                           / np.maximum(fields["slot_opening"], 1e-5), slot_depth)
         surface = tangential((half_gap + tips)[:, None] * np.ones_like(widths), armature)
     else:

@@ -302,15 +302,15 @@ def armature_inductance_estimate(geometry: Geometry, conductors: int | np.ndarra
     ----------
     .. [1] our derivation from the stored energy, no source; slot-leakage permeance in the textbook
        form, e.g. Hendershot and Miller, "Design of Brushless Permanent-Magnet Machines", 2010 (from
-       memory); the tooth-tip height of 0.5 mm and the end-winding 0.3·μ0 per metre are common
+       memory); the tooth-tip height (core.geometry.tooth_tip_height) and the end-winding 0.3·μ0 per metre are common
        practice, no source.
     """
     g = geometry
     z = np.asarray(conductors, dtype=float)
     a = np.asarray(paths, dtype=float)
     mean_slot_width = g.slot_area / g.slot_depth
-    tip_height = 0.5e-3
-    stack_permeance = MU_0 * g.stack_length * (g.slot_depth / (3.0 * mean_slot_width) + tip_height / g.slot_opening)
+    stack_permeance = MU_0 * g.stack_length * (g.slot_depth / (3.0 * mean_slot_width)
+                                               + g.tooth_tip_height / g.slot_opening)
     end_length = np.maximum(turn_length - 2.0 * g.stack_length, 0.0)
     end_permeance = 0.3 * MU_0 * end_length
     per_slot = (z / g.slots) ** 2 * (stack_permeance + end_permeance)

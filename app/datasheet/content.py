@@ -16,8 +16,9 @@ from pmdc_sizer.core.results import Results
 
 from ..figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
 from ..formatting import check_message, unit_label
+from ..magnet_marks import fault_labels
 from ..safety import caution_sentences
-from ..thermal_text import NO_STALL, chart_notes, stall_time_reason, stall_time_text
+from ..thermal_text import NO_STALL, chart_notes, no_continuous_rating, stall_time_reason, stall_time_text
 from .charts import demagnetization_point_labels
 from .options import DEFAULT_OPTIONS, SheetOptions
 from .paper_units import paper_unit, printed_in
@@ -270,9 +271,10 @@ def demagnetization_table(results: Results) -> Table:
               LABELS["demagnetization_case.status"])
     return Table(header, tuple(rows),
                  widths=(4, 24, 14, 9, 12, 11, 13, 13), numeric_from=2, numeric_until=7, key="demagnetization",
-                 caption="The margin is the field at the magnet's most exposed tip minus the knee field; positive is "
-                         "safe. The knee is where the magnet starts to lose flux for good: its intrinsic curve has "
-                         f"fallen {KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
+                 caption="The margin is the field at the magnet's worst spot (the segment of the arc under the "
+                         "strongest demagnetizing field, wherever along the arc it lies) minus the knee field; "
+                         "positive is safe. The knee is where the magnet starts to lose flux for good: its "
+                         f"intrinsic curve has fallen {KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
                          "The numbers mark the cases on the magnet chart.")
 
 
@@ -295,17 +297,19 @@ def fault_table(results: Results) -> Table | None:
     if faults is None:
         return None
     keys = (*DEMAGNETIZATION_KEYS, "demagnetization_case.required_margin_A_per_m")
-    rows = tuple(Row((case.name, *(_shown(case, key, results) for key in keys), _state_word(case)),
-                     _state_kind(case, faults.worst_case)) for case in faults.cases)
+    rows = tuple(Row((label, case.name, *(_shown(case, key, results) for key in keys), _state_word(case)),
+                     _state_kind(case, faults.worst_case))
+                 for label, case in zip(fault_labels(results), faults.cases, strict=True))
     must = ("The project requires the magnets to survive these." if faults.must_survive
             else "The project reports these without requiring them to pass (supply.fault_cases).")
-    return Table((LABELS["demagnetization_case.name"], *(figure(key).title for key in keys),
+    return Table(("No.", LABELS["demagnetization_case.name"], *(figure(key).title for key in keys),
                   LABELS["demagnetization_case.status"]), rows,
-                 widths=(28, 11, 9, 11, 11, 11, 9, 10), numeric_from=1, numeric_until=7, key="faults",
+                 widths=(4, 12, 15, 10, 12, 10, 11, 11, 15), numeric_from=2, numeric_until=8, key="faults",
                  caption="Faults: stall and reversal at no-load speed with the supply applied directly, as when a "
                          f"drive fails or a battery is connected without it. {must} Safe: at least the required "
                          f"margin, {results.demagnetization.required_margin_share:.0%} of HcJ, on every "
-                         "demagnetization case; marginal: above the knee by less.")
+                         "demagnetization case; marginal: above the knee by less. The numbers F1, F2, ... mark "
+                         "the faults on the magnet chart.")
 
 
 def worst_case_sentence(results: Results) -> str:
@@ -374,7 +378,9 @@ def thermal_caption(results: Results) -> str:
 def ratings_table(results: Results) -> Table:
     """The continuous (S1) rating and the permitted stall times at the highest ambient."""
     r = results
-    rows = _figure_rows(r, "ratings.continuous_torque_N_m", "ratings.continuous_current_A")
+    words = no_continuous_rating(r, paper_unit("°C"))
+    rows = (_figure_rows(r, "ratings.continuous_torque_N_m", "ratings.continuous_current_A") if words is None
+            else [(figure("ratings.continuous_torque_N_m").title, words)])
     keys = ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")
     # Where there is no stall time the cell says so and the caption says why (a sentence is too wide for a cell).
     rows += [(figure(key).title, NO_STALL if stall_time_reason(r, key) else

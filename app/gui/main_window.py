@@ -95,6 +95,36 @@ def read_project(path: str | os.PathLike) -> Project:
     return checked_project(project_file.load(path), {})
 
 
+class _NoHeightForWidthLayout(QVBoxLayout):
+    """A layout that tells its scroll area the page's height does not follow its width.
+
+    A page with a word-wrapped label reports a height for its width, and QScrollArea then makes the page
+    as tall as its preferred height (the comparison page 947 px in a 701 px window, with a scroll bar and
+    its lower charts cut off). Without it, the page gets the window's height and scrolls only below its
+    minimum size; the labels inside still wrap to their width."""
+
+    def hasHeightForWidth(self) -> bool:  # noqa: N802 (Qt's name)
+        return False
+
+
+class PageScroller(QScrollArea):
+    """A page in a scroll area that scrolls only when the window is smaller than the page's minimum."""
+
+    def __init__(self, page: QWidget):
+        super().__init__()
+        self.setWidgetResizable(True)
+        self.setFrameShape(QScrollArea.Shape.NoFrame)
+        holder = QWidget()
+        layout = _NoHeightForWidthLayout(holder)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(page)
+        self._page = page
+        self.setWidget(holder)
+
+    def widget(self) -> QWidget:  # the page itself, not the holder around it
+        return self._page
+
+
 class MainWindow(QMainWindow):
     results_ready = Signal(object, object)
 
@@ -310,11 +340,7 @@ class MainWindow(QMainWindow):
 
     def add_page(self, title: str, widget: QWidget) -> int:
         # In a scroll area, so a page's minimum width cannot squeeze the editor and the checks.
-        holder = QScrollArea()
-        holder.setWidgetResizable(True)
-        holder.setFrameShape(QScrollArea.Shape.NoFrame)
-        holder.setWidget(widget)
-        index = self.pages.addTab(holder, title)
+        index = self.pages.addTab(PageScroller(widget), title)
         if hasattr(self, "page_menu"):
             self._add_page_action(index)
         return index

@@ -23,7 +23,7 @@ from PySide6.QtWidgets import (
 
 from pmdc_sizer.app.figures import LABELS, STATUSES, figure, unit_for, value_of
 from pmdc_sizer.app.formatting import check_message
-from pmdc_sizer.app.thermal_text import NEVER_REACHED, NO_STALL, stall_time_reason
+from pmdc_sizer.app.thermal_text import NEVER_REACHED, NO_STALL, no_continuous_rating, stall_time_reason
 
 from .display_units import DisplayUnits
 
@@ -98,6 +98,15 @@ def _stall_time_rows(f: Figures, r, key: str):
     return (key,)
 
 
+def _continuous_rows(f: Figures, r):
+    """The continuous rating; where the winding reaches its limit at no load, that in words on one row."""
+    words = no_continuous_rating(r, f.display.screen_unit("°C"))
+    if words is None:
+        return ("ratings.continuous_torque_N_m", "ratings.continuous_current_A",
+                "ratings.continuous_speed_rad_per_s", "ratings.continuous_output_power_W")
+    return ((f.title("ratings.continuous_torque_N_m"), words),)
+
+
 def _design_groups(f: Figures, r):
     """(group title, ((label, text), ...)); an entry given as a key is a figure of the results."""
     w, t, cost = r.winding, r.thermal, r.cost
@@ -123,8 +132,7 @@ def _design_groups(f: Figures, r):
              f"{f(r, 'thermal.insulation_limit_C', r)} (class {t.insulation_class})"),
             "thermal.magnet_temperature_C", "thermal.losses_W", "thermal.housing_to_ambient_K_per_W")),
         (f"Ratings at {f(r, 'thermal.ambient_C', r)} ambient, winding up to its class", (
-            "ratings.continuous_torque_N_m", "ratings.continuous_current_A", "ratings.continuous_speed_rad_per_s",
-            "ratings.continuous_output_power_W", "ratings.stall_current_A",
+            *_continuous_rows(f, r), "ratings.stall_current_A",
             *(entry for key in ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")
               for entry in _stall_time_rows(f, r, key))) if r.ratings is not None else ()),
         ("Thermal network", (

@@ -91,3 +91,18 @@ def test_printed_labels_clear_each_other_and_the_curves(path, monkeypatch, qapp)
         crossed = np.count_nonzero((dense[:, 0] > box[0] + 1) & (dense[:, 0] < box[2] - 1)
                                    & (dense[:, 1] > box[1] + 1) & (dense[:, 1] < box[3] - 1))
         assert crossed == 0, f"label {index} of {path.stem} sits on a curve"
+
+
+def test_the_tables_number_the_cases_and_faults_as_the_chart_labels_them(drill):
+    from pmdc_sizer.app.datasheet import content
+
+    marks = magnet_marks.case_marks(drill)
+    design = content.demagnetization_table(drill)
+    faults = content.fault_table(drill)
+    assert design.header[0] == faults.header[0] == "No."
+    assert [row.cells[0] for row in design.rows] == [m.label for m in marks if not m.fault]
+    assert [row.cells[0] for row in faults.rows] == [m.label for m in marks if m.fault] == ["F1", "F2", "F3", "F4"]
+    assert [row.cells[1] for row in faults.rows] == [case.name for case in drill.faults.cases]
+    assert len(faults.widths) == len(faults.header) and sum(faults.widths) == 100
+    # The caption says what the model takes: the worst spot along the arc, not a tip.
+    assert "worst spot" in design.caption and "tip" not in design.caption

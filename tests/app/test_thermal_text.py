@@ -208,3 +208,16 @@ def test_the_datasheet_places_the_chart_with_its_notes(drill_s1):
     for text in ("Temperature [°C]", "Time from the start at ambient [min]", "winding", "magnets", "housing",
                  "insulation class limit, class 180 (H): 180 °C", POINTS["class_limit_reached"].title):
         assert text in svg, text
+
+
+def test_no_continuous_rating_is_said_in_words_on_screen_paper_and_terminal(drill, ferrite):
+    # The drill's winding reaches its class limit with no load on the shaft: no S1 rating, not "0 mN·m".
+    r = drill[1]
+    assert r.ratings.continuous_torque_N_m == 0.0
+    words = thermal_text.no_continuous_rating(r)
+    assert words == "none: at no load the winding already reaches its class limit (180 °C) at 50 °C ambient"
+    rows = {row.cells[0]: row.cells[1] for row in content.ratings_table(r).rows}
+    assert rows["Continuous torque (S1), hot ambient"] == words
+    assert "Continuous current (S1), hot ambient" not in rows
+    assert words in summary_text(r)
+    assert thermal_text.no_continuous_rating(ferrite[1]) is None

@@ -13,7 +13,7 @@ from pmdc_sizer.core import winding
 from pmdc_sizer.core.conductors import copper_resistivity
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.project import load
-from pmdc_sizer.core.units import from_si, rpm_to_rad_per_s
+from pmdc_sizer.core.units import MU_0, from_si, rpm_to_rad_per_s
 
 
 @pytest.mark.parametrize(
@@ -112,3 +112,16 @@ def test_inductance_estimate_is_positive_and_grows_with_turns_squared(ferrite_de
     assert_allclose(l2 / l1, 4.0, rtol=1e-12)  # both parts scale with (Z/a)²
     thinner_gap = winding.armature_inductance_estimate(dataclasses.replace(g), 528, 2, 1.07, 0.2e-3, turn)
     assert thinner_gap > l1
+
+
+def test_a_shallow_slot_keeps_a_quarter_of_its_depth_for_the_tips_in_the_inductance(ferrite_demo):
+    # The one tooth-tip rule (core.geometry.tooth_tip_height): 0.5 mm, at most a quarter of the slot depth,
+    # so a 1.2 mm slot has 0.3 mm tips. Only the slot-opening term, (Z/S)²·S/a²·μ0·L·h_tip/b_opening, depends
+    # on the opening: the difference between two openings gives back the tip height the estimate used.
+    g = dataclasses.replace(design_from_project(load(ferrite_demo)).geometry, slot_depth=1.2e-3)
+    turn = float(winding.mean_turn_length(g))
+    z, a, openings = 528, 2, (1.0e-3, 2.0e-3)
+    wide, narrow = (winding.armature_inductance_estimate(dataclasses.replace(g, slot_opening=b), z, a, 1.07, 0.4e-3,
+                                                         turn) for b in openings)
+    per_tip_metre = (z / g.slots) ** 2 * g.slots / a**2 * MU_0 * g.stack_length * (1 / openings[0] - 1 / openings[1])
+    assert (wide - narrow) / per_tip_metre == pytest.approx(0.3e-3, rel=1e-9)

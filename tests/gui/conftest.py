@@ -71,3 +71,25 @@ def job_page(open_window):
     for view, timeout_ms in pages:
         view.cancel()
         view.wait(timeout_ms)
+
+
+@pytest.fixture
+def open_compare_view(qtbot):
+    """``open_compare_view(window, size)``: a shown comparison page on a stand-in main window; its
+    background work is waited for at the end."""
+    from pmdc_sizer.app.gui.compare_view import CompareView
+
+    views = []
+
+    def make(window, size=(1500, 950)):
+        view = CompareView(window)
+        qtbot.addWidget(view)
+        view.resize(*size)
+        view.show()
+        views.append(view)
+        return view
+
+    yield make
+    for view in views:
+        view.evaluator_b.wait()
+        view._refit_pool.waitForDone(5000)

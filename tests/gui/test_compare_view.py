@@ -11,7 +11,6 @@ from tests.conftest import DEMO_FOLDER
 
 pytest.importorskip("pyqtgraph")
 
-from pmdc_sizer.app.gui.compare_view import CompareView
 
 FERRITE = DEMO_FOLDER / "appliance_ferrite_12v.toml"
 
@@ -33,15 +32,9 @@ class StandInWindow(QObject):
 
 
 @pytest.fixture
-def page(qtbot):
+def page(open_compare_view):
     window = StandInWindow(FERRITE)
-    view = CompareView(window)
-    qtbot.addWidget(view)
-    view.resize(1500, 950)
-    view.show()
-    yield window, view
-    view.evaluator_b.wait()
-    view._refit_pool.waitForDone(5000)
+    return window, open_compare_view(window)
 
 
 def cell(table, row, column):
@@ -177,12 +170,8 @@ class UsWindow(StandInWindow):
         self.display = DisplayUnits("US customary")
 
 
-def test_the_page_follows_us_customary_units(qtbot):
-    window = UsWindow(FERRITE)
-    view = CompareView(window)
-    qtbot.addWidget(view)
-    view.resize(1366, 768)
-    view.show()
+def test_the_page_follows_us_customary_units(qtbot, open_compare_view):
+    view = open_compare_view(UsWindow(FERRITE), size=(1366, 768))
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.use_grade_for_b("N42SH")
     table = view.figures_table
@@ -217,3 +206,17 @@ def test_b_with_another_grade_is_priced_as_that_grade(page, qtbot):
     table = view.figures_table
     for title in ("Housing outer diameter", "Housing length", "Magnet mass", "Estimated total mass"):
         row_of(table, title)  # shown
+
+
+def test_the_page_fits_a_laptop_screen_without_scrolling(open_window, qtbot):
+    # At 1366×768 the comparison page gets the window's height: a word-wrapped label must not make the scroll
+    # area stretch the page to its preferred height and cut off the lower charts.
+    window = open_window(FERRITE)
+    window.resize(1366, 768)
+    index = next(i for i in range(window.pages.count()) if window.pages.tabText(i) == "Compare designs")
+    window.pages.setCurrentIndex(index)
+    scroller = window.pages.widget(index)
+    page = scroller.widget()
+    assert page.minimumSizeHint().height() < scroller.viewport().height()
+    qtbot.waitUntil(lambda: page.height() <= scroller.viewport().height() and page.height() > 600, timeout=3000)
+    assert not scroller.verticalScrollBar().isVisible()

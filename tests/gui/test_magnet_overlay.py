@@ -13,22 +13,15 @@ from tests.gui.test_compare_view import FERRITE, StandInWindow
 pytest.importorskip("pyqtgraph")
 
 from pmdc_sizer.app.gui import magnet_overlay
-from pmdc_sizer.app.gui.compare_view import CompareView
 
 
 @pytest.fixture
-def ferrite_against_ndfeb(qtbot):
-    window = StandInWindow(FERRITE)
-    view = CompareView(window)
-    qtbot.addWidget(view)
-    view.resize(1500, 950)
-    view.show()
+def ferrite_against_ndfeb(qtbot, open_compare_view):
+    view = open_compare_view(StandInWindow(FERRITE))
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         view.grade_combo.setCurrentText("N42SH")
     view.tabs.setCurrentWidget(view.magnet_overlay)
-    yield view
-    view.evaluator_b.wait()
-    view._refit_pool.waitForDone(5000)
+    return view
 
 
 def test_both_grades_are_drawn_on_the_same_axes(ferrite_against_ndfeb):
