@@ -577,7 +577,8 @@ def _chain(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[str, np.n
 
     # 5. Masses; the iron loss scales the nominal tooth and core flux densities with the flux.
     part_masses = masses(g, per(lambda d: d.magnet.density), per(lambda d: d.housing_steel.density),
-                         per(lambda d: d.lamination_steel.density), wire_length, copper_area)
+                         per(lambda d: d.lamination_steel.density), wire_length, copper_area,
+                         optional(lambda d: d.brushes.commutator_diameter))
     nominal_flux = grid_flux[:, 1]
     tooth_b_per_flux = no_load["tooth_flux_density"][:, 1] / nominal_flux
     core_b_per_flux = no_load["core_flux_density"][:, 1] / nominal_flux

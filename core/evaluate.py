@@ -148,7 +148,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
 
     # 5. Masses; the iron loss scales the nominal tooth and core flux densities with the flux.
     part_masses = masses(g, grade.density, d.housing_steel.density, d.lamination_steel.density,
-                         wire_length, w.wire.copper_area)
+                         wire_length, w.wire.copper_area, d.brushes.commutator_diameter)
     nominal_flux = float(grid_point.flux_per_pole[1])
     tooth_b_per_flux = float(grid_point.tooth_flux_density[1]) / nominal_flux
     core_b_per_flux = float(grid_point.core_flux_density[1]) / nominal_flux

@@ -146,7 +146,8 @@ def other_parts(geometry: Geometry, housing_density: float,
     housing_density : float
         Density of the housing steel, of which the end caps are taken to be [kg/m³].
     commutator_diameter : float or ndarray, optional
-        The project's commutator diameter [m]; None for 0.6 armature diameters.
+        The project's commutator diameter [m]; None (or NaN, per design of a batch) for 0.6 armature
+        diameters.
 
     Returns
     -------
@@ -163,8 +164,11 @@ def other_parts(geometry: Geometry, housing_density: float,
     shaft_area = np.pi * g.shaft_radius**2
     cap_thickness = END_CAP_THICKNESS_PER_WALL * g.housing_wall
     end_cap = housing_density * (np.pi * g.housing_inner_radius**2 - shaft_area) * cap_thickness
+    estimate = COMMUTATOR_PER_ARMATURE * 2.0 * g.armature_radius
     if commutator_diameter is None:
-        commutator_diameter = COMMUTATOR_PER_ARMATURE * 2.0 * g.armature_radius
+        commutator_diameter = estimate
+    elif np.ndim(commutator_diameter):  # a batch: NaN where the project leaves the diameter to the estimate
+        commutator_diameter = np.where(np.isnan(commutator_diameter), estimate, commutator_diameter)
     commutator_length = COMMUTATOR_LENGTH_PER_DIAMETER * commutator_diameter
     commutator_ring = np.pi * (commutator_diameter**2 / 4.0 - g.shaft_radius**2)
     bore = 2.0 * g.shaft_radius
