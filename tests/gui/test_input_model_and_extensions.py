@@ -51,13 +51,14 @@ def test_export_action_hands_over_the_current_design(open_window, qtbot, ferrite
     window = open_window(ferrite_demo)
     calls = []
 
-    def open_export_dialog(parent, project, results, path_hint):
-        calls.append((parent, project, results, path_hint))
+    def open_export_dialog(parent, project, results, path_hint, study=None):
+        calls.append((parent, project, results, path_hint, study))
 
     monkeypatch.setattr(export_dialog, "open_export_dialog", open_export_dialog)
     assert window.export_action.isEnabled()
     window.export_action.trigger()
-    assert calls == [(window, window.current_project, window.current_results, window.current_path)]
+    # no production spread has been run on this window, so none is handed over
+    assert calls == [(window, window.current_project, window.current_results, window.current_path, None)]
 
 
 def test_compare_page_is_always_there(open_window, ferrite_demo):
