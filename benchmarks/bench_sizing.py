@@ -19,7 +19,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from pmdc_sizer.core import project, with_values
 from pmdc_sizer.core.batch import evaluate_many
-from pmdc_sizer.core.sizing import SizingSpec, _fitting_designs, size
+from pmdc_sizer.core.sizing import SizingSpec, size
+from pmdc_sizer.core.sizing_candidates import fitting_designs
 from pmdc_sizer.core.sizing_space import from_unit, grade_choices, parse_free, sample_unit
 
 DEMO_FOLDER = Path(__file__).resolve().parents[1] / "demo_projects"
@@ -77,7 +78,7 @@ def main() -> None:
         # where the screen's time goes, on the first 400 candidates of the same sample
         values = from_unit(free, sample_unit(len(free), 400, spec.seed))
         tick = time.perf_counter()
-        _, designs = _fitting_designs(base, free, values)
+        _, designs = fitting_designs(base, free, values)
         built = time.perf_counter() - tick
         tick = time.perf_counter()
         evaluate_many(designs)

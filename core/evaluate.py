@@ -40,13 +40,12 @@ from .design import Design, design_from_project
 from .envelope import operating_envelope
 from .load_points import point_speeds
 from .loadings import armature_loadings
+from .magnet_curve_figures import demagnetization_curves, normal_coercivity_at
 from .magnets import (
     MagnetGrade,
-    demagnetization_curves,
     intrinsic_coercivity_at,
     knee_field_at,
     model_temperature_range_C,
-    normal_coercivity_at,
     remanence_at,
     require_ambient_inside_model,
 )
@@ -65,6 +64,7 @@ from .performance import (
     mechanical_time_constant,
     speed_torque_curve,
 )
+from .pole_load_table import load_table, magnet_state_of
 from .result_assembly import geometry_result, mass_result, winding_result
 from .results import (
     CaseResult,
@@ -176,7 +176,7 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
                     "nominal": (d.ambient_nominal_C, d.ambient_nominal_C, d.ambient_nominal_C),
                     "hot": (d.ambient_max_C, hot_winding_C, hot_magnet_C)}
     case_temperatures = np.array([temperatures[name][2] for name in _CASE_NAMES])
-    table = pm.load_table(d, case_temperatures, [
+    table = load_table(d, case_temperatures, [
         largest_current(motor_at(temperatures[name][1], float(flux_at(temperatures[name][2]))), d.current_limit)
         for name in _CASE_NAMES])
     rotor_out = pm.pole_states(d, [d.ambient_min_C, d.ambient_max_C], rotor_present=False,
@@ -211,8 +211,8 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
 
     demagnetization = demagnetization_cases(
         grade, extremes, d.current_limit, d.reversing, magnet_state,
-        [("cold", d.ambient_min_C, pm.magnet_state_of(rotor_out, 0)),
-         ("hot", d.ambient_max_C, pm.magnet_state_of(rotor_out, 1))],
+        [("cold", d.ambient_min_C, magnet_state_of(rotor_out, 0)),
+         ("hot", d.ambient_max_C, magnet_state_of(rotor_out, 1))],
     )
     # 9b. Every case against the required margin; the faults: the supply applied directly, no limiter.
     demagnetization = with_required_margin(demagnetization, grade, d.required_margin_share)

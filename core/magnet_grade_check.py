@@ -14,8 +14,8 @@ References
 
 from __future__ import annotations
 
+from .magnet_curve_figures import energy_product_of_curve, normal_coercivity_at
 from .magnet_grades import REFERENCE_TEMPERATURE_C, GradeDataError, MagnetGrade, require_modelled_family
-from .magnets import energy_product_of_curve, normal_coercivity_at
 from .units import MU_0
 
 #: How far the curve may miss the grade's stored HcB and (BH)max at 20 °C before the grade is refused

@@ -5,7 +5,8 @@ in or pulled out (core.reluctance_network, core.network_elements), and reduces e
 figures an engineer reads: the flux per pole, the mean air-gap flux density under the magnet and its value
 at the pole centre, the flux densities in the teeth under the pole, in the housing and in the armature
 core at the interpolar axis, the magnet's mean operating point, and the field in every magnet segment with
-the worst of them and the share of the magnet past the knee.
+the worst of them and the share of the magnet past the knee. The table of these states over each case's
+armature currents, which the curves and the demagnetization cases read, is :mod:`core.pole_load_table`.
 
 Definitions (the same as the field solution's, core.field.postprocess, so the two compare like for like):
 
@@ -284,147 +285,6 @@ def _entries(elements: NetworkElements, rows: np.ndarray) -> NetworkElements:
 
     taken: NetworkElements = take(elements)
     return taken
-
-
-#: Currents of each case's table of flux against current, from 0 to the largest current [1].
-LOAD_POINTS = 12
-
-
-@dataclass(frozen=True)
-class LoadTable:
-    """The pole's state at each case's magnet temperature over a grid of armature currents."""
-
-    currents: np.ndarray  #: (cases, points), from 0 [A]
-    states: PoleState  #: flattened, case after case, current after current
-
-    def flux(self, case: int) -> tuple[np.ndarray, np.ndarray]:
-        """Currents [A] and the flux per pole there [Wb] for one case.
-
-        Parameters
-        ----------
-        case : int
-            Its index.
-
-        Returns
-        -------
-        tuple of ndarray
-            Currents and flux per pole.
-        """
-        points = self.currents.shape[1]
-        return self.currents[case], self.states.flux_per_pole[case * points:(case + 1) * points]
-
-    def no_load(self, case: int, name: str):
-        """A field of the state at zero current for one case.
-
-        Parameters
-        ----------
-        case : int
-            Its index.
-        name : str
-            The PoleState field.
-
-        Returns
-        -------
-        float or ndarray
-            The value (a row for per-segment fields).
-        """
-        return getattr(self.states, name)[case * self.currents.shape[1]]
-
-    def magnet_state(self, case: int, current: float):
-        """The magnet's field at a current, interpolated linearly in I² segment by segment between the
-        grid's currents.
-
-        Parameters
-        ----------
-        case : int
-            Its index.
-        current : float
-            Armature current [A] (its magnitude; within the grid).
-
-        Returns
-        -------
-        MagnetState
-            The worst-area field, its position, the share past the knee and the flux per pole.
-        """
-        from .demagnetization import MagnetState
-
-        points = self.currents.shape[1]
-        rows = slice(case * points, (case + 1) * points)
-        first = case * points
-        grid = self.currents[case]
-
-        # in I², as the flux (core.motor_model.constant_at): the fields are even in the current near 0; one
-        # position on the grid for every column (np.interp's, as a fractional index)
-        position = float(np.interp(current**2, grid**2, np.arange(points, dtype=float)))
-        below = min(int(position), points - 2)
-        weight = position - below
-
-        def at_current(values: np.ndarray) -> np.ndarray:
-            return np.asarray(values[below] + weight * (values[below + 1] - values[below]))
-
-        field = at_current(self.states.segment_field[rows])
-        cells = at_current(self.states.cell_field[rows])
-        cell_share = self.states.cell_share[first]
-        knee = float(self.states.knee_field[first])
-        return MagnetState(
-            worst_field=float(worst_share_field(cells, cell_share)),
-            worst_angle=float(self.states.cell_angle[first][int(np.argmin(cells))]),
-            past_knee_fraction=float(cell_share[cells < knee].sum()),
-            flux_per_pole=float(np.interp(current**2, grid**2, self.states.flux_per_pole[rows])),
-            segment_angle=self.states.segment_angle[first], segment_field=field,
-            segment_share=self.states.segment_share[first],
-        )
-
-
-def load_table(design, temperatures_C, largest_currents, points: int = LOAD_POINTS) -> LoadTable:
-    """Solve a design's network at each case's temperature over currents from 0 to its largest current.
-
-    Parameters
-    ----------
-    design : Design
-        The design (SI).
-    temperatures_C : sequence of float
-        Each case's magnet temperature [°C].
-    largest_currents : sequence of float
-        Each case's largest current [A] (reversal at speed, stall, the drive's limit).
-    points : int
-        Currents per case [1].
-
-    Returns
-    -------
-    LoadTable
-        One batch solve of cases × points.
-    """
-    currents = np.linspace(0.0, 1.0, points)[None, :] * np.asarray(largest_currents, dtype=float)[:, None]
-    temperatures = np.repeat(np.asarray(temperatures_C, dtype=float), points)
-    states = pole_states(design, temperatures, currents.ravel(),
-                         what="the magnetic circuit under load (cold, nominal or hot)")
-    return LoadTable(currents=currents, states=states)
-
-
-def magnet_state_of(states: PoleState, index: int):
-    """The magnet's field of one entry of a batch, as the demagnetization cases take it.
-
-    Parameters
-    ----------
-    states : PoleState
-        A batch.
-    index : int
-        The entry.
-
-    Returns
-    -------
-    MagnetState
-        The worst-area field, its position, the share past the knee and the flux per pole.
-    """
-    from .demagnetization import MagnetState
-
-    return MagnetState(
-        worst_field=float(states.worst_field[index]), worst_angle=float(states.worst_angle[index]),
-        past_knee_fraction=float(states.past_knee_fraction[index]), flux_per_pole=float(states.flux_per_pole[index]),
-        segment_angle=states.segment_angle[index], segment_field=states.segment_field[index],
-        segment_share=states.segment_share[index],
-    )
 
 
 def effective_gap(design) -> float:

@@ -6,83 +6,25 @@ validator, the GUI's editor, the key table in ``docs/project-file.md`` and the c
 all read it.
 
 Rules: unknown keys are errors (a typo is never ignored), values are strictly typed (a number where a
-number belongs), and every range names its key. Cross-field rules live in :mod:`fit_rules`, reading and
-writing files in :mod:`project`, what-if edits in :mod:`edits`.
+number belongs), and every range names its key. How a key is declared lives in :mod:`schema_fields`, the
+``[tolerances]`` table in :mod:`schema_tolerances` (both re-exported here), cross-field rules in
+:mod:`fit_rules`, reading and writing files in :mod:`project`, what-if edits in :mod:`edits`.
 """
 
 from __future__ import annotations
 
 import datetime
-import types
-import typing
 from typing import Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, field_validator
+from pydantic import Field, field_validator
+
+from .schema_fields import UNION_ORIGINS, Section, choice, quantity
+from .schema_tolerances import Distribution, Tolerances, spread
 
 FORMAT_VERSION = 1
 
-#: What ``typing.get_origin`` gives for an optional key's annotation, ``X | None`` or ``Optional[X]``
-#: (different objects at run time on Python 3.11).
-UNION_ORIGINS = (types.UnionType, typing.Union)
 
-
-def quantity(default: Any, unit: str, minimum: float | None = None, maximum: float | None = None,
-             description: str = "", **kwargs: Any) -> Any:
-    """A numeric field with its engineering unit, inclusive limits and a one-sentence description.
-
-    Parameters
-    ----------
-    default : float, int, None or Ellipsis
-        The default in the key's unit; ``...`` for a required key, None for an optional one.
-    unit : str
-        The key's engineering unit as written in the file (``"mm"``, ``"°C"``; ``""`` for a count).
-    minimum, maximum : float or None, optional
-        Inclusive limits in the key's unit; None for no limit.
-    description : str, optional
-        One sentence for the docs table, the GUI's tooltip and the messages.
-    **kwargs
-        Passed on to :func:`pydantic.Field`.
-
-    Returns
-    -------
-    pydantic.fields.FieldInfo
-        The field (typed ``Any``, as :func:`pydantic.Field` is, so that it can stand as a default).
-    """
-    return Field(
-        default,
-        ge=minimum,
-        le=maximum,
-        description=description,
-        json_schema_extra={"unit": unit},
-        **kwargs,
-    )
-
-
-def choice(default: Any, description: str) -> Any:
-    """A field that takes one of a fixed set of values (its annotation's ``Literal``), without a unit.
-
-    Parameters
-    ----------
-    default : str or int
-        The default choice.
-    description : str
-        One sentence for the docs table, the GUI's tooltip and the messages.
-
-    Returns
-    -------
-    pydantic.fields.FieldInfo
-        The field (typed ``Any``, as :func:`pydantic.Field` is).
-    """
-    return Field(default, description=description, json_schema_extra={"unit": ""})
-
-
-class _Section(BaseModel):
-    """A table of the file: unknown keys refused, values strictly typed, frozen."""
-
-    model_config = ConfigDict(extra="forbid", strict=True, frozen=True, validate_default=True)
-
-
-class ProjectInfo(_Section):
+class ProjectInfo(Section):
     """``[project]``: the design's name, revision and notes, as the datasheet shows them."""
 
     name: str = Field("Untitled motor", min_length=1, max_length=120,
@@ -120,7 +62,7 @@ class ProjectInfo(_Section):
         return value
 
 
-class Supply(_Section):
+class Supply(Section):
     """``[supply]``: the DC supply at the motor terminals, the brushes and the drive."""
 
     voltage_V: float = quantity(12.0, "V", 1.0, 600.0, "DC supply voltage at the motor terminals.")
@@ -136,7 +78,7 @@ class Supply(_Section):
         "no limiter): a failing fault case fails the design, or is only reported with a warning.")
 
 
-class LoadPoint(_Section):
+class LoadPoint(Section):
     """One further torque-speed point the motor must reach, an entry of ``load.further_points``."""
 
     torque_mNm: float = quantity(..., "mN·m", 0.0, 1.0e5, "Shaft torque of the point.")
@@ -148,7 +90,7 @@ class LoadPoint(_Section):
 MAX_FURTHER_POINTS = 20
 
 
-class Load(_Section):
+class Load(Section):
     """``[load]``: the rated point the motor must meet, and any further points."""
 
     torque_mNm: float = quantity(50.0, "mN·m", 0.0, 1.0e5, "Shaft torque at the rated point.")
@@ -167,7 +109,7 @@ class Load(_Section):
         return tuple(value) if isinstance(value, list) else value
 
 
-class Temperatures(_Section):
+class Temperatures(Section):
     """``[temperatures]``: the ambient range, which sets the cold, nominal and hot cases."""
 
     ambient_min_C: float = quantity(-20.0, "°C", -70.0, 60.0, "Coldest ambient the motor must work and survive in.")
@@ -175,7 +117,7 @@ class Temperatures(_Section):
     ambient_max_C: float = quantity(40.0, "°C", -20.0, 150.0, "Hottest ambient the motor must work in.")
 
 
-class CustomGrade(_Section):
+class CustomGrade(Section):
     """``[magnets.custom_grade]``: a grade's data from a supplier's certificate, in the file's units."""
 
     name: str = Field(..., min_length=1, max_length=60, description="Grade name as the supplier gives it.")
@@ -204,7 +146,7 @@ class CustomGrade(_Section):
                         description="Where the numbers come from (certificate, datasheet).")
 
 
-class Magnets(_Section):
+class Magnets(Section):
     """``[magnets]``: the grade and the arc magnets' dimensions."""
 
     grade: str | None = Field(
@@ -226,14 +168,14 @@ class Magnets(_Section):
         "case's temperature (5 % covers a batch's usual HcJ spread; common practice, no source).")
 
 
-class Motor(_Section):
+class Motor(Section):
     """``[motor]``: the number of poles."""
 
     poles: Literal[2, 4, 6] = Field(2, description="Number of magnet poles: 2, 4 or 6.",
                                     json_schema_extra={"unit": ""})
 
 
-class Housing(_Section):
+class Housing(Section):
     """``[housing]``: the steel tube that holds the magnets and carries the return flux."""
 
     wall_mm: float = quantity(2.5, "mm", 0.3, 25.0,
@@ -249,13 +191,13 @@ class Housing(_Section):
         "end cap to end cap (the end caps sit inside the tube), without the shaft's run-out at the drive end.")
 
 
-class Airgap(_Section):
+class Airgap(Section):
     """``[airgap]``: the radial clearance between armature and magnets."""
 
     length_mm: float = quantity(0.5, "mm", 0.05, 5.0, "Radial clearance between armature and magnet faces.")
 
 
-class Armature(_Section):
+class Armature(Section):
     """``[armature]``: the slotted lamination stack and the shaft."""
 
     outer_diameter_mm: float = quantity(30.0, "mm", 5.0, 300.0, "Outer diameter of the armature lamination stack.")
@@ -273,7 +215,7 @@ class Armature(_Section):
     steel: str = Field("M400-50A", min_length=1, description="Lamination steel from the library.")
 
 
-class Winding(_Section):
+class Winding(Section):
     """``[winding]``: the armature winding, its wire and its insulation class."""
 
     type: Literal["lap", "wave"] = choice(
@@ -292,7 +234,7 @@ class Winding(_Section):
                                       "Scales the estimated end-turn length (1 is the estimate; measure and adjust).")
 
 
-class Losses(_Section):
+class Losses(Section):
     """``[losses]``: the mechanical losses and the iron loss's build factor."""
 
     friction_torque_mNm: float = quantity(2.0, "mN·m", 0.0, 1.0e4, "Constant friction torque of bearings and brushes.")
@@ -301,7 +243,7 @@ class Losses(_Section):
         1.5, "1", 1.0, 4.0, "Multiplies the catalogue core loss for punching and rotation (1.5 is common practice).")
 
 
-class Thermal(_Section):
+class Thermal(Section):
     """``[thermal]``: the thermal network's resistances, the time constant and the duty type."""
 
     winding_to_housing_K_per_W: float = quantity(1.5, "K/W", 0.0, 100.0,
@@ -332,7 +274,7 @@ class Thermal(_Section):
                                     "S3: length of one cycle, loaded and at rest (IEC 60034-1 takes 10 min).")
 
 
-class Brushes(_Section):
+class Brushes(Section):
     """``[brushes]``: the brushes and the commutator they run on."""
 
     grade: Literal["carbon-graphite", "electrographite", "resin-bonded graphite", "copper-graphite",
@@ -352,14 +294,14 @@ class Brushes(_Section):
         None, "mm", 3.0, 300.0, "Commutator diameter; leave out for 0.6 times the armature diameter.")
 
 
-class Rotor(_Section):
+class Rotor(Section):
     """``[rotor]``: what else turns with the armature."""
 
     extra_inertia_gcm2: float = quantity(0.0, "g·cm2", 0.0, 1.0e7,
                                          "Inertia of the commutator, fan and anything else on the shaft.")
 
 
-class Prices(_Section):
+class Prices(Section):
     """``[prices]``: material prices per kilogram, for the material cost."""
 
     currency: str = Field("EUR", min_length=1, max_length=8, description="Currency of the prices below.",
@@ -373,85 +315,7 @@ class Prices(_Section):
                                         "Price of lamination steel (as punched, scrap included).")
 
 
-Distribution = Literal["normal", "uniform"]
-
-
-def spread(description: str, default: str = "normal") -> Any:
-    """The distribution of one tolerance: "normal" (the ± is 3σ) or "uniform" (flat across the ±).
-
-    Parameters
-    ----------
-    description : str
-        What the tolerance spreads, for the key's help text, e.g. "the air gap".
-    default : str
-        The distribution when the file gives none.
-
-    Returns
-    -------
-    Any
-        A pydantic field that accepts "normal" or "uniform".
-    """
-    return choice(default, f"How {description} spreads within its ±: normal (the ± is 3σ; parts outside it are "
-                           "rejected at inspection) or uniform (any value across the ± equally likely).")
-
-
-class Tolerances(_Section):
-    """``[tolerances]``: the production spread of the design, each a ± with its distribution.
-
-    The defaults are typical of small motors built in series; each says where it comes from. A tolerance
-    the file sets is checked when the file is read; a default when the study runs (it may not suit a
-    design: a ±0.2 V spread on a 0 V brush drop).
-    """
-
-    remanence_pct: float = quantity(
-        2.0, "%", 0.0, 20.0,
-        "± of Br about the grade's typical value (2 %: suppliers' grade bands run about ±1.5 % for sintered NdFeB "
-        "and ±2.5 % for hard ferrite, from memory).")
-    remanence_distribution: Distribution = spread("Br")
-    coercivity_pct: float = quantity(
-        5.0, "%", 0.0, 30.0,
-        "± of HcJ about the grade's typical value (5 %: batch-to-batch spread of HcJ; common practice, no source).")
-    coercivity_distribution: Distribution = spread("HcJ")
-    magnet_thickness_mm: float = quantity(
-        0.05, "mm", 0.0, 5.0,
-        "± of each magnet's radial thickness (0.05 mm: ground arcs; as-pressed ferrite arcs run ±0.1 mm; common "
-        "practice, no source).")
-    magnet_thickness_distribution: Distribution = spread("the magnet thickness")
-    airgap_mm: float = quantity(
-        0.04, "mm", 0.0, 2.0,
-        "± of the radial air gap, the stack-up of armature grinding, magnet face and bearing play (0.04 mm; common "
-        "practice, no source).")
-    airgap_distribution: Distribution = spread("the air gap")
-    wire_diameter_mm: float | None = quantity(
-        None, "mm", 0.0, 0.5,
-        "± of the bare wire diameter; leave out for IEC 60317-0-1's tolerance on the nominal conductor diameter "
-        "(±0.003 mm up to 0.224 mm, rising to 1 % of the diameter above 0.63 mm; from memory of its table).")
-    wire_diameter_distribution: Distribution = spread("the wire diameter")
-    copper_resistivity_pct: float = quantity(
-        1.0, "%", 0.0, 10.0,
-        "± of the copper's resistivity about IEC 60028's annealed copper (1 %: commercial winding copper runs 100 "
-        "to 102 % IACS; from memory).")
-    copper_resistivity_distribution: Distribution = spread("the copper's resistivity", "uniform")
-    brush_drop_V: float = quantity(
-        0.2, "V", 0.0, 5.0,
-        "± of the total brush drop, with the brushes' film and wear (0.2 V; common practice, no source).")
-    brush_drop_distribution: Distribution = spread("the brush drop", "uniform")
-    friction_torque_pct: float = quantity(
-        30.0, "%", 0.0, 100.0,
-        "± of the friction torque, with bearing preload and brush spring force (30 %; common practice, no source).")
-    friction_torque_distribution: Distribution = spread("the friction torque", "uniform")
-    supply_voltage_pct: float = quantity(
-        0.0, "%", 0.0, 50.0,
-        "± of the supply voltage (0: a datasheet quotes its figures at the rated voltage; set the supply's band, a "
-        "battery's or a regulated supply's, to see the spread and yield in the application).")
-    supply_voltage_distribution: Distribution = spread("the supply voltage", "uniform")
-    samples: int = quantity(10000, "", 100, 1000000,
-                            "Motors drawn in the tolerance study (a Latin hypercube over the spreads).")
-    seed: int = quantity(1, "", 0, 2**31 - 1,
-                         "Seed of the study's random numbers; the same seed draws the same motors.")
-
-
-class Project(_Section):
+class Project(Section):
     """A complete design as stored in a file, in the file's engineering units."""
 
     format_version: int = Field(FORMAT_VERSION, ge=1, le=FORMAT_VERSION,
@@ -512,3 +376,11 @@ def to_dict(project: Project) -> dict[str, Any]:
         Nested tables in the file's engineering units.
     """
     return project.model_dump(mode="python", exclude_none=True)
+
+
+__all__ = [
+    "FORMAT_VERSION", "MAX_FURTHER_POINTS", "MAY_BE_LEFT_OUT", "SECTIONS", "UNION_ORIGINS", "Airgap", "Armature",
+    "Brushes", "CustomGrade", "Distribution", "Housing", "Load", "LoadPoint", "Losses", "Magnets", "Motor", "Prices",
+    "Project", "ProjectInfo", "Rotor", "Section", "Supply", "Temperatures", "Thermal", "Tolerances", "Winding",
+    "choice", "quantity", "spread", "to_dict",
+]

@@ -221,12 +221,17 @@ _UNIT_SUFFIXES = ("_T", "_A_per_m", "_Wb", "_m", "_m2", "_m3", "_kg", "_kg_m2", 
                   "_rad_per_s_per_N_m", "_Pa", "_N_m_per_m3", "_rad", "_J_per_K")
 
 
+#: core.results and the topic modules of results it gathers
+_RESULTS_MODULES = ("pmdc_sizer.core.results", "pmdc_sizer.core.results_magnetics",
+                    "pmdc_sizer.core.results_performance", "pmdc_sizer.core.results_thermal")
+
+
 def test_every_result_field_names_its_unit(ferrite_demo):
     # The issue: "a results object whose every field names its unit".
     missing = set()
 
     def walk(value):
-        if dataclasses.is_dataclass(value) and type(value).__module__ == "pmdc_sizer.core.results":
+        if dataclasses.is_dataclass(value) and type(value).__module__ in _RESULTS_MODULES:
             for f in dataclasses.fields(value):
                 if f.name not in _UNITLESS and not f.name.endswith(_UNIT_SUFFIXES):
                     missing.add(f"{type(value).__name__}.{f.name}")

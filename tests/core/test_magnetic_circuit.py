@@ -24,7 +24,8 @@ from pmdc_sizer.core import library
 from pmdc_sizer.core import magnetic_circuit as mc
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.geometry import Geometry
-from pmdc_sizer.core.magnets import MagnetGrade, normal_coercivity_at, remanence_at
+from pmdc_sizer.core.magnet_curve_figures import normal_coercivity_at
+from pmdc_sizer.core.magnets import MagnetGrade, remanence_at
 from pmdc_sizer.core.project import load
 from pmdc_sizer.core.units import MU_0
 

@@ -9,6 +9,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from pmdc_sizer.core import library
+from pmdc_sizer.core import magnet_curve_figures as curve_figures
 from pmdc_sizer.core import magnets as mg
 from pmdc_sizer.core.magnet_knee import knee_shape
 from pmdc_sizer.core.units import MU_0, to_si
@@ -27,8 +28,8 @@ LINEAR = mg.MagnetGrade(
 def test_linear_energy_product_closed_form():
     # Source: Campbell 1994, ch. 2 (from memory): on B = Br + μ0·μrec·H the product -B·H peaks at
     # H = -HcB/2 with (BH)max = Br²/(4·μ0·μrec).
-    assert_allclose(mg.linear_energy_product(1.0, 1.05), 1.0 / (4.0 * MU_0 * 1.05), rtol=1e-15)
-    assert_allclose(mg.linear_energy_product(1.0, 1.0), 198.9437e3, rtol=1e-6)  # 1 T, μrec = 1: 198.94 kJ/m³
+    assert_allclose(curve_figures.linear_energy_product(1.0, 1.05), 1.0 / (4.0 * MU_0 * 1.05), rtol=1e-15)
+    assert_allclose(curve_figures.linear_energy_product(1.0, 1.0), 198.9437e3, rtol=1e-6)  # 1 T, μrec = 1: 198.94 kJ/m³
 
 
 @pytest.mark.parametrize("recoil", [1.0, 1.03, 1.05])
@@ -39,8 +40,9 @@ def test_energy_product_of_a_linear_curve(remanence, recoil):
     # HcJ 1.6·HcB keeps the knee ~100 knee widths beyond HcB and the recoil line above 0.9·Br to Hk
     hcj = 1.6 * remanence / (MU_0 * recoil)
     grade = dataclasses.replace(LINEAR, remanence=remanence, recoil_permeability=recoil, coercivity_hcj=hcj)
-    assert_allclose(mg.energy_product_of_curve(grade, 20.0), mg.linear_energy_product(remanence, recoil), rtol=1e-9)
-    assert_allclose(mg.normal_coercivity_at(grade, 20.0), remanence / (MU_0 * recoil), rtol=1e-9)
+    assert_allclose(curve_figures.energy_product_of_curve(grade, 20.0),
+                    curve_figures.linear_energy_product(remanence, recoil), rtol=1e-9)
+    assert_allclose(curve_figures.normal_coercivity_at(grade, 20.0), remanence / (MU_0 * recoil), rtol=1e-9)
 
 
 # Published ranges at 20 °C, from memory of the grade tables of IEC 60404-8-1, MMPA Standard
@@ -84,7 +86,7 @@ def test_grade_data_are_consistent(name):
     assert grade.source, "every entry carries a source note"
     assert 0.0 < grade.coercivity_hcb <= grade.coercivity_hcj
     # (BH)max can never exceed the ideal straight line through Br with μrec = 1 (Campbell 1994, ch. 2)
-    assert grade.energy_product < mg.linear_energy_product(grade.remanence, 1.0)
+    assert grade.energy_product < curve_figures.linear_energy_product(grade.remanence, 1.0)
     expected_sign = 1.0 if grade.family.startswith("hard ferrite") else -1.0
     assert np.sign(grade.coercivity_temp_coeff) == expected_sign
     assert grade.remanence_temp_coeff < 0.0
@@ -95,8 +97,8 @@ def test_model_reproduces_the_grade_hcb_and_energy_product_within_two_percent(na
     # The model meets Br and HcJ exactly and must reproduce the grade's own HcB and (BH)max within 2 %
     # (the library refuses a grade otherwise; the trade's class ranges span about ±5 %).
     grade = GRADES[name]
-    assert_allclose(mg.normal_coercivity_at(grade, 20.0), grade.coercivity_hcb, rtol=0.02)
-    assert_allclose(mg.energy_product_of_curve(grade, 20.0), grade.energy_product, rtol=0.02)
+    assert_allclose(curve_figures.normal_coercivity_at(grade, 20.0), grade.coercivity_hcb, rtol=0.02)
+    assert_allclose(curve_figures.energy_product_of_curve(grade, 20.0), grade.energy_product, rtol=0.02)
     assert_allclose(mg.remanence_at(grade, 20.0), grade.remanence, rtol=1e-15)
     assert_allclose(mg.flux_density(grade, -grade.coercivity_hcj, 20.0), -MU_0 * grade.coercivity_hcj, atol=1e-12)
 
@@ -106,14 +108,14 @@ def test_a_knee_fitted_through_hcb_meets_it(name):
     # Where the stored HcB lies on the knee (J more than 1 % of Br below the recoil line there), the
     # two-parameter knee passes through it: to the root finder's precision.
     grade = GRADES[name]
-    assert_allclose(mg.normal_coercivity_at(grade, 20.0), grade.coercivity_hcb, rtol=1e-9)
+    assert_allclose(curve_figures.normal_coercivity_at(grade, 20.0), grade.coercivity_hcb, rtol=1e-9)
 
 
 def test_the_measured_misfits_are_gone():
     # The misfits the review measured on the old one-parameter knee: Y40's HcB 313 against 330 kA/m,
     # bonded NdFeB 8's +6.5 % (both fitted now); the model's HcB of Y40 must be 330 within 2 %.
-    assert_allclose(mg.normal_coercivity_at(GRADES["Y40"], 20.0), to_si(330.0, "kA/m"), rtol=0.02)
-    assert_allclose(mg.normal_coercivity_at(GRADES["bonded NdFeB 8"], 20.0), to_si(400.0, "kA/m"), rtol=1e-6)
+    assert_allclose(curve_figures.normal_coercivity_at(GRADES["Y40"], 20.0), to_si(330.0, "kA/m"), rtol=0.02)
+    assert_allclose(curve_figures.normal_coercivity_at(GRADES["bonded NdFeB 8"], 20.0), to_si(400.0, "kA/m"), rtol=1e-6)
 
 
 @pytest.mark.parametrize("name", sorted(GRADES))
@@ -220,7 +222,7 @@ def test_squareness_too_low_for_the_recoil_line_is_refused():
 
 def test_demagnetization_curves_for_charts():
     grade = GRADES["Y30BH"]
-    curves = mg.demagnetization_curves(grade, -20.0, samples=120)
+    curves = curve_figures.demagnetization_curves(grade, -20.0, samples=120)
     assert curves.field_strength.shape == curves.flux_density.shape == curves.polarization.shape == (120,)
     assert curves.field_strength[0] == pytest.approx(-1.1 * curves.coercivity_hcj)
     assert curves.field_strength[-1] == 0.0

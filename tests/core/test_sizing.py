@@ -14,10 +14,10 @@ from pmdc_sizer.core.sizing import (
     GEOMETRY_KEYS,
     SizingCancelled,
     SizingSpec,
-    _fitting_designs,
     project_with,
     size,
 )
+from pmdc_sizer.core.sizing_candidates import fitting_designs
 from pmdc_sizer.core.sizing_objectives import OBJECTIVES, objective_matrix
 from pmdc_sizer.core.sizing_space import free_keys, from_unit, grade_choices, parse_free, sample_unit
 
@@ -168,7 +168,7 @@ def test_geometry_keys_are_those_geometry_of_reads(ferrite_base):
 def test_shared_designs_equal_their_own_conversion(ferrite_base):
     spec = _spec(ferrite_base, FERRITE_RANGES, FERRITE_GRADES)
     values = from_unit(spec.free, sample_unit(len(spec.free), 64, 2))
-    rows, designs = _fitting_designs(ferrite_base, spec.free, values)
+    rows, designs = fitting_designs(ferrite_base, spec.free, values)
     assert rows.size > 10
     for design in designs:
         assert design == design_from_project(design.project)
