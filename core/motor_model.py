@@ -206,8 +206,12 @@ def speed_at_current(model: MotorModel, current):
     float or ndarray
         [rad/s].
     """
-    back_emf = model.voltage - model.brush_drop - model.resistance * current
-    return np.maximum(back_emf / constant_at(model, current), 0.0)
+    return _speed_with_constant(model, current, constant_at(model, current))
+
+
+def _speed_with_constant(model: MotorModel, current, constant):
+    """ω = (V - Vb - R·I)/Ke, never below 0, with Ke at this current already looked up [rad/s]."""
+    return np.maximum((model.voltage - model.brush_drop - model.resistance * current) / constant, 0.0)
 
 
 def shaft_torque_at_current(model: MotorModel, current):
@@ -226,8 +230,7 @@ def shaft_torque_at_current(model: MotorModel, current):
         [N·m].
     """
     constant = constant_at(model, current)
-    # speed_at_current with this constant (looked up once)
-    speed = np.maximum((model.voltage - model.brush_drop - model.resistance * current) / constant, 0.0)
+    speed = _speed_with_constant(model, current, constant)  # Ke looked up once for both
     return constant * current - loss_torque(model, speed)
 
 
