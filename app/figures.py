@@ -178,7 +178,7 @@ FIGURES: dict[str, Figure] = {
     "demagnetization.worst_margin_A_per_m": _f("Least margin to the knee", "kA/m"),
     "demagnetization_case.temperature_C": _f("Magnet temperature", "°C"),
     "demagnetization_case.current_A": _f("Current", "A"),
-    "demagnetization_case.magnet_field_A_per_m": _f("Field over the magnet's worst 5 %", "kA/m"),
+    "demagnetization_case.magnet_field_A_per_m": _f("Field, worst 5 %", "kA/m"),  # the tables' notes explain
     "demagnetization_case.magnet_flux_density_T": _f("Flux density at that field", "T"),
     "demagnetization_case.worst_angle_rad": _f("Worst spot from the pole centre", "°"),
     "demagnetization_case.mean_field_A_per_m": _f("Mean field over the magnet", "kA/m"),

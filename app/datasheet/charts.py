@@ -635,7 +635,8 @@ def magnet_legend(results: Results) -> list[list[LegendItem]]:
         + ([_legend_line("shifted_load_line", shifted.title(short=True))] if shifted is not None else []),
         [_short_point("operating_point"), _legend_point("knee")] + [_short_point(point) for point in states]
         + [_short_point("magnet_mean"), _short_point("magnet_segment")],
-        [LegendItem(numbers + "; each case's mark is the mean over the worst 5 % of its magnet's area.", AXIS)],
+        [LegendItem(numbers if numbers.endswith("...") else numbers + ".", AXIS)],
+        [LegendItem("Each case's mark is the mean field over the worst 5 % of its magnet's area.", AXIS)],
         [LegendItem(magnet_marks.PC_NOTE_PRINTED, AXIS)],
     ]
 

@@ -140,6 +140,15 @@ def _shown(source, key: str, results: Results, unit: str | None = None) -> str:
     return text_of(source, key, paper_unit(unit or unit_for(key, results)))
 
 
+def _number_shown(source, key: str, results: Results) -> str:
+    """The figure without its unit, for a table whose header carries it (see :func:`_header_with_unit`)."""
+    return figure(key).number(value_of(source, key), paper_unit(unit_for(key, results)))
+
+
+def _header_with_unit(key: str, results: Results) -> str:
+    return figure(key).label(paper_unit(unit_for(key, results)))
+
+
 def _case_rows(results: Results, *keys: str) -> list[Row]:
     """A row per key of a temperature case (and one per further unit the figure is given in)."""
     rows = []
@@ -265,17 +274,18 @@ def demagnetization_table(results: Results) -> Table:
     labels = demagnetization_point_labels(results)
     rows = []
     for label, case in zip(labels, dm.cases, strict=True):
-        rows.append(Row((label, case.name, *(_shown(case, key, results) for key in DEMAGNETIZATION_KEYS),
+        rows.append(Row((label, case.name, *(_number_shown(case, key, results) for key in DEMAGNETIZATION_KEYS),
                          _state_word(case)), _state_kind(case, dm.worst_case)))
-    header = ("No.", LABELS["demagnetization_case.name"], *(figure(key).title for key in DEMAGNETIZATION_KEYS),
-              LABELS["demagnetization_case.status"])
+    # The units in the header, not in every cell: seven columns of figures must fit the page's width.
+    header = ("No.", LABELS["demagnetization_case.name"],
+              *(_header_with_unit(key, results) for key in DEMAGNETIZATION_KEYS), LABELS["demagnetization_case.status"])
     return Table(header, tuple(rows),
-                 widths=(4, 24, 14, 9, 12, 11, 13, 13), numeric_from=2, numeric_until=7, key="demagnetization",
-                 caption="The margin is the field at the magnet's worst spot (the segment of the arc under the "
-                         "strongest demagnetizing field, wherever along the arc it lies) minus the knee field; "
-                         "positive is safe. The knee is where the magnet starts to lose flux for good: its "
-                         f"intrinsic curve has fallen {KNEE_LOSS_FRACTION:.0%} of Br below the recoil line. "
-                         "The numbers mark the cases on the magnet chart.")
+                 widths=(4, 26, 15, 9, 12, 11, 13, 10), numeric_from=2, numeric_until=7, key="demagnetization",
+                 caption=f"{figure(DEMAGNETIZATION_KEYS[2]).title}: the mean field over the magnet's worst spot, the "
+                         "5 % of its area under the strongest demagnetizing field, wherever along the arc it lies. "
+                         "The margin is that field minus the knee field; positive is safe. The knee is where the "
+                         "magnet starts to lose flux for good: its "
+                         f"intrinsic curve has fallen {KNEE_LOSS_FRACTION:.0%} of Br below the recoil line.")
 
 
 def _state_word(case) -> str:
@@ -297,19 +307,20 @@ def fault_table(results: Results) -> Table | None:
     if faults is None:
         return None
     keys = (*DEMAGNETIZATION_KEYS, "demagnetization_case.required_margin_A_per_m")
-    rows = tuple(Row((label, case.name, *(_shown(case, key, results) for key in keys), _state_word(case)),
+    rows = tuple(Row((label, case.name, *(_number_shown(case, key, results) for key in keys), _state_word(case)),
                      _state_kind(case, faults.worst_case))
                  for label, case in zip(fault_labels(results), faults.cases, strict=True))
     must = ("The project requires the magnets to survive these." if faults.must_survive
             else "The project reports these without requiring them to pass (supply.fault_cases).")
-    return Table(("No.", LABELS["demagnetization_case.name"], *(figure(key).title for key in keys),
+    return Table(("No.", LABELS["demagnetization_case.name"], *(_header_with_unit(key, results) for key in keys),
                   LABELS["demagnetization_case.status"]), rows,
-                 widths=(4, 12, 15, 10, 12, 10, 11, 11, 15), numeric_from=2, numeric_until=8, key="faults",
+                 widths=(4, 14, 13, 9, 11, 10, 11, 12, 16), numeric_from=2, numeric_until=8, key="faults",
                  caption="Faults: stall and reversal at no-load speed with the supply applied directly, as when a "
                          f"drive fails or a battery is connected without it. {must} Safe: at least the required "
                          f"margin, {results.demagnetization.required_margin_share:.0%} of HcJ, on every "
                          "demagnetization case; marginal: above the knee by less. The numbers F1, F2, ... mark "
-                         "the faults on the magnet chart.")
+                         "the faults on the magnet chart. "
+                         f"{figure(DEMAGNETIZATION_KEYS[2]).title} and margin as in the table of cases.")
 
 
 def worst_case_sentence(results: Results) -> str:
@@ -379,13 +390,16 @@ def ratings_table(results: Results) -> Table:
     """The continuous (S1) rating and the permitted stall times at the highest ambient."""
     r = results
     words = no_continuous_rating(r, paper_unit("°C"))
+    # Where there is no rating or no stall time the cell says so and the caption says why (a sentence is too
+    # wide for a cell).
     rows = (_figure_rows(r, "ratings.continuous_torque_N_m", "ratings.continuous_current_A") if words is None
-            else [(figure("ratings.continuous_torque_N_m").title, words)])
+            else [(figure("ratings.continuous_torque_N_m").title, words.split(":", 1)[0])])
+    notes = [] if words is None else [f"{figure('ratings.continuous_torque_N_m').title}: {words}."]
     keys = ("ratings.stall_time_cold_s", "ratings.stall_time_hot_s")
-    # Where there is no stall time the cell says so and the caption says why (a sentence is too wide for a cell).
     rows += [(figure(key).title, NO_STALL if stall_time_reason(r, key) else
               stall_time_text(r, key, paper_unit(figure(key).unit))) for key in keys]
-    caption = " ".join(f"{figure(key).title}: {stall_time_text(r, key)}." for key in keys if stall_time_reason(r, key))
+    notes += [f"{figure(key).title}: {stall_time_text(r, key)}." for key in keys if stall_time_reason(r, key)]
+    caption = " ".join(notes)
     return _kv(rows, caption=caption, title="Ratings up to the class limit, hottest ambient", key="ratings")
 
 
@@ -548,8 +562,8 @@ def _build(project: Project, results: Results, issued: _dt.date | None, appendix
         *((Section("tolerance", "Production spread", (tolerance_table(r, tolerance),)),) if tolerance is not None
           else ()),
         Section("magnet", "Magnet and demagnetization", (
-            Chart("magnet", "Second-quadrant curves of the grade at the three magnet temperatures with the load lines, "
-                            "no-load operating points, knees and the demagnetization cases numbered as in the table."),
+            Chart("magnet", "The grade's second quadrant at the three magnet temperatures: load lines, no-load "
+                            "points, knees and the cases, numbered as in the table."),
             demagnetization_table(r),
             Paragraph(worst_case_sentence(r), "strong" if r.demagnetization.ok else "fail"),
             Columns((magnet_grade,), (operating_points,)),
@@ -557,8 +571,9 @@ def _build(project: Project, results: Results, issued: _dt.date | None, appendix
         Section("outline", "Outline", (
             Chart("outline", "End view and side view with the main dimensions. Shaft extension, terminals and "
                              "mounting are set by the mechanical drawing, not by this sheet."),
-        ), new_page=True),
-        Section("construction", "Construction and masses" + (" and cost" if internal else ""), (construction,)),
+        )),  # no forced page: the page breaker keeps it whole where the magnet page leaves no room
+        Section("construction", "Construction, masses and cost" if internal else "Construction and masses",
+                (construction,)),
 
         Section("terminals", "Terminals and direction of rotation", (
             Table(("Marking", "Meaning"), tuple(Row(t) for t in TERMINAL_ROWS), widths=(15, 85), numeric_from=99,

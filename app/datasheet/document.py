@@ -12,7 +12,20 @@ import html
 import re
 
 from PySide6.QtCore import QMarginsF, QPointF, QRectF, QSizeF, Qt, QUrl
-from PySide6.QtGui import QColor, QImage, QPageLayout, QPageSize, QPainter, QPdfWriter, QPen, QTextDocument
+from PySide6.QtGui import (
+    QColor,
+    QImage,
+    QPageLayout,
+    QPageSize,
+    QPainter,
+    QPdfWriter,
+    QPen,
+    QTextBlock,
+    QTextBlockFormat,
+    QTextCursor,
+    QTextDocument,
+    QTextFormat,
+)
 
 from pmdc_sizer.core.results import Results
 
@@ -208,9 +221,10 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
     pad = f"{0.42 * px_per_mm:.0f}"
     out = []
     if table.title:
-        out.append(f'<p style="font-weight: 700; font-size: {BODY_FONT_PT + 0.8}pt; margin-top: 6pt; '
+        # A heading (level 3), so that the page breaker keeps it with its table.
+        out.append(f'<h3 style="font-weight: 700; font-size: {BODY_FONT_PT + 0.8}pt; margin-top: 6pt; '
                    'margin-bottom: 2pt;">'
-                   f"{_e(table.title)}</p>")
+                   f"{_e(table.title)}</h3>")
     out.append(f'<table width="100%" cellspacing="0" cellpadding="{pad}" style="border-collapse: collapse;">')
     if any(table.header):
         out.append("<thead><tr>" + "".join(
@@ -255,7 +269,7 @@ def _qt_block(block, body_width_px: float, px_per_mm: float) -> str:
     if isinstance(block, Columns):
         halves = ["".join(_qt_block(b, body_width_px / 2, px_per_mm) for b in side)
                   for side in (block.left, block.right)]
-        return ('<table width="100%" cellspacing="0" cellpadding="0"><tr>'
+        return ('<table width="100%" cellspacing="0" cellpadding="0" style="margin-top: 6pt;"><tr>'
                 f'<td width="48%" valign="top">{halves[0]}</td><td width="4%"></td>'
                 f'<td width="48%" valign="top">{halves[1]}</td></tr></table>')
     if isinstance(block, Picture):
@@ -348,6 +362,7 @@ class PagedDatasheet:
                                               QImage.fromData(block.png, "PNG"))
         self.document.setHtml(self._with_pixel_sizes(qt_html(sheet, chart_width, mm, bool(logo_png))))
         self.document.setPageSize(QSizeF(self.body.width(), self.body.height()))
+        keep_together(self.document)
 
     def _with_pixel_sizes(self, text: str) -> str:
         """Qt resolves pt against the screen, not the page: give every size in device pixels."""
@@ -401,6 +416,106 @@ class PagedDatasheet:
         self.paint_page(painter, index)
         painter.end()
         return image
+
+
+KEEP_WHOLE_SHARE = 0.6  #: a table up to this share of a page moves whole to the next page rather than split
+MAX_PAGE_BREAKS = 40  #: breaks the pass may add (each one lays the document out again)
+
+
+def _page_of(y: float, page_height: float) -> int:
+    return int(y // page_height)
+
+
+def _straddles(rect: QRectF, page_height: float) -> bool:
+    return _page_of(rect.top(), page_height) != _page_of(rect.bottom() - 1.0, page_height)
+
+
+def _break_before(block: QTextBlock) -> None:
+    form = QTextBlockFormat()
+    form.setPageBreakPolicy(QTextFormat.PageBreakFlag.PageBreak_AlwaysBefore)
+    QTextCursor(block).mergeBlockFormat(form)
+
+
+def _short_section_split(document: QTextDocument, heading: QTextBlock, page_height: float) -> bool:
+    """Whether the section under ``heading`` (to the next h2) is short enough to keep whole but split."""
+    if heading.blockFormat().pageBreakPolicy() != QTextFormat.PageBreakFlag.PageBreak_Auto:
+        return False
+    layout = document.documentLayout()
+    top = layout.blockBoundingRect(heading).top()
+    if top % page_height < 1.0:
+        return False  # already at the top of a page
+    bottom = top
+    block = heading.next()
+    while block.isValid():  # to the end of the section's last block, not the next heading: it may open a page
+        table = QTextCursor(block).currentTable()
+        if table is None and block.blockFormat().headingLevel() == 2:
+            break
+        while table is not None and table.parentFrame() is not document.rootFrame():
+            table = table.parentFrame()
+        rect = layout.frameBoundingRect(table) if table is not None else layout.blockBoundingRect(block)
+        if block.length() > 1 or table is not None:  # the empty block Qt puts after a table has no height to keep
+            bottom = max(bottom, rect.bottom())
+        block = block.next()
+    section = QRectF(0.0, top, 1.0, bottom - top)
+    return _straddles(section, page_height) and section.height() < KEEP_WHOLE_SHARE * page_height
+
+
+def _first_break(document: QTextDocument, page_height: float) -> bool:
+    """Add the first page break the layout needs (True), or none is needed (False).
+
+    QTextDocument ignores CSS page-break-inside and keep-with-next, so the pass does their job: a heading
+    (h2 or a table's title) is never the last thing on a page, and a section or a table that fits in
+    :data:`KEEP_WHOLE_SHARE` of a page is not split (it moves, with the headings just above it).
+    """
+    layout = document.documentLayout()
+    block = document.begin()
+    while block.isValid():
+        table = QTextCursor(block).currentTable()
+        if table is not None and table.parentFrame() is document.rootFrame():
+            rect = layout.frameBoundingRect(table)
+            if _straddles(rect, page_height) and rect.height() < KEEP_WHOLE_SHARE * page_height:
+                lead = QTextCursor(table.firstCursorPosition())
+                lead.movePosition(QTextCursor.MoveOperation.PreviousBlock)
+                first = lead.block() if lead.block() != block else block
+                while first.previous().isValid() and first.blockFormat().headingLevel() > 0 \
+                        and first.previous().blockFormat().headingLevel() > 0:
+                    first = first.previous()
+                if first.blockFormat().headingLevel() > 0 and first.blockNumber() < block.blockNumber():
+                    _break_before(first)
+                else:
+                    form = table.frameFormat()
+                    form.setPageBreakPolicy(QTextFormat.PageBreakFlag.PageBreak_AlwaysBefore)
+                    table.setFrameFormat(form)
+                return True
+            block = document.findBlock(table.lastPosition() + 1)
+            continue
+        if block.blockFormat().headingLevel() == 2 and _short_section_split(document, block, page_height):
+            _break_before(block)
+            return True
+        if block.blockFormat().headingLevel() > 0 and block.next().isValid():
+            here = _page_of(layout.blockBoundingRect(block).top(), page_height)
+            following = block.next()
+            following_table = QTextCursor(following).currentTable()
+            top = (layout.frameBoundingRect(following_table).top() if following_table is not None
+                   else layout.blockBoundingRect(following).top())
+            if _page_of(top, page_height) > here and block.blockFormat().pageBreakPolicy() == \
+                    QTextFormat.PageBreakFlag.PageBreak_Auto:
+                first = block
+                while first.previous().isValid() and first.previous().blockFormat().headingLevel() > 0:
+                    first = first.previous()
+                _break_before(first)
+                return True
+        block = block.next()
+    return False
+
+
+def keep_together(document: QTextDocument) -> int:
+    """Break pages where a heading would end a page or a short table would split; returns the breaks added."""
+    page_height = document.pageSize().height()
+    for added in range(MAX_PAGE_BREAKS):
+        if not _first_break(document, page_height):
+            return added
+    return MAX_PAGE_BREAKS
 
 
 _PAGE_SIZE_IDS = {"A4": QPageSize.PageSizeId.A4, "Letter": QPageSize.PageSizeId.Letter}

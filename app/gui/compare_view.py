@@ -215,9 +215,10 @@ class CompareView(QWidget):
 
         self.refit_report = QTextBrowser()
         self.refit_report.setObjectName("refit_report")
-        self.refit_report.setPlaceholderText(
-            "No re-fit yet. A re-fit changes one input of B until B meets A's figure; it takes a few dozen "
-            "evaluations, well under a second.")
+        # As grey text rather than a placeholder: Qt does not wrap a placeholder, and a narrow column cut it off.
+        self.refit_report.setHtml(
+            "<span style='color: #6b7280;'>No re-fit yet. A re-fit changes one input of B until B meets A's figure; "
+            "it takes a few dozen evaluations, well under a second.</span>")
         column.addWidget(self.refit_report)
         for index, stretch in enumerate((3, 2, 1)):
             column.setStretchFactor(index, stretch)

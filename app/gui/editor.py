@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import math
 
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QSize, Qt
 from PySide6.QtWidgets import (
     QAbstractSpinBox,
     QCheckBox,
@@ -25,6 +25,8 @@ from PySide6.QtWidgets import (
     QScrollArea,
     QSizePolicy,
     QSpinBox,
+    QStyle,
+    QStyleOptionSpinBox,
     QToolButton,
     QVBoxLayout,
     QWidget,
@@ -199,6 +201,28 @@ class QuantitySpinBox(_NoWheelUnlessFocused, QDoubleSpinBox):
         text = f"{value:.{decimals}f}"
         return text.rstrip("0").rstrip(".") if "." in text else text
 
+    #: the values the box is sized for: the schema's limits on screen (set by FieldEditor), not its range
+    sized_for: tuple[float, float] | None = None
+
+    def minimumSizeHint(self) -> QSize:  # noqa: N802 - Qt's name
+        # Qt sizes a spin box for the text of its range, which is kept a thousand times wider than the
+        # schema's limits (see FieldEditor._configure_range): sized that way the boxes pushed the editor's
+        # column past its viewport and were cut off on the right. Size for the limits instead.
+        if self.sized_for is None:
+            return super().minimumSizeHint()
+        metrics = self.fontMetrics()
+        texts = [self.prefix() + self.textFromValue(value) + self.suffix() for value in self.sized_for]
+        texts.append(self.specialValueText())
+        width = max(metrics.horizontalAdvance(text) for text in texts) + 2  # and the cursor
+        option = QStyleOptionSpinBox()
+        self.initStyleOption(option)
+        hint = QSize(width, super().minimumSizeHint().height())
+        return self.style().sizeFromContents(QStyle.ContentsType.CT_SpinBox, option, hint, self).expandedTo(
+            QSize(0, hint.height()))
+
+    def sizeHint(self) -> QSize:  # noqa: N802 - Qt's name
+        return self.minimumSizeHint() if self.sized_for is not None else super().sizeHint()
+
 
 class CountSpinBox(_NoWheelUnlessFocused, QSpinBox):
     pass
@@ -302,6 +326,9 @@ class FieldEditor(QWidget):
         # with its limit (a spin box held to the limits drops the digit it cannot take: 50 → 5).
         reach = 1000.0 * max(abs(low), abs(high), 1.0)
         box.setRange(-reach, reach)
+        if isinstance(box, QuantitySpinBox):
+            box.sized_for = (low, high)
+            box.updateGeometry()
         box.setSuffix(f" {unit}" if unit not in ("", "1") else "")
         if spec.unit == "/kg":
             box.setSuffix(" per kg")
@@ -447,6 +474,8 @@ class Section(QWidget):
         self.form.setContentsMargins(8, 0, 4, 0)
         self.form.setVerticalSpacing(3)
         self.form.setFieldGrowthPolicy(QFormLayout.FieldGrowthPolicy.AllNonFixedFieldsGrow)
+        # In a narrow column a long label goes above its field rather than pushing the field out of view.
+        self.form.setRowWrapPolicy(QFormLayout.RowWrapPolicy.WrapLongRows)
         layout.addWidget(self.body)
         self._toggle(expanded)
 
@@ -589,10 +618,20 @@ class DesignEditor(QScrollArea):
                 self.grade_picker.custom_rows.extend((label, editor))
         for section in self.sections.values():
             column.addWidget(section)
+            # an opened group may need a wider column: tell the splitter (see minimumSizeHint)
+            section.header.toggled.connect(lambda _on: self.updateGeometry())
         column.addStretch(1)
         self.setWidget(content)
         self.grade_picker.refresh()
         model.describe_edit = lambda spec, before, after: edit_text(spec, before, after, self.display)
+
+    def minimumSizeHint(self) -> QSize:  # noqa: N802 - Qt's name
+        # Sideways scrolling is off, so the column must never be narrower than its content plus the
+        # vertical scroll bar: a QScrollArea's own hint ignores both, and the splitter honours only this.
+        content = self.widget().minimumSizeHint()
+        frame = 2 * self.frameWidth()
+        return QSize(content.width() + self.verticalScrollBar().sizeHint().width() + frame,
+                     super().minimumSizeHint().height())
 
     @staticmethod
     def _label(text: str, tip: str) -> QLabel:

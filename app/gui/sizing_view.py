@@ -18,7 +18,7 @@ import html
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import QSize, Qt, Signal
-from PySide6.QtGui import QColor, QCursor
+from PySide6.QtGui import QColor, QCursor, QFontMetrics
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QComboBox,
@@ -201,6 +201,8 @@ class SizingView(JobPage):
         split = QSplitter(Qt.Orientation.Vertical)
         self.canvas = plot_canvas("sizing_scatter")
         self.plot = self.canvas.getPlotItem()
+        self._axis_titles = {"bottom": "", "left": ""}
+        self.plot.getViewBox().sigResized.connect(self._fit_axis_titles)
         self.feasible_item = pg.ScatterPlotItem(hoverable=True, tip=self._tip, pen=None)
         self.feasible_item.sigClicked.connect(self._on_point_clicked)
         # rings with no face, so that the feasible design under each stays visible with its colour
@@ -388,6 +390,19 @@ class SizingView(JobPage):
             f"<b>{front}</b> on the trade-off front · every returned design re-checked by the full evaluation at "
             f"every temperature · {r.seconds:.1f} s, seed {r.seed}")
 
+    def _fit_axis_titles(self, *_signal) -> None:
+        """Each axis title shortened in the middle (keeping its unit) where the chart is shorter than the title:
+        on a laptop screen the vertical one was cut off at both ends. The whole title is the axis's tooltip."""
+        view = self.plot.getViewBox()
+        for side, title in self._axis_titles.items():
+            axis = self.plot.getAxis(side)
+            room = int(0.8 * (view.height() if side == "left" else view.width()))  # the label font runs larger
+            metrics = QFontMetrics(axis.label.font())
+            shown = metrics.elidedText(title, Qt.TextElideMode.ElideMiddle, room) if room > 40 else title
+            if title:
+                axis.setLabel(shown)
+                axis.setToolTip(title)
+
     def _axis(self, combo: QComboBox) -> Quantity | None:
         return combo.currentData()
 
@@ -400,8 +415,8 @@ class SizingView(JobPage):
         x_q, y_q, colour_q = self._axis(self.x_combo), self._axis(self.y_combo), self._axis(self.colour_combo)
         if x_q is None or y_q is None:
             return
-        self.plot.setLabel("bottom", x_q.label())
-        self.plot.setLabel("left", y_q.label())
+        self._axis_titles = {"bottom": x_q.label(), "left": y_q.label()}
+        self._fit_axis_titles()
         x, y = x_q.feasible(self.result, self.display), y_q.feasible(self.result, self.display)
         shown = np.flatnonzero(np.isfinite(x) & np.isfinite(y))
         feasible = mark_style("sizing_feasible", SIZING_PLAIN_COLOUR)
