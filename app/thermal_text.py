@@ -83,6 +83,11 @@ def limit_reached_at(t: ThermalResult) -> float | None:
     return float(t.time_to_limit_s)
 
 
+#: Below this gap between the housing and magnet curves the chart says the housing's line lies under the
+#: magnets' (the two are drawn a line width apart at most at a chart's usual scale) [K].
+HIDDEN_LINE_K = 1.0
+
+
 def chart_notes(t: ThermalResult, unit: str = "°C") -> list[str]:
     """Sentences under the duty chart: what the curves mean for the duty, and where no steady state exists."""
     limit = _temperature(t.insulation_limit_C, unit)
@@ -103,6 +108,12 @@ def chart_notes(t: ThermalResult, unit: str = "°C") -> list[str]:
              f"{against(t.winding_temperature_C, t.insulation_limit_C)} its class limit of {limit}; magnets "
              f"{_temperature(t.magnet_temperature_C, unit)}, {against(t.magnet_temperature_C, t.magnet_limit_C)} "
              f"their grade's limit of {_temperature(t.magnet_limit_C, unit)}."]
+    if t.transient is not None and len(t.transient.time_s):
+        apart = float(np.max(np.abs(np.asarray(t.transient.housing_C) - np.asarray(t.transient.magnet_C))))
+        if apart < HIDDEN_LINE_K:
+            shown_apart = f"{apart:.1f} K" if unit == "°C" else f"{1.8 * apart:.1f} °F"
+            notes.append(f"The housing stays within {shown_apart} of the magnets, which sit on its inner wall: its "
+                         "line lies under theirs.")
     if t.duty != "S1" and not t.steady_state_s1_exists:
         notes.append("Run on continuously (S1) at this load, the winding would have no steady state below its "
                      "class limit" + (": keep to the duty." if t.ok else "."))

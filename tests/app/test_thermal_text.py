@@ -115,7 +115,7 @@ def test_without_a_steady_state_the_chart_marks_and_says_the_time_to_the_limit(d
 def test_the_duty_note_says_when_continuous_running_would_pass_the_limit(drill):
     notes = thermal_text.chart_notes(drill[1].thermal)
     assert notes[0].startswith("Winding 167 °C at the end of the run, within its class limit of 180 °C")
-    assert "Run on continuously (S1) at this load, the winding would have no steady state" in notes[1]
+    assert "Run on continuously (S1) at this load, the winding would have no steady state" in notes[-1]
 
 
 # ----------------------------------------------------------------------------------------------
@@ -224,3 +224,16 @@ def test_no_continuous_rating_is_said_in_words_on_screen_paper_and_terminal(dril
     assert "Continuous current (S1), hot ambient" not in rows
     assert words in summary_text(r)
     assert thermal_text.no_continuous_rating(ferrite[1]) is None
+
+
+def test_a_housing_line_under_the_magnets_line_is_said(ferrite):
+    t = ferrite[1].thermal
+    tr = t.transient
+    apart = float(np.max(np.abs(np.asarray(tr.housing_C) - np.asarray(tr.magnet_C))))
+    assert apart < thermal_text.HIDDEN_LINE_K  # the demo's magnets run 0.27 K above the housing
+    notes = " ".join(thermal_text.chart_notes(t))
+    assert f"The housing stays within {apart:.1f} K of the magnets" in notes
+    assert f"within {1.8 * apart:.1f} °F" in " ".join(thermal_text.chart_notes(t, "°F"))
+    # a magnet well above its housing (a rotor heating it, say) is drawn apart and not remarked on
+    warmer = replace(tr, magnet_C=np.asarray(tr.magnet_C) + 5.0)
+    assert "housing stays within" not in " ".join(thermal_text.chart_notes(replace(t, transient=warmer)))
