@@ -37,19 +37,20 @@ QUANTITIES = tuple((name, figure(f"curve.{name}").title, figure(f"curve.{name}")
 TORQUE = figure("curve.torque_N_m")
 
 
-def _key_html() -> str:
-    """The chart's key, from the same table as its marks."""
+def _key_html(with_drive_limit: bool = True) -> str:
+    """The chart's key, from the same table as its marks; the drive limit's entries only where it is drawn."""
     cases = "".join(f"<span style='color:{style.colour}'>{DASH_GLYPHS[style.dash]} {style.title}</span>"
                     "&nbsp;&nbsp;&nbsp;" for style in CASES.values())
     marks = "&nbsp;&nbsp;&nbsp;".join(f"{POINTS[p].glyph} {POINTS[p].title}" for p in CASE_POINTS)
     required, rated, limit = POINTS["required"], LINES["rated_torque"], LINES["drive_limit"]
+    drive_limit = (f"&nbsp;&nbsp;&nbsp;<span style='color:{limit.colour}'>{DASH_GLYPHS[limit.dash]} {limit.title} "
+                   "(its torque: nominal case)</span>"
+                   f"&nbsp;&nbsp;&nbsp;<span style='background:{REGIONS['beyond_limit'].swatch}'>&nbsp;&nbsp;&nbsp;"
+                   f"</span> {REGIONS['beyond_limit'].title}")
     return (cases + "&nbsp;&nbsp;" + marks
             + f"&nbsp;&nbsp;&nbsp;<span style='color:{required.colour}'><b>{required.glyph}</b> {required.title}</span>"
             f"&nbsp;&nbsp;&nbsp;<span style='color:{rated.colour}'>{DASH_GLYPHS[rated.dash]} {rated.title}</span>"
-            f"&nbsp;&nbsp;&nbsp;<span style='color:{limit.colour}'>{DASH_GLYPHS[limit.dash]} {limit.title} "
-            "(its torque: nominal case)</span>"
-            f"&nbsp;&nbsp;&nbsp;<span style='background:{REGIONS['beyond_limit'].swatch}'>&nbsp;&nbsp;&nbsp;</span> "
-            f"{REGIONS['beyond_limit'].title}")
+            + (drive_limit if with_drive_limit else ""))
 
 
 def _rgba(colour: str, opacity: float) -> tuple[int, int, int, int]:
@@ -181,6 +182,7 @@ class PerformanceChart(QWidget):
             line.setValue(load_torque)
         self.required_mark.setData([load_torque], [from_si(results.load_speed_rad_per_s, "rpm")])
         limit_torque = results.nominal.current_limit_torque_N_m
+        self.key.setText(_key_html(with_drive_limit=limit_torque is not None))
         highest_stall = max(from_si(c.stall_torque_N_m, torque_unit) for c in results.cases)
         for line, beyond in zip(self.limit_lines, self.beyond_limit, strict=True):
             if limit_torque is None:

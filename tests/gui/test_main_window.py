@@ -314,3 +314,7 @@ def test_drive_current_limit_is_marked_on_the_performance_chart(open_window, qtb
     # The ferrite demo's plain supply has no limit, and no line.
     plain = open_window(ferrite_demo)
     assert not any(line.isVisible() for line in plain.performance_chart.limit_lines)
+    # and the key lists the limit only where it is drawn
+    from pmdc_sizer.app.figures import LINES
+    assert LINES["drive_limit"].title in chart.key.text()
+    assert LINES["drive_limit"].title not in plain.performance_chart.key.text()
