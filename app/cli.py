@@ -112,6 +112,8 @@ def cmd_gui(args) -> int:
         raise CommandError(f"the desktop tool needs the 'gui' extra (PySide6, pyqtgraph): {error}") from None
     if args.screenshot is None and (args.page or args.size):
         raise CommandError("--page and --size go with --screenshot OUT.png")
+    if args.compare_with is not None and args.file is None:
+        raise CommandError("--compare-with B.toml needs a design A to compare with: give FILE first")
     size = None
     if args.size:
         from .gui.pages import parse_size
@@ -124,8 +126,9 @@ def cmd_gui(args) -> int:
     if problem:
         raise CommandError(problem)
     if args.screenshot is None:
-        return run(args.file)
-    return run(args.file, screenshot=args.screenshot, page=args.page, **({"size": size} if size else {}))
+        return run(args.file, compare_with=args.compare_with)
+    return run(args.file, screenshot=args.screenshot, page=args.page, compare_with=args.compare_with,
+               **({"size": size} if size else {}))
 
 
 def display_problem(screenshot: bool = False, environ=os.environ, platform: str = sys.platform) -> str:
@@ -185,6 +188,8 @@ def build_parser() -> argparse.ArgumentParser:
                         + "; the field page solves its case first")
     p.add_argument("--size", metavar="WxH", help="with --screenshot: the window size in pixels, e.g. 1366x768 "
                                                  "(default 1600x1000)")
+    p.add_argument("--compare-with", metavar="B.toml",
+                   help="open this second project file as design B on the comparison page")
     p.set_defaults(handler=cmd_gui)
 
     # Subcommands that live in their own modules.

@@ -4,7 +4,8 @@
 field-solution page solves its case first (the picture is the point of that page) and waits for the
 ``solved`` or ``solve_failed`` signal; the tolerance page runs its study first in the same way, and the
 sizing page a small search (:data:`SCREENSHOT_CANDIDATES` candidates, a short refinement, its first
-free keys and objectives).
+free keys and objectives). With ``--compare-with B.toml`` the comparison page is captured with that design
+as B, once B's results are in.
 """
 
 from __future__ import annotations
@@ -41,12 +42,14 @@ def _run_and_wait(finished_signal, failed_signal, start, timeout_ms: int, what: 
     loop = QEventLoop()
     outcome: list[str] = []
 
-    def finished(_result) -> None:
+    # the signals carry different arguments (a result; a project and a result; a message; a project and
+    # a message): the message, where there is one, comes last
+    def finished(*_arguments) -> None:
         outcome.append("")
         loop.quit()
 
-    def failed(message: str) -> None:
-        outcome.append(message or f"{what} failed")
+    def failed(*arguments) -> None:
+        outcome.append((arguments[-1] if arguments else "") or f"{what} failed")
         loop.quit()
 
     finished_signal.connect(finished)
@@ -76,12 +79,28 @@ def run_sizing_search(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
     return _run_and_wait(view.finished, view.failed, view.run, timeout_ms, "the sizing search")
 
 
-def capture_page(window, out: str | os.PathLike, page: str | None, size: tuple[int, int]) -> None:
-    """Resize, show ``page`` (or the page the window opens on), wait for the results, save a PNG."""
+def open_design_b(window, path: str | os.PathLike, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
+    """Open ``path`` (already checked) as design B on the comparison page and wait for B's results;
+    returns "" or why there are none."""
+    view = window.compare_view
+    return _run_and_wait(view.evaluator_b.finished, view.evaluator_b.failed, lambda: view.load_b_file(path),
+                         timeout_ms, f"design B ({path})")
+
+
+def capture_page(window, out: str | os.PathLike, page: str | None, size: tuple[int, int],
+                 design_b: str | os.PathLike | None = None) -> None:
+    """Resize, show ``page`` (or the page the window opens on), wait for the results, save a PNG.
+
+    ``design_b``: a project file (already checked) to open as B on the comparison page first.
+    """
     window.resize(*size)
     window.show()
     QApplication.processEvents()
     window.wait_for_evaluation()
+    if design_b is not None:
+        problem = open_design_b(window, design_b)
+        if problem:
+            raise ProjectError(f"--compare-with: {problem}")
     if page is not None:
         show_page(window, page)
         QApplication.processEvents()

@@ -697,10 +697,10 @@ def _application() -> QApplication:
 
 
 def render_screenshot(window: MainWindow, out: str | os.PathLike, page: str | None = None,
-                      size: tuple[int, int] = SCREENSHOT_SIZE) -> None:
+                      size: tuple[int, int] = SCREENSHOT_SIZE, design_b: str | os.PathLike | None = None) -> None:
     from .capture import capture_page
 
-    capture_page(window, out, page, size)
+    capture_page(window, out, page, size, design_b)
 
 
 def _quiet_offscreen_notice(mode, context, message) -> None:
@@ -710,8 +710,12 @@ def _quiet_offscreen_notice(mode, context, message) -> None:
 
 
 def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | None = None,
-        page: str | None = None, size: tuple[int, int] = SCREENSHOT_SIZE) -> int:
-    """Open the tool (or, with ``screenshot``, render ``page`` at ``size`` to a PNG and return)."""
+        page: str | None = None, size: tuple[int, int] = SCREENSHOT_SIZE,
+        compare_with: str | os.PathLike | None = None) -> int:
+    """Open the tool (or, with ``screenshot``, render ``page`` at ``size`` to a PNG and return).
+
+    ``compare_with``: a second project file, opened as design B on the comparison page.
+    """
     if screenshot is not None and "QT_QPA_PLATFORM" not in os.environ and QApplication.instance() is None:
         os.environ["QT_QPA_PLATFORM"] = "offscreen"
     if screenshot is not None and QApplication.instance() is None:
@@ -726,13 +730,22 @@ def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | N
             if screenshot is not None:
                 print(f"{APP_NAME}: error: {error}", file=sys.stderr)
                 return 2
+    error_b = ""
+    if compare_with is not None:
+        try:
+            read_project(compare_with)
+        except ProjectError as problem:
+            error_b = f"{compare_with} (design B): {problem}"
+            if screenshot is not None:
+                print(f"{APP_NAME}: error: {error_b}", file=sys.stderr)
+                return 2
     app = _application()
     held_by = FileGuard().holder_of(file) if project is not None and screenshot is None else None
     window = MainWindow(project, file if project is not None else None)
     if screenshot is not None:
         window.remember_settings = False
         try:
-            render_screenshot(window, screenshot, page, size)
+            render_screenshot(window, screenshot, page, size, compare_with)
         except ProjectError as problem:
             print(f"{APP_NAME}: error: {problem}", file=sys.stderr)
             return 2
@@ -748,6 +761,10 @@ def run(file: str | os.PathLike | None = None, screenshot: str | os.PathLike | N
         QMessageBox.critical(window, "Cannot open the design", f"{error}\n\nA template design is open instead.")
     elif project is not None:
         window._remember(Path(file))
+    if error_b:
+        QMessageBox.critical(window, "Cannot open design B", f"{error_b}\n\nThe comparison page keeps its own B.")
+    elif compare_with is not None:
+        window.compare_view.load_b_file(compare_with)
     if held_by is not None:
         QMessageBox.warning(window, "The design is open elsewhere",
                             f"{file} is also open in pmdc-sizer ({held_by.describe()}). If both of you save, the "

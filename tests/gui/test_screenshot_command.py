@@ -68,3 +68,39 @@ def test_page_names_are_listed_in_the_help_and_bad_values_refused(qapp, ferrite_
     assert main(["gui", str(ferrite_demo), "--page", "magnet"]) == 2
     assert "--screenshot" in capsys.readouterr().err
     assert not (tmp_path / "x.png").exists()
+
+
+def test_screenshot_of_the_compare_page_with_a_design_b(qapp, ferrite_demo, tmp_path, monkeypatch):
+    from pmdc_sizer.app.gui import capture
+
+    ndfeb = ferrite_demo.parent / "mobility_ndfeb_24v.toml"
+    shown: list[tuple[str, object]] = []
+    original = capture.open_design_b
+
+    def spy(window, path, *args):
+        problem = original(window, path, *args)
+        view = window.compare_view
+        shown.append((view.b_source, view.results_b))
+        return problem
+
+    monkeypatch.setattr(capture, "open_design_b", spy)
+    out = tmp_path / "compare.png"
+    assert main(["gui", str(ferrite_demo), "--screenshot", str(out), "--page", "compare", "--size", "1366x768",
+                 "--compare-with", str(ndfeb)]) == 0
+    assert out.exists()
+    (source, results_b), = shown
+    assert source == "file mobility_ndfeb_24v.toml"
+    assert results_b is not None and results_b.magnet.name == "N42SH"  # B's own grade (A's is Y40)
+
+
+def test_a_broken_design_b_is_refused_before_anything_is_written(qapp, ferrite_demo, tmp_path, capsys):
+    broken = tmp_path / "broken.toml"
+    broken.write_text("[airgap]\nlength_mm = -1\n", encoding="utf-8")
+    out = tmp_path / "never.png"
+    assert main(["gui", str(ferrite_demo), "--screenshot", str(out), "--page", "compare",
+                 "--compare-with", str(broken)]) == 2
+    error = capsys.readouterr().err
+    assert "design B" in error and "airgap.length_mm" in error
+    assert not out.exists()
+    assert main(["gui", "--compare-with", str(ferrite_demo)]) == 2
+    assert "design A" in capsys.readouterr().err
