@@ -128,6 +128,10 @@ def sample_cases(entry: dict, index: int):
             # peak armature MMF per pole at the brush axis: (Z/p)/2 conductors carrying I/a
             current = ratio * magnet_mmf * 2.0 * int(g.poles) * paths / conductors
             cases.append(FieldCase(f"load-{ratio:g}", "armature current", 20.0, float(current)))
+        # the larger current again with the rotor half a slot pitch on (a tooth centre on the pole centre),
+        # which moves the slots' steps against the magnet's tips (core.armature_mmf)
+        cases.append(FieldCase(f"load-{LOAD_RATIOS[-1]:g}-half-slot", "armature current", 20.0,
+                               float(current), rotor_position_rad=math.pi / int(g.slots)))
     if index % 3 == 0:
         cases.append(FieldCase("rotor-removed", "rotor removed", 20.0))
     return design, cases
@@ -157,7 +161,8 @@ def _solution_record(solution) -> dict:
 
 def _case_record(case) -> dict:
     return {"name": case.name, "kind": case.kind, "magnet_temperature_C": case.magnet_temperature_C,
-            "current_A": case.current_A, "demagnetization_case": case.demagnetization_case}
+            "current_A": case.current_A, "rotor_position_rad": case.rotor_position_rad,
+            "demagnetization_case": case.demagnetization_case}
 
 
 def solve_references() -> None:
@@ -192,7 +197,7 @@ def solve_references() -> None:
         records[item.label]["cases"].append(record)
     data = {
         "how_made": ("benchmarks/network_calibration.py solve: core.field.solve_case with the default "
-                     f"FieldOptions, rotor position 0, {len(items)} cases, sample seed {SEED}; "
+                     f"FieldOptions, rotor position 0 (half a slot pitch on the half-slot cases), {len(items)} cases, sample seed {SEED}; "
                      f"{time.strftime('%Y-%m-%d', time.gmtime())}, {time.perf_counter() - started:.0f} s on 2 workers"),
         "designs": list(records.values()),
     }

@@ -9,6 +9,16 @@ cites A. E. Clayton and N. N. Hancock, "The Performance and Design of Direct Cur
 1959, ch. 10, from memory). Here it is smeared over the circumference as a current per radian,
 J(θ) = Z·(I/a)/(2π)·pattern(θ), and integrated between neighbouring branch centres: the current that
 loop encloses (the slots lie between the armature surface and the core, inside the lower loops).
+
+Smeared or in slots. The smeared sheet is the armature's current averaged over the rotor's turning, and
+it is what the flux per pole and so Ke(I) take: the back-EMF is the mean over a revolution. At any one
+moment the current sits in the slots, Z/S conductors each, at angles that move with the rotor, and the
+MMF steps from slot to slot. With few slots per pole a step can fall just inside a magnet's trailing tip
+and load the whole trailing half at once, which the smeared sheet, rising steadily towards the tip, does
+not show (the field solution, which has the slots, measured it: docs/network-calibration.md). So the
+magnet's field under load is taken with the current in its slots (:func:`slot_enclosed_currents`) at
+every rotor position the network can tell apart (:func:`distinct_rotor_positions`), and the worst of
+them counts.
 """
 
 from __future__ import annotations
@@ -101,7 +111,121 @@ def enclosed_currents(elements: NetworkElements, current, poles: int, slots: int
     fractions = (np.arange(_SAMPLES) + 0.5) / _SAMPLES
     angles = elements.centre_angle[..., None] + elements.yoke_angle[..., None] * fractions
     shares = current_share(angles, poles, zone).mean(axis=-1) * elements.yoke_angle
+    return _scaled(shares / (2.0 * np.pi), rows, conductors, current, paths)
+
+
+def _scaled(shares: np.ndarray, rows, conductors, current, paths) -> np.ndarray:
+    """Z·(I/a) times each loop's share of it [A], the shares taken per cross-section and spread to the
+    entries by ``rows``."""
     if rows is not None:
         shares = shares[rows]
-    density = conductors * np.asarray(current, dtype=float) / (paths * 2.0 * np.pi)
-    return np.asarray(np.atleast_1d(density)[..., None] * shares)
+    ampere_conductors = conductors * np.asarray(current, dtype=float) / paths
+    return np.asarray(np.atleast_1d(ampere_conductors)[..., None] * shares)
+
+
+def slot_angles(rotor_position, slots: int, pole_pitch: float) -> np.ndarray:
+    """Centres of the slots over two pole pitches either side of the pole centre [rad].
+
+    Parameters
+    ----------
+    rotor_position : float or ndarray
+        Mechanical angle of the rotor [rad], shape () or (B,); at 0 a slot centre faces the pole centre
+        (as in core.field.mesh).
+    slots : int
+        [1].
+    pole_pitch : float
+        2π/p [rad].
+
+    Returns
+    -------
+    ndarray
+        rotor_position + j·2π/S for every j that lands within ±2 pole pitches, shape (..., J) [rad].
+    """
+    pitch = 2.0 * np.pi / slots
+    reach = int(np.ceil(2.0 * pole_pitch / pitch)) + 1
+    return np.asarray(rotor_position, dtype=float)[..., None] + pitch * np.arange(-reach, reach + 1)
+
+
+def slot_enclosed_currents(elements: NetworkElements, current, poles: int, slots: int, commutator_segments: int,
+                           conductors, paths, rotor_position, rows: np.ndarray | None = None) -> np.ndarray:
+    """Armature current enclosed by each lower loop [A], (batch, segments), with the current in its slots.
+
+    Parameters
+    ----------
+    elements : NetworkElements
+        The network (its branch centres and yoke angles), cross-sections (D,).
+    current : float or ndarray
+        Armature current I [A], broadcasting to (B,).
+    poles, slots, commutator_segments : int
+        Of the machine [1].
+    conductors, paths : int or ndarray
+        Of the winding [1], broadcasting to (B,).
+    rotor_position : float or ndarray
+        Mechanical angle of the rotor [rad] (0: a slot centre on the pole centre), for all entries or per
+        entry (B,).
+    rows : ndarray of int, optional
+        As :func:`enclosed_currents`.
+
+    Returns
+    -------
+    ndarray
+        The sum over the slots whose centre lies between branch k and branch k+1 of (Z/S)·(I/a)·pattern
+        (a slot exactly on a branch centre counted half to each side), the same slot currents the field
+        solution puts in its slots (core.field.excitation.slot_currents).
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley and Umans 2003, ch. 7 (from memory); Clayton and Hancock 1959, ch. 10
+       (linear commutation, from memory), as :func:`current_share`.
+    """
+    zone = commutation_zone(poles, slots, commutator_segments)
+    start, width = elements.centre_angle, elements.yoke_angle
+    if rows is not None:
+        start, width = start[rows], width[rows]
+    position = np.broadcast_to(np.asarray(rotor_position, dtype=float), start.shape[:1])
+    angles = slot_angles(position, slots, 2.0 * np.pi / poles)[:, None, :]  # (B, 1, J)
+    end = (start + width)[..., None]
+    start = start[..., None]
+    # inside (start, end); a slot on a branch centre (to rounding) counts half to each side
+    on_start = np.isclose(angles, start, rtol=0.0, atol=1e-9)
+    on_end = np.isclose(angles, end, rtol=0.0, atol=1e-9)
+    weight = np.where(on_start | on_end, 0.5 * (on_start.astype(float) + on_end),
+                      ((angles > start) & (angles < end)).astype(float))
+    weighted = weight * current_share(angles, poles, zone)
+    # summed slot by slot in a fixed order: a reduction along the last axis may be ordered differently for
+    # different batch sizes, and a design's answer must not depend on the batch it is solved in
+    shares = np.zeros(weighted.shape[:-1])
+    for slot in range(weighted.shape[-1]):
+        shares += weighted[..., slot]
+    return _scaled(shares / slots, None, conductors, current, paths)
+
+
+def distinct_rotor_positions(centre_angle: np.ndarray, slots) -> np.ndarray:
+    """One rotor position [rad] for each arrangement of the slots the network can tell apart.
+
+    A slot's current enters the loop between the two branch centres it lies between; the pattern repeats
+    every slot pitch τs. So as the rotor turns through one slot pitch, the enclosed currents change only
+    when a slot crosses a branch centre, at positions θk mod τs: between two such crossings the network
+    sees one arrangement (the coils in the commutation zone aside, whose current changes steadily). The
+    midpoints between consecutive crossings stand for every arrangement.
+
+    Parameters
+    ----------
+    centre_angle : ndarray
+        The network's branch centres θk, (D, segments) [rad] (core.network_elements.branch_centres).
+    slots : int or ndarray
+        Slots of each cross-section, () or (D,) [1].
+
+    Returns
+    -------
+    ndarray
+        (D, segments) positions in [0, τs) from a slot centre on the pole centre [rad].
+
+    References
+    ----------
+    .. [1] The network's layout (core.network_elements); our construction.
+    """
+    pitch = (2.0 * np.pi / np.asarray(slots, dtype=float))[..., None]
+    crossings = np.sort(np.mod(centre_angle, pitch), axis=-1)
+    following = np.concatenate([crossings[:, 1:], crossings[:, :1] + pitch], axis=1)
+    return np.asarray(np.mod(0.5 * (crossings + following), pitch))

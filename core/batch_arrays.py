@@ -107,7 +107,7 @@ def design_groups(designs: Sequence[Design]) -> list[np.ndarray]:
 
 
 def solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temperatures, currents,
-                 rotor_present: bool, winding, what: str):
+                 rotor_present: bool, winding, what: str, rotor_positions: np.ndarray | None = None):
     """The pole states of every design at ``repeat`` (temperature, current) pairs each, group by group
     (each design's cross-section built once, its magnet lot's Br and HcJ per design).
 
@@ -134,6 +134,9 @@ def solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temper
         None at no load.
     what : str
         The circuit named in an error message.
+    rotor_positions : ndarray, optional
+        None: the armature's current as a smeared sheet; else shape (N, repeat): the current in its slots
+        with the rotor at that angle from a slot centre on the pole centre [rad] (core.armature_mmf).
 
     Returns
     -------
@@ -166,7 +169,9 @@ def solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temper
                                        np.broadcast_to(currents, temperatures.shape).reshape(count * repeat)[
                                            _flat(rows, repeat)],
                                        rotor_present, part_winding, what,
-                                       rows=np.repeat(np.arange(members.size), repeat), lots=lots.at(rows))
+                                       rows=np.repeat(np.arange(members.size), repeat), lots=lots.at(rows),
+                                       rotor_position=None if rotor_positions is None else
+                                       rotor_positions.reshape(count * repeat)[_flat(rows, repeat)])
         try:
             states = solve(members)
         except MagneticCircuitError:

@@ -232,6 +232,33 @@ class TemperatureCase:
     magnet_temperature_C: float  #: [°C]
 
 
+def judged_currents(case: TemperatureCase, current_limit: float | None) -> tuple[float, ...]:
+    """Every armature current at which a temperature case's magnets are judged, finite and distinct.
+
+    Parameters
+    ----------
+    case : TemperatureCase
+        The cold or the hot case.
+    current_limit : float or None
+        The drive's current limit [A].
+
+    Returns
+    -------
+    tuple of float
+        The stall current and the reversal (plugging) current from the no-load speed, as the direct-supply
+        faults take them, and the drive's limit, which caps both in the ordinary cases (so that every
+        current :func:`demagnetization_cases` and core.margins.direct_supply_faults ask for is one of
+        them) [A].
+
+    References
+    ----------
+    .. [1] Chapman 2012, ch. 9 (stall (V - Vb)/R and plugging (V + E)/R currents; from memory).
+    """
+    values = (float(stall_current(case.model)), float(plugging_current(case.model, case.no_load_speed)),
+              *(() if current_limit is None else (float(current_limit),)))
+    return tuple(dict.fromkeys(value for value in values if np.isfinite(value)))
+
+
 def demagnetization_cases(
     grade: MagnetGrade, temperature_cases: Sequence[TemperatureCase], current_limit: float | None,
     reversing: bool, magnet_state: Callable[[str, float], MagnetState],

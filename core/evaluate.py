@@ -35,11 +35,12 @@ import numpy as np
 from . import pole_magnetics as pm
 from .checks import run_checks
 from .commutation import commutation_result
-from .demagnetization import TemperatureCase, demagnetization_cases
+from .demagnetization import TemperatureCase, demagnetization_cases, judged_currents
 from .design import Design, design_from_project
 from .envelope import operating_envelope
 from .load_points import point_speeds
 from .loadings import armature_loadings
+from .magnet_load_fields import magnet_load_fields
 from .magnet_curve_figures import demagnetization_curves, normal_coercivity_at
 from .magnets import (
     MagnetGrade,
@@ -201,13 +202,16 @@ def evaluate(design: Design | Project, curve_points: int = 200) -> Results:
             float(v) for v in point_speeds(models[name], case.stall_torque_N_m, torques)))
             for name, case in cases.items()}
 
-    # 9. Demagnetization at the coldest and hottest case, then with the rotor removed.
-    case_index = {"cold": 0, "hot": 2}
+    # 9. Demagnetization at the coldest and hottest case (the network at the currents judged, with the
+    # current in the slots at each rotor position), then with the rotor removed.
     extremes = [TemperatureCase(label, models[label], cases[label].no_load_speed_rad_per_s,
                                 cases[label].magnet_temperature_C) for label in ("cold", "hot")]
+    fields = magnet_load_fields(d, [case.magnet_temperature_C for case in extremes],
+                                [judged_currents(case, d.current_limit) for case in extremes])
 
     def magnet_state(label: str, current: float):
-        return table.magnet_state(case_index[label], current)
+        case = ("cold", "hot").index(label)
+        return fields.magnet_state(case, current, table.flux_at(_CASE_NAMES.index(label), current))
 
     demagnetization = demagnetization_cases(
         grade, extremes, d.current_limit, d.reversing, magnet_state,

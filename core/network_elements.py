@@ -192,6 +192,24 @@ def field_and_slope(steel: Steel, flux_density: np.ndarray) -> tuple[np.ndarray,
     return field, slope
 
 
+def branch_centres(embrace: np.ndarray, pole_pitch: np.ndarray) -> np.ndarray:
+    """The centres θk of the network's branches [rad], (batch, segments), from the pole centre.
+
+    Parameters
+    ----------
+    embrace : ndarray
+        Magnet arc over pole pitch, (batch,) [1].
+    pole_pitch : ndarray
+        2π/p, (batch,) [rad].
+
+    Returns
+    -------
+    ndarray
+        The layout's branch centres (see the module docstring).
+    """
+    return np.asarray(_layout(np.atleast_1d(embrace), np.atleast_1d(pole_pitch))[1])
+
+
 def _layout(embrace: np.ndarray, pole_pitch: np.ndarray):
     """Segment widths, centres and yoke angles over one pole pitch, (batch, segments) each [rad].
 

@@ -3,7 +3,8 @@
 The residual and the Newton step of the loop-flux form (:mod:`core.reluctance_network` gives the
 equations), the flux split between the two paths of each parallel pair eliminated locally, the linear
 systems solved by :func:`core.cyclic_tridiagonal.solve_symmetric_cyclic_3x3`, and a backtracking line
-search; converged designs leave the chunk. A design's steps are its own, whatever chunk it is in.
+search; converged designs leave the chunk. A design's steps are its own, whatever chunk it is in (to the last
+place: the linear solver changes with the chunk's size).
 """
 
 from __future__ import annotations

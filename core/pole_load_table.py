@@ -2,9 +2,10 @@
 
 :func:`load_table` solves a design's network (:func:`core.pole_magnetics.pole_states`) at each temperature
 case's magnet temperature over currents from zero to the case's largest; :class:`LoadTable` gives the flux
-per pole against current (the curve's Ke = K·Φ(I)) and the magnet's field at any current of the grid,
-interpolated in I²; :func:`magnet_state_of` reads the same state off one entry of a batch, as the
-demagnetization cases take it.
+per pole against current (the curve's Ke = K·Φ(I)), interpolated in I², with the armature's current as a
+smeared sheet (its mean over the rotor's turning); :func:`magnet_state_of` reads the magnet's state off one
+entry of a batch, as the demagnetization cases take it (the magnet's field under load is solved with the
+current in its slots, core.magnet_load_fields).
 """
 
 from __future__ import annotations
@@ -60,9 +61,9 @@ class LoadTable:
         """
         return getattr(self.states, name)[case * self.currents.shape[1]]
 
-    def magnet_state(self, case: int, current: float):
-        """The magnet's field at a current, interpolated linearly in I² segment by segment between the
-        grid's currents.
+    def flux_at(self, case: int, current: float) -> float:
+        """The flux per pole at a current of one case [Wb], interpolated in I² (the flux is even in the
+        current near 0, as core.motor_model.constant_at takes it).
 
         Parameters
         ----------
@@ -73,37 +74,11 @@ class LoadTable:
 
         Returns
         -------
-        MagnetState
-            The worst-area field, its position, the share past the knee and the flux per pole.
+        float
+            [Wb].
         """
-        from .demagnetization import MagnetState
-
-        points = self.currents.shape[1]
-        rows = slice(case * points, (case + 1) * points)
-        first = case * points
-        grid = self.currents[case]
-
-        # in I², as the flux (core.motor_model.constant_at): the fields are even in the current near 0; one
-        # position on the grid for every column (np.interp's, as a fractional index)
-        position = float(np.interp(current**2, grid**2, np.arange(points, dtype=float)))
-        below = min(int(position), points - 2)
-        weight = position - below
-
-        def at_current(values: np.ndarray) -> np.ndarray:
-            return np.asarray(values[below] + weight * (values[below + 1] - values[below]))
-
-        field = at_current(self.states.segment_field[rows])
-        cells = at_current(self.states.cell_field[rows])
-        cell_share = self.states.cell_share[first]
-        knee = float(self.states.knee_field[first])
-        return MagnetState(
-            worst_field=float(worst_share_field(cells, cell_share)),
-            worst_angle=float(self.states.cell_angle[first][int(np.argmin(cells))]),
-            past_knee_fraction=float(cell_share[cells < knee].sum()),
-            flux_per_pole=float(np.interp(current**2, grid**2, self.states.flux_per_pole[rows])),
-            segment_angle=self.states.segment_angle[first], segment_field=field,
-            segment_share=self.states.segment_share[first],
-        )
+        grid, flux = self.flux(case)
+        return float(np.interp(current**2, grid**2, flux))
 
 
 def load_table(design, temperatures_C, largest_currents, points: int = LOAD_POINTS) -> LoadTable:

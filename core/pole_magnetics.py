@@ -33,7 +33,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .armature_mmf import enclosed_currents
+from .armature_mmf import enclosed_currents, slot_enclosed_currents
 from .magnet_field_share import worst_share_field
 from .magnets import GradeLots
 from .network_elements import Element, NetworkElements, ParallelPair, TipPath, magnet_segment_mask, network_elements
@@ -83,18 +83,23 @@ RADIAL_CELLS = 8
 def _radial_cells(solution: NetworkSolution, e: NetworkElements, magnet: np.ndarray):
     """Field [A/m], area share [1] and angle [rad] of every magnet cell, (B, m·RADIAL_CELLS) each.
 
-    The column's flux runs linearly in r from the flux leaving the inner face to the flux entering the
-    outer face, over the area Δθ·r·Lm at each radius (the column's area is at mid-thickness rm).
+    Each magnet segment is one element of the network, a column carrying one flux from the housing to
+    its inner face (its drop in Ampère's law is that flux's, over the whole height); at the inner face
+    part of it turns along the layer beside the gap (fringing to the teeth beyond, leakage to the next
+    magnet) and the rest crosses the gap. So the field in the column is its own flux's: the flux over
+    the area Δθ·r·Lm at each radius, falling as 1/r (the column's area is at mid-thickness rm). The gap's
+    flux is not the inner face's: reading the inner cells from it would count the layer's flux as lost
+    inside the magnet, which the network's own magnet element does not (measured against the field
+    solution in docs/network-calibration.md).
     """
     area = e.column_area[..., magnet]
     permeability = e.column_permeability[..., magnet]
-    inner_b = solution.lower_flux[..., magnet] / area
-    outer_b = solution.upper_flux[..., magnet] / area
+    column_b = solution.upper_flux[..., magnet] / area
     depth = (np.arange(RADIAL_CELLS) + 0.5) / RADIAL_CELLS  # from the inner face, share of lm
     thickness = e.magnet_thickness[:, None]
     mid = e.magnet_inner_radius[:, None] + 0.5 * thickness
     radius_ratio = ((e.magnet_inner_radius[:, None] + depth * thickness) / mid)[:, None, :]  # (B, 1, cells) r/rm
-    b = (inner_b[..., None] + (outer_b - inner_b)[..., None] * depth) / radius_ratio
+    b = column_b[..., None] / radius_ratio
     field = (b - solution.remanence[:, None, None]) / permeability[..., None]
     share = area[..., None] * radius_ratio
     share = share / share.sum(axis=(-2, -1), keepdims=True)
@@ -108,7 +113,7 @@ def _reduce(solution: NetworkSolution, e: NetworkElements, temperature, current)
     centre = e.column_area.shape[-1] // 2
     columns = e.column_area[..., magnet]
     area = columns.sum(axis=-1)
-    field = 0.5 * (solution.magnet_field_outer + solution.magnet_field_inner)[..., magnet]
+    field = solution.magnet_field[..., magnet]  # the column's own flux at mid-thickness (see _radial_cells)
     share = columns / area[..., None]
     mean_field = (field * share).sum(axis=-1)
     magnet_b = solution.magnet_flux / area
@@ -164,7 +169,7 @@ def design_network(design, rotor_present: bool = True) -> NetworkElements:
 
 
 def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True,
-                what: str = "the magnetic circuit") -> PoleState:
+                what: str = "the magnetic circuit", rotor_position=None) -> PoleState:
     """Solve a design's network at each (temperature, current) pair at once.
 
     Parameters
@@ -179,6 +184,10 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
         False: the armature pulled out (no current then).
     what : str
         For the error message.
+    rotor_position : float or ndarray, optional
+        None: the armature's current as a smeared sheet, its mean over the rotor's turning (what the flux
+        per pole and Ke take); an angle [rad], for all entries or per entry (B,): the current in its slots
+        with the rotor there (what the magnet's field at one moment takes; core.armature_mmf).
 
     Returns
     -------
@@ -204,16 +213,18 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
     enclosed: float | np.ndarray = 0.0
     if rotor_present and np.any(current != 0.0):
         g, w = design.geometry, design.winding
-        enclosed = enclosed_currents(single, current, int(g.poles), int(g.slots), w.commutator_segments,
-                                     int(total_conductors(w.commutator_segments, w.turns_per_coil)),
-                                     int(parallel_paths(w.kind, g.poles, w.multiplicity)), rows)
+        enclosed = _enclosed(single, current, (int(g.poles), int(g.slots), w.commutator_segments,
+                                               int(total_conductors(w.commutator_segments, w.turns_per_coil)),
+                                               int(parallel_paths(w.kind, g.poles, w.multiplicity))),
+                             rows, rotor_position)
     solution = solve_network(design.magnet, temperature, single, enclosed, what, rows)
     return _reduce(solution, _entries(single, rows), temperature, current)
 
 
 def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_magnetic, temperatures_C, currents=0.0,
                      rotor_present: bool = True, winding=None, what: str = "the magnetic circuit",
-                     rows: np.ndarray | None = None, lots: GradeLots | None = None) -> PoleState:
+                     rows: np.ndarray | None = None, lots: GradeLots | None = None,
+                     rotor_position=None) -> PoleState:
     """Solve the networks of many cross-sections of one grade family and pair of steels at once.
 
     Parameters
@@ -240,6 +251,9 @@ def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_mag
     lots : GradeLots, optional
         Br, HcJ and the knee of each entry's magnet lot (B,), lots of ``grade``'s family; by default
         every entry is of ``grade``.
+    rotor_position : float or ndarray, optional
+        As :func:`pole_states`: None for the smeared current sheet, an angle [rad] (for all entries or per
+        entry) for the current in its slots with the rotor there.
 
     Returns
     -------
@@ -260,10 +274,18 @@ def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_mag
     current = np.broadcast_to(np.asarray(currents, dtype=float), (batch,))
     enclosed: float | np.ndarray = 0.0
     if rotor_present and np.any(current != 0.0):
-        poles, slots, segments, conductors, paths = winding
-        enclosed = enclosed_currents(elements, current, poles, slots, segments, conductors, paths, rows)
+        enclosed = _enclosed(elements, current, winding, rows, rotor_position)
     solution = solve_network(grade if lots is None else lots, temperature, elements, enclosed, what, rows)
     return _reduce(solution, _entries(elements, rows), temperature, current)
+
+
+def _enclosed(elements: NetworkElements, current: np.ndarray, winding, rows: np.ndarray,
+              rotor_position) -> np.ndarray:
+    """The current each lower loop encloses [A]: the smeared sheet (None) or the slots at a rotor position."""
+    poles, slots, segments, conductors, paths = winding
+    if rotor_position is None:
+        return enclosed_currents(elements, current, poles, slots, segments, conductors, paths, rows)
+    return slot_enclosed_currents(elements, current, poles, slots, segments, conductors, paths, rotor_position, rows)
 
 
 def _entries(elements: NetworkElements, rows: np.ndarray) -> NetworkElements:
@@ -314,7 +336,8 @@ def effective_gap(design) -> float:
 _LONG = 1000.0
 
 
-def two_dimensional_states(design, temperatures_C, currents=0.0, rotor_present: bool = True) -> PoleState:
+def two_dimensional_states(design, temperatures_C, currents=0.0, rotor_present: bool = True,
+                           rotor_position=None) -> PoleState:
     """The network on the 2-D basis of the field solution: the same cross-section, infinitely long.
 
     Solved at a length of 1 km, where the magnet's overhang and the gap's end fringing vanish; the fluxes
@@ -328,6 +351,8 @@ def two_dimensional_states(design, temperatures_C, currents=0.0, rotor_present: 
         As :func:`pole_states`.
     rotor_present : bool
         False: the armature pulled out.
+    rotor_position : float, optional
+        As :func:`pole_states`.
 
     Returns
     -------
@@ -338,6 +363,6 @@ def two_dimensional_states(design, temperatures_C, currents=0.0, rotor_present: 
 
     long = dataclasses.replace(design, geometry=dataclasses.replace(
         design.geometry, stack_length=_LONG, magnet_length=_LONG, housing_length=_LONG))
-    state = pole_states(long, temperatures_C, currents, rotor_present)
+    state = pole_states(long, temperatures_C, currents, rotor_present, rotor_position=rotor_position)
     return dataclasses.replace(state, flux_per_pole=state.flux_per_pole / _LONG, magnet_flux=state.magnet_flux / _LONG,
                                outside_flux=state.outside_flux / _LONG)

@@ -39,7 +39,8 @@ How it is computed (speed, not physics): the batch is solved in chunks of :data:
 array laid out segments first and designs last, so that each segment's values are one contiguous array
 over the chunk; every steel element of the network is looked up in one table operation; the Newton step's
 linear systems go to :func:`.cyclic_tridiagonal.solve_symmetric_cyclic_3x3`; and designs that have
-converged leave the chunk. Each design's arithmetic is its own, whatever batch or chunk it is solved in.
+converged leave the chunk. Each design's arithmetic is its own, whatever batch or chunk it is solved in, but
+for the linear solver, which changes with the chunk's size (core.cyclic_tridiagonal) and so the last place.
 
 The flux per pole is the flux down the lower branches (they hold the gap) between the two neutral axes,
 2·Ln. The rotor-removed case is the same network with the armature replaced by air: the lower branches end
@@ -80,10 +81,9 @@ class NetworkSolution:
     tooth_steel_flux: np.ndarray  #: in the teeth of each lower branch (the rest crosses the slots' air) [Wb]
     gap_drop: np.ndarray  #: across the gap (and tooth tips) in each segment [A]
     teeth_drop: np.ndarray  #: down the teeth in each segment [A]
-    #: H along the magnetization at each magnet segment's outer face, from the flux entering its column
-    #: (NaN off the magnet) [A/m]
-    magnet_field_outer: np.ndarray
-    magnet_field_inner: np.ndarray  #: the same at its inner face, from the flux leaving it across the gap [A/m]
+    #: H along the magnetization in each magnet segment at mid-thickness, from its column's flux (NaN off
+    #: the magnet) [A/m]
+    magnet_field: np.ndarray
     remanence: np.ndarray  #: Br at the temperature, (batch,) [T]
     knee_field: np.ndarray  #: knee field at the temperature (negative), (batch,) [A/m]
     iterations: np.ndarray  #: Newton steps taken, (batch,) [1]
@@ -97,7 +97,7 @@ class NetworkSolution:
     def magnet_flux(self) -> np.ndarray:
         """Flux through the magnet at mid-thickness [Wb]: what enters its columns from the housing (the
         flux that leaves its inner face across the gap and along the layer beside it)."""
-        return np.asarray(np.where(np.isnan(self.magnet_field_outer), 0.0, self.upper_flux).sum(axis=-1))
+        return np.asarray(np.where(np.isnan(self.magnet_field), 0.0, self.upper_flux).sum(axis=-1))
 
 
 def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: NetworkElements, enclosed_current=0.0,
@@ -182,7 +182,7 @@ def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: Netwo
         housing_flux=upper_loop, gap_loop_flux=middle_loop, core_flux=lower_loop, upper_flux=upper_flux,
         lower_flux=middle_flux,
         housing_steel_flux=housing_flux, core_steel_flux=core_flux, tooth_steel_flux=tooth_flux,
-        magnet_field_outer=magnet_field(upper_flux), magnet_field_inner=magnet_field(middle_flux),
+        magnet_field=magnet_field(upper_flux),
         gap_drop=gap_drop, teeth_drop=teeth_drop, remanence=remanence,
         knee_field=np.broadcast_to(np.asarray(knee_field_at(grade, temperature), dtype=float), batch),
         iterations=np.concatenate([iterations for _, _, _, iterations in chunks]),

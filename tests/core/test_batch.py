@@ -128,8 +128,12 @@ def test_a_design_whose_network_has_no_solution_fails_alone(monkeypatch):
 
 
 def test_an_element_does_not_depend_on_its_batch():
+    # To rounding only: the network's linear solve is LAPACK's banded Cholesky for up to BANDED_BATCH
+    # systems and block elimination above (core.cyclic_tridiagonal), which round differently in the last
+    # place; the magnets' cases solve 2 × 3 currents × 15 rotor positions per design, so one design and
+    # two land on either side. 1e-12 is far below any figure's meaning and far above the last place.
     designs = [design_from_project(pf.load(path)) for path in DEMOS]
     alone = evaluate_many(designs[:1])
     crowd = evaluate_many(designs * 2)
     for name, values in alone.figures.items():
-        assert_allclose(crowd.figures[name][[0, 3]], values[0], rtol=0, atol=0, equal_nan=True, err_msg=name)
+        assert_allclose(crowd.figures[name][[0, 3]], values[0], rtol=1e-12, atol=0, equal_nan=True, err_msg=name)
