@@ -61,7 +61,7 @@ def project_with(project: Project, values: Mapping[str, object]) -> Project:
     Returns
     -------
     Project
-        Validated.
+        The start's project with the candidate's values, checked against the schema and the fit rules.
 
     Raises
     ------

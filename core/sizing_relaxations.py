@@ -81,7 +81,8 @@ def binding_ranges(free: Sequence[FreeRange], values: Mapping[str, object]) -> l
     Returns
     -------
     list of str
-        E.g. ``"winding.turns_per_coil at the low end of its range (10)"``.
+        One phrase per free variable within ``BOUND_SHARE`` of an end, in the order of ``free``, e.g.
+        ``"winding.turns_per_coil at the low end of its range (10)"``.
 
     References
     ----------
@@ -154,7 +155,9 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
     Returns
     -------
     list of str
-        E.g. ``"with magnets.thickness_mm = 9.6 mm (beyond the range's 9) it passes every check"``.
+        One sentence per pressed range whose first widening passes every check (with the envelope it
+        would need, if any), e.g. ``"with magnets.thickness_mm = 9.6 mm (beyond the range's 9) it passes
+        every check"``.
 
     References
     ----------

@@ -38,6 +38,7 @@ from pmdc_sizer.core import library
 
 from .display_units import DisplayUnits
 from .input_model import DesignModel, QuantityModel
+from .style import flush_column, wrapped_label
 
 #: (title, sections of the file, open at start)
 GROUPS = (
@@ -244,8 +245,7 @@ class FieldEditor(QWidget):
         super().__init__()
         self.field, self.model, self.display = field, model, display
         spec = field.spec
-        outer = QVBoxLayout(self)
-        outer.setContentsMargins(0, 0, 0, 0)
+        outer = flush_column(self)
         outer.setSpacing(1)
         row = QHBoxLayout()
         row.setSpacing(4)
@@ -492,8 +492,7 @@ class MagnetGradePicker(QWidget):
     def __init__(self, model: DesignModel):
         super().__init__()
         self.model = model
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         self.source_box = ChoiceBox()
         self.source_box.addItem("From the library", self.LIBRARY)
         self.source_box.addItem("Custom (supplier's certified data)", self.CUSTOM)
@@ -508,15 +507,11 @@ class MagnetGradePicker(QWidget):
             self.grade_box.addItem(f"{name}   ({grade.family})", name)
         self.grade_box.activated.connect(self._on_grade)
         layout.addWidget(self.grade_box)
-        self.properties = QLabel()
-        self.properties.setObjectName("grade_properties")
-        self.properties.setWordWrap(True)
-        self.properties.setTextFormat(Qt.TextFormat.RichText)
-        self.properties.setStyleSheet("color: #333; background: #f4f4f0; padding: 4px; border-radius: 3px;")
+        self.properties = wrapped_label("grade_properties",
+                                        "color: #333; background: #f4f4f0; padding: 4px; border-radius: 3px;",
+                                        rich=True)
         layout.addWidget(self.properties)
-        self.error_label = QLabel()
-        self.error_label.setWordWrap(True)
-        self.error_label.setStyleSheet("color: #b3261e;")
+        self.error_label = wrapped_label(style="color: #b3261e;")
         self.error_label.hide()
         layout.addWidget(self.error_label)
         model.fields["magnets.grade"].changed.connect(lambda _v: self.refresh())

@@ -70,6 +70,7 @@ from .performance_chart import PerformanceChart
 from .recovery import AutoSaver, offer_recovery
 from .results_panel import ChecksPanel, ResultsPanel
 from .settings import DISPLAY_UNIT_SYSTEMS, load_settings, save_settings
+from .style import flush_column
 from .thermal_chart import ThermalChart
 
 APP_NAME = "pmdc-sizer"
@@ -184,8 +185,7 @@ class MainWindow(QMainWindow):
         self.editor = DesignEditor(self.model, self.display)
         self.editor.setMinimumWidth(330)
         editor_box = QWidget()
-        editor_layout = QVBoxLayout(editor_box)
-        editor_layout.setContentsMargins(0, 0, 0, 0)
+        editor_layout = flush_column(editor_box)
         heading = QLabel("<b>Design</b> <span style='color:#555'>— every edit is evaluated at once; hover a "
                          "name for its meaning</span>")
         heading.setWordWrap(True)
@@ -227,7 +227,7 @@ class MainWindow(QMainWindow):
         self._sizes_before_wide_page: list[int] | None = None
         self.pages.currentChanged.connect(self._fit_wide_page)
         # A solved field shows its numbers beside the picture: the page may need more room than before.
-        self.field_view.solved.connect(lambda _solution: self._fit_wide_page(self.pages.currentIndex()))
+        self.field_view.finished.connect(lambda _solution: self._fit_wide_page(self.pages.currentIndex()))
 
     @staticmethod
     def _titled(title: str, widget: QWidget) -> QWidget:

@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QLabel, QWidget
 
 from pmdc_sizer.app.figures import (
     CASE_POINTS,
@@ -30,7 +30,7 @@ from pmdc_sizer.app.performance_view import axis_top, torque_end
 from pmdc_sizer.core.units import from_si
 
 from .display_units import DisplayUnits
-from .style import line_pen, mark_style
+from .style import black_axes, flush_column, line_pen, mark_style
 
 #: (attribute of CurveData and PointResult, title, unit), in the order of the plots.
 QUANTITIES = tuple((name, figure(f"curve.{name}").title, figure(f"curve.{name}").unit) for name in CURVE_QUANTITIES)
@@ -61,8 +61,7 @@ class PerformanceChart(QWidget):
     def __init__(self, display: DisplayUnits):
         super().__init__()
         self.display = display
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         self.readout = QLabel("Move the pointer over the curves to read every case at one torque.")
         self.readout.setObjectName("cursor_readout")
         self.readout.setTextFormat(Qt.TextFormat.RichText)
@@ -86,12 +85,7 @@ class PerformanceChart(QWidget):
             plot = self.canvas.addPlot(row=index // 2, col=index % 2)
             plot.showGrid(x=True, y=True, alpha=0.25)
             plot.setLabel("left", title, units=unit)
-            for axis in ("left", "bottom"):
-                plot.getAxis(axis).enableAutoSIPrefix(False)
-                plot.getAxis(axis).setTextPen("k")
-                plot.getAxis(axis).setPen("k")
-                # Grid lines at the labelled ticks only: the finer levels cost most of a frame to paint.
-                plot.getAxis(axis).setStyle(maxTickLevel=0)
+            black_axes(plot)
             plot.setMenuEnabled(False)
             if first is None:
                 first = plot

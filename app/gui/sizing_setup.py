@@ -21,7 +21,6 @@ from PySide6.QtWidgets import (
     QListWidgetItem,
     QTableWidget,
     QTableWidgetItem,
-    QVBoxLayout,
     QWidget,
 )
 
@@ -33,6 +32,7 @@ from ..figures import FAIL_COLOUR
 from ..formatting import unit_label
 from .display_units import DisplayUnits
 from .editor import label_for
+from .style import flush_column
 
 #: Keys ticked when the page first opens on a design: what an engineer sizes first.
 FIRST_FREE_KEYS = ("magnets.thickness_mm", "housing.wall_mm", "armature.stack_length_mm",
@@ -268,8 +268,7 @@ class ObjectiveList(QWidget):
 
     def __init__(self):
         super().__init__()
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         layout.setSpacing(1)
         self.boxes: dict[str, QCheckBox] = {}
         for name, objective in OBJECTIVES.items():

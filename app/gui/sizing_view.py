@@ -49,11 +49,11 @@ from ..figures import (
     SIZING_COLOUR_STOPS,
     SIZING_PLAIN_COLOUR,
 )
-from .background_job import CANCELLED, JobPage
+from .background_job import JobPage
 from .pages import PAGE_TITLES
 from .sizing_quantities import OBJECTIVE, VALUE, Quantity, grade_of, quantities
 from .sizing_setup import FreeVariableTable, GradeList, ObjectiveList
-from .style import mark_style, plot_canvas
+from .style import flush_column, mark_style, plot_canvas, wrapped_label
 
 DEFAULT_CANDIDATES = 20_000
 MAX_CANDIDATES = 1_000_000
@@ -97,8 +97,6 @@ class _NumberItem(QTableWidgetItem):
 class SizingView(JobPage):
     """The sizing page: the search's inputs on the left, its feasible designs and front on the right."""
 
-    finished = Signal(object)  #: a SizingResult now shown
-    failed = Signal(str)  #: why the last run gave nothing
     opened = Signal(object)  #: a design opened from the page (its Project)
 
     def __init__(self, main_window):
@@ -127,13 +125,9 @@ class SizingView(JobPage):
 
     # ------------------------------------------------------------------ layout
     def _build(self) -> None:
-        self.candidates_box = QSpinBox()
-        self.candidates_box.setObjectName("sizing_candidates")
-        self.candidates_box.setRange(100, MAX_CANDIDATES)
-        self.candidates_box.setSingleStep(5000)
-        self.candidates_box.setGroupSeparatorShown(True)
+        self.candidates_box = self._count_box("sizing_candidates", MAX_CANDIDATES, 5000,
+                                              "How many candidates the space-filling sample of the free ranges draws")
         self.candidates_box.setValue(DEFAULT_CANDIDATES)
-        self.candidates_box.setToolTip("How many candidates the space-filling sample of the free ranges draws")
         self.seed_box = self._seed_box("sizing_seed",
                                        "Seed of the sample and the refinement: the same seed gives the same designs")
         self.seed_box.setValue(SizingSpec.seed)
@@ -194,8 +188,8 @@ class SizingView(JobPage):
         axes.addStretch(1)
         column.addLayout(axes)
 
-        self.summary = self._headline("Choose the free keys, grades and objectives, then run the search.",
-                                      "sizing_summary", _SUMMARY_STYLE)
+        self.summary = wrapped_label("sizing_summary", _SUMMARY_STYLE,
+                                     "Choose the free keys, grades and objectives, then run the search.", rich=True)
         column.addWidget(self.summary)
 
         split = QSplitter(Qt.Orientation.Vertical)
@@ -215,8 +209,7 @@ class SizingView(JobPage):
         self.plot.layout.addItem(self.colour_bar, 2, 5)
         self.colour_bar.setVisible(False)
         plot_box = QWidget()
-        plot_column = QVBoxLayout(plot_box)
-        plot_column.setContentsMargins(0, 0, 0, 0)
+        plot_column = flush_column(plot_box)
         plot_column.addWidget(self.canvas, 1)
         self.key = QLabel(" &nbsp; ".join(_glyph_key(p) for p in ("sizing_feasible", "sizing_front", "sizing_best",
                                                                       "sizing_picked"))
@@ -228,8 +221,7 @@ class SizingView(JobPage):
         split.addWidget(plot_box)
 
         table_box = QWidget()
-        table_column = QVBoxLayout(table_box)
-        table_column.setContentsMargins(0, 0, 0, 0)
+        table_column = flush_column(table_box)
         picked_row = QHBoxLayout()
         self.picked_label = QLabel("Returned designs (the front and the best for each objective); "
                                    "click a heading to sort, double-click a row to open it.")
@@ -285,15 +277,15 @@ class SizingView(JobPage):
     def _show_freshness(self) -> None:
         current = self._requirement_of(self.project, [r.key for r in self.result.spec.free])
         if current == self._requirement:
-            self.controls.show_state("up to date")
+            self._show_state("up to date")
             self.summary.setStyleSheet(_SUMMARY_STYLE)
         else:
-            self.controls.show_state("the design changed: the designs shown were sized for an earlier one until "
+            self._show_state("the design changed: the designs shown were sized for an earlier one until "
                                      "the search runs again", stale=True)
             self.summary.setStyleSheet(_SUMMARY_STYLE + " color: #888;")
 
     def _on_refused(self, key: str, message: str) -> None:
-        self.controls.show_state(f"Not applied: {message}", error=True)
+        self._show_state(f"Not applied: {message}", error=True)
 
     # ------------------------------------------------------------------ running
     def spec(self) -> SizingSpec:
@@ -319,14 +311,14 @@ class SizingView(JobPage):
         try:
             spec = self.spec()
         except ProjectError as error:
-            self.controls.show_state(f"Not started: {error}", error=True)
+            self._show_state(f"Not started: {error}", error=True)
             self.failed.emit(str(error))
             return
         project = self.project
         key = (self._requirement_of(project, [r.key for r in spec.free]), spec)
         self._running_base = project
         self.job.start(key, lambda report, stop: size(project, spec, report))
-        self.controls.show_state(f"searching {spec.candidates:,} candidates…", stale=self.result is not None)
+        self._show_state(f"searching {spec.candidates:,} candidates…", stale=self.result is not None)
 
     def _on_progress(self, stage: str, done: int, total: int) -> None:
         start, end, words = _STAGES.get(stage, (0.0, 1.0, stage + " {done:,} of {total:,}"))
@@ -335,11 +327,7 @@ class SizingView(JobPage):
         self.state_label.setText(words.format(done=done, total=total) + "…")
 
     def _on_failed(self, _key, message: str) -> None:
-        if message == CANCELLED:
-            self.controls.show_state("cancelled: nothing was kept", stale=self.result is not None)
-        else:
-            self.controls.show_state(message, error=True)
-        self.failed.emit(message)
+        self._report_failure(message, stale=self.result is not None)
 
     def _on_done(self, key, result) -> None:
         self.result, self.base, self._requirement = result, self._running_base, key[0]
@@ -522,7 +510,7 @@ class SizingView(JobPage):
         try:
             project, number = self.picked_project()
         except ProjectError as error:
-            self.controls.show_state(f"Not opened: {error}", error=True)
+            self._show_state(f"Not opened: {error}", error=True)
             return False
         if as_b:
             self.main_window.compare_view.show_as_b(project, f"sizing, {number}")
