@@ -49,6 +49,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from pmdc_sizer.app.field_labels import field_message, label_for, label_in_sentence
 from pmdc_sizer.app.files import clean_up_stale_temporaries
 from pmdc_sizer.app.safety import CAUTIONS
 from pmdc_sizer.core import library
@@ -61,7 +62,7 @@ from .collection import collect_on_gui_thread
 from .crash_dialog import active_main_window, install_exception_hook
 from .cross_section import CrossSection
 from .display_units import DisplayUnits
-from .editor import DesignEditor, field_message, label_for, label_in_sentence
+from .editor import DesignEditor
 from .evaluation import Evaluator
 from .file_guard import CHANGED, FileGuard
 from .input_model import DesignModel, checked_project
