@@ -133,7 +133,7 @@ def _field_check(result, args):
 def cmd_size(args) -> int:
     from pmdc_sizer.core.sizing import size
 
-    from .sizing_text import result_json, summary_text
+    from .sizing_text import explanation_text, result_json, summary_text
 
     if args.scheduler and not args.field_check:
         raise CommandError("--scheduler goes with --field-check")
@@ -153,7 +153,7 @@ def cmd_size(args) -> int:
         print(summary_text(result, args.file, project.prices.currency, checks, written), end="")
     if not result.designs:
         reason = result.shortfalls[0].text if result.shortfalls else result.explanation
-        print(f"pmdc-sizer: no feasible design: {reason}", file=sys.stderr)
+        print(f"pmdc-sizer: no feasible design: {explanation_text(reason)}", file=sys.stderr)
         return EXIT_NO_SOLUTION
     return 0
 

@@ -2,7 +2,8 @@
 
 Titles and units come from :mod:`app.figures` (:data:`~app.figures.SIZING_FIGURES`, the columns from
 :data:`~app.figures.SIZING_COLUMN_HEADINGS`); the free variables are shown in their file units
-(:func:`core.keys.key_spec`).
+(:func:`core.keys.key_spec`) under their field labels (:mod:`app.field_labels`), and the core's key-bearing
+explanation is worded with those labels, each key in parentheses at its first mention.
 """
 
 from __future__ import annotations
@@ -16,6 +17,7 @@ from typing import Any
 from pmdc_sizer.core.keys import key_spec
 from pmdc_sizer.core.sizing_objectives import OBJECTIVES
 
+from .field_labels import label_for, worded_keys
 from .figures import SIZING_COLUMN_HEADINGS, SIZING_FIGURES
 from .formatting import significant
 
@@ -43,11 +45,14 @@ def value_text(key: str, value: object) -> str:
 
 
 def _column_label(key: str) -> str:
-    spec = key_spec(key)
-    name = key.removesuffix("_" + spec.unit) if spec.unit else key
-    for suffix in ("_mm", "_deg", "_V", "_mNm", "_rpm", "_C"):
-        name = name.removesuffix(suffix)
-    return name + (f" [{spec.unit}]" if spec.unit and spec.unit != "1" else "")
+    unit = key_spec(key).unit
+    return label_for(key) + (f" [{unit}]" if unit and unit != "1" else "")
+
+
+def explanation_text(text: str) -> str:
+    """The search's explanation (or a shortfall) for the terminal: each key worded by its field label, the
+    key the user typed in parentheses at its first mention ("magnet thickness (magnets.thickness_mm) 9.6 mm")."""
+    return worded_keys(text, show_keys=True)
 
 
 def _figure_label(name: str, currency: str) -> str:
@@ -63,10 +68,13 @@ def _figure_text(name: str, value: float) -> str:
     return shown.number(value)
 
 
-def figure_legend(currency: str) -> str:
-    """What each figure column of :func:`designs_table` is, in the words of :data:`app.figures.FIGURES`."""
-    return "; ".join(f"{_figure_label(name, currency)}: {shown.title}" + (", hot" if name.startswith("hot.") else "")
-                     for name, shown in ((n, SIZING_FIGURES[n]) for n in SIZING_COLUMN_HEADINGS))
+def column_legend(currency: str, keys: Sequence[str] = ()) -> str:
+    """What each column of :func:`designs_table` is: the free keys' columns by the key the command line
+    took, the figures' in the words of :data:`app.figures.FIGURES`."""
+    free = [f"{_column_label(key)}: {key}" for key in keys]
+    figures = [f"{_figure_label(name, currency)}: {shown.title}" + (", hot" if name.startswith("hot.") else "")
+               for name, shown in ((n, SIZING_FIGURES[n]) for n in SIZING_COLUMN_HEADINGS)]
+    return "; ".join([*free, *figures])
 
 
 def designs_table(result, currency: str) -> str:
@@ -98,7 +106,7 @@ def designs_table(result, currency: str) -> str:
                        for i, (cell, w) in enumerate(zip(row, widths, strict=True))).rstrip()
              for row in [header, *rows]]
     lines.insert(1, "-" * len(lines[0]))
-    return "\n".join(lines) + "\n" + textwrap.fill(figure_legend(currency), width=110)
+    return "\n".join(lines) + "\n" + textwrap.fill(column_legend(currency, keys), width=110)
 
 
 def summary_text(result, source: str, currency: str, field_checks: Sequence = (),
@@ -128,7 +136,8 @@ def summary_text(result, source: str, currency: str, field_checks: Sequence = ()
              f"{result.candidates_evaluated:,} candidates evaluated, {result.feasible_count:,} pass every check "
              f"at every temperature ({result.seconds:.1f} s, seed {result.seed}); objectives: {objectives}."]
     if not result.designs:
-        lines += ["", "No feasible design.", textwrap.fill(result.explanation, width=100)]
+        lines += ["", "No feasible design.",
+                  textwrap.fill(explanation_text(result.explanation), width=100, break_on_hyphens=False)]
         return "\n".join(lines) + "\n"
     front = sum(d.pareto for d in result.designs)
     count = f"{len(result.designs)} design" + ("s" if len(result.designs) > 1 else "")
@@ -196,8 +205,8 @@ def result_json(result, field_checks: Sequence = (), written: Sequence[str] = ()
         "free": [free_text(v) for v in result.spec.free],
     }
     if not result.designs:
-        out["explanation"] = result.explanation
-        out["shortfalls"] = [{"requirement": s.requirement, "text": s.text,
+        out["explanation"] = explanation_text(result.explanation)
+        out["shortfalls"] = [{"requirement": s.requirement, "text": explanation_text(s.text),
                               "closest_share": _number(float(s.closest_share))} for s in result.shortfalls]
     return out
 
@@ -245,4 +254,5 @@ def design_header(result, rank: int, source: str, when: datetime.datetime | None
     return "".join(f"# {line}\n" for line in lines) + "\n"
 
 
-__all__ = ["design_header", "designs_table", "free_text", "objective_key", "result_json", "summary_text", "value_text"]
+__all__ = ["column_legend", "design_header", "designs_table", "explanation_text", "free_text", "objective_key",
+           "result_json", "summary_text", "value_text"]

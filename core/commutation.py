@@ -33,6 +33,8 @@ from scipy.constants import mu_0
 
 from .design import Design
 from .results import CommutationResult
+from .shared_docs import shared_parameters
+from .winding import WINDING_PARAMETERS
 
 #: Continuous-service current density of each brush grade, (low, high) [A/m²]: from memory (brush
 #: makers' tables give ranges like these; the grade's own datasheet governs).
@@ -91,16 +93,13 @@ def surface_speed(speed: float, diameter: float) -> float:
     return abs(speed) * diameter / 2.0
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def reactance_voltage(current, paths, turns_per_coil, stack_length, speed, commutator_diameter, brush_width,
                       specific_permeance: float = SPECIFIC_PERMEANCE):
     """Average reactance voltage of the coil in commutation, e_r = L_c·2·(I/a)/T_c.
 
     Parameters
     ----------
-    current : float or ndarray
-        Armature current I [A].
-    paths : int or ndarray
-        Parallel paths a [1].
     turns_per_coil : int or ndarray
         N_c [1].
     stack_length : float or ndarray

@@ -82,6 +82,9 @@ METRIC_DIAMETERS_MM = (
     1.320, 1.400, 1.500, 1.600, 1.700, 1.800, 1.900, 2.000, 2.120, 2.240, 2.360, 2.500,
 )
 
+#: The AWG gauges a project file may name (ASTM B258), thickest first.
+AWG_GAUGES = tuple(range(45))  # AWG 0 to 44
+
 # IEC 60317-0-1's tolerance on the nominal conductor diameter: (largest nominal diameter of the band, ±),
 # both in mm; above the last band, 1 % of the diameter rounded up to the micrometre. From memory of the
 # standard's table, read against a wire maker's table under IS 13730-0-1 (India's adoption of IEC
@@ -166,8 +169,8 @@ def parse_wire_size(label: str) -> float:
         raise ValueError(f"wire size {label!r} is not 'AWG n' or 'd mm' (for example 'AWG 24' or '0.50 mm')")
     if match["awg"] is not None:
         gauge = int(match["awg"])
-        if not 0 <= gauge <= 44:
-            raise ValueError(f"wire size {label!r}: AWG must be from 0 to 44")
+        if gauge not in AWG_GAUGES:
+            raise ValueError(f"wire size {label!r}: AWG must be from {AWG_GAUGES[0]} to {AWG_GAUGES[-1]}")
         return awg_diameter(gauge)
     diameter_mm = float(match["mm"])
     if not any(abs(diameter_mm - d) < 5e-4 for d in METRIC_DIAMETERS_MM):
@@ -176,6 +179,35 @@ def parse_wire_size(label: str) -> float:
             f"(IEC 60317-0-1 R20, {METRIC_DIAMETERS_MM[0]:g} to {METRIC_DIAMETERS_MM[-1]:g} mm)"
         )
     return to_si(diameter_mm, "mm")
+
+
+def wire_series(label: str) -> tuple[str, ...]:
+    """Every standard size of the series a wire size belongs to, as a project file writes them.
+
+    Parameters
+    ----------
+    label : str
+        A size as in :func:`parse_wire_size`: ``"AWG 24"`` names the AWG series, ``"0.50 mm"`` the metric one.
+
+    Returns
+    -------
+    tuple of str
+        ``"AWG 0"`` ... ``"AWG 44"`` (thickest first), or the R20 metric sizes ``"0.100 mm"`` ... ``"2.500 mm"``
+        (thinnest first).
+
+    Raises
+    ------
+    ValueError
+        If the label is not a standard size (see :func:`parse_wire_size`).
+
+    References
+    ----------
+    .. [1] ASTM B258 (AWG) and IEC 60317-0-1 (metric nominal diameters).
+    """
+    parse_wire_size(label)
+    if _WIRE_PATTERN.match(label)["awg"] is not None:  # type: ignore[index]
+        return tuple(f"AWG {gauge}" for gauge in AWG_GAUGES)
+    return tuple(f"{d:.3f} mm" for d in METRIC_DIAMETERS_MM)
 
 
 def overall_diameter(bare_diameter: float, enamel_grade: int) -> float:

@@ -18,6 +18,20 @@ from typing import Protocol
 
 import numpy as np
 
+from .shared_docs import parameter_table, shared_parameters
+
+#: The arguments the motor's functions share, described once (:mod:`core.shared_docs`).
+MOTOR_PARAMETERS = parameter_table("""
+model : MotorModel
+    The motor at one case's temperatures.
+current : float or ndarray
+    Armature current [A].
+speed : float or ndarray
+    Rotor speed ω [rad/s].
+torque : float or ndarray
+    Shaft torque [N·m].
+""")
+
 
 class LossCoefficients(Protocol):
     """What the iron loss reads of a lamination steel (a :class:`~core.steel.Steel`, or arrays of them)."""
@@ -47,13 +61,9 @@ class IronLossTerms:
     eddy: float | np.ndarray  #: [N·m·s/rad]
     excess: float | np.ndarray  #: [N·m·(s/rad)^0.5]
 
+    @shared_parameters(MOTOR_PARAMETERS)
     def power(self, speed: float | np.ndarray):
         """Iron loss at a speed.
-
-        Parameters
-        ----------
-        speed : float or ndarray
-            Rotor speed ω [rad/s].
 
         Returns
         -------
@@ -122,13 +132,12 @@ class MotorModel:
     constant_table: tuple[np.ndarray, np.ndarray] | None = None
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def constant_at(model: MotorModel, current: float | np.ndarray):
     """Ke = Kt at an armature current [V·s/rad]: the table's linear interpolation, or the constant.
 
     Parameters
     ----------
-    model : MotorModel
-        The motor at one case's temperatures.
     current : float or ndarray
         Armature current [A] (its sign does not matter: the flux falls alike either way).
 
@@ -191,15 +200,9 @@ def interp_rows(x, xp, fp):
                     np.where(x <= xp_flat[start], fp_flat[start], inside))
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def speed_at_current(model: MotorModel, current):
     """Speed at an armature current from the voltage equation, ω = (V - Vb - R·I)/Ke(I), never below 0.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    current : float or ndarray
-        Armature current [A].
 
     Returns
     -------
@@ -214,15 +217,9 @@ def _speed_with_constant(model: MotorModel, current, constant):
     return np.maximum((model.voltage - model.brush_drop - model.resistance * current) / constant, 0.0)
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def shaft_torque_at_current(model: MotorModel, current):
     """Shaft torque at an armature current: Kt(I)·I less the loss torque at that current's speed.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    current : float or ndarray
-        Armature current [A].
 
     Returns
     -------
@@ -234,15 +231,9 @@ def shaft_torque_at_current(model: MotorModel, current):
     return constant * current - loss_torque(model, speed)
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def current_at_torque(model: MotorModel, torque: float | np.ndarray):
     """Armature current at a shaft torque, between no load and stall (the stall current beyond stall).
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    torque : float or ndarray
-        Shaft torque [N·m].
 
     Returns
     -------
@@ -268,15 +259,9 @@ def current_at_torque(model: MotorModel, torque: float | np.ndarray):
     return np.where(torque >= stall_torque(model), stall, result.root)
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def speed_at_torque(model: MotorModel, torque: float | np.ndarray):
     """Speed at a shaft torque: the closed-form root of the module docstring; 0 at and beyond stall.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    torque : float or ndarray
-        Shaft torque [N·m].
 
     Returns
     -------
@@ -298,15 +283,9 @@ def speed_at_torque(model: MotorModel, torque: float | np.ndarray):
     return root_s**2
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def loss_torque(model: MotorModel, speed: float | np.ndarray):
     """Torque that friction, drag and iron loss take from the shaft, T_loss(ω) of the module docstring.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
-    speed : float or ndarray
-        Rotor speed ω [rad/s].
 
     Returns
     -------
@@ -318,13 +297,9 @@ def loss_torque(model: MotorModel, speed: float | np.ndarray):
             + m.iron.excess * np.sqrt(speed))
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def stall_current(model: MotorModel) -> float:
     """Armature current at zero speed, with no back-EMF.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
 
     Returns
     -------
@@ -334,13 +309,9 @@ def stall_current(model: MotorModel) -> float:
     return (model.voltage - model.brush_drop) / model.resistance
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def stall_torque(model: MotorModel):
     """Shaft torque at zero speed: K·I_stall less friction and hysteresis drag, never below 0.
-
-    Parameters
-    ----------
-    model : MotorModel
-        The motor at one case's temperatures.
 
     Returns
     -------

@@ -84,7 +84,7 @@ class Element:
         Returns
         -------
         tuple of ndarray
-            The drop and d(drop)/d(flux).
+            The drop l·H(Φ/A) [A] and its derivative l·(dH/dB)/A [A/Wb] (l/(μ0·A) in air).
 
         References
         ----------
@@ -122,7 +122,7 @@ class TipPath:
         Returns
         -------
         tuple of ndarray
-            The drop and d(drop)/d(flux).
+            The drop across gap and tips [A] and its derivative with respect to the flux [A/Wb].
 
         References
         ----------

@@ -37,6 +37,7 @@ from dataclasses import dataclass, fields
 import numpy as np
 
 from .motor_model import (  # noqa: F401 (re-exported: the callers import them from here)
+    MOTOR_PARAMETERS,
     IronLossTerms,
     MotorModel,
     constant_at,
@@ -49,6 +50,7 @@ from .motor_model import (  # noqa: F401 (re-exported: the callers import them f
     stall_current,
     stall_torque,
 )
+from .shared_docs import shared_parameters
 
 
 @dataclass(frozen=True)
@@ -73,13 +75,12 @@ class OperatingPoints:
         return self.copper_loss + self.brush_loss + self.friction_loss + self.viscous_loss + self.iron_loss
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def operating_points(model: MotorModel, torque: float | np.ndarray) -> OperatingPoints:
     """The steady state at the given shaft torques (from no load to stall): speed, current, powers, losses.
 
     Parameters
     ----------
-    model : MotorModel
-        The motor at one case's temperatures.
     torque : float or ndarray
         Shaft torque [N·m], at most the stall torque.
 
@@ -205,6 +206,7 @@ class SpeedTorqueCurve:
     speed_torque_gradient: float  #: no-load speed over stall torque [rad/s per N·m], positive
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 200) -> SpeedTorqueCurve:
     """The characteristic from no load to stall and its named points.
 
@@ -215,8 +217,6 @@ def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 20
 
     Parameters
     ----------
-    model : MotorModel
-        The motor at one case's temperatures.
     rated_torque : float
         The load's shaft torque [N·m].
     samples : int, optional
@@ -248,14 +248,13 @@ def speed_torque_curve(model: MotorModel, rated_torque: float, samples: int = 20
     )
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def largest_current(model: MotorModel, current_limit: float | None = None) -> float:
     """The most current the armature can see at this case's temperatures [A]: plugging from at most
     the no-load speed, where the back-EMF is below V - Vb, so (V + E - Vb)/R < 2·(V - Vb)/R.
 
     Parameters
     ----------
-    model : MotorModel
-        The motor at the case's temperatures.
     current_limit : float or None
         The drive's limit [A], included when given.
 
@@ -288,13 +287,12 @@ def largest_currents(model: MotorModel, current_limit):
     return np.where(np.isnan(limit), bound, np.maximum(bound, np.where(np.isnan(limit), 0.0, limit)))
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def plugging_current(model: MotorModel, speed: float | np.ndarray):
     """Armature current when the supply is reversed while the motor turns at ``speed`` (plugging).
 
     Parameters
     ----------
-    model : MotorModel
-        The motor at the case's temperatures.
     speed : float or ndarray
         Speed at the moment of reversal [rad/s].
 
@@ -323,13 +321,12 @@ def plugging_current(model: MotorModel, speed: float | np.ndarray):
     return result.root if np.ndim(result.root) else float(result.root)
 
 
+@shared_parameters(MOTOR_PARAMETERS)
 def current_limit_torque(model: MotorModel, current_limit: float | None) -> float | None:
     """Shaft torque at which the armature current reaches the drive's limit.
 
     Parameters
     ----------
-    model : MotorModel
-        The motor at the case's temperatures.
     current_limit : float or None
         The drive's current limit [A].
 
@@ -392,7 +389,7 @@ def mechanical_time_constant(inertia: float, resistance: float, constant: float)
     Returns
     -------
     float
-        [s]
+        τm [s]: the speed's response to a step of voltage rises as 1 - exp(-t/τm).
 
     References
     ----------
@@ -415,7 +412,7 @@ def electrical_time_constant(inductance: float, resistance: float) -> float:
     Returns
     -------
     float
-        [s]
+        τe [s]: the current's response to a step of voltage, rotor held, rises as 1 - exp(-t/τe).
 
     References
     ----------

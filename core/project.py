@@ -51,7 +51,7 @@ def parse(text: str, source: str = "project") -> Project:
     Returns
     -------
     Project
-        Validated.
+        The file's project, checked against the schema and the fit rules.
 
     Raises
     ------

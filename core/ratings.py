@@ -31,6 +31,7 @@ import numpy as np
 
 from . import thermal_network as tn
 from .performance import MotorModel, operating_points, stall_current, stall_torque
+from .shared_docs import shared_parameters
 from .solvers import find_root
 from .thermal_duty import (
     DUTY_CODES,
@@ -42,7 +43,7 @@ from .thermal_duty import (
     motor_at_limit,
     time_to_limit,
 )
-from .thermal_losses import TOLERANCE, Losses, MotorAt, point_losses, take
+from .thermal_losses import BATCH_PARAMETERS, TOLERANCE, Losses, MotorAt, point_losses, take
 
 #: Torques at which the continuous rating first looks for the winding's limit (our choice).
 RATING_SCAN_POINTS = 33
@@ -57,24 +58,15 @@ class ContinuousRating:
     speed: np.ndarray  #: [rad/s]
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def continuous_rating(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, limit_C,
                       model_high_C) -> ContinuousRating:
     """The shaft torque whose S1 steady state puts the winding exactly at its class limit.
 
     Parameters
     ----------
-    network : ThermalNetwork
-        The motors' network.
-    rows : ndarray
-        The designs' indices for ``motor_at``.
     ambient_C : ndarray
         The highest ambient [°C].
-    motor_at : callable
-        ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
-    limit_C : ndarray
-        The insulation class temperature [°C].
-    model_high_C : ndarray
-        Where the magnet grade's temperature model ends [°C].
 
     Returns
     -------
@@ -120,24 +112,17 @@ def continuous_rating(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, m
                             speed=np.asarray(p.speed, dtype=float))
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def stall_time(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, current_limit, limit_C,
                start_rises=(0.0, 0.0), magnet_C=None) -> tuple[np.ndarray, np.ndarray]:
     """Permitted stall time from a starting state until the winding reaches its class limit.
 
     Parameters
     ----------
-    network : ThermalNetwork
-        The motors' network.
-    rows : ndarray
-        The designs' indices for ``motor_at``.
-    ambient_C : ndarray
-        Ambient [°C].
     motor_at : callable
         ``motor_at(rows, winding_C, magnet_C) -> MotorModel`` (only the resistance matters at stall).
     current_limit : ndarray
         The drive's limit, which caps the stall current [A]; NaN without one.
-    limit_C : ndarray
-        The insulation class temperature [°C].
     start_rises : array_like, optional
         Rises of winding and housing at the start [K]: zero from cold, the S1 state from hot.
     magnet_C : ndarray, optional

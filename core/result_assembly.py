@@ -12,8 +12,26 @@ from .results import GeometryResult, MassResult, WindingResult
 from .winding import coil_span_slots, conductors_per_slot, current_density, slot_fill
 
 
-def geometry_result(g: Geometry, max_outer_diameter: float | None, max_length: float | None = None) -> GeometryResult:
-    """The cross-section as evaluated [m, rad], derived dimensions included; the envelope limits [m] echoed."""
+def geometry_result(geometry: Geometry, max_outer_diameter: float | None,
+                    max_length: float | None = None) -> GeometryResult:
+    """The cross-section as evaluated [m, rad], derived dimensions included; the envelope limits [m] echoed.
+
+    Parameters
+    ----------
+    geometry : Geometry
+        The design's cross-section and lengths, SI (one design: float fields) [m, rad].
+    max_outer_diameter : float or None
+        The envelope's largest housing outer diameter [m]; None when the project sets none.
+    max_length : float or None, optional
+        The envelope's largest overall length [m]; None when the project sets none.
+
+    Returns
+    -------
+    GeometryResult
+        Counts [1], diameters (twice the geometry's radii), lengths and the slot pitch [m], the magnet arc
+        [rad] and embrace [1], each a plain float.
+    """
+    g = geometry
     return GeometryResult(
         poles=int(g.poles), slots=int(g.slots),
         housing_outer_diameter_m=2.0 * float(g.housing_outer_radius),
@@ -30,10 +48,38 @@ def geometry_result(g: Geometry, max_outer_diameter: float | None, max_length: f
     )
 
 
-def winding_result(d: Design, paths: int, conductors: int, turn_length: float, wire_length: float,
+def winding_result(design: Design, paths: int, conductors: int, turn_length: float, wire_length: float,
                    resistance_20C: float, hot_rated_current: float) -> WindingResult:
-    """The winding as built: counts [1], lengths [m], slot fill [1], R at 20 °C [Ω], hot rated density [A/m²]."""
-    g, w = d.geometry, d.winding
+    """The winding as built: counts [1], lengths [m], slot fill [1], R at 20 °C [Ω], hot rated density [A/m²].
+
+    Parameters
+    ----------
+    design : Design
+        The design, SI: its geometry (slots, poles, slot area) and winding (kind, segments, turns, wire).
+    paths : int
+        Parallel paths a [1] (:func:`core.winding.parallel_paths`).
+    conductors : int
+        Total conductors Z [1] (:func:`core.winding.total_conductors`).
+    turn_length : float
+        Mean turn length [m] (:func:`core.winding.mean_turn_length`).
+    wire_length : float
+        Wire in the winding [m] (:func:`core.winding.winding_length`).
+    resistance_20C : float
+        Armature resistance at 20 °C, brushes not included [Ω].
+    hot_rated_current : float
+        Armature current at the rated load in the hot case [A].
+
+    Returns
+    -------
+    WindingResult
+        The design's winding data with conductors per slot Z/S [1], the coil span [slots], the bare and
+        gross slot fill [1] and the current density at the hot rated current [A/m²].
+
+    References
+    ----------
+    .. [1] the relations of :mod:`core.winding`: Z/S, the slot fill of round wires, J = I/(a·A_cu).
+    """
+    g, w = design.geometry, design.winding
     slot_area = float(g.slot_area)
     return WindingResult(
         type=w.kind, parallel_paths=paths, commutator_segments=w.commutator_segments,
@@ -50,8 +96,21 @@ def winding_result(d: Design, paths: int, conductors: int, turn_length: float, w
     )
 
 
-def mass_result(m: Masses) -> MassResult:
-    """The parts' masses [kg] as plain floats, the estimated other parts and the whole motor included."""
+def mass_result(masses: Masses) -> MassResult:
+    """The parts' masses [kg] as plain floats, the estimated other parts and the whole motor included.
+
+    Parameters
+    ----------
+    masses : Masses
+        The masses of one design's parts [kg] (:func:`core.mass.masses`).
+
+    Returns
+    -------
+    MassResult
+        Each part [kg], the active total with the shaft, the estimated parts outside the magnetic circuit
+        and the whole motor's estimate [kg].
+    """
+    m = masses
     return MassResult(
         magnet_kg=float(m.magnet), copper_kg=float(m.copper), housing_kg=float(m.housing),
         lamination_kg=float(m.lamination), shaft_kg=float(m.shaft), total_kg=float(m.total),

@@ -38,6 +38,11 @@ def _optional(value: float | None) -> float:
     return float("nan") if value is None else float(value)
 
 
+def _group_figures(prefix: str, group: object, names: tuple[str, ...]) -> dict[str, float]:
+    """``prefix.name`` → the group's field ``name`` for each of ``names`` (NaN where it is None)."""
+    return {f"{prefix}.{name}": _optional(getattr(group, name)) for name in names}
+
+
 def _case_figures(case: CaseResult) -> dict[str, float]:
     return {
         "flux_per_pole_Wb": case.flux_per_pole_Wb,
@@ -115,48 +120,23 @@ def screening_figures(results: Results) -> dict[str, float]:
         "magnetics.core_flux_density_T": m.core_flux_density_T,
         "magnetics.worst_magnet_field_A_per_m": m.worst_magnet_field_A_per_m,
     })
-    c = r.constants
-    out.update({
-        "constants.machine_constant": c.machine_constant,
-        "constants.ke_V_s_per_rad": c.ke_V_s_per_rad,
-        "constants.terminal_resistance_ohm": c.terminal_resistance_ohm,
-        "constants.inductance_H_estimate": c.inductance_H_estimate,
-        "constants.electrical_time_constant_s_estimate": c.electrical_time_constant_s_estimate,
-        "constants.mechanical_time_constant_s": c.mechanical_time_constant_s,
-        "constants.rotor_inertia_kg_m2": c.rotor_inertia_kg_m2,
-    })
-    w = r.winding
-    out.update({
-        "winding.resistance_20C_ohm": w.resistance_20C_ohm,
-        "winding.slot_fill_bare": w.slot_fill_bare,
-        "winding.slot_fill_gross": w.slot_fill_gross,
-        "winding.rated_current_density_A_per_m2": w.rated_current_density_A_per_m2,
-    })
+    out.update(_group_figures("constants", r.constants, (
+        "machine_constant", "ke_V_s_per_rad", "terminal_resistance_ohm", "inductance_H_estimate",
+        "electrical_time_constant_s_estimate", "mechanical_time_constant_s", "rotor_inertia_kg_m2")))
+    out.update(_group_figures("winding", r.winding, (
+        "resistance_20C_ohm", "slot_fill_bare", "slot_fill_gross", "rated_current_density_A_per_m2")))
     out.update(_case_margins("demagnetization", r.demagnetization.cases, _DEMAGNETIZATION_KEYS))
     out["worst_demagnetization_margin_A_per_m"] = r.demagnetization.worst_margin_A_per_m
     if r.faults is not None:
         out.update(_case_margins("faults", r.faults.cases, _FAULT_KEYS))
         out["faults.worst_margin_A_per_m"] = r.faults.worst_margin_A_per_m
-    t = r.thermal
-    out.update({
-        "thermal.winding_temperature_C": t.winding_temperature_C,
-        "thermal.housing_temperature_C": t.housing_temperature_C,
-        "thermal.magnet_temperature_C": t.magnet_temperature_C,
-        "thermal.steady_winding_temperature_C": t.steady_winding_temperature_C,
-        "thermal.losses_W": t.losses_W,
-        "thermal.time_to_limit_s": _optional(t.time_to_limit_s),
-    })
+    out.update(_group_figures("thermal", r.thermal, (
+        "winding_temperature_C", "housing_temperature_C", "magnet_temperature_C", "steady_winding_temperature_C",
+        "losses_W", "time_to_limit_s")))
     if r.ratings is not None:
-        g = r.ratings
-        out.update({
-            "ratings.continuous_torque_N_m": g.continuous_torque_N_m,
-            "ratings.continuous_current_A": g.continuous_current_A,
-            "ratings.continuous_speed_rad_per_s": g.continuous_speed_rad_per_s,
-            "ratings.continuous_output_power_W": g.continuous_output_power_W,
-            "ratings.stall_current_A": g.stall_current_A,
-            "ratings.stall_time_cold_s": _optional(g.stall_time_cold_s),
-            "ratings.stall_time_hot_s": _optional(g.stall_time_hot_s),
-        })
+        out.update(_group_figures("ratings", r.ratings, (
+            "continuous_torque_N_m", "continuous_current_A", "continuous_speed_rad_per_s",
+            "continuous_output_power_W", "stall_current_A", "stall_time_cold_s", "stall_time_hot_s")))
     out["load_points.least_speed_share"] = _least_speed_share(results)
     ms = r.mass
     out.update({f"mass.{f.name}": getattr(ms, f.name) for f in dataclasses.fields(ms)})
@@ -165,12 +145,8 @@ def screening_figures(results: Results) -> dict[str, float]:
     out.update({"cost.magnet": co.magnet, "cost.copper": co.copper, "cost.housing": co.housing,
                 "cost.lamination": co.lamination, "cost.total": co.total})
     if r.commutation is not None:
-        cm = r.commutation
-        out.update({
-            "commutation.brush_current_density_A_per_m2": cm.brush_current_density_A_per_m2,
-            "commutation.surface_speed_m_per_s": cm.surface_speed_m_per_s,
-            "commutation.reactance_voltage_V": cm.reactance_voltage_V,
-        })
+        out.update(_group_figures("commutation", r.commutation, (
+            "brush_current_density_A_per_m2", "surface_speed_m_per_s", "reactance_voltage_V")))
     return {name: float(value) for name, value in out.items()}
 
 

@@ -7,7 +7,9 @@ thousands of designs:
 
 1. **screen**: a scrambled Sobol sample of the box (seeded); each candidate's parts must fit by the
    file's own fit rules (:func:`core.fit_rules.check_fit`, the same function a file passes), and the
-   fitting ones are evaluated together by :func:`core.batch.evaluate_many`;
+   fitting ones are evaluated together by :func:`core.batch.evaluate_many`; with the slots free and the
+   commutator segments not, the segments keep the file's segments per slot
+   (:func:`core.sizing_candidates.tied_values`), so that the fit rule's whole multiple holds;
 2. **refine**: NSGA-II (pymoo) starts from the best screened candidates and moves towards the
    trade-off front of the chosen objectives, on the unit cube of the free box (whole numbers and
    choices by equal-width bins, a rounding repair), its constraint the checks that fail and how far the
@@ -46,7 +48,7 @@ from .batch import FAIL_CODE, check_status, evaluate_many, screening_figures
 from .design import geometry_of
 from .errors import MagneticCircuitError, ProjectError
 from .schema import Project
-from .sizing_candidates import GEOMETRY_KEYS, fitting_designs, project_with
+from .sizing_candidates import GEOMETRY_KEYS, fitting_designs, project_with, tied_values
 from .sizing_objectives import OBJECTIVES, derived_figures, non_dominated, objective_matrix, validate_objectives
 from .sizing_screen import UNUSABLE, CandidateStore, SizingCancelled, progress_or_cancel, refine
 from .sizing_shortfall import Shortfall, explain
@@ -63,7 +65,7 @@ MAX_FRONT_DESIGNS = 40
 class SizedDesign:
     """One returned design: its free values, the validated project, its figures and objectives."""
 
-    values: dict[str, float | int | str]  #: free key to value in file units
+    values: dict[str, float | int | str]  #: free key to value in file units, and the keys that follow them
     project: Project  #: the whole validated project of this design
     figures: dict[str, float]  #: screening figures of ``evaluate`` (SI, unit-suffixed) and the derived ones
     objectives: dict[str, float]  #: objective name to value (SI, natural sign)
@@ -219,7 +221,8 @@ def size(project: Project, spec: SizingSpec,
         for index, (design_project, design_figures, design_objectives) in verified.items():
             if index not in front_set and index not in best_for:
                 continue
-            designs.append(SizedDesign(values=values_at(spec.free, values, index), project=design_project,
+            found_values = tied_values(project, values_at(spec.free, values, index))
+            designs.append(SizedDesign(values=found_values, project=design_project,
                                        figures=design_figures, objectives=design_objectives,
                                        pareto=index in front_set, best_for=tuple(best_for.get(index, ()))))
         designs.sort(key=lambda d: tuple(-d.objectives[n] if OBJECTIVES[n].maximise else d.objectives[n]

@@ -23,6 +23,7 @@ from .edits import with_values
 from .errors import ProjectError
 from .keys import key_spec
 from .schema import Project
+from .sizing_candidates import project_with
 from .sizing_space import FreeRange
 
 #: The supply voltages tried, as multiples of the file's (the first that passes is reported).
@@ -36,7 +37,10 @@ BOUND_SHARE = 0.03
 
 
 def value_text(key: str, value: object) -> str:
-    """A key and its value in words, with the key's file unit: ``"magnets.thickness_mm = 9.6 mm"``.
+    """A key and its value with the key's file unit: ``"magnets.thickness_mm = 9.6 mm"``.
+
+    The core's sentences name fields by their keys; the edges word them with the field's label
+    (``app.field_labels.worded_keys``: "magnet thickness 9.6 mm").
 
     Parameters
     ----------
@@ -81,7 +85,8 @@ def binding_ranges(free: Sequence[FreeRange], values: Mapping[str, object]) -> l
     Returns
     -------
     list of str
-        E.g. ``"winding.turns_per_coil at the low end of its range (10)"``.
+        One phrase per free variable within ``BOUND_SHARE`` of an end, in the order of ``free``, e.g.
+        ``"winding.turns_per_coil at the low end of its range (10)"``.
 
     References
     ----------
@@ -154,7 +159,9 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
     Returns
     -------
     list of str
-        E.g. ``"with magnets.thickness_mm = 9.6 mm (beyond the range's 9) it passes every check"``.
+        One sentence per pressed range whose first widening passes every check (with the envelope it
+        would need, if any), e.g. ``"with magnets.thickness_mm = 9.6 mm (beyond the range's 9) it passes
+        every check"``.
 
     References
     ----------
@@ -179,13 +186,13 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
         for candidate in tried:
             changes: dict[str, object] = {variable.key: candidate}
             try:
-                built.append(design_from_project(with_values(project, changes)))
+                built.append(design_from_project(project_with(project, changes)))
                 labels.append((candidate, ""))
             except ProjectError as error:
                 if error.key not in ENVELOPE_KEYS:
                     continue
                 try:
-                    built.append(design_from_project(with_values(project, {**changes, error.key: None})))
+                    built.append(design_from_project(project_with(project, {**changes, error.key: None})))
                 except ProjectError:
                     continue
                 labels.append((candidate, error.key))
@@ -204,7 +211,7 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
                       else float(design.geometry.housing_length))
             limit = project.housing.max_outer_diameter_mm if envelope.endswith("diameter_mm") else \
                 getattr(project.housing, "max_length_mm", None)
-            sentence += (f", but only with the envelope {envelope} widened to {1e3 * needed:.1f} mm "
+            sentence += (f", but only with {envelope} widened to {1e3 * needed:.1f} mm "
                          f"(it is {limit:g} mm)")
         out.append(sentence)
     return out

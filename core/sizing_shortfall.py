@@ -22,9 +22,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from .batch import CHECK_KEYS, FAIL_CODE, BatchFigures
-from .edits import with_values
 from .evaluate import evaluate
 from .schema import Project
+from .sizing_candidates import project_with
 from .sizing_relaxations import (
     AMBIENT_STEP_K,
     BOUND_SHARE,
@@ -168,7 +168,7 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
         return {v.key: _file_value(v, values[v.key][i]) for v in spec.free}
 
     design_values = values_of(index)
-    closest = with_values(project, design_values)
+    closest = project_with(project, design_values)
 
     counts = {key: int(np.sum(batch.status[key] == FAIL_CODE)) for key in CHECK_KEYS if key in batch.status}
     solved = int(np.sum(~batch.failed))
@@ -206,7 +206,7 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
             parts.append("Re-evaluated with the range widened: " + "; ".join(widened) + ".")
     names = ["the closest design", *(f"the design with {', '.join(value_text(k, v) for k, v in values_of(i).items())}"
                                      for i in tried[1:])]
-    relaxed = relaxations([closest, *(with_values(project, values_of(i)) for i in tried[1:])],
+    relaxed = relaxations([closest, *(project_with(project, values_of(i)) for i in tried[1:])],
                           [c.key for c in missed], names)
     if relaxed:
         parts.append("Re-evaluated with the requirement relaxed: " + "; ".join(relaxed) + ".")

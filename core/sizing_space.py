@@ -30,7 +30,7 @@ import numpy as np
 from scipy.stats import qmc
 
 from . import library
-from .conductors import METRIC_DIAMETERS_MM, parse_wire_size
+from .conductors import METRIC_DIAMETERS_MM, parse_wire_size, wire_series
 from .edits import get_value
 from .errors import ProjectError
 from .keys import KeySpec, key_spec, key_specs
@@ -107,7 +107,7 @@ def _wire_range(key: str, low_text: str, high_text: str) -> FreeRange:
                 parse_wire_size(f"AWG {gauge}")
             except ValueError as error:
                 raise ProjectError(f"{key}: {error}", key=key) from None
-        return FreeRange(key, None, None, False, tuple(f"AWG {n}" for n in range(gauges[0], gauges[1] + 1)))
+        return FreeRange(key, None, None, False, wire_series(f"AWG {gauges[0]}")[gauges[0]:gauges[1] + 1])
     if low_awg or high_awg:
         raise ProjectError(f"{key}: give both ends as AWG sizes ('AWG 22:AWG 30') or both as metric bare "
                            "diameters in mm ('0.30:0.60')", key=key)
@@ -118,7 +118,8 @@ def _wire_range(key: str, low_text: str, high_text: str) -> FreeRange:
     if low < smallest - 5e-4 or high > largest + 5e-4:
         raise ProjectError(f"{key}: {low:g} to {high:g} mm lies outside the metric series of IEC 60317-0-1 "
                            f"(allowed {smallest:g} to {largest:g} mm)", key=key)
-    sizes = tuple(f"{d:.3f} mm" for d in METRIC_DIAMETERS_MM if low - 5e-4 <= d <= high + 5e-4)
+    sizes = tuple(size for size, d in zip(wire_series(f"{smallest} mm"), METRIC_DIAMETERS_MM, strict=True)
+                  if low - 5e-4 <= d <= high + 5e-4)
     if not sizes:
         raise ProjectError(f"{key}: no standard metric size lies between {low:g} and {high:g} mm", key=key)
     return FreeRange(key, None, None, False, sizes)

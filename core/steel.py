@@ -31,9 +31,16 @@ from functools import cached_property
 import numpy as np
 from scipy.interpolate import PchipInterpolator
 
+from .shared_docs import parameter_table, shared_parameters
 from .units import MU_0
 
 _DENSE_POINTS = 2048
+
+#: The argument of the B(H) lookups, described once (:mod:`core.shared_docs`).
+STEEL_PARAMETERS = parameter_table("""
+flux_density : float or ndarray
+    Flux density B [T], of either sign; NaN gives NaN.
+""")
 
 
 @dataclass(frozen=True)
@@ -85,14 +92,10 @@ class Steel:
         rises = np.append(np.diff(dense_h), step / MU_0)
         return 1.0 / step, dense_h, rises
 
+    @shared_parameters(STEEL_PARAMETERS)
     def field_and_slope(self, flux_density: float | np.ndarray):
         """H(B) [A/m] and dH/dB [A/(m·T)] from the same cell of the table, so that a Newton solve's
         Jacobian is the exact derivative of its residual.
-
-        Parameters
-        ----------
-        flux_density : float or ndarray
-            Flux density B [T], of either sign; NaN gives NaN.
 
         Returns
         -------
@@ -116,13 +119,9 @@ class Steel:
         """The last B data point [T]; beyond it the curve has the slope of free space."""
         return self.flux_density[-1]
 
+    @shared_parameters(STEEL_PARAMETERS)
     def field_for(self, flux_density: float | np.ndarray):
         """Field strength that magnetizes the steel to a flux density: H(B), odd and monotone.
-
-        Parameters
-        ----------
-        flux_density : float or ndarray
-            Flux density B [T], of either sign; NaN gives NaN.
 
         Returns
         -------

@@ -23,7 +23,8 @@ import numpy as np
 
 from . import thermal_network as tn
 from .performance import MotorModel
-from .thermal_losses import TOLERANCE, Losses, MotorAt, point_losses, take
+from .shared_docs import shared_parameters
+from .thermal_losses import BATCH_PARAMETERS, TOLERANCE, Losses, MotorAt, point_losses, take
 
 #: A winding past this is in runaway, whatever the network says [°C] (our choice).
 RUNAWAY_C = 1000.0
@@ -50,23 +51,9 @@ def _temperatures(network: tn.ThermalNetwork, ambient_C, rises):
     return ambient_C + winding, ambient_C + housing, ambient_C + tn.magnet_rise(network, winding, housing)
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def duty_rises(network: tn.ThermalNetwork, losses: Losses, duty, run_time, cycle_factor, cycle_time) -> np.ndarray:
     """Rises (θ_w, θ_h) at the duty's hottest moment under constant losses.
-
-    Parameters
-    ----------
-    network : ThermalNetwork
-        The motors' network.
-    losses : Losses
-        While loaded [W].
-    duty : str or ndarray
-        "S1", "S2" or "S3" (IEC 60034-1), or their :data:`DUTY_CODES` per design.
-    run_time : float or ndarray
-        Length of the S2 run [s].
-    cycle_factor : float or ndarray
-        S3 cycle duration factor, loaded time over cycle time [1].
-    cycle_time : float or ndarray
-        S3 cycle duration [s].
 
     Returns
     -------
@@ -89,6 +76,7 @@ def duty_rises(network: tn.ThermalNetwork, losses: Losses, duty, run_time, cycle
     return rises
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def duty_state(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, load_torque, duty,
                run_time, cycle_factor, cycle_time, limit_C, model_high_C, max_iterations: int = 100) -> DutyState:
     """The hot case: the duty's hottest moment at the highest ambient, losses ⇄ temperatures iterated.
@@ -97,20 +85,10 @@ def duty_state(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at
     ----------
     network : ThermalNetwork
         The motors' network, fields of the shape of ``rows``.
-    rows : ndarray
-        The designs' indices for ``motor_at``.
     ambient_C : ndarray
         The highest ambient [°C].
-    motor_at : callable
-        ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
     load_torque : ndarray
         The rated shaft torque [N·m].
-    duty, run_time, cycle_factor, cycle_time
-        As in :func:`duty_rises` [s, 1].
-    limit_C : ndarray
-        The insulation class temperature [°C].
-    model_high_C : ndarray
-        Where the magnet grade's temperature model ends [°C].
     max_iterations : int, optional
         Give up after this many iterations [1].
 
@@ -173,26 +151,15 @@ def duty_state(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at
     return DutyState(winding_C, housing_C, magnet_C, losses, iterations, exists, reported_time, iterated_C)
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def time_to_limit(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, torque, limit_C,
                   model_high_C, initial=(0.0, 0.0)) -> np.ndarray:
     """Time under a constant shaft torque until the winding reaches ``limit_C``; inf if never.
 
     Parameters
     ----------
-    network : ThermalNetwork
-        The motors' network.
-    rows : ndarray
-        The designs' indices for ``motor_at``.
-    ambient_C : ndarray
-        Ambient [°C].
-    motor_at : callable
-        ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
-    torque : ndarray
-        Shaft torque [N·m].
     limit_C : ndarray
         The winding temperature to reach [°C].
-    model_high_C : ndarray
-        Where the magnet grade's temperature model ends [°C].
     initial : array_like, optional
         Rises of winding and housing at the start [K].
 
@@ -210,14 +177,13 @@ def time_to_limit(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor
     return np.asarray(tn.time_to_rise(network, losses.winding, losses.housing, limit_C - ambient_C, initial))
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def motor_at_limit(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, motor_at: MotorAt, torque, limit_C,
                    model_high_C) -> MotorModel:
     """The motors with their windings at ``limit_C`` and their magnets at the steady state of the losses there.
 
     Parameters
     ----------
-    network, rows, ambient_C, motor_at, torque
-        As in :func:`time_to_limit` [°C, N·m].
     limit_C : ndarray
         The winding temperature [°C].
     model_high_C : ndarray
@@ -251,6 +217,7 @@ def motor_at_limit(network: tn.ThermalNetwork, rows: np.ndarray, ambient_C, moto
     return motor_at(rows, limit, np.minimum(magnet_C, high))
 
 
+@shared_parameters(BATCH_PARAMETERS)
 def duty_transient(network: tn.ThermalNetwork, ambient_C: float, losses: Losses, duty: str, run_time: float,
                    cycle_factor: float, cycle_time: float, samples: int = 121):
     """Temperatures against time over the duty from ambient, under the duty state's losses (one design).
@@ -263,8 +230,6 @@ def duty_transient(network: tn.ThermalNetwork, ambient_C: float, losses: Losses,
         Ambient [°C].
     losses : Losses
         While loaded [W] (0-d or one-element arrays).
-    duty, run_time, cycle_factor, cycle_time
-        As in :func:`duty_rises` [s, 1].
     samples : int, optional
         Points of the time axis [1].
 

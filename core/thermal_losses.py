@@ -19,6 +19,7 @@ import numpy as np
 
 from . import thermal_network as tn
 from .performance import MotorModel, operating_points, stall_torque
+from .shared_docs import parameter_table
 
 #: ``motor_at(rows, winding_C, magnet_C)``: the motor models of the designs ``rows`` (indices into the
 #: batch) with their windings and magnets at those temperatures (arrays of the shape of ``rows``).
@@ -26,6 +27,35 @@ MotorAt = Callable[[np.ndarray, np.ndarray, np.ndarray], MotorModel]
 
 #: The fixed points stop when winding and magnets together move less than this [K] (our choice).
 TOLERANCE = 1e-4
+
+#: The arguments the batch's thermal functions share (here, core.thermal_duty, core.ratings), described
+#: once (:mod:`core.shared_docs`).
+BATCH_PARAMETERS = parameter_table("""
+network : ThermalNetwork
+    The motors' network.
+rows : ndarray
+    The designs' indices for ``motor_at``.
+ambient_C : ndarray
+    Ambient [°C].
+motor_at : callable
+    ``motor_at(rows, winding_C, magnet_C) -> MotorModel``.
+torque : ndarray
+    Shaft torque [N·m].
+limit_C : ndarray
+    The insulation class temperature [°C].
+model_high_C : ndarray
+    Where the magnet grade's temperature model ends [°C].
+losses : Losses
+    While loaded [W].
+duty : str or ndarray
+    "S1", "S2" or "S3" (IEC 60034-1), or their codes per design (``DUTY_CODES``).
+run_time : float or ndarray
+    Length of the S2 run [s].
+cycle_factor : float or ndarray
+    S3 cycle duration factor, loaded time over cycle time [1].
+cycle_time : float or ndarray
+    S3 cycle duration [s].
+""")
 
 # Every function below works on a batch of designs at once: arrays of one shape (n,), ``rows`` the
 # designs' indices into the batch that ``motor_at`` knows, ``network`` a ThermalNetwork of arrays of

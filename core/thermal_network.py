@@ -40,6 +40,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .geometry import Geometry
+from .shared_docs import parameter_table, shared_parameters
 
 #: Specific heats [J/(kg·K)], from memory (handbook values at room temperature).
 COPPER_SPECIFIC_HEAT = 385.0
@@ -75,6 +76,13 @@ class ThermalNetwork:
     housing_to_ambient: float | np.ndarray  #: R_ha [K/W]
     winding_to_magnet: float | np.ndarray  #: R_wm, across the air gap [K/W]
     magnet_to_housing: float | np.ndarray  #: R_mh, through magnet and bond line [K/W]
+
+
+#: The network argument of the functions below, described once (:mod:`core.shared_docs`).
+NETWORK_PARAMETERS = parameter_table("""
+network : ThermalNetwork
+    Capacities [J/K] and resistances [K/W] (floats, or arrays for many motors).
+""")
 
 
 def gap_coupling_resistance(geometry: Geometry, heat_transfer: float = GAP_HEAT_TRANSFER):
@@ -146,13 +154,9 @@ def capacity(masses_and_specific_heats):
     return sum(m * c for m, c in masses_and_specific_heats)
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def system_matrix(network: ThermalNetwork) -> np.ndarray:
     """The matrix A of dx/dt = A·x + b for the rises x = (θ_w, θ_h).
-
-    Parameters
-    ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W].
 
     Returns
     -------
@@ -197,13 +201,12 @@ def _free_response(network: ThermalNetwork, time, winding, housing):
             (e_fast * (ah - slow * housing) - e_slow * (ah - fast * housing)) / span)
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def steady_rise(network: ThermalNetwork, winding_loss, housing_loss) -> np.ndarray:
     """Steady-state rises of winding and housing above ambient (S1).
 
     Parameters
     ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W] (floats, or arrays for many motors at once).
     winding_loss, housing_loss : float or ndarray
         Heat into the winding node (copper, brush, iron) and into the housing node (friction, drag) [W].
 
@@ -220,14 +223,13 @@ def steady_rise(network: ThermalNetwork, winding_loss, housing_loss) -> np.ndarr
     return np.array([housing + winding_loss * np.maximum(network.winding_to_housing, SMALLEST_RESISTANCE), housing])
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def rise_after(network: ThermalNetwork, winding_loss, housing_loss, time, initial_winding=0.0,
                initial_housing=0.0) -> np.ndarray:
     """Rises of winding and housing a time after a start, under constant losses, elementwise.
 
     Parameters
     ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W] (floats or arrays).
     winding_loss, housing_loss : float or ndarray
         Heat into the winding and housing nodes [W].
     time : float or ndarray
@@ -249,13 +251,12 @@ def rise_after(network: ThermalNetwork, winding_loss, housing_loss, time, initia
     return np.array([steady_w + free_w, steady_h + free_h])
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def rise_at(network: ThermalNetwork, winding_loss: float, housing_loss: float, times, initial=(0.0, 0.0)):
     """Rises of winding and housing at the given times under constant losses.
 
     Parameters
     ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W].
     winding_loss, housing_loss : float
         Heat into the winding and housing nodes [W].
     times : float or array_like
@@ -277,13 +278,9 @@ def rise_at(network: ThermalNetwork, winding_loss: float, housing_loss: float, t
     return rise_after(network, winding_loss, housing_loss, t, start[0], start[1]).T
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def time_constants(network: ThermalNetwork):
     """The network's two time constants, fast (the winding's own) and slow (the motor's) [s].
-
-    Parameters
-    ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W].
 
     Returns
     -------
@@ -323,13 +320,12 @@ def magnet_rise(network: ThermalNetwork, winding_rise, housing_rise):
     return housing_rise + (np.asarray(winding_rise) - housing_rise) * share
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def periodic_rise(network: ThermalNetwork, winding_loss, housing_loss, on_time, off_time) -> np.ndarray:
     """S3: rises at the end of the on-time in the periodic regime (losses on, then none at rest).
 
     Parameters
     ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W] (floats or arrays).
     winding_loss, housing_loss : float or ndarray
         Heat into the winding and housing nodes while on [W].
     on_time, off_time : float or ndarray
@@ -361,13 +357,12 @@ def periodic_rise(network: ThermalNetwork, winding_loss, housing_loss, on_time, 
     return np.array([(rhs_w * m22 - m12 * rhs_h) / det, (m11 * rhs_h - m21 * rhs_w) / det])
 
 
+@shared_parameters(NETWORK_PARAMETERS)
 def time_to_rise(network: ThermalNetwork, winding_loss, housing_loss, winding_rise, initial=(0.0, 0.0)):
     """Time until the winding's rise reaches ``winding_rise`` under constant losses; inf if never.
 
     Parameters
     ----------
-    network : ThermalNetwork
-        Capacities [J/K] and resistances [K/W] (floats, or arrays for many motors at once).
     winding_loss, housing_loss : float or ndarray
         Heat into the winding and housing nodes [W].
     winding_rise : float or ndarray

@@ -30,6 +30,7 @@ from .magnet_grades import GradeDataError, MagnetGrade
 from .magnet_knee import knee_shape
 from .magnets import CurveAtTemperature
 from .schema import Project
+from .shared_docs import parameter_table, shared_parameters
 from .solvers import find_root
 from .units import MU_0, to_si
 
@@ -175,17 +176,20 @@ def lot_grade(grade: MagnetGrade, remanence_factor: np.ndarray, coercivity_facto
                                        unchanged.tolist(), strict=True)]
 
 
+#: The arguments of the drawn motors' functions, described once (:mod:`core.shared_docs`).
+DRAWN_PARAMETERS = parameter_table("""
+design : Design
+    The nominal design, SI.
+spreads : tuple of Spread
+    Its tolerances, as :func:`spreads_of` gives them.
+deviations : ndarray
+    Shape (N, len(spreads)), shares of each ± (:func:`draw`).
+""")
+
+
+@shared_parameters(DRAWN_PARAMETERS)
 def drawn_parts(design: Design, spreads: tuple[Spread, ...], deviations: np.ndarray) -> dict[str, np.ndarray]:
     """What each drawn motor is built from: the value of every spread quantity, SI.
-
-    Parameters
-    ----------
-    design : Design
-        The nominal design, SI.
-    spreads : tuple of Spread
-        Its tolerances, as :func:`spreads_of` gives them.
-    deviations : ndarray
-        Shape (N, len(spreads)), shares of each ± (:func:`draw`).
 
     Returns
     -------
@@ -209,17 +213,9 @@ def drawn_parts(design: Design, spreads: tuple[Spread, ...], deviations: np.ndar
     }
 
 
+@shared_parameters(DRAWN_PARAMETERS)
 def drawn_designs(design: Design, spreads: tuple[Spread, ...], deviations: np.ndarray) -> list[Design]:
     """The motors of the drawn deviations, each the design with its parts moved (``dataclasses.replace``).
-
-    Parameters
-    ----------
-    design : Design
-        The nominal design, SI.
-    spreads : tuple of Spread
-        Its tolerances, as :func:`spreads_of` gives them.
-    deviations : ndarray
-        Shape (N, len(spreads)), shares of each ± (:func:`draw`).
 
     Returns
     -------

@@ -11,9 +11,34 @@ import numpy as np
 
 from .conductors import copper_resistivity
 from .geometry import Geometry
+from .shared_docs import parameter_table, shared_parameters
 from .units import MU_0
 
+#: The arguments the winding's functions share (here and in core.commutation), described once
+#: (:mod:`core.shared_docs`).
+WINDING_PARAMETERS = parameter_table("""
+conductors : int or ndarray
+    Total conductors Z [1].
+turn_length : float or ndarray
+    Mean turn length [m].
+paths : int or ndarray
+    Parallel paths a [1].
+copper_area : float or ndarray
+    Copper cross-section of the wire [m²].
+slots : int or ndarray
+    Number of slots S [1].
+poles : int or ndarray
+    Number of poles p [1].
+current : float or ndarray
+    Armature current I [A].
+turns_per_coil : int or ndarray
+    Turns N of each coil [1].
+geometry : Geometry
+    The cross-section and stack length.
+""")
 
+
+@shared_parameters(WINDING_PARAMETERS)
 def parallel_paths(kind: str, poles: int | np.ndarray, multiplicity: int = 1):
     """Parallel paths between the brushes: lap a = m·p, wave a = 2·m.
 
@@ -21,8 +46,6 @@ def parallel_paths(kind: str, poles: int | np.ndarray, multiplicity: int = 1):
     ----------
     kind : str
         ``"lap"`` or ``"wave"``.
-    poles : int or ndarray
-        Number of poles p [1].
     multiplicity : int, optional
         Multiplicity m of the winding [1] (1 for simplex).
 
@@ -47,6 +70,7 @@ def parallel_paths(kind: str, poles: int | np.ndarray, multiplicity: int = 1):
     raise ValueError(f"winding type {kind!r} is not 'lap' or 'wave'")
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def total_conductors(commutator_segments: int | np.ndarray, turns_per_coil: int | np.ndarray):
     """Total active conductors Z = 2·C·N: one coil per segment, two coil sides per turn.
 
@@ -54,8 +78,6 @@ def total_conductors(commutator_segments: int | np.ndarray, turns_per_coil: int 
     ----------
     commutator_segments : int or ndarray
         Commutator segments C [1], one coil each.
-    turns_per_coil : int or ndarray
-        Turns N of each coil [1].
 
     Returns
     -------
@@ -70,17 +92,9 @@ def total_conductors(commutator_segments: int | np.ndarray, turns_per_coil: int 
     return 2 * np.asarray(commutator_segments) * np.asarray(turns_per_coil)
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def machine_constant(poles: int | np.ndarray, conductors: int | np.ndarray, paths: int | np.ndarray):
     """The winding's machine constant K = p·Z/(2π·a), so that E = K·Φ·ω and T = K·Φ·I.
-
-    Parameters
-    ----------
-    poles : int or ndarray
-        Number of poles p [1].
-    conductors : int or ndarray
-        Total conductors Z [1].
-    paths : int or ndarray
-        Parallel paths a [1].
 
     Returns
     -------
@@ -95,15 +109,9 @@ def machine_constant(poles: int | np.ndarray, conductors: int | np.ndarray, path
     return np.asarray(poles) * np.asarray(conductors) / (2.0 * np.pi * np.asarray(paths))
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def coil_span_slots(slots: int | np.ndarray, poles: int | np.ndarray):
     """Coil pitch in slots: the nearest whole number at or below full pitch S/p, at least 1.
-
-    Parameters
-    ----------
-    slots : int or ndarray
-        Number of slots S [1].
-    poles : int or ndarray
-        Number of poles p [1].
 
     Returns
     -------
@@ -117,6 +125,7 @@ def coil_span_slots(slots: int | np.ndarray, poles: int | np.ndarray):
     return np.maximum(np.floor(np.asarray(slots) / np.asarray(poles)), 1)
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def mean_turn_length(geometry: Geometry, end_turn_factor: float = 1.0):
     """Mean length of one turn: two stack lengths plus two end turns.
 
@@ -125,8 +134,6 @@ def mean_turn_length(geometry: Geometry, end_turn_factor: float = 1.0):
 
     Parameters
     ----------
-    geometry : Geometry
-        The cross-section and stack length.
     end_turn_factor : float, optional
         Multiplier on the estimated end-turn length [1], to match a measured coil.
 
@@ -147,15 +154,9 @@ def mean_turn_length(geometry: Geometry, end_turn_factor: float = 1.0):
     return 2.0 * g.stack_length + 2.0 * end_turn
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def winding_length(conductors: int | np.ndarray, turn_length: float | np.ndarray):
     """Total length of wire in the winding: Z/2 turns of the mean turn length.
-
-    Parameters
-    ----------
-    conductors : int or ndarray
-        Total conductors Z [1].
-    turn_length : float or ndarray
-        Mean turn length [m].
 
     Returns
     -------
@@ -165,6 +166,7 @@ def winding_length(conductors: int | np.ndarray, turn_length: float | np.ndarray
     return 0.5 * np.asarray(conductors) * turn_length
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.ndarray,
                         paths: int | np.ndarray, copper_area: float | np.ndarray,
                         temperature_C: float | np.ndarray, resistivity_factor: float | np.ndarray = 1.0):
@@ -175,14 +177,6 @@ def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.nd
 
     Parameters
     ----------
-    conductors : int or ndarray
-        Total conductors Z [1].
-    turn_length : float or ndarray
-        Mean turn length [m].
-    paths : int or ndarray
-        Parallel paths a [1].
-    copper_area : float or ndarray
-        Copper cross-section of the wire [m²].
     temperature_C : float or ndarray
         Winding temperature [°C].
     resistivity_factor : float or ndarray
@@ -202,15 +196,9 @@ def armature_resistance(conductors: int | np.ndarray, turn_length: float | np.nd
     return resistivity_factor * copper_resistivity(temperature_C) * length / (np.asarray(paths) ** 2 * copper_area)
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def conductors_per_slot(conductors: int | np.ndarray, slots: int | np.ndarray):
     """Conductors in each slot, Z/S.
-
-    Parameters
-    ----------
-    conductors : int or ndarray
-        Total conductors Z [1].
-    slots : int or ndarray
-        Number of slots S [1].
 
     Returns
     -------
@@ -220,16 +208,13 @@ def conductors_per_slot(conductors: int | np.ndarray, slots: int | np.ndarray):
     return np.asarray(conductors) / np.asarray(slots)
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def slot_fill(conductors: int | np.ndarray, slots: int | np.ndarray, wire_diameter: float | np.ndarray,
               slot_area: float | np.ndarray):
     """Slot fill factor: the area of the round wires in a slot over the slot area.
 
     Parameters
     ----------
-    conductors : int or ndarray
-        Total conductors Z [1].
-    slots : int or ndarray
-        Number of slots S [1].
     wire_diameter : float or ndarray
         Wire diameter [m], bare (copper fill) or with enamel (gross fill).
     slot_area : float or ndarray
@@ -243,17 +228,9 @@ def slot_fill(conductors: int | np.ndarray, slots: int | np.ndarray, wire_diamet
     return conductors_per_slot(conductors, slots) * np.pi / 4.0 * wire_diameter**2 / slot_area
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def current_density(current: float | np.ndarray, paths: int | np.ndarray, copper_area: float | np.ndarray):
     """Current density in the wire: each path carries I/a.
-
-    Parameters
-    ----------
-    current : float or ndarray
-        Armature current I [A].
-    paths : int or ndarray
-        Parallel paths a [1].
-    copper_area : float or ndarray
-        Copper cross-section of the wire [m²].
 
     Returns
     -------
@@ -263,6 +240,7 @@ def current_density(current: float | np.ndarray, paths: int | np.ndarray, copper
     return np.asarray(current) / (np.asarray(paths) * copper_area)
 
 
+@shared_parameters(WINDING_PARAMETERS)
 def armature_inductance_estimate(geometry: Geometry, conductors: int | np.ndarray, paths: int | np.ndarray,
                                  recoil_permeability: float, effective_gap: float | np.ndarray,
                                  turn_length: float | np.ndarray):
@@ -280,12 +258,6 @@ def armature_inductance_estimate(geometry: Geometry, conductors: int | np.ndarra
 
     Parameters
     ----------
-    geometry : Geometry
-        The cross-section and stack length.
-    conductors : int or ndarray
-        Total conductors Z [1].
-    paths : int or ndarray
-        Parallel paths a [1].
     recoil_permeability : float
         The magnet's relative recoil permeability μrec [1].
     effective_gap : float or ndarray

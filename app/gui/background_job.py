@@ -16,14 +16,16 @@ import threading
 from collections.abc import Callable, Hashable
 from typing import Any
 
-from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, QTimer, Signal
+from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
 from PySide6.QtWidgets import (
     QBoxLayout,
     QHBoxLayout,
+    QHeaderView,
     QLabel,
     QProgressBar,
     QPushButton,
     QSpinBox,
+    QTableWidget,
     QVBoxLayout,
     QWidget,
 )
@@ -226,8 +228,11 @@ class JobPage(QWidget):
     calls :meth:`_start_job` in its ``__init__`` before building its layout (from :meth:`_page_layout`),
     then :meth:`_follow`; it provides ``_key()`` (what :class:`BackgroundJob` calls ``wanted``),
     ``set_design(project, results)``, ``_on_progress(*progress)``, ``_on_done(key, result)`` and
-    ``_on_failed(key, message)``.
+    ``_on_failed(key, message)`` (which reports through :meth:`_report_failure`).
     """
+
+    finished = Signal(object)  #: the page's new result, now shown
+    failed = Signal(str)  #: why the last run gave nothing (``CANCELLED`` after a cancel)
 
     def __init__(self, main_window, object_name: str):
         super().__init__()
@@ -241,6 +246,9 @@ class JobPage(QWidget):
                    run_tip: str, state_name: str = "") -> None:
         self.job = BackgroundJob(self, what, cancelled, expected, delay_ms, self._key, have, run)
         self.controls = JobControls(self.job, run_text, run_tip, run, state_name)
+        # the controls' widgets under the page's own names (pages and tests reach them there)
+        self.run_button, self.cancel_button = self.controls.run_button, self.controls.cancel_button
+        self.progress_bar, self.state_label = self.controls.progress_bar, self.controls.state_label
         self.job.progress.connect(lambda progress: self._on_progress(*progress))
         self.job.finished.connect(self._on_done)
         self.job.failed.connect(self._on_failed)
@@ -255,16 +263,6 @@ class JobPage(QWidget):
         layout.addLayout(row)
         return layout
 
-    @staticmethod
-    def _headline(text: str, object_name: str, style: str) -> QLabel:
-        """The page's line of what its job found, in rich text that wraps."""
-        label = QLabel(text)
-        label.setObjectName(object_name)
-        label.setWordWrap(True)
-        label.setTextFormat(Qt.TextFormat.RichText)
-        label.setStyleSheet(style)
-        return label
-
     def _seed_box(self, object_name: str, tip: str) -> QSpinBox:
         """A spin box for a random seed (any 31-bit integer)."""
         box = QSpinBox()
@@ -273,27 +271,50 @@ class JobPage(QWidget):
         box.setToolTip(tip)
         return box
 
+    def _count_box(self, object_name: str, maximum: int, step: int, tip: str) -> QSpinBox:
+        """A spin box for how many designs a run draws: from 100, its thousands separated."""
+        box = QSpinBox()
+        box.setObjectName(object_name)
+        box.setRange(100, maximum)
+        box.setSingleStep(step)
+        box.setGroupSeparatorShown(True)
+        box.setToolTip(tip)
+        return box
+
+    @staticmethod
+    def _figure_table(object_name: str, headers: list[str], stretch: int) -> QTableWidget:
+        """A read-only table of the job's figures under ``headers``: column ``stretch`` takes the room
+        left, the others fit their contents; no row numbers."""
+        table = QTableWidget(0, len(headers))
+        table.setObjectName(object_name)
+        table.setHorizontalHeaderLabels(headers)
+        header = table.horizontalHeader()
+        for column in range(len(headers)):
+            header.setSectionResizeMode(column, QHeaderView.ResizeMode.Stretch if column == stretch
+                                        else QHeaderView.ResizeMode.ResizeToContents)
+        table.verticalHeader().setVisible(False)
+        table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
+        return table
+
     def _follow(self, main_window) -> None:
         """Take every design the main window evaluates, starting with the one it shows now."""
         main_window.results_ready.connect(self.set_design)
         if main_window.current_results is not None:
             self.set_design(main_window.current_project, main_window.current_results)
 
-    @property
-    def run_button(self) -> QPushButton:
-        return self.controls.run_button
+    def _show_state(self, text: str, stale: bool = False, error: bool = False) -> None:
+        """The state line (:meth:`JobControls.show_state`); a page that greys its figures when they are
+        stale overrides this."""
+        self.controls.show_state(text, stale, error)
 
-    @property
-    def cancel_button(self) -> QPushButton:
-        return self.controls.cancel_button
-
-    @property
-    def progress_bar(self) -> QProgressBar:
-        return self.controls.progress_bar
-
-    @property
-    def state_label(self) -> QLabel:
-        return self.controls.state_label
+    def _report_failure(self, message: str, stale: bool = False) -> None:
+        """A run gave nothing: the state line says why (a cancel, that nothing was kept; ``stale``: an
+        earlier run's figures stay shown; anything else as an error), then :attr:`failed` is emitted."""
+        if message == CANCELLED:
+            self._show_state("cancelled: nothing was kept", stale=stale)
+        else:
+            self._show_state(message, error=True)
+        self.failed.emit(message)
 
     def cancel(self) -> None:
         """Stop the running job; nothing of it is kept."""

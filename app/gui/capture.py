@@ -2,7 +2,7 @@
 
 ``pmdc-sizer gui FILE --screenshot OUT.png --page NAME --size WxH`` calls :func:`capture_page`. The
 field-solution page solves its case first (the picture is the point of that page) and waits for the
-``solved`` or ``solve_failed`` signal; the tolerance page runs its study first in the same way, and the
+``finished`` or ``failed`` signal; the tolerance page runs its study first in the same way, and the
 sizing page a small search (:data:`SCREENSHOT_CANDIDATES` candidates, a short refinement, its first
 free keys and objectives). With ``--compare-with B.toml`` the comparison page is captured with that design
 as B, once B's results are in.
@@ -34,7 +34,7 @@ def show_page(window, name: str) -> None:
 def solve_field(window, timeout_ms: int = FIELD_SOLVE_TIMEOUT_MS) -> str:
     """Solve the field page's case and wait for it; returns "" or why it gave nothing."""
     view = window.field_view
-    return _run_and_wait(view.solved, view.solve_failed, view.solve, timeout_ms, "the field solution")
+    return _run_and_wait(view.finished, view.failed, view.solve, timeout_ms, "the field solution")
 
 
 def _run_and_wait(finished_signal, failed_signal, start, timeout_ms: int, what: str) -> str:

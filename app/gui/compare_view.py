@@ -50,7 +50,7 @@ from .evaluation import Evaluator
 from .magnet_chart import MagnetChart
 from .magnet_overlay import MagnetOverlay
 from .performance_chart import QUANTITIES
-from .style import line_pen, mark_style
+from .style import black_axes, flush_column, labelled_choice, line_pen, mark_style
 
 NO_GRADE = "— choose a grade —"
 TORQUE = figure("curve.torque_N_m")
@@ -252,23 +252,14 @@ class CompareView(QWidget):
 
     def _build_curves(self) -> QWidget:
         page = QWidget()
-        column = QVBoxLayout(page)
-        column.setContentsMargins(0, 0, 0, 0)
+        column = flush_column(page)
         row = QHBoxLayout()
-        row.addWidget(QLabel("Temperature case"))
-        self.case_combo = QComboBox()
-        self.case_combo.setObjectName("curve_case_combo")
-        self.case_combo.addItems(["nominal", "cold", "hot"])
-        self.case_combo.currentTextChanged.connect(lambda _text: self._draw_curves())
-        row.addWidget(self.case_combo)
-        row.addWidget(QLabel("Torque range"))
-        self.range_combo = QComboBox()
-        self.range_combo.setObjectName("curve_range_combo")
-        self.range_combo.addItems(["no load to stall", "around the rated point"])
+        self.case_combo = labelled_choice(row, "Temperature case", "curve_case_combo", ["nominal", "cold", "hot"],
+                                          self._draw_curves)
+        self.range_combo = labelled_choice(row, "Torque range", "curve_range_combo",
+                                           ["no load to stall", "around the rated point"], self._draw_curves)
         self.range_combo.setToolTip("Around the rated point: 0 to 3 × the rated torque, where a motor with a "
                                     "current-limited drive actually works.")
-        self.range_combo.currentTextChanged.connect(lambda _text: self._draw_curves())
-        row.addWidget(self.range_combo)
         self.curve_note = QLabel()
         row.addWidget(self.curve_note, 1)
         column.addLayout(row)
@@ -291,10 +282,7 @@ class CompareView(QWidget):
             plot.setLabel("left", title, units=unit)
             plot.setLabel("bottom", TORQUE.title, units=TORQUE.unit)
             plot.setMenuEnabled(False)
-            for axis in ("left", "bottom"):
-                plot.getAxis(axis).enableAutoSIPrefix(False)
-                plot.getAxis(axis).setTextPen("k")
-                plot.getAxis(axis).setPen("k")
+            black_axes(plot, coarse_grid=False)
             if first is None:
                 first = plot
             else:
@@ -320,8 +308,7 @@ class CompareView(QWidget):
         self.magnet_charts, self.magnet_titles = {}, {}
         for side in ("A", "B"):
             box = QWidget()
-            column = QVBoxLayout(box)
-            column.setContentsMargins(0, 0, 0, 0)
+            column = flush_column(box)
             title = QLabel()
             title.setObjectName(f"magnet_title_{side}")
             title.setStyleSheet(f"font-weight: bold; color: {SIDES[side].colour}; padding: 2px;")

@@ -30,6 +30,8 @@ from pmdc_sizer.app.crash import write_crash_report
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.errors import ProjectError
 
+from .style import outcome_text
+
 FILE_FILTER = "pmdc-sizer project (*.toml);;All files (*)"
 
 
@@ -98,10 +100,10 @@ class CrashDialog(QDialog):
         try:
             project_file.save(self.window_.current_project, target, layout=getattr(guard, "layout", None))
         except ProjectError as error:
-            self.status.setText(f'<span style="color:#b3261e"><b>Not saved.</b> {error}</span>')
+            self.status.setText(outcome_text("fail", "Not saved.", str(error)))
             return None
         self.saved_copy = target
-        self.status.setText(f'<span style="color:#1e7b34"><b>Saved a copy</b></span> to {target}')
+        self.status.setText(outcome_text("pass", "Saved a copy", f"to {target}"))
         return target
 
 

@@ -19,7 +19,6 @@ from PySide6.QtWidgets import (
     QGraphicsSimpleTextItem,
     QGraphicsView,
     QLabel,
-    QVBoxLayout,
     QWidget,
 )
 
@@ -27,7 +26,7 @@ from pmdc_sizer.app.formatting import significant
 from pmdc_sizer.core.units import convert, from_si
 
 from .display_units import DisplayUnits
-from .style import COPPER_FILL, HOUSING_FILL, LAMINATION_FILL, NORTH_FILL, SHAFT_FILL, SOUTH_FILL
+from .style import COPPER_FILL, HOUSING_FILL, LAMINATION_FILL, NORTH_FILL, SHAFT_FILL, SOUTH_FILL, flush_column
 
 ARC_STEPS = 96
 
@@ -103,8 +102,7 @@ class CrossSection(QWidget):
     def __init__(self, display: DisplayUnits):
         super().__init__()
         self.display = display
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         self.dimensions = QLabel()
         self.dimensions.setObjectName("cross_section_dimensions")
         self.dimensions.setWordWrap(True)

@@ -32,12 +32,14 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from pmdc_sizer.app.field_labels import label_for, label_in_sentence
 from pmdc_sizer.app.formatting import quantity as format_quantity
 from pmdc_sizer.app.formatting import significant, unit_label
 from pmdc_sizer.core import library
 
 from .display_units import DisplayUnits
 from .input_model import DesignModel, QuantityModel
+from .style import flush_column, wrapped_label
 
 #: (title, sections of the file, open at start)
 GROUPS = (
@@ -53,95 +55,7 @@ GROUPS = (
 )
 OTHER_GROUP = "Other keys"
 
-# Key names carry their unit as a suffix; the label drops it because the spin box shows it.
-_UNIT_SUFFIXES = (
-    "_kA_per_m", "_kJ_per_m3", "_pct_per_K", "_kg_per_m3", "_K_per_W", "_W_per_m2K", "_mNm_per_krpm",
-    "_per_kg", "_mNm", "_rpm", "_mm", "_deg", "_gcm2", "_min", "_V", "_A", "_C", "_T",
-)
-# Where the key name alone reads poorly on screen.
-_LABELS = {
-    "tolerances.remanence_pct": "Br ±", "tolerances.coercivity_pct": "HcJ ±",
-    "tolerances.magnet_thickness_mm": "Magnet thickness ±", "tolerances.airgap_mm": "Air gap ±",
-    "tolerances.wire_diameter_mm": "Wire diameter ±", "tolerances.copper_resistivity_pct": "Copper resistivity ±",
-    "tolerances.brush_drop_V": "Brush drop ±", "tolerances.friction_torque_pct": "Friction torque ±",
-    "tolerances.supply_voltage_pct": "Supply voltage ±", "tolerances.samples": "Motors in the study",
-    "tolerances.seed": "Seed of the study",
-    "supply.reversing": "Reversed at speed",
-    "supply.current_limit_A": "Drive current limit",
-    "load.torque_mNm": "Rated torque",
-    "load.speed_rpm": "Speed needed at rated torque",
-    "temperatures.ambient_min_C": "Coldest ambient",
-    "temperatures.ambient_nominal_C": "Nominal ambient",
-    "temperatures.ambient_max_C": "Hottest ambient",
-    "motor.poles": "Poles",
-    "magnets.arc_deg": "Magnet arc",
-    "magnets.thickness_mm": "Magnet thickness",
-    "magnets.length_mm": "Magnet length",
-    "airgap.length_mm": "Air gap",
-    "housing.wall_mm": "Housing wall",
-    "housing.length_mm": "Housing length",
-    "housing.steel": "Housing steel",
-    "housing.max_outer_diameter_mm": "Envelope diameter",
-    "housing.max_length_mm": "Envelope length",
-    "armature.outer_diameter_mm": "Armature diameter",
-    "armature.steel": "Lamination steel",
-    "winding.type": "Winding type",
-    "winding.wire": "Wire size",
-    "losses.viscous_mNm_per_krpm": "Viscous torque per krpm",
-    "thermal.duty_minutes": "S2 run length",
-    "thermal.cycle_duration_factor_pct": "S3 cycle duration factor",
-    "thermal.cycle_minutes": "S3 cycle length",
-    "thermal.winding_heat_capacity_J_per_K": "Winding heat capacity",
-    "thermal.winding_to_magnet_K_per_W": "Thermal resistance, gap to magnets",
-    "magnets.required_margin_pct_of_HcJ": "Required margin to the knee",
-    "supply.fault_cases": "Direct-supply faults",
-    "brushes.current_density_limit_A_per_cm2": "Brush current density limit",
-    "brushes.count": "Number of brushes",
-    "brushes.width_mm": "Brush width",
-    "brushes.length_mm": "Brush length",
-    "brushes.commutator_diameter_mm": "Commutator diameter",
-    "brushes.grade": "Brush grade",
-    "rotor.extra_inertia_gcm2": "Extra inertia on shaft",
-    "prices.magnet_per_kg": "Magnet price",
-    "prices.copper_per_kg": "Copper price",
-    "prices.housing_steel_per_kg": "Housing steel price",
-    "prices.lamination_per_kg": "Lamination price",
-    "project.name": "Design name",
-    "magnets.custom_grade.name": "Grade name",
-    "magnets.custom_grade.remanence_T": "Br",
-    "magnets.custom_grade.coercivity_HcB_kA_per_m": "HcB",
-    "magnets.custom_grade.coercivity_HcJ_kA_per_m": "HcJ",
-    "magnets.custom_grade.energy_product_kJ_per_m3": "(BH)max",
-    "magnets.custom_grade.recoil_permeability": "Recoil permeability μrec",
-    "magnets.custom_grade.squareness": "Squareness Hk/HcJ",
-    "magnets.custom_grade.remanence_temp_coeff_pct_per_K": "Br temperature coefficient",
-    "magnets.custom_grade.coercivity_temp_coeff_pct_per_K": "HcJ temperature coefficient",
-    "magnets.custom_grade.max_working_temperature_C": "Max. working temperature",
-    "magnets.custom_grade.source": "Data source",
-}
 _STEEL_KIND = {"housing.steel": "housing", "armature.steel": "lamination"}
-# The inline custom grade's keys and the library grade's fields (SI) they correspond to.
-def label_for(key: str) -> str:
-    if key in _LABELS:
-        return _LABELS[key]
-    name = key.rsplit(".", 1)[-1]
-    for suffix in _UNIT_SUFFIXES:
-        if name.endswith(suffix):
-            name = name[: -len(suffix)]
-            break
-    words = name.replace("_", " ")
-    return words[0].upper() + words[1:]
-
-
-def label_in_sentence(key: str) -> str:
-    """The field's label inside a sentence: "magnet thickness", but "HcJ temperature coefficient"."""
-    label = label_for(key)
-    return label if label[:2].isupper() else label[0].lower() + label[1:]
-
-
-def field_message(key: str, message: str) -> str:
-    """A core message about ``key`` worded with the field's label ("Magnet thickness = 50: ...")."""
-    return message.replace(key, label_for(key))
 
 
 def number_for_people(value: float) -> str:
@@ -244,8 +158,7 @@ class FieldEditor(QWidget):
         super().__init__()
         self.field, self.model, self.display = field, model, display
         spec = field.spec
-        outer = QVBoxLayout(self)
-        outer.setContentsMargins(0, 0, 0, 0)
+        outer = flush_column(self)
         outer.setSpacing(1)
         row = QHBoxLayout()
         row.setSpacing(4)
@@ -492,8 +405,7 @@ class MagnetGradePicker(QWidget):
     def __init__(self, model: DesignModel):
         super().__init__()
         self.model = model
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         self.source_box = ChoiceBox()
         self.source_box.addItem("From the library", self.LIBRARY)
         self.source_box.addItem("Custom (supplier's certified data)", self.CUSTOM)
@@ -508,15 +420,11 @@ class MagnetGradePicker(QWidget):
             self.grade_box.addItem(f"{name}   ({grade.family})", name)
         self.grade_box.activated.connect(self._on_grade)
         layout.addWidget(self.grade_box)
-        self.properties = QLabel()
-        self.properties.setObjectName("grade_properties")
-        self.properties.setWordWrap(True)
-        self.properties.setTextFormat(Qt.TextFormat.RichText)
-        self.properties.setStyleSheet("color: #333; background: #f4f4f0; padding: 4px; border-radius: 3px;")
+        self.properties = wrapped_label("grade_properties",
+                                        "color: #333; background: #f4f4f0; padding: 4px; border-radius: 3px;",
+                                        rich=True)
         layout.addWidget(self.properties)
-        self.error_label = QLabel()
-        self.error_label.setWordWrap(True)
-        self.error_label.setStyleSheet("color: #b3261e;")
+        self.error_label = wrapped_label(style="color: #b3261e;")
         self.error_label.hide()
         layout.addWidget(self.error_label)
         model.fields["magnets.grade"].changed.connect(lambda _v: self.refresh())
@@ -608,7 +516,7 @@ class DesignEditor(QScrollArea):
                 self.sections[title] = Section(title, False)
             form = self.sections[title].form
             if key == "magnets.grade":
-                form.addRow(self._label("Magnet grade", field.spec.description), self.grade_picker)
+                form.addRow(self._label(label_for(key), field.spec.description), self.grade_picker)
                 continue
             editor = FieldEditor(field, model, display)
             self.editors[key] = editor
@@ -647,5 +555,4 @@ class DesignEditor(QScrollArea):
         return self.editors[key]
 
 
-__all__ = ["DesignEditor", "FieldEditor", "custom_grade_from_library", "edit_text", "field_message", "label_for",
-           "label_in_sentence"]
+__all__ = ["DesignEditor", "FieldEditor", "custom_grade_from_library", "edit_text"]

@@ -38,9 +38,10 @@ from pmdc_sizer.app import datasheet
 from pmdc_sizer.app.datasheet.options import EDITIONS, PAPER_SIZES_MM, UNIT_SYSTEMS, SheetOptions
 from pmdc_sizer.app.errors import CommandError
 from pmdc_sizer.app.export_checks import check_csv
-from pmdc_sizer.app.figures import STATUSES
 from pmdc_sizer.app.files import curves_csv, write_text_atomically
 from pmdc_sizer.app.safety import DEFER_NOTE, ESTIMATES_NOTE
+
+from .style import outcome_text
 
 PREVIEW_DPI = 80.0
 
@@ -196,8 +197,7 @@ class ExportDialog(QDialog):
         except StudyCancelled:
             self.status.setText("The production spread was not added: the study was cancelled.")
         except ProjectError as error:
-            self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>No production spread.</b> '
-                                f'{error}</span>')
+            self.status.setText(outcome_text("fail", "No production spread.", str(error)))
         finally:
             progress.close()
         return None
@@ -221,7 +221,7 @@ class ExportDialog(QDialog):
                                              self.tolerance)
         except CommandError as error:  # e.g. the project's logo cannot be read: say so, keep the dialog
             images = []
-            self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>No preview.</b> {error}</span>')
+            self.status.setText(outcome_text("fail", "No preview.", str(error)))
         for index, image in enumerate(images):
             label = QLabel()
             label.setObjectName(f"preview_page_{index + 1}")
@@ -267,10 +267,10 @@ class ExportDialog(QDialog):
         try:
             self.write(key, path)
         except CommandError as error:
-            self.status.setText(f'<span style="color: {STATUSES["fail"].colour};"><b>Not saved.</b> {error}</span>')
+            self.status.setText(outcome_text("fail", "Not saved.", str(error)))
             return None
         self.last_saved = path
-        self.status.setText(f'<span style="color: {STATUSES["pass"].colour};"><b>Saved</b></span> {path}')
+        self.status.setText(outcome_text("pass", "Saved", str(path)))
         return path
 
     def write(self, key: str, path: Path) -> None:

@@ -15,17 +15,14 @@ from collections import OrderedDict
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import Qt, Signal
+from PySide6.QtCore import Qt
 from PySide6.QtGui import QColor, QPixmap
 from PySide6.QtWidgets import (
     QComboBox,
-    QHeaderView,
     QLabel,
     QSizePolicy,
     QSplitter,
-    QTableWidget,
     QTableWidgetItem,
-    QVBoxLayout,
     QWidget,
 )
 
@@ -43,7 +40,8 @@ from pmdc_sizer.core.field import (
 
 from ..field_picture import section_image
 from ..figures import FAIL_COLOUR, FIELD_FLUX_LINE_COLOUR
-from .background_job import CANCELLED, JobPage
+from .background_job import JobPage
+from .style import flush_column
 
 #: Mesh settings the page offers: label → mesh fineness.
 MESHES = {"Standard mesh": 1.0, "Fine mesh (slower)": 2.0}
@@ -57,9 +55,6 @@ _SHOWN_UNITS = {"Wb": ("mWb", 1e3), "Wb/m": ("mWb/m", 1e3), "A/m": ("kA/m", 1e-3
 
 class FieldView(JobPage):
     """The field-solution page: the case and mesh, the picture, the gap waveform and the agreement table."""
-
-    solved = Signal(object)  #: a FieldSolution now shown
-    solve_failed = Signal(str)  #: why the last solve gave nothing
 
     def __init__(self, main_window):
         super().__init__(main_window, "field_view")
@@ -98,20 +93,12 @@ class FieldView(JobPage):
         top.addWidget(self.waveform)
         top.setSizes([520, 420])
         bottom = QWidget()
-        bottom_layout = QVBoxLayout(bottom)
-        bottom_layout.setContentsMargins(0, 0, 0, 0)
+        bottom_layout = flush_column(bottom)
         self.summary = QLabel("")
         self.summary.setWordWrap(True)
         bottom_layout.addWidget(self.summary)
-        self.table = QTableWidget(0, 5)
-        self.table.setObjectName("field_agreement")
-        self.table.setHorizontalHeaderLabels(["Quantity", "Fast model", "Field", "Unit", "Difference"])
-        header = self.table.horizontalHeader()
-        header.setSectionResizeMode(0, QHeaderView.ResizeMode.Stretch)
-        for column in range(1, 5):
-            header.setSectionResizeMode(column, QHeaderView.ResizeMode.ResizeToContents)
-        self.table.verticalHeader().setVisible(False)
-        self.table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
+        self.table = self._figure_table("field_agreement", ["Quantity", "Fast model", "Field", "Unit", "Difference"],
+                                        stretch=0)
         bottom_layout.addWidget(self.table, 1)
         splitter = QSplitter(Qt.Orientation.Vertical)
         splitter.addWidget(top)
@@ -176,9 +163,7 @@ class FieldView(JobPage):
         self.state_label.setText(message)
 
     def _on_failed(self, _key, message: str) -> None:
-        cancelled = message == CANCELLED
-        self.controls.show_state("cancelled: nothing was kept" if cancelled else message, error=not cancelled)
-        self.solve_failed.emit(message)
+        self._report_failure(message)
 
     def _on_done(self, key, solution) -> None:
         self.state_label.setStyleSheet("")
@@ -212,7 +197,7 @@ class FieldView(JobPage):
             f"(worst 5 % {solution.worst_share_magnet_field_A_per_m / 1e3:.0f} kA/m, worst element "
             f"{solution.worst_magnet_field_A_per_m / 1e3:.0f} kA/m, knee "
             f"{solution.knee_field_A_per_m / 1e3:.0f} kA/m).")
-        self.solved.emit(solution)
+        self.finished.emit(solution)
 
     def _fill_table(self, solution) -> None:
         rows = agreement(self.results, solution).rows

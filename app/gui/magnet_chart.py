@@ -19,7 +19,7 @@ import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt, QTimer
 from PySide6.QtGui import QBrush, QColor, QFont, QFontMetricsF
-from PySide6.QtWidgets import QHeaderView, QLabel, QSplitter, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QHeaderView, QSplitter, QTableWidget, QTableWidgetItem, QWidget
 
 from pmdc_sizer.app import magnet_marks
 from pmdc_sizer.app.figures import (
@@ -36,7 +36,7 @@ from pmdc_sizer.app.figures import (
 )
 from pmdc_sizer.core.units import from_si
 
-from .style import MARKER_PX, line_pen, mark_style
+from .style import MARKER_PX, black_axes, flush_column, line_pen, mark_style, wrapped_label
 
 FIELD = figure("magnet_chart_case.curves.field_strength")
 FIELD_UNIT = FIELD.unit
@@ -75,20 +75,12 @@ def _line(line: str, text: str = "") -> str:
 class MagnetChart(QWidget):
     def __init__(self):
         super().__init__()
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         layout.setSpacing(2)
-        self.headline = QLabel()
-        self.headline.setObjectName("magnet_headline")
-        self.headline.setWordWrap(True)
-        self.headline.setStyleSheet("font-size: 13px; padding: 2px 4px;")
+        self.headline = wrapped_label("magnet_headline", "font-size: 13px; padding: 2px 4px;")
         layout.addWidget(self.headline)
         # The key sits above the plot, not on it, so it never hides a curve, a mark or a label.
-        self.key = QLabel()
-        self.key.setObjectName("magnet_key")
-        self.key.setTextFormat(Qt.TextFormat.RichText)
-        self.key.setWordWrap(True)
-        self.key.setStyleSheet("padding: 0px 4px;")
+        self.key = wrapped_label("magnet_key", "padding: 0px 4px;", rich=True)
         self.key.setToolTip(magnet_marks.PC_NOTE)
         layout.addWidget(self.key)
         splitter = QSplitter(Qt.Orientation.Vertical)
@@ -100,12 +92,7 @@ class MagnetChart(QWidget):
         item.setLabel("bottom", f"{FIELD.title} in the magnet", units=FIELD_UNIT)
         density = figure("magnet_chart_case.curves.flux_density")
         item.setLabel("left", f"{density.title} (B solid, J dashed)", units=density.unit)
-        for axis in ("bottom", "left"):
-            item.getAxis(axis).enableAutoSIPrefix(False)
-            item.getAxis(axis).setTextPen("k")
-            item.getAxis(axis).setPen("k")
-            # Grid lines at the labelled ticks only: the finer levels cost most of a frame to paint.
-            item.getAxis(axis).setStyle(maxTickLevel=0)
+        black_axes(item)
         # Plain curve and scatter items (not PlotDataItem): every edit redraws them, so they must be light.
         self.normal_curves, self.intrinsic_curves, self.load_lines = {}, {}, {}
         load_dash = LINES["load_line"].dash

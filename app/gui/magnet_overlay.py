@@ -11,15 +11,14 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import Qt
 from PySide6.QtGui import QFont, QFontMetricsF
-from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QHBoxLayout, QWidget
 
 from pmdc_sizer.app import magnet_marks
 from pmdc_sizer.app.figures import CASE_NAMES, DASH_GLYPHS, LINES, POINTS, SIDES, figure, text_of
 from pmdc_sizer.core.units import from_si
 
-from .style import MARKER_PX, line_pen, mark_style
+from .style import MARKER_PX, black_axes, flush_column, labelled_choice, line_pen, mark_style, wrapped_label
 
 FIELD = figure("magnet_chart_case.curves.field_strength")
 WORST = "where either comes closest to its knee"
@@ -47,21 +46,13 @@ def marks_at(results, chart_case) -> list[magnet_marks.CaseMark]:
 class MagnetOverlay(QWidget):
     def __init__(self):
         super().__init__()
-        column = QVBoxLayout(self)
-        column.setContentsMargins(0, 0, 0, 0)
+        column = flush_column(self)
         row = QHBoxLayout()
-        row.addWidget(QLabel("Temperature case"))
-        self.temperature_combo = QComboBox()
-        self.temperature_combo.setObjectName("magnet_overlay_temperature")
-        self.temperature_combo.addItems([WORST, *CASE_NAMES])
-        self.temperature_combo.currentTextChanged.connect(lambda _text: self.redraw())
-        row.addWidget(self.temperature_combo)
+        self.temperature_combo = labelled_choice(row, "Temperature case", "magnet_overlay_temperature",
+                                                 [WORST, *CASE_NAMES], self.redraw)
         row.addStretch(1)
         column.addLayout(row)
-        self.key = QLabel()
-        self.key.setObjectName("magnet_overlay_key")
-        self.key.setTextFormat(Qt.TextFormat.RichText)
-        self.key.setWordWrap(True)
+        self.key = wrapped_label("magnet_overlay_key", rich=True)
         self.key.setToolTip(magnet_marks.PC_NOTE)
         column.addWidget(self.key)
         self.plot = pg.PlotWidget(background="w")
@@ -72,11 +63,7 @@ class MagnetOverlay(QWidget):
         item.setLabel("bottom", f"{FIELD.title} in the magnet", units=FIELD.unit)
         density = figure("magnet_chart_case.curves.flux_density")
         item.setLabel("left", f"{density.title} (B thick, J thin)", units=density.unit)
-        for axis in ("bottom", "left"):
-            item.getAxis(axis).enableAutoSIPrefix(False)
-            item.getAxis(axis).setTextPen("k")
-            item.getAxis(axis).setPen("k")
-            item.getAxis(axis).setStyle(maxTickLevel=0)  # grid lines at the labelled ticks only
+        black_axes(item)
         column.addWidget(self.plot, 1)
         self.normal_curves, self.intrinsic_curves, self.load_lines = {}, {}, {}
         self.operating_items, self.knee_items, self.case_items = {}, {}, {}

@@ -49,6 +49,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from pmdc_sizer.app.field_labels import field_message, label_for, label_in_sentence
 from pmdc_sizer.app.files import clean_up_stale_temporaries
 from pmdc_sizer.app.safety import CAUTIONS
 from pmdc_sizer.core import library
@@ -61,7 +62,7 @@ from .collection import collect_on_gui_thread
 from .crash_dialog import active_main_window, install_exception_hook
 from .cross_section import CrossSection
 from .display_units import DisplayUnits
-from .editor import DesignEditor, field_message, label_for, label_in_sentence
+from .editor import DesignEditor
 from .evaluation import Evaluator
 from .file_guard import CHANGED, FileGuard
 from .input_model import DesignModel, checked_project
@@ -70,6 +71,7 @@ from .performance_chart import PerformanceChart
 from .recovery import AutoSaver, offer_recovery
 from .results_panel import ChecksPanel, ResultsPanel
 from .settings import DISPLAY_UNIT_SYSTEMS, load_settings, save_settings
+from .style import flush_column
 from .thermal_chart import ThermalChart
 
 APP_NAME = "pmdc-sizer"
@@ -184,8 +186,7 @@ class MainWindow(QMainWindow):
         self.editor = DesignEditor(self.model, self.display)
         self.editor.setMinimumWidth(330)
         editor_box = QWidget()
-        editor_layout = QVBoxLayout(editor_box)
-        editor_layout.setContentsMargins(0, 0, 0, 0)
+        editor_layout = flush_column(editor_box)
         heading = QLabel("<b>Design</b> <span style='color:#555'>— every edit is evaluated at once; hover a "
                          "name for its meaning</span>")
         heading.setWordWrap(True)
@@ -227,7 +228,7 @@ class MainWindow(QMainWindow):
         self._sizes_before_wide_page: list[int] | None = None
         self.pages.currentChanged.connect(self._fit_wide_page)
         # A solved field shows its numbers beside the picture: the page may need more room than before.
-        self.field_view.solved.connect(lambda _solution: self._fit_wide_page(self.pages.currentIndex()))
+        self.field_view.finished.connect(lambda _solution: self._fit_wide_page(self.pages.currentIndex()))
 
     @staticmethod
     def _titled(title: str, widget: QWidget) -> QWidget:

@@ -9,10 +9,12 @@ core returned.
 
 from __future__ import annotations
 
+import html
+
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QLabel, QWidget
 
 from pmdc_sizer.app.figures import (
     CASE_POINTS,
@@ -30,7 +32,7 @@ from pmdc_sizer.app.performance_view import axis_top, torque_end
 from pmdc_sizer.core.units import from_si
 
 from .display_units import DisplayUnits
-from .style import line_pen, mark_style
+from .style import black_axes, flush_column, line_pen, mark_style
 
 #: (attribute of CurveData and PointResult, title, unit), in the order of the plots.
 QUANTITIES = tuple((name, figure(f"curve.{name}").title, figure(f"curve.{name}").unit) for name in CURVE_QUANTITIES)
@@ -61,12 +63,11 @@ class PerformanceChart(QWidget):
     def __init__(self, display: DisplayUnits):
         super().__init__()
         self.display = display
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         self.readout = QLabel("Move the pointer over the curves to read every case at one torque.")
         self.readout.setObjectName("cursor_readout")
         self.readout.setTextFormat(Qt.TextFormat.RichText)
-        self.readout.setStyleSheet("font-family: monospace; font-size: 12px; padding: 2px 4px;")
+        self.readout.setStyleSheet("font-size: 12px; padding: 2px 4px;")
         self.readout.setMinimumHeight(78)
         layout.addWidget(self.readout)
         self.canvas = pg.GraphicsLayoutWidget()
@@ -86,12 +87,7 @@ class PerformanceChart(QWidget):
             plot = self.canvas.addPlot(row=index // 2, col=index % 2)
             plot.showGrid(x=True, y=True, alpha=0.25)
             plot.setLabel("left", title, units=unit)
-            for axis in ("left", "bottom"):
-                plot.getAxis(axis).enableAutoSIPrefix(False)
-                plot.getAxis(axis).setTextPen("k")
-                plot.getAxis(axis).setPen("k")
-                # Grid lines at the labelled ticks only: the finer levels cost most of a frame to paint.
-                plot.getAxis(axis).setStyle(maxTickLevel=0)
+            black_axes(plot)
             plot.setMenuEnabled(False)
             if first is None:
                 first = plot
@@ -238,18 +234,20 @@ class PerformanceChart(QWidget):
             return
         unit = self.torque_unit
         header = f"At {TORQUE.number(torque_on_screen, '1')} {unit}"
-        rows = [f"<b>{header:<24}</b>" + "".join(
-            f"<span style='color:{CASES[c.name].colour}'>{c.name + f' ({c.ambient_C:.0f} °C)':>22}</span>"
-            for c in self._results.cases)]
+        # a table in the window's own font: the columns line up without a fixed-pitch font
+        cell = "<td align='right' style='padding-left: 18px; color:{colour}'>{text}</td>"
+        rows = [f"<tr><td><b>{html.escape(header)}</b></td>" + "".join(
+            cell.format(colour=CASES[c.name].colour, text=html.escape(f"{c.name} ({c.ambient_C:.0f} °C)"))
+            for c in self._results.cases) + "</tr>"]
         for attribute, title, quantity_unit in QUANTITIES:
             cells = []
             for case in self._results.cases:
                 torque = from_si(case.curve.torque_N_m, unit)
                 if torque_on_screen < 0 or torque_on_screen > torque[-1]:
-                    cells.append(f"{'beyond stall':>22}")
+                    cells.append(cell.format(colour="#555555", text="beyond stall"))
                     continue
                 value = float(np.interp(torque_on_screen, torque, getattr(case.curve, attribute)))
                 text = figure(f"curve.{attribute}").text(value, quantity_unit)
-                cells.append(f"<span style='color:{CASES[case.name].colour}'>{text:>22}</span>")
-            rows.append(f"{title:<24}" + "".join(cells))
-        self.readout.setText("<pre style='margin:0'>" + "\n".join(rows) + "</pre>")
+                cells.append(cell.format(colour=CASES[case.name].colour, text=html.escape(text)))
+            rows.append(f"<tr><td>{html.escape(title)}</td>" + "".join(cells) + "</tr>")
+        self.readout.setText("<table cellspacing='0' cellpadding='0'>" + "".join(rows) + "</table>")

@@ -17,7 +17,6 @@ from PySide6.QtWidgets import (
     QTextBrowser,
     QTreeWidget,
     QTreeWidgetItem,
-    QVBoxLayout,
     QWidget,
 )
 
@@ -26,6 +25,7 @@ from pmdc_sizer.app.formatting import check_message
 from pmdc_sizer.app.thermal_text import NEVER_REACHED, NO_STALL, no_continuous_rating, stall_time_reason
 
 from .display_units import DisplayUnits
+from .style import flush_column
 
 
 class Figures:
@@ -163,8 +163,7 @@ class ResultsPanel(QWidget):
     def __init__(self, display: DisplayUnits):
         super().__init__()
         self.figures = Figures(display)
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         self.verdict = QLabel("Evaluating…")
         self.verdict.setObjectName("verdict")
         self.verdict.setWordWrap(True)

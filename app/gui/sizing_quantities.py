@@ -13,11 +13,12 @@ from dataclasses import dataclass
 import numpy as np
 
 from pmdc_sizer.core.sizing_objectives import OBJECTIVES
+from pmdc_sizer.core.sizing_space import CHOICE_KEYS, GRADE_KEY
 
-from ..figures import SIZING_FIGURES, shown_value, torque_unit
+from ..field_labels import label_for
+from ..figures import LABELS, SIZING_FIGURES, shown_value, torque_unit
 from ..formatting import significant, unit_label
 from .display_units import DisplayUnits
-from .editor import label_for
 
 OBJECTIVE, FIGURE, VALUE = "objective", "figure", "value"
 
@@ -118,8 +119,15 @@ def quantities(result, free_units: dict[str, str], display: DisplayUnits, result
     return out
 
 
-def grade_of(design) -> str:
-    """The design's magnet grade when the search chose it, else ""."""
-    grade = design.values.get("magnets.grade", "")
-    return grade if isinstance(grade, str) else ""
+def choice_columns(result) -> list[tuple[str, str]]:
+    """(key, heading) of each named choice the search made (the grade, the steels, the wire), in the order
+    of ``core.sizing_space.CHOICE_KEYS``: the table lists them as text beside the numbers."""
+    free = {v.key for v in result.spec.free if v.choices and not v.integer}
+    return [(key, LABELS["magnet.name"] if key == GRADE_KEY else label_for(key)) for key in CHOICE_KEYS if key in free]
+
+
+def choice_of(design, key: str) -> str:
+    """The design's choice for ``key`` (a grade, a steel, a wire size) when the search chose it, else ""."""
+    value = design.values.get(key, "")
+    return value if isinstance(value, str) else ""
 

@@ -3,8 +3,11 @@
 :class:`FreeVariableTable` lists every numeric key a search may free (``core.sizing_space.free_keys``):
 tick a key to free it, edit its low and high ends in screen units. An end outside the schema's limits,
 a low end above the high one or a fraction for a whole-number key is refused: the cell keeps its last
-value and the limit is written in the row's last column, in the failure colour. :class:`GradeList` ticks
-the magnet grades to consider (from the library) and :class:`ObjectiveList` the objectives.
+value and the limit is written in the row's last column, in the failure colour. Below them, the choices:
+the wire, from one size to another of the design's own series (AWG or metric), and each steel, a ticked
+list of the library's steels of that part's kind; they reach the search as the command line's
+``--free winding.wire=AWG 24:AWG 28`` and ``--free housing.steel=A,B`` do. :class:`GradeList` ticks the
+magnet grades to consider (from the library) and :class:`ObjectiveList` the objectives.
 """
 
 from __future__ import annotations
@@ -16,34 +19,57 @@ from PySide6.QtGui import QColor
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QCheckBox,
+    QComboBox,
     QHeaderView,
     QListWidget,
     QListWidgetItem,
     QTableWidget,
     QTableWidgetItem,
-    QVBoxLayout,
     QWidget,
 )
 
 from pmdc_sizer.core import library
+from pmdc_sizer.core.conductors import parse_wire_size, wire_series
+from pmdc_sizer.core.edits import get_value
 from pmdc_sizer.core.sizing_objectives import OBJECTIVES
-from pmdc_sizer.core.sizing_space import FreeKey, FreeRange, free_keys, parse_free
+from pmdc_sizer.core.sizing_space import (
+    STEEL_KEYS,
+    WIRE_KEY,
+    FreeKey,
+    FreeRange,
+    free_keys,
+    parse_free,
+    steel_choices,
+)
 
+from ..field_labels import label_for
 from ..figures import FAIL_COLOUR
 from ..formatting import unit_label
 from .display_units import DisplayUnits
-from .editor import label_for
+from .style import flush_column
 
 #: Keys ticked when the page first opens on a design: what an engineer sizes first.
 FIRST_FREE_KEYS = ("magnets.thickness_mm", "housing.wall_mm", "armature.stack_length_mm",
                    "winding.turns_per_coil")
 #: A range's first ends around the design's own value, as shares of it.
 FIRST_RANGE_SHARES = (0.6, 1.5)
+#: The choice rows, below the numeric keys: the wire size and the steels.
+CHOICE_ROWS = (WIRE_KEY, *STEEL_KEYS)
+#: The wire row's first range: this many sizes of the series either side of the design's own.
+FIRST_WIRE_STEPS = 2
 FREE, NAME, LOW, HIGH, LIMITS = range(5)
 
 
 def _number(value: float) -> str:
     return f"{value:.6g}"
+
+
+def first_wire_range(size: str) -> tuple[str, str]:
+    """The sizes ``FIRST_WIRE_STEPS`` either side of ``size`` in its own series (AWG or metric)."""
+    series = wire_series(size)
+    own = parse_wire_size(size)
+    index = min(range(len(series)), key=lambda i: abs(parse_wire_size(series[i]) - own))
+    return series[max(index - FIRST_WIRE_STEPS, 0)], series[min(index + FIRST_WIRE_STEPS, len(series) - 1)]
 
 
 def first_range(key: FreeKey) -> tuple[float, float]:
@@ -70,8 +96,12 @@ class FreeVariableTable(QTableWidget):
         super().__init__(0, 5)
         self.setObjectName("sizing_free_variables")
         self.display = display
-        self.keys: list[FreeKey] = []
+        self.keys: list[FreeKey] = []  #: the numeric keys, one row each; the CHOICE_ROWS follow them
         self.ranges: dict[str, tuple[float, float]] = {}  #: key → (low, high), file units
+        self.wire_range: tuple[str, str] | None = None  #: the wire row's two ends, sizes as a file writes them
+        self.steels: dict[str, list[str]] = {}  #: steel key → the steels ticked for it
+        self.wire_boxes: tuple[QComboBox, QComboBox] | None = None
+        self.steel_lists: dict[str, QListWidget] = {}
         self.setHorizontalHeaderLabels(["Free", "Key", "Low", "High", "Allowed (unit)"])
         header = self.horizontalHeader()
         header.setSectionResizeMode(NAME, QHeaderView.ResizeMode.Stretch)
@@ -92,8 +122,14 @@ class FreeVariableTable(QTableWidget):
         self.keys = list(free_keys(project))
         for key in self.keys:
             self.ranges.setdefault(key.key, first_range(key))
+        series = wire_series(project.winding.wire)
+        if self.wire_range is None or self.wire_range[0] not in series:
+            self.wire_range = first_wire_range(project.winding.wire)
+        for key in STEEL_KEYS:
+            self.steels.setdefault(key, [get_value(project, key)])
         self.blockSignals(True)
-        self.setRowCount(len(self.keys))
+        self.clearSpans()
+        self.setRowCount(len(self.keys) + len(CHOICE_ROWS))
         for row, key in enumerate(self.keys):
             tick = QTableWidgetItem()
             tick.setFlags(Qt.ItemFlag.ItemIsUserCheckable | Qt.ItemFlag.ItemIsEnabled)
@@ -110,33 +146,121 @@ class FreeVariableTable(QTableWidget):
             limits.setFlags(Qt.ItemFlag.ItemIsEnabled)
             self.setItem(row, LIMITS, limits)
             self._show_row(row)
+        for offset, key in enumerate(CHOICE_ROWS):
+            self._fill_choice_row(len(self.keys) + offset, key, key in freed, project)
         self.blockSignals(False)
 
+    def _fill_choice_row(self, row: int, key: str, freed: bool, project) -> None:
+        tick = QTableWidgetItem()
+        tick.setFlags(Qt.ItemFlag.ItemIsUserCheckable | Qt.ItemFlag.ItemIsEnabled)
+        tick.setCheckState(Qt.CheckState.Checked if freed else Qt.CheckState.Unchecked)
+        self.setItem(row, FREE, tick)
+        name = QTableWidgetItem(label_for(key))
+        name.setFlags(Qt.ItemFlag.ItemIsEnabled)
+        name.setToolTip(f"{key}; the design has {get_value(project, key)}")
+        self.setItem(row, NAME, name)
+        for column in (LOW, HIGH, LIMITS):
+            self.setItem(row, column, QTableWidgetItem())
+            self.item(row, column).setFlags(Qt.ItemFlag.ItemIsEnabled)
+        if key == WIRE_KEY:
+            self._fill_wire_row(row, project.winding.wire)
+        else:
+            self._fill_steel_row(row, key)
+
+    def _fill_wire_row(self, row: int, size: str) -> None:
+        series = wire_series(size)
+        boxes = (QComboBox(), QComboBox())
+        for box, end, column in zip(boxes, self.wire_range, (LOW, HIGH), strict=True):
+            box.addItems(series)
+            box.setCurrentText(end)
+            box.setObjectName(f"sizing_wire_{'low' if column == LOW else 'high'}")
+            box.setToolTip("The search tries every standard size of the series from one end to the other")
+            box.currentTextChanged.connect(self._on_wire_changed)
+            self.setCellWidget(row, column, box)
+        self.wire_boxes = boxes
+        limits = self.item(row, LIMITS)
+        limits.setText("AWG series" if series[0].startswith("AWG") else "metric series (IEC 60317)")
+        limits.setForeground(QColor("#555555"))
+
+    def _on_wire_changed(self, _text: str) -> None:
+        self.wire_range = (self.wire_boxes[0].currentText(), self.wire_boxes[1].currentText())
+        self.changed.emit()
+
+    def _fill_steel_row(self, row: int, key: str) -> None:
+        steels = QListWidget()
+        steels.setObjectName(f"sizing_steels_{key.split('.')[0]}")
+        steels.setToolTip(f"The search tries every ticked {STEEL_KEYS[key]} steel of the library")
+        for name, steel in sorted(library.steels().items()):
+            if steel.kind != STEEL_KEYS[key]:
+                continue
+            item = QListWidgetItem(name)
+            item.setFlags(Qt.ItemFlag.ItemIsUserCheckable | Qt.ItemFlag.ItemIsEnabled)
+            item.setCheckState(Qt.CheckState.Checked if name in self.steels[key] else Qt.CheckState.Unchecked)
+            steels.addItem(item)
+        steels.itemChanged.connect(lambda _item, key=key: self._on_steels_changed(key))
+        self.setSpan(row, LOW, 1, 3)
+        self.setCellWidget(row, LOW, steels)
+        self.steel_lists[key] = steels
+        shown = min(steels.count(), 4)  # a longer user library scrolls inside the cell
+        self.setRowHeight(row, shown * steels.sizeHintForRow(0) + 2 * steels.frameWidth() + 2)
+
+    def _on_steels_changed(self, key: str) -> None:
+        steels = self.steel_lists[key]
+        self.steels[key] = [steels.item(i).text() for i in range(steels.count())
+                            if steels.item(i).checkState() == Qt.CheckState.Checked]
+        self.changed.emit()
+
     def refresh_units(self) -> None:
-        for row in range(self.rowCount()):
+        for row in range(len(self.keys)):
             self._show_row(row)
 
     # ------------------------------------------------------------------ reading
+    def _ticked(self, row: int) -> bool:
+        return self.item(row, FREE).checkState() == Qt.CheckState.Checked
+
     def free_key_names(self) -> list[str]:
-        return [key.key for row, key in enumerate(self.keys)
-                if self.item(row, FREE).checkState() == Qt.CheckState.Checked]
+        """The ticked keys: the numeric ones, then the wire and the steels."""
+        numeric = [key.key for row, key in enumerate(self.keys) if self._ticked(row)]
+        return numeric + [key for key in CHOICE_ROWS if self.keys and self._ticked(self.row_of(key))]
 
     def free_ranges(self, project) -> tuple[FreeRange, ...]:
         """The ticked keys with their ranges, read as the command line's ``--free KEY=LOW:HIGH`` is (so that the
-        pole count, for one, takes only even values); raises ProjectError naming the key and its limit."""
-        return tuple(parse_free(f"{name}={self.ranges[name][0]!r}:{self.ranges[name][1]!r}", project)
-                     for name in self.free_key_names())
+        pole count, for one, takes only even values, and the wire every standard size between its two ends);
+        raises ProjectError naming the key and its limit."""
+        out = []
+        for name in self.free_key_names():
+            if name == WIRE_KEY:
+                out.append(parse_free(f"{name}={self.wire_range[0]}:{self.wire_range[1]}", project))
+            elif name in STEEL_KEYS:
+                out.append(steel_choices(name, self.steels[name], project))
+            else:
+                out.append(parse_free(f"{name}={self.ranges[name][0]!r}:{self.ranges[name][1]!r}", project))
+        return tuple(out)
 
     def row_of(self, name: str) -> int:
+        if name in CHOICE_ROWS:
+            return len(self.keys) + CHOICE_ROWS.index(name)
         return next(row for row, key in enumerate(self.keys) if key.key == name)
 
-    def set_free(self, name: str, free: bool, low: float | None = None, high: float | None = None) -> None:
-        """Tick or untick ``name``; with ``low`` and ``high`` (file units), set its range too (tests, scripts)."""
+    def set_free(self, name: str, free: bool, low: float | str | None = None, high: float | str | None = None
+                 ) -> None:
+        """Tick or untick ``name``; with ``low`` and ``high`` (file units; wire sizes for the wire), set its range
+        too (tests, scripts)."""
         row = self.row_of(name)
-        if low is not None and high is not None:
-            self.ranges[name] = (low, high)
+        if low is not None and high is not None and name == WIRE_KEY:
+            for box, end in zip(self.wire_boxes, (low, high), strict=True):
+                box.setCurrentText(str(end))
+        elif low is not None and high is not None:
+            self.ranges[name] = (low, high)  # type: ignore[assignment]
             self._show_row(row)
         self.item(row, FREE).setCheckState(Qt.CheckState.Checked if free else Qt.CheckState.Unchecked)
+
+    def set_steels(self, key: str, names) -> None:
+        """Tick exactly the steels ``names`` in the list of ``key`` (tests, scripts)."""
+        steels = self.steel_lists[key]
+        for i in range(steels.count()):
+            item = steels.item(i)
+            item.setCheckState(Qt.CheckState.Checked if item.text() in names else Qt.CheckState.Unchecked)
 
     # ------------------------------------------------------------------ showing and editing
     def _unit(self, key: FreeKey) -> str:
@@ -175,7 +299,7 @@ class FreeVariableTable(QTableWidget):
         if column == FREE:
             self.changed.emit()
             return
-        if column not in (LOW, HIGH):
+        if column not in (LOW, HIGH) or row >= len(self.keys):
             return
         key = self.keys[row]
         message = self.apply_entry(key.key, column == LOW, item.text())
@@ -268,8 +392,7 @@ class ObjectiveList(QWidget):
 
     def __init__(self):
         super().__init__()
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
+        layout = flush_column(self)
         layout.setSpacing(1)
         self.boxes: dict[str, QCheckBox] = {}
         for name, objective in OBJECTIVES.items():

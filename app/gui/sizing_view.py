@@ -29,6 +29,8 @@ from PySide6.QtWidgets import (
     QPushButton,
     QSpinBox,
     QSplitter,
+    QStyle,
+    QStyleOptionComboBox,
     QTableWidget,
     QTableWidgetItem,
     QVBoxLayout,
@@ -42,18 +44,18 @@ from pmdc_sizer.core.sizing import SizingCancelled, SizingSpec, project_with, si
 from pmdc_sizer.core.sizing_objectives import OBJECTIVES
 from pmdc_sizer.core.sizing_space import grade_choices, values_at
 
+from ..field_labels import worded_keys
 from ..figures import (
     FAIL_COLOUR,
-    LABELS,
     POINTS,
     SIZING_COLOUR_STOPS,
     SIZING_PLAIN_COLOUR,
 )
 from .background_job import CANCELLED, JobPage
 from .pages import PAGE_TITLES
-from .sizing_quantities import OBJECTIVE, VALUE, Quantity, grade_of, quantities
+from .sizing_quantities import OBJECTIVE, VALUE, Quantity, choice_columns, choice_of, quantities
 from .sizing_setup import FreeVariableTable, GradeList, ObjectiveList
-from .style import mark_style, plot_canvas
+from .style import flush_column, mark_style, plot_canvas, wrapped_label
 
 DEFAULT_CANDIDATES = 20_000
 MAX_CANDIDATES = 1_000_000
@@ -94,11 +96,41 @@ class _NumberItem(QTableWidgetItem):
         return super().__lt__(other)
 
 
+class AxisChoice(QComboBox):
+    """A drop-down as wide as the entry it shows, its list as wide as its longest entry.
+
+    Sized to the longest entry (``AdjustToContents``), three of them did not fit beside each other on a
+    laptop screen and the layout cut every one short; sized to the chosen entry they fit, and only a row
+    too narrow even for that shortens them (down to ``SHORTEST`` characters).
+    """
+
+    SHORTEST = 12  #: characters a squeezed drop-down still shows
+
+    def __init__(self):
+        super().__init__()
+        self.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.setMinimumContentsLength(self.SHORTEST)
+        self.currentIndexChanged.connect(lambda _index: self.updateGeometry())
+
+    def sizeHint(self) -> QSize:  # noqa: N802 - Qt's name
+        option = QStyleOptionComboBox()
+        self.initStyleOption(option)
+        metrics = self.fontMetrics()
+        text = QSize(metrics.horizontalAdvance(self.currentText()) + metrics.averageCharWidth(), metrics.height())
+        return self.style().sizeFromContents(QStyle.ContentsType.CT_ComboBox, option, text, self)
+
+    def fit_list(self) -> None:
+        """Widen the drop-down list to its longest entry (after the entries change)."""
+        metrics = self.view().fontMetrics()
+        longest = max((metrics.horizontalAdvance(self.itemText(i)) for i in range(self.count())), default=0)
+        self.view().setMinimumWidth(longest + 4 * metrics.averageCharWidth()
+                                    + self.view().verticalScrollBar().sizeHint().width())
+        self.updateGeometry()
+
+
 class SizingView(JobPage):
     """The sizing page: the search's inputs on the left, its feasible designs and front on the right."""
 
-    finished = Signal(object)  #: a SizingResult now shown
-    failed = Signal(str)  #: why the last run gave nothing
     opened = Signal(object)  #: a design opened from the page (its Project)
 
     def __init__(self, main_window):
@@ -127,13 +159,9 @@ class SizingView(JobPage):
 
     # ------------------------------------------------------------------ layout
     def _build(self) -> None:
-        self.candidates_box = QSpinBox()
-        self.candidates_box.setObjectName("sizing_candidates")
-        self.candidates_box.setRange(100, MAX_CANDIDATES)
-        self.candidates_box.setSingleStep(5000)
-        self.candidates_box.setGroupSeparatorShown(True)
+        self.candidates_box = self._count_box("sizing_candidates", MAX_CANDIDATES, 5000,
+                                              "How many candidates the space-filling sample of the free ranges draws")
         self.candidates_box.setValue(DEFAULT_CANDIDATES)
-        self.candidates_box.setToolTip("How many candidates the space-filling sample of the free ranges draws")
         self.seed_box = self._seed_box("sizing_seed",
                                        "Seed of the sample and the refinement: the same seed gives the same designs")
         self.seed_box.setValue(SizingSpec.seed)
@@ -183,19 +211,18 @@ class SizingView(JobPage):
         column = QVBoxLayout(box)
         column.setContentsMargins(4, 0, 0, 0)
         axes = QHBoxLayout()
-        self.x_combo, self.y_combo, self.colour_combo = QComboBox(), QComboBox(), QComboBox()
+        self.x_combo, self.y_combo, self.colour_combo = AxisChoice(), AxisChoice(), AxisChoice()
         for text, combo, name in (("Across:", self.x_combo, "sizing_x"), ("Up:", self.y_combo, "sizing_y"),
                                   ("Colour:", self.colour_combo, "sizing_colour")):
             combo.setObjectName(name)
-            combo.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToContents)
             combo.currentIndexChanged.connect(self._draw)
             axes.addWidget(QLabel(text))
             axes.addWidget(combo)
         axes.addStretch(1)
         column.addLayout(axes)
 
-        self.summary = self._headline("Choose the free keys, grades and objectives, then run the search.",
-                                      "sizing_summary", _SUMMARY_STYLE)
+        self.summary = wrapped_label("sizing_summary", _SUMMARY_STYLE,
+                                     "Choose the free keys, grades and objectives, then run the search.", rich=True)
         column.addWidget(self.summary)
 
         split = QSplitter(Qt.Orientation.Vertical)
@@ -215,8 +242,7 @@ class SizingView(JobPage):
         self.plot.layout.addItem(self.colour_bar, 2, 5)
         self.colour_bar.setVisible(False)
         plot_box = QWidget()
-        plot_column = QVBoxLayout(plot_box)
-        plot_column.setContentsMargins(0, 0, 0, 0)
+        plot_column = flush_column(plot_box)
         plot_column.addWidget(self.canvas, 1)
         self.key = QLabel(" &nbsp; ".join(_glyph_key(p) for p in ("sizing_feasible", "sizing_front", "sizing_best",
                                                                       "sizing_picked"))
@@ -228,8 +254,7 @@ class SizingView(JobPage):
         split.addWidget(plot_box)
 
         table_box = QWidget()
-        table_column = QVBoxLayout(table_box)
-        table_column.setContentsMargins(0, 0, 0, 0)
+        table_column = flush_column(table_box)
         picked_row = QHBoxLayout()
         self.picked_label = QLabel("Returned designs (the front and the best for each objective); "
                                    "click a heading to sort, double-click a row to open it.")
@@ -285,15 +310,15 @@ class SizingView(JobPage):
     def _show_freshness(self) -> None:
         current = self._requirement_of(self.project, [r.key for r in self.result.spec.free])
         if current == self._requirement:
-            self.controls.show_state("up to date")
+            self._show_state("up to date")
             self.summary.setStyleSheet(_SUMMARY_STYLE)
         else:
-            self.controls.show_state("the design changed: the designs shown were sized for an earlier one until "
+            self._show_state("the design changed: the designs shown were sized for an earlier one until "
                                      "the search runs again", stale=True)
             self.summary.setStyleSheet(_SUMMARY_STYLE + " color: #888;")
 
     def _on_refused(self, key: str, message: str) -> None:
-        self.controls.show_state(f"Not applied: {message}", error=True)
+        self._show_state(f"Not applied: {message}", error=True)
 
     # ------------------------------------------------------------------ running
     def spec(self) -> SizingSpec:
@@ -319,14 +344,14 @@ class SizingView(JobPage):
         try:
             spec = self.spec()
         except ProjectError as error:
-            self.controls.show_state(f"Not started: {error}", error=True)
+            self._show_state(f"Not started: {worded_keys(str(error))}", error=True)
             self.failed.emit(str(error))
             return
         project = self.project
         key = (self._requirement_of(project, [r.key for r in spec.free]), spec)
         self._running_base = project
         self.job.start(key, lambda report, stop: size(project, spec, report))
-        self.controls.show_state(f"searching {spec.candidates:,} candidates…", stale=self.result is not None)
+        self._show_state(f"searching {spec.candidates:,} candidates…", stale=self.result is not None)
 
     def _on_progress(self, stage: str, done: int, total: int) -> None:
         start, end, words = _STAGES.get(stage, (0.0, 1.0, stage + " {done:,} of {total:,}"))
@@ -335,11 +360,8 @@ class SizingView(JobPage):
         self.state_label.setText(words.format(done=done, total=total) + "…")
 
     def _on_failed(self, _key, message: str) -> None:
-        if message == CANCELLED:
-            self.controls.show_state("cancelled: nothing was kept", stale=self.result is not None)
-        else:
-            self.controls.show_state(message, error=True)
-        self.failed.emit(message)
+        # a core message names keys: the page words them with the fields' labels
+        self._report_failure(message if message == CANCELLED else worded_keys(message), stale=self.result is not None)
 
     def _on_done(self, key, result) -> None:
         self.result, self.base, self._requirement = result, self._running_base, key[0]
@@ -371,16 +393,18 @@ class SizingView(JobPage):
                 combo.addItem(quantity.label(), quantity)
             combo.setCurrentIndex(combo.findData(chosen) if chosen is not None else 0)
             combo.blockSignals(False)
+            combo.fit_list()
 
     def _show_summary(self) -> None:
         r = self.result
         if not r.designs:
             said = {r.explanation.strip()}
-            shortfalls = "".join(f"<li>{html.escape(s.text)}</li>" for s in r.shortfalls if s.text.strip() not in said)
+            shortfalls = "".join(f"<li>{html.escape(worded_keys(s.text))}</li>" for s in r.shortfalls
+                                 if s.text.strip() not in said)
             self.summary.setText(
                 f"<b style='color:{FAIL_COLOUR}'>No design inside the ranges meets the requirement</b> "
                 f"({r.candidates_evaluated:,} designs evaluated, {r.seconds:.1f} s, seed {r.seed}). "
-                f"{html.escape(r.explanation)}" + (f"<ul>{shortfalls}</ul>" if shortfalls else ""))
+                f"{html.escape(worded_keys(r.explanation))}" + (f"<ul>{shortfalls}</ul>" if shortfalls else ""))
             return
         share = 100 * r.feasible_count / max(r.candidates_evaluated, 1)
         front = sum(d.pareto for d in r.designs)
@@ -465,8 +489,8 @@ class SizingView(JobPage):
 
     def _tip(self, x=None, y=None, data=None) -> str:
         index = int(data)
-        grade = self.result.feasible_values.get("magnets.grade")
-        head = f"Feasible design {index + 1}" + (f", {grade[index]}" if grade is not None else "")
+        chosen = [str(self.result.feasible_values[key][index]) for key, _ in choice_columns(self.result)]
+        head = f"Feasible design {index + 1}" + "".join(f", {choice}" for choice in chosen)
         return head + "\n" + self._figures_text(lambda q: float(q.feasible(self.result, self.display)[index]))
 
     def _on_point_clicked(self, _item, points, _event=None) -> None:
@@ -522,7 +546,7 @@ class SizingView(JobPage):
         try:
             project, number = self.picked_project()
         except ProjectError as error:
-            self.controls.show_state(f"Not opened: {error}", error=True)
+            self._show_state(f"Not opened: {worded_keys(str(error))}", error=True)
             return False
         if as_b:
             self.main_window.compare_view.show_as_b(project, f"sizing, {number}")
@@ -537,10 +561,8 @@ class SizingView(JobPage):
         # what it is ranked by, then what the engineer would build, then what else it does
         order = {OBJECTIVE: 0, VALUE: 1}
         shown = sorted(self._quantities, key=lambda q: order.get(q.kind, 2))
-        columns = ["Best for", *(q.label() for q in shown)]
-        grade_column = any(grade_of(d) for d in designs)
-        if grade_column:
-            columns.insert(1, LABELS["magnet.name"])
+        chosen = choice_columns(self.result)
+        columns = ["Best for", *(heading for _, heading in chosen), *(q.label() for q in shown)]
         self.table.setSortingEnabled(False)
         self.table.clear()
         self.table.setColumnCount(len(columns))
@@ -557,8 +579,8 @@ class SizingView(JobPage):
                 first.setFont(font)
             self.table.setItem(row, 0, first)
             column = 1
-            if grade_column:
-                self.table.setItem(row, column, QTableWidgetItem(grade_of(design)))
+            for key, _ in chosen:
+                self.table.setItem(row, column, QTableWidgetItem(choice_of(design, key)))
                 column += 1
             for quantity in shown:
                 value = quantity.of_design(design, self.display)

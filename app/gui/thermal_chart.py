@@ -11,14 +11,13 @@ its class limit, marked and said in words below the plot. Titles, colours and da
 from __future__ import annotations
 
 import pyqtgraph as pg
-from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QVBoxLayout, QWidget
 
 from pmdc_sizer.app.figures import DASH_GLYPHS, LINES, POINTS, REGIONS, figure
 from pmdc_sizer.app.thermal_text import chart_notes, chart_title, duty_plot, limit_reached_at, temperature_label
 
 from .display_units import DisplayUnits
-from .style import line_pen, mark_style
+from .style import black_axes, line_pen, mark_style, wrapped_label
 
 CURVES = ("housing_temperature", "magnet_temperature", "winding_temperature")  #: drawing order: winding on top
 LIMITS = ("insulation_limit", "magnet_limit")
@@ -38,34 +37,21 @@ class ThermalChart(QWidget):
         self.display = display or getattr(main_window, "display", None) or DisplayUnits()
         layout = QVBoxLayout(self)
         layout.setContentsMargins(4, 4, 4, 4)
-        self.title = QLabel("Temperatures over the duty")
-        self.title.setObjectName("thermal_title")
-        self.title.setWordWrap(True)
-        self.title.setStyleSheet("font-weight: bold; padding: 2px 4px;")
+        self.title = wrapped_label("thermal_title", "font-weight: bold; padding: 2px 4px;",
+                                   "Temperatures over the duty")
         layout.addWidget(self.title)
-        self.key = QLabel()
-        self.key.setObjectName("thermal_key")
-        self.key.setWordWrap(True)
-        self.key.setTextFormat(Qt.TextFormat.RichText)
-        self.key.setStyleSheet("padding: 2px 4px;")
+        self.key = wrapped_label("thermal_key", "padding: 2px 4px;", rich=True)
         layout.addWidget(self.key)
         self.canvas = pg.PlotWidget(background="w")
         self.canvas.setObjectName("thermal_plot")
         self.plot = self.canvas.getPlotItem()
         self.plot.showGrid(x=True, y=True, alpha=0.25)
         self.plot.setMenuEnabled(False)
-        for axis in ("left", "bottom"):
-            self.plot.getAxis(axis).enableAutoSIPrefix(False)
-            self.plot.getAxis(axis).setTextPen("k")
-            self.plot.getAxis(axis).setPen("k")
-            self.plot.getAxis(axis).setStyle(maxTickLevel=0)  # grid lines at the labelled ticks only
+        black_axes(self.plot)
         time = figure("thermal.transient.time_s")
         self.plot.setLabel("bottom", time.title, units=time.unit)
         layout.addWidget(self.canvas, 1)
-        self.notes = QLabel()
-        self.notes.setObjectName("thermal_notes")
-        self.notes.setWordWrap(True)
-        self.notes.setStyleSheet("padding: 4px;")
+        self.notes = wrapped_label("thermal_notes", "padding: 4px;")
         layout.addWidget(self.notes)
         self.curves: dict[str, pg.PlotCurveItem] = {}
         for line in CURVES:

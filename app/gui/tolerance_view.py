@@ -13,14 +13,11 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import Qt, Signal
+from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
-    QHeaderView,
     QLabel,
     QSizePolicy,
-    QSpinBox,
     QSplitter,
-    QTableWidget,
     QTableWidgetItem,
 )
 
@@ -45,8 +42,8 @@ from ..figures import (
 )
 from ..formatting import unit_label
 from ..tolerance_text import basis_text, check_names, figure_row, spread_text
-from .background_job import CANCELLED, JobPage
-from .style import line_pen, plot_canvas
+from .background_job import JobPage
+from .style import line_pen, plot_canvas, wrapped_label
 
 _AUTO_DELAY_MS = 800
 _BINS = 40
@@ -65,9 +62,6 @@ def _sample(colour: str, dash: str, text: str) -> str:
 class ToleranceView(JobPage):
     """The production-spread page: yield, histograms, band and table of the drawn motors."""
 
-    finished = Signal(object)  #: a ToleranceStudy now shown
-    failed = Signal(str)  #: why the last run gave nothing
-
     def __init__(self, main_window):
         super().__init__(main_window, "tolerance_view")
         self.study = None
@@ -83,20 +77,17 @@ class ToleranceView(JobPage):
 
     # ------------------------------------------------------------------ layout
     def _build(self) -> None:
-        self.samples_box = QSpinBox()
-        self.samples_box.setObjectName("tolerance_samples")
-        self.samples_box.setRange(100, MAX_MOTORS)
-        self.samples_box.setSingleStep(1000)
-        self.samples_box.setGroupSeparatorShown(True)
-        self.samples_box.setToolTip("How many motors to draw from the tolerances (the file's tolerances.samples)")
+        self.samples_box = self._count_box(
+            "tolerance_samples", MAX_MOTORS, 1000, "How many motors to draw from the tolerances (the file's "
+            "tolerances.samples)")
         self.samples_box.valueChanged.connect(self._on_choice_changed)
         self.seed_box = self._seed_box(
             "tolerance_seed", "Seed of the draw: the same seed draws the same motors (the file's tolerances.seed)")
         self.seed_box.valueChanged.connect(self._on_choice_changed)
         layout = self._page_layout([QLabel("Motors:"), self.samples_box, QLabel("Seed:"), self.seed_box])
 
-        self.headline = self._headline("The study runs when this page is shown.", "tolerance_headline",
-                                       "padding: 2px 4px; font-size: 11pt;")
+        self.headline = wrapped_label("tolerance_headline", "padding: 2px 4px; font-size: 11pt;",
+                                      "The study runs when this page is shown.", rich=True)
         layout.addWidget(self.headline)
 
         splitter = QSplitter(Qt.Orientation.Horizontal)
@@ -120,16 +111,8 @@ class ToleranceView(JobPage):
         self.band_plot = self.band_canvas.getPlotItem()
         self.band_plot.setTitle("Speed against torque, nominal case", color="#222222")
         right.addWidget(self.band_canvas)
-        self.table = QTableWidget(0, 5)
-        self.table.setObjectName("tolerance_table")
-        self.table.setHorizontalHeaderLabels(["Figure", "min", "typ", "max", "Driven by (share of its variance)"])
-        header = self.table.horizontalHeader()
-        header.setSectionResizeMode(0, QHeaderView.ResizeMode.ResizeToContents)
-        for column in (1, 2, 3):
-            header.setSectionResizeMode(column, QHeaderView.ResizeMode.ResizeToContents)
-        header.setSectionResizeMode(4, QHeaderView.ResizeMode.Stretch)
-        self.table.verticalHeader().setVisible(False)
-        self.table.setEditTriggers(QTableWidget.EditTrigger.NoEditTriggers)
+        self.table = self._figure_table(
+            "tolerance_table", ["Figure", "min", "typ", "max", "Driven by (share of its variance)"], stretch=4)
         self.table.setWordWrap(True)
         right.addWidget(self.table)
         right.setSizes([300, 340])
@@ -177,10 +160,10 @@ class ToleranceView(JobPage):
         if key is None:
             return
         if key == self._shown_key:
-            self._set_state("up to date")
+            self._show_state("up to date")
             return
         if self.study is not None:
-            self._set_state("the design or the draw changed: the figures below are of an earlier design until the "
+            self._show_state("the design or the draw changed: the figures below are of an earlier design until the "
                             "study runs again", stale=True)
         self.job.schedule()
 
@@ -198,14 +181,14 @@ class ToleranceView(JobPage):
             return study, None if stop.is_set() else speed_band(design, study)
 
         self.job.start(key, work)
-        self._set_state(f"drawing and evaluating {samples:,} motors…", stale=self.study is not None)
+        self._show_state(f"drawing and evaluating {samples:,} motors…", stale=self.study is not None)
 
     def current_study(self):
         """The study shown, if it is of the current design and draw (not stale); else None."""
         key = self._key()
         return self.study if key is not None and key == self._shown_key else None
 
-    def _set_state(self, text: str, stale: bool = False, error: bool = False) -> None:
+    def _show_state(self, text: str, stale: bool = False, error: bool = False) -> None:
         self.controls.show_state(text, stale, error)
         if self.study is not None:
             self.histograms.setEnabled(not stale)
@@ -216,17 +199,13 @@ class ToleranceView(JobPage):
         self.state_label.setText(f"{done:,} of {total:,} motors evaluated…")
 
     def _on_failed(self, _key, message: str) -> None:
-        if message == CANCELLED:
-            self._set_state("cancelled: nothing was kept", stale=self.study is not None)
-        else:
-            self._set_state(message, error=True)
-        self.failed.emit(message)
+        self._report_failure(message, stale=self.study is not None)
 
     def _on_done(self, key, result) -> None:
         study, band = result
         self.study, self.band, self._shown_key = study, band, key
         self._show(study, band)
-        self._set_state("up to date" if key == self._key() else "the design changed while the study ran",
+        self._show_state("up to date" if key == self._key() else "the design changed while the study ran",
                         stale=key != self._key())
         self.finished.emit(study)
 

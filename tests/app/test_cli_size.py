@@ -100,7 +100,7 @@ def test_text_output_is_a_table_with_units(capsys):
     status, out, err = run(capsys, *SEARCH)
     assert status == 0, err
     assert "candidates evaluated" in out and "pass every check at every temperature" in out
-    assert "magnets.thickness [mm]" in out and "mass [g]" in out and "cost [EUR]" in out
+    assert "Magnet thickness [mm]" in out and "mass [g]" in out and "cost [EUR]" in out
     assert "mass [g]: Active mass: magnets, copper, steel" in out
 
 
@@ -115,6 +115,18 @@ def test_an_impossible_requirement_exits_1_with_the_explanation(capsys):
     assert err.startswith("pmdc-sizer: no feasible design: ")
     status, out, _ = run(capsys, *SEARCH, "--set", "load.torque_mNm=350")
     assert status == 1 and "No feasible design." in out
+
+
+def test_the_explanation_names_fields_by_label_with_the_typed_key_once(capsys):
+    status, out, _ = run(capsys, *SEARCH, "--set", "load.torque_mNm=350")
+    assert status == 1
+    explanation = " ".join(out.split("No feasible design.", 1)[1].split())  # the wrapped paragraph, one line
+    assert "magnet thickness (magnets.thickness_mm) " in explanation
+    assert explanation.count("magnets.thickness_mm") == 1 and explanation.count("winding.turns_per_coil") == 1
+    assert "magnets.thickness_mm =" not in explanation and "turns per coil" in explanation
+    status, out, _ = run(capsys, *SEARCH, "--set", "load.torque_mNm=350", "--json")
+    data = json.loads(out)
+    assert "magnet thickness (magnets.thickness_mm) " in data["explanation"]
 
 
 @pytest.mark.parametrize(("arguments", "named"), [

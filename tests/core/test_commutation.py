@@ -173,36 +173,39 @@ def test_brush_check_names_the_project_s_limit_and_the_estimated_inputs():
     assert "(brush width, commutator diameter estimated: give them under [brushes])" in check.message
 
 
-@pytest.mark.parametrize(("speed", "status", "words"), [
-    (10.0, "pass", "within the 25 m/s that plain commutators run at"),
-    (25.0, "pass", "within the 25 m/s"),  # at the threshold: still plain
-    (25.01, "warning", "above the 25 m/s of plain commutators: brush bounce and wear"),
-    (40.0, "warning", "above the 25 m/s"),
-    (40.01, "fail", "beyond the 40 m/s a small commutator holds together at"),
-])
-def test_commutator_surface_speed_in_words(speed, status, words):
-    check = _check(replace(BASE, surface_speed_m_per_s=speed), "commutator_speed")
-    assert check.status == status
-    assert words in check.message
-    assert f"{checks._figures(speed)} m/s at the highest no-load speed on a 24.0 mm commutator" in check.message
-    assert check.advice == ("" if status == "pass" else "use a smaller commutator or a lower no-load speed")
+#: The two commutator checks read alike: (result field, check, what the message says of the figure, advice
+#: when it does not pass).
+_COMMUTATOR_CHECKS = {
+    "speed": ("surface_speed_m_per_s", "commutator_speed",
+              lambda v: [f"{checks._figures(v)} m/s at the highest no-load speed on a 24.0 mm commutator"],
+              "use a smaller commutator or a lower no-load speed"),
+    "reactance": ("reactance_voltage_V", "reactance_voltage",
+                  lambda v: [f"about {checks._figures(v, 2)} V in the coil under commutation",
+                             "estimate, Pichelmayer's permeance"],
+                  "use fewer turns per coil with more segments, or wider brushes"),
+}
 
 
-@pytest.mark.parametrize(("volts", "status", "words"), [
-    (0.5, "pass", "commutation without visible sparking is likely"),
-    (2.0, "pass", "without visible sparking"),  # at the threshold, about one brush contact drop
-    (2.01, "warning", "expect sparking at the trailing brush edge"),
-    (4.0, "warning", "expect sparking"),
-    (4.01, "fail", "heavy sparking and brush wear"),
+@pytest.mark.parametrize(("kind", "value", "status", "words"), [
+    ("speed", 10.0, "pass", "within the 25 m/s that plain commutators run at"),
+    ("speed", 25.0, "pass", "within the 25 m/s"),  # at the threshold: still plain
+    ("speed", 25.01, "warning", "above the 25 m/s of plain commutators: brush bounce and wear"),
+    ("speed", 40.0, "warning", "above the 25 m/s"),
+    ("speed", 40.01, "fail", "beyond the 40 m/s a small commutator holds together at"),
+    ("reactance", 0.5, "pass", "commutation without visible sparking is likely"),
+    ("reactance", 2.0, "pass", "without visible sparking"),  # at the threshold, about one brush contact drop
+    ("reactance", 2.01, "warning", "expect sparking at the trailing brush edge"),
+    ("reactance", 4.0, "warning", "expect sparking"),
+    ("reactance", 4.01, "fail", "heavy sparking and brush wear"),
 ])
-def test_reactance_voltage_in_words(volts, status, words):
-    check = _check(replace(BASE, reactance_voltage_V=volts), "reactance_voltage")
+def test_commutator_surface_speed_and_reactance_voltage_in_words(kind, value, status, words):
+    field, name, figure_words, advice = _COMMUTATOR_CHECKS[kind]
+    check = _check(replace(BASE, **{field: value}), name)
     assert check.status == status
     assert words in check.message
-    assert f"about {checks._figures(volts, 2)} V in the coil under commutation" in check.message
-    assert "estimate, Pichelmayer's permeance" in check.message
-    assert check.advice == ("" if status == "pass" else
-                            "use fewer turns per coil with more segments, or wider brushes")
+    for figure_word in figure_words(value):
+        assert figure_word in check.message
+    assert check.advice == ("" if status == "pass" else advice)
 
 
 def test_the_thresholds_are_the_ones_documented():

@@ -117,3 +117,13 @@ def test_grade_2_overall_diameter_of_half_a_millimetre():
     assert abs(wire.overall_diameter - to_si(0.554, "mm")) <= to_si(0.005, "mm")
     assert wire.enamel_grade == 2 and wire.label == "0.50 mm"
     assert_allclose(wire.copper_area, math.pi / 4.0 * (0.5e-3) ** 2, rtol=1e-14)
+
+
+@pytest.mark.parametrize(("label", "first", "last", "count"), [
+    ("AWG 26", "AWG 0", "AWG 44", 45), ("0.71 mm", "0.100 mm", "2.500 mm", len(conductors.METRIC_DIAMETERS_MM))])
+def test_a_wire_size_names_its_own_series(label, first, last, count):
+    series = conductors.wire_series(label)
+    assert (series[0], series[-1], len(series)) == (first, last, count)
+    assert all(conductors.parse_wire_size(size) > 0 for size in series)  # each one a size a file may hold
+    with pytest.raises(ValueError, match="wire size"):
+        conductors.wire_series("AWG 50")

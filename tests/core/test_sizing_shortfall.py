@@ -156,7 +156,7 @@ def test_a_binding_range_is_widened_and_the_envelope_it_would_need_is_evaluated(
     wall = FreeRange("housing.wall_mm", 2.0, 3.0, False)
     out = range_extensions(tight, (wall,), {"housing.wall_mm": 3.0})
     match = re.fullmatch(r"with housing.wall_mm = ([\d.]+) mm \(beyond the range's 3\) it passes every check, but only "
-                         r"with the envelope housing.max_outer_diameter_mm widened to ([\d.]+) mm \(it is 41.8 mm\)",
+                         r"with housing.max_outer_diameter_mm widened to ([\d.]+) mm \(it is 41.8 mm\)",
                          out[0])
     assert match, out
     wider = with_values(tight, {"housing.wall_mm": float(match.group(1)),

@@ -33,25 +33,32 @@ def test_numeric_and_integer_ranges(base):
     assert poles.choices == ("2", "4") and poles.integer
 
 
-@pytest.mark.parametrize(("text", "words"), [
-    ("magnets.thickness_mm=0.1:10", ("magnets.thickness_mm", "0.1", "0.5 to 40 mm")),
-    ("armature.slots=2:30", ("armature.slots", "3 to 72")),
-    ("winding.turns_per_coil=1.5:3", ("winding.turns_per_coil", "whole number")),
-    ("magnets.thicknes_mm=1:2", ("magnets.thicknes_mm", "no such key")),
-    ("winding.type=1:2", ("winding.type", "not a numeric key")),
-    ("load.speed_rpm=100:200", ("load.speed_rpm", "requirement")),
-    ("housing.max_outer_diameter_mm=50:60", ("housing.max_outer_diameter_mm", "requirement")),
-    ("magnets.thickness_mm=2", ("magnets.thickness_mm", "LOW:HIGH")),
-    ("magnets.thickness_mm=a:3", ("magnets.thickness_mm", "not a number")),
-    ("winding.wire=0.05:0.5", ("winding.wire", "0.1 to 2.5 mm")),
-    ("winding.wire=AWG 22:0.5", ("winding.wire", "both ends")),
-    ("winding.wire=AWG 20:AWG 50", ("winding.wire", "AWG must be from 0 to 44")),
-    ("brushes.width_mm=1:3", ("brushes.width_mm", "leaves this optional key out")),
-])
+#: Keys a search cannot free: (range, what the message says besides the key).
+_NOT_FREE = [
+    ("magnets.thicknes_mm=1:2", "no such key"),
+    ("winding.type=1:2", "not a numeric key"),
+    ("load.speed_rpm=100:200", "requirement"),
+    ("housing.max_outer_diameter_mm=50:60", "requirement"),
+    ("brushes.width_mm=1:3", "leaves this optional key out"),
+]
+#: Ranges a free key's own limits or form refuse: (range, the limit or form the message names).
+_REFUSED_RANGES = [
+    ("magnets.thickness_mm=0.1:10", "0.1", "0.5 to 40 mm"),
+    ("armature.slots=2:30", "3 to 72"),
+    ("winding.turns_per_coil=1.5:3", "whole number"),
+    ("magnets.thickness_mm=2", "LOW:HIGH"),
+    ("magnets.thickness_mm=a:3", "not a number"),
+    ("winding.wire=0.05:0.5", "0.1 to 2.5 mm"),
+    ("winding.wire=AWG 22:0.5", "both ends"),
+    ("winding.wire=AWG 20:AWG 50", "AWG must be from 0 to 44"),
+]
+
+
+@pytest.mark.parametrize(("text", "words"), [(text, words) for text, *words in _NOT_FREE + _REFUSED_RANGES])
 def test_parse_errors_name_the_key_and_the_limit(base, text, words):
     with pytest.raises(ProjectError) as caught:
         parse_free(text, base)
-    for word in words:
+    for word in (text.partition("=")[0], *words):
         assert word in str(caught.value)
 
 

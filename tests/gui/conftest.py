@@ -74,6 +74,22 @@ def job_page(open_window):
 
 
 @pytest.fixture
+def cancelled_run(qtbot):
+    """``cancelled_run(view, failed, start, timeout_ms)``: starts a page's long job, cancels it at once and
+    waits for the page's ``failed`` signal; the page must say that nothing was kept, with its cancel button
+    off again."""
+    def run(view, failed, start, timeout_ms: int) -> None:
+        with qtbot.waitSignal(failed, timeout=timeout_ms) as blocker:
+            start()
+            view.cancel()
+        assert blocker.args == ["cancelled"]
+        assert view.state_label.text() == "cancelled: nothing was kept"
+        assert not view.cancel_button.isEnabled()
+
+    return run
+
+
+@pytest.fixture
 def open_compare_view(qtbot):
     """``open_compare_view(window, size)``: a shown comparison page on a stand-in main window; its
     background work is waited for at the end."""

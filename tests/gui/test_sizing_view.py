@@ -4,6 +4,8 @@ a range end outside the file's limits with the limit shown, and marks its result
 
 from __future__ import annotations
 
+import html
+import re
 from pathlib import Path
 
 import numpy as np
@@ -17,6 +19,7 @@ REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
 SEARCH_TIMEOUT_MS = 180_000  #: a few hundred candidates through the chain on a loaded machine
 SMALL = 300
+DOTTED_KEY = re.compile(r"\b[a-z]+\.[a-z_]+\b")
 
 
 @pytest.fixture
@@ -79,15 +82,11 @@ def test_a_small_search_fills_the_scatter_the_colour_scale_and_the_table(page, q
     assert "Active mass" in tip and "Magnet thickness" in tip
 
 
-def test_cancel_stops_the_search_and_keeps_nothing(page, qtbot):
+def test_cancel_stops_the_search_and_keeps_nothing(page, cancelled_run):
     _, view = page
     view.candidates_box.setValue(50_000)
-    with qtbot.waitSignal(view.failed, timeout=SEARCH_TIMEOUT_MS) as blocker:
-        view.run()
-        view.cancel()
-    assert blocker.args == ["cancelled"]
-    assert view.result is None and "cancelled" in view.state_label.text()
-    assert not view.cancel_button.isEnabled()
+    cancelled_run(view, view.failed, view.run, SEARCH_TIMEOUT_MS)
+    assert view.result is None
 
 
 def test_a_row_of_the_front_opens_in_the_editor_as_a_new_unsaved_design_with_its_values(page, qtbot):
@@ -157,3 +156,49 @@ def test_when_nothing_is_feasible_the_page_says_why_in_words(page, qtbot):
     assert "No design inside the ranges meets the requirement" in text
     assert result.explanation.split()[0] in text  # the explanation itself, in words
     assert view.table.rowCount() == 0 and len(view.feasible_item.getData()[0]) == 0
+    # the core names the fields by their keys; the page by the labels the editor shows
+    assert "magnets.thickness_mm" in result.explanation
+    shown = html.unescape(re.sub(r"<[^>]+>", " ", text))
+    assert "magnet thickness" in shown and "stack length" in shown
+    assert not DOTTED_KEY.search(shown), DOTTED_KEY.search(shown)
+    assert not DOTTED_KEY.search(view.state_label.text())
+
+
+def test_wire_and_steels_freed_on_the_page_reach_the_search(page, qtbot):
+    window, view = page
+    table = view.free_table
+    assert table.wire_boxes[0].itemText(0) == "AWG 0"  # the design's own series (AWG 26)
+    assert table.wire_range == ("AWG 24", "AWG 28")  # two sizes either side at first
+    steels = table.steel_lists["armature.steel"]
+    laminations = [steels.item(i).text() for i in range(steels.count())]
+    assert window.current_project.armature.steel in laminations and "low-carbon steel 1010" not in laminations
+    table.set_free("winding.wire", True, "AWG 25", "AWG 27")
+    table.set_free("armature.steel", True)
+    table.set_steels("armature.steel", ("M400-50A", "M800-50A"))
+    view.candidates_box.setValue(200)
+    view.generations_box.setValue(0)
+    result = _run(qtbot, view)
+    free = {v.key: v for v in result.spec.free}
+    assert free["winding.wire"].choices == ("AWG 25", "AWG 26", "AWG 27")
+    assert free["armature.steel"].choices == ("M400-50A", "M800-50A")
+    assert "housing.steel" not in free  # not ticked: the design's own steel stays
+    headers = [view.table.horizontalHeaderItem(c).text() for c in range(view.table.columnCount())]
+    assert "Wire size" in headers and "Lamination steel" in headers
+    column = headers.index("Wire size")
+    wires = {view.table.item(r, column).text() for r in range(view.table.rowCount())}
+    assert wires and wires <= set(free["winding.wire"].choices)
+    # ticking no steel at all is refused by name, not run
+    table.set_steels("armature.steel", ())
+    view.run()
+    assert "lamination steel" in view.state_label.text().lower() and "armature.steel" not in view.state_label.text()
+
+
+def test_the_axis_choices_show_their_whole_entries_at_1366_by_768(page, qtbot):
+    window, view = page
+    window.resize(1366, 768)
+    _run(qtbot, view)
+    qtbot.wait(50)
+    for combo in (view.x_combo, view.y_combo, view.colour_combo):
+        assert combo.width() >= combo.sizeHint().width(), combo.currentText()
+        longest = max(combo.view().fontMetrics().horizontalAdvance(combo.itemText(i)) for i in range(combo.count()))
+        assert combo.view().minimumWidth() > longest  # the open list shows every entry whole
