@@ -197,7 +197,8 @@ def solve_references() -> None:
         records[item.label]["cases"].append(record)
     data = {
         "how_made": ("benchmarks/network_calibration.py solve: core.field.solve_case with the default "
-                     f"FieldOptions, rotor position 0 (half a slot pitch on the half-slot cases), {len(items)} cases, sample seed {SEED}; "
+                     "FieldOptions, rotor position 0 (half a slot pitch on the half-slot cases), "
+                     f"{len(items)} cases, sample seed {SEED}; "
                      f"{time.strftime('%Y-%m-%d', time.gmtime())}, {time.perf_counter() - started:.0f} s on 2 workers"),
         "designs": list(records.values()),
     }

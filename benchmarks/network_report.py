@@ -253,11 +253,12 @@ the sample, so no overhang), the network solved at a length of 1 km
 
 The sample: poles 2, 4, 6; gaps 0.3-1.5 mm; magnets 2-10 mm thick with arcs of 50-90 % of the pole pitch;
 Y30, Y40 ferrite, bonded NdFeB 10, N42SH, N38UH, SmCo5 20, Sm2Co17 26; housing walls drawn so that the
-housing would carry 0.8-2.8 T with ideal iron (1-12 mm); 8-24 slots with narrow teeth (half the slot
-pitch at the slot bottom), so that teeth and tooth tips saturate on most rare-earth designs; shafts steel
-or not. Loaded cases: the armature's peak MMF per pole at 0.3 and 1.0 times the magnet's own Br·lm/(μ0·μrec),
-brushes on neutral, the larger again with the rotor half a slot pitch on (half-slot); rotor removed on every third design; plus the three demos' own cases (stall, reversal,
-drive limit, rotor removed) at their currents.
+housing would carry 0.8-2.8 T with ideal iron (1-12 mm); 8-24 slots with narrow teeth (half the slot pitch
+at the slot bottom), so that teeth and tooth tips saturate on most rare-earth designs; shafts steel or not.
+Loaded cases: the armature's peak MMF per pole at 0.3 and 1.0 times the magnet's own Br·lm/(μ0·μrec),
+brushes on neutral, the larger again with the rotor half a slot pitch on (half-slot); rotor removed on every
+third design; plus the three demos' own cases (stall, reversal, drive limit, rotor removed) at their
+currents.
 
 Two coefficients are fitted, once, over the no-load sample (least worst-case error), and named as fitted in
 core.network_elements: `MAGNET_LAYER_SHARE` = {MAGNET_LAYER_SHARE:g} and `SLOT_AIR_FACTOR` = {SLOT_AIR_FACTOR:g}.
@@ -298,21 +299,21 @@ network tells apart (core.magnet_load_fields), at the same current.
 
 Read off the tables below and the field solutions' element fields (not fitted). Each magnet segment is one
 column of the network carrying one flux over its whole height, and its field is read from that flux
-(core.pole_magnetics._radial_cells); an earlier reading took the inner cells from the flux crossing the
-gap, which counts the flux turning along the layer at the inner face as lost inside the magnet, and
-overstated the field at the tips (no load 71, under load 53 of the cases within 10 %). Under load the
-network's magnet field is compared with the armature's current in its slots at the field solution's rotor
-position (a slot centre on the pole centre; core.armature_mmf.slot_enclosed_currents): with few slots per
-pole a slot's step loads the whole trailing half of the magnet at once, which a smeared current sheet,
-rising steadily towards the tip, misses (with the sheet, at rotor position 0: 58 of 110 within 10 %, 3
-verdicts different). At half a slot pitch the network reads the designs with fewest slots per pole (8 or
-10 slots on 6 poles, whose teeth are wider than the magnet's tip regions and which the network's smeared
-teeth do not resolve) up to about half the field solution's field; two verdicts differ there. The tool
-itself takes the worst of every rotor position the network tells apart (core.magnet_load_fields), and that
-verdict agrees with the worse of the field solution's two positions on every design (section above). The flux per pole stays on the smeared
+(core.pole_magnetics._radial_cells); an earlier reading took the inner cells from the flux crossing the gap,
+which counts the flux turning along the layer at the inner face as lost inside the magnet, and overstated
+the field at the tips (no load 71, under load 53 of the cases within 10 %). Under load the network's magnet
+field is compared with the armature's current in its slots at the field solution's rotor position (a slot
+centre on the pole centre; core.armature_mmf.slot_enclosed_currents): with few slots per pole a slot's step
+loads the whole trailing half of the magnet at once, which a smeared current sheet, rising steadily towards
+the tip, misses (with the sheet, at rotor position 0: 58 of 110 within 10 %, 3 verdicts different). At half
+a slot pitch the network reads the designs with fewest slots per pole (8 or 10 slots on 6 poles, whose teeth
+are wider than the magnet's tip regions and which the network's smeared teeth do not resolve) up to about
+half the field solution's field; two verdicts differ there. The tool itself takes the worst of every rotor
+position the network tells apart (core.magnet_load_fields), and that verdict agrees with the worse of the
+field solution's two positions on every design (section above). The flux per pole stays on the smeared
 sheet, the mean over the rotor's turning that the back-EMF sees. What still misses: at no load, thick
-magnets on 6 poles, where the network's leakage factor is a few per cent below the field solution's, and
-one bonded NdFeB design within 2 % of the knee either side (the required margin to the knee,
+magnets on 6 poles, where the network's leakage factor is a few per cent below the field solution's, and one
+bonded NdFeB design within 2 % of the knee either side (the required margin to the knee,
 magnets.required_margin_pct_of_HcJ, marks it marginal). The rotor-removed cases, with no armature, agree
 within a few per cent.
 

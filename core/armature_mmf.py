@@ -26,9 +26,25 @@ from __future__ import annotations
 import numpy as np
 
 from .network_elements import NetworkElements
+from .shared_docs import parameter_table, shared_parameters
 from .winding import coil_span_slots
 
 _SAMPLES = 24  #: points of the midpoint rule per loop [1]
+
+#: What the current each loop encloses is computed from, for the smeared sheet and for the slots.
+LOOP_CURRENT_PARAMETERS = parameter_table("""
+elements : NetworkElements
+    The network (its branch centres and yoke angles), cross-sections (D,).
+current : float or ndarray
+    Armature current I [A], broadcasting to (B,).
+poles, slots, commutator_segments : int
+    Of the machine [1].
+conductors, paths : int or ndarray
+    Of the winding [1], broadcasting to (B,).
+rows : ndarray of int, optional
+    Shape (B,): the cross-section of each entry (the current pattern is taken once per cross-section);
+    by default entry i is cross-section i.
+""")
 
 
 def commutation_zone(poles: int, slots: int, commutator_segments: int) -> float:
@@ -79,23 +95,13 @@ def current_share(angle, poles: int, zone: float) -> np.ndarray:
     return np.where(np.fmod(k, 2.0) == 0.0, -ramp, ramp)
 
 
+@shared_parameters(LOOP_CURRENT_PARAMETERS)
 def enclosed_currents(elements: NetworkElements, current, poles: int, slots: int, commutator_segments: int,
                       conductors, paths, rows: np.ndarray | None = None) -> np.ndarray:
     """Armature current enclosed by each lower loop of the network [A], shape (batch, segments).
 
     Parameters
     ----------
-    elements : NetworkElements
-        The network (its branch centres and yoke angles), cross-sections (D,).
-    current : float or ndarray
-        Armature current I [A], broadcasting to (B,).
-    poles, slots, commutator_segments : int
-        Of the machine [1].
-    conductors, paths : int or ndarray
-        Of the winding [1], broadcasting to (B,).
-    rows : ndarray of int, optional
-        Shape (B,): the cross-section of each entry (the current pattern is integrated once per
-        cross-section); by default entry i is cross-section i.
 
     Returns
     -------
@@ -143,28 +149,20 @@ def slot_angles(rotor_position, slots: int, pole_pitch: float) -> np.ndarray:
     """
     pitch = 2.0 * np.pi / slots
     reach = int(np.ceil(2.0 * pole_pitch / pitch)) + 1
-    return np.asarray(rotor_position, dtype=float)[..., None] + pitch * np.arange(-reach, reach + 1)
+    angles: np.ndarray = np.asarray(rotor_position, dtype=float)[..., None] + pitch * np.arange(-reach, reach + 1)
+    return angles
 
 
+@shared_parameters(LOOP_CURRENT_PARAMETERS)
 def slot_enclosed_currents(elements: NetworkElements, current, poles: int, slots: int, commutator_segments: int,
                            conductors, paths, rotor_position, rows: np.ndarray | None = None) -> np.ndarray:
     """Armature current enclosed by each lower loop [A], (batch, segments), with the current in its slots.
 
     Parameters
     ----------
-    elements : NetworkElements
-        The network (its branch centres and yoke angles), cross-sections (D,).
-    current : float or ndarray
-        Armature current I [A], broadcasting to (B,).
-    poles, slots, commutator_segments : int
-        Of the machine [1].
-    conductors, paths : int or ndarray
-        Of the winding [1], broadcasting to (B,).
     rotor_position : float or ndarray
         Mechanical angle of the rotor [rad] (0: a slot centre on the pole centre), for all entries or per
         entry (B,).
-    rows : ndarray of int, optional
-        As :func:`enclosed_currents`.
 
     Returns
     -------
@@ -228,4 +226,5 @@ def distinct_rotor_positions(centre_angle: np.ndarray, slots) -> np.ndarray:
     pitch = (2.0 * np.pi / np.asarray(slots, dtype=float))[..., None]
     crossings = np.sort(np.mod(centre_angle, pitch), axis=-1)
     following = np.concatenate([crossings[:, 1:], crossings[:, :1] + pitch], axis=1)
-    return np.asarray(np.mod(0.5 * (crossings + following), pitch))
+    midpoints: np.ndarray = np.mod(0.5 * (crossings + following), pitch)
+    return midpoints

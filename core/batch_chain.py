@@ -302,9 +302,9 @@ def chain_figures(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[st
     judged_temperatures = np.repeat(np.stack([case_magnet[label] for label in labels], axis=1), 3, axis=1)
     positions = distinct_rotor_positions(branch_centres(g.magnet_arc * g.poles / (2.0 * np.pi),
                                                         2.0 * np.pi / g.poles), g.slots)
-    count = judged_currents.shape[1]
-    slotted = solve_groups(designs, groups, g, lots, positions.shape[1] * count,
-                           np.tile(judged_temperatures, positions.shape[1]), np.tile(judged_currents, positions.shape[1]),
+    count, turns = judged_currents.shape[1], positions.shape[1]
+    slotted = solve_groups(designs, groups, g, lots, turns * count,
+                           np.tile(judged_temperatures, turns), np.tile(judged_currents, turns),
                            True, (conductors, paths), "the magnetic circuit under load (the magnets' cases)",
                            np.repeat(positions, count, axis=1))
     cells = slotted["cell_field"].reshape(n, positions.shape[1], count, -1)
@@ -313,7 +313,8 @@ def chain_figures(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[st
 
     def magnet_field(label: str, which: int) -> np.ndarray:
         """The worst-area field at one judged current (0 stall, 1 reversal, 2 the limit) [A/m]."""
-        return worst_fields[:, 3 * labels.index(label) + which]
+        field: np.ndarray = worst_fields[:, 3 * labels.index(label) + which]
+        return field
 
     cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}  # key: (margin, current, temperature)
     fault_cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}

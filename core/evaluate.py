@@ -40,8 +40,8 @@ from .design import Design, design_from_project
 from .envelope import operating_envelope
 from .load_points import point_speeds
 from .loadings import armature_loadings
-from .magnet_load_fields import magnet_load_fields
 from .magnet_curve_figures import demagnetization_curves, normal_coercivity_at
+from .magnet_load_fields import magnet_load_fields
 from .magnets import (
     MagnetGrade,
     intrinsic_coercivity_at,

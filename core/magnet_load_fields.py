@@ -66,10 +66,8 @@ class MagnetLoadFields:
 
         Parameters
         ----------
-        case : int
-            The temperature case's index.
-        current : float
-            Armature current [A]: one of ``currents[case]``.
+        case, current
+            As :meth:`worst_at`.
         flux_per_pole : float
             The flux per pole at that current, from the smeared sheet (core.pole_load_table) [Wb].
 

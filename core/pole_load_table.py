@@ -14,7 +14,6 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .magnet_field_share import worst_share_field
 from .pole_magnetics import PoleState, pole_states
 
 #: Currents of each case's table of flux against current, from 0 to the largest current [1].
