@@ -9,7 +9,7 @@ import pytest
 
 from pmdc_sizer.app import magnet_marks
 from pmdc_sizer.app.datasheet import charts
-from pmdc_sizer.app.figures import LINES
+from pmdc_sizer.app.figures import LINES, figure
 from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.evaluate import evaluate
 from tests.conftest import DEMO_FILES, DEMO_FOLDER
@@ -63,10 +63,13 @@ def test_the_paper_marks_every_case_and_fault_at_its_worst_segment(drill):
 def test_the_key_names_the_faults_the_shifted_line_and_what_pc_is(drill):
     texts = [item.text for row in charts.magnet_legend(drill) for item in row]
     joined = " ".join(texts)
-    assert "Pc 2.26" in joined and "iron" in joined and "temperature" in joined
+    cold_pc = figure("magnet_chart_case.permeance_coefficient").text(
+        next(c for c in drill.magnet_chart if c.name == "cold").permeance_coefficient)
+    assert f"cold (magnet -10 °C, Pc {cold_pc})" in texts  # the cold curve's own Pc, from the results
+    assert "iron" in joined and "temperature" in joined
     assert magnet_marks.shifted_load_line(drill).title(short=True) in texts
     assert "F1" in joined and "supply applied directly" in joined and "worst 5 %" in joined
-    assert any(text == LINES["shifted_load_line"].key_text + ", case 4 (-92.0 kA/m)" for text in texts)
+    assert any(text == LINES["shifted_load_line"].key_text + ", case 4 (-131 kA/m)" for text in texts)
 
 
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
