@@ -13,7 +13,6 @@ from typing import Any
 
 import numpy as np
 
-from .armature_mmf import distinct_rotor_positions
 from .batch_arrays import (
     DesignsFailed,
     PriceArrays,
@@ -23,12 +22,11 @@ from .batch_arrays import (
     solve_groups,
     stack_geometries,
 )
+from .batch_magnets import magnet_cases_many
 from .design import Design
 from .errors import MagneticCircuitError
 from .load_points import points_met_many
-from .magnet_field_share import worst_share_field
 from .magnets import require_ambient_inside_model
-from .network_elements import branch_centres
 from .screening import FAIL_CODE, PASS_CODE, WARNING_CODE
 
 _CASE_NAMES = ("cold", "nominal", "hot")
@@ -285,58 +283,14 @@ def chain_figures(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[st
     # 9. Demagnetization: the worst share of the magnet's field at each case's current, against the knee.
     share = per(lambda d: d.required_margin_share)
 
-    # The magnet's field at the currents its cases are judged at (core.demagnetization.judged_currents: the
-    # stall and reversal currents and the drive's limit), with the current in its slots at every rotor
-    # position the network tells apart, the worst counting (core.magnet_load_fields).
-    labels = ("cold", "hot")
-    limited = ~np.isnan(current_limit)
-    limit_or_inf = np.where(limited, current_limit, np.inf)
-    judged_at = {}  # label: (stall, reversal) currents [A]
-    for label in labels:
-        model = models[label]
-        judged_at[label] = (as_float_array(stall_current(model)),
-                         as_float_array(plugging_current(model, points_of[label][0].speed)))
-    # per design: (cold, hot) × (stall, reversal, limit); a current that does not exist solved at 0 and masked
-    judged_currents = np.stack([np.where(np.isfinite(i), i, 0.0) for label in labels
-                                for i in (*judged_at[label], np.where(limited, current_limit, 0.0))], axis=1)
-    judged_temperatures = np.repeat(np.stack([case_magnet[label] for label in labels], axis=1), 3, axis=1)
-    positions = distinct_rotor_positions(branch_centres(g.magnet_arc * g.poles / (2.0 * np.pi),
-                                                        2.0 * np.pi / g.poles), g.slots)
-    count, turns = judged_currents.shape[1], positions.shape[1]
-    slotted = solve_groups(designs, groups, g, lots, turns * count,
-                           np.tile(judged_temperatures, turns), np.tile(judged_currents, turns),
-                           True, (conductors, paths), "the magnetic circuit under load (the magnets' cases)",
-                           np.repeat(positions, count, axis=1))
-    cells = slotted["cell_field"].reshape(n, positions.shape[1], count, -1)
-    cell_shares = slotted["cell_share"].reshape(n, positions.shape[1], count, -1)[:, 0]
-    worst_fields = np.min(worst_share_field(cells, cell_shares[:, None]), axis=1)  # (n, count)
-
-    def magnet_field(label: str, which: int) -> np.ndarray:
-        """The worst-area field at one judged current (0 stall, 1 reversal, 2 the limit) [A/m]."""
-        field: np.ndarray = worst_fields[:, 3 * labels.index(label) + which]
-        return field
-
-    cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}  # key: (margin, current, temperature)
-    fault_cases: dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
-    for label in labels:
-        temperature = case_magnet[label]
-        knee = knee_field_at(lots, temperature)
-        stall_i, reversal_i = judged_at[label]
-        stall_field, reversal_field, limit_field = (magnet_field(label, which) for which in range(3))
-        # the drive holds the current at its limit: the lesser of the two, as min() takes it in evaluate
-        drive_stall, drive_reversal = np.minimum(stall_i, limit_or_inf), np.minimum(reversal_i, limit_or_inf)
-        drive_stall_field = np.where(stall_i <= limit_or_inf, stall_field, limit_field)
-        drive_reversal_field = np.where(reversal_i <= limit_or_inf, reversal_field, limit_field)
-        nan = np.full(n, np.nan)
-        cases[f"stall_{label}"] = (drive_stall_field - knee, drive_stall, temperature)
-        cases[f"reversal_{label}"] = (np.where(reversing, drive_reversal_field - knee, nan),
-                                      np.where(reversing, drive_reversal, nan), temperature)
-        cases[f"current_limit_{label}"] = (np.where(limited, limit_field - knee, nan),
-                                           np.where(limited, current_limit, nan), temperature)
-        fault_cases[f"stall_{label}"] = (stall_field - knee, stall_i, temperature)
-        finite = np.isfinite(reversal_i)
-        fault_cases[f"reversal_{label}"] = (np.where(finite, reversal_field - knee, nan),
-                                            np.where(finite, reversal_i, nan), temperature)
+    # The magnet's field at exactly the currents its cases are judged at, with the current in its slots at
+    # every rotor position the network tells apart, the worst counting (core.magnet_load_fields).
+    judged_at = {label: (as_float_array(stall_current(models[label])),
+                         as_float_array(plugging_current(models[label], points_of[label][0].speed)))
+                 for label in ("cold", "hot")}
+    cases, fault_cases = magnet_cases_many(designs, groups, g, lots, (conductors, paths), judged_at,
+                                           {label: case_magnet[label] for label in ("cold", "hot")},
+                                           current_limit, reversing)
     for position, (label, ambient) in enumerate((("cold", ambient_min), ("hot", ambient_max))):
         knee = knee_field_at(lots, ambient)
         cases[f"rotor_removed_{label}"] = (rotor_out["worst_field"][:, position] - knee, np.zeros(n), ambient)
