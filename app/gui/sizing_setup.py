@@ -102,13 +102,17 @@ class FreeVariableTable(QTableWidget):
         self.steels: dict[str, list[str]] = {}  #: steel key → the steels ticked for it
         self.wire_boxes: tuple[QComboBox, QComboBox] | None = None
         self.steel_lists: dict[str, QListWidget] = {}
-        self.setHorizontalHeaderLabels(["Free", "Key", "Low", "High", "Allowed (unit)"])
+        self.setHorizontalHeaderLabels(["Free", "Quantity", "Low", "High", "Allowed (unit)"])
         header = self.horizontalHeader()
-        header.setSectionResizeMode(NAME, QHeaderView.ResizeMode.Stretch)
-        for column in (FREE, LOW, HIGH):
-            header.setSectionResizeMode(column, QHeaderView.ResizeMode.ResizeToContents)
-        header.setSectionResizeMode(LIMITS, QHeaderView.ResizeMode.Interactive)
-        header.resizeSection(LIMITS, 150)
+        # the quantity's name is never cut short (on a laptop the pane is narrow, and a stretched name
+        # column came out as "Magnet …"); the ranges get what a number needs, the limits what is left
+        header.setSectionResizeMode(FREE, QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(NAME, QHeaderView.ResizeMode.ResizeToContents)
+        number_width = self.fontMetrics().horizontalAdvance("00000.00") + 12
+        for column in (LOW, HIGH):
+            header.setSectionResizeMode(column, QHeaderView.ResizeMode.Fixed)
+            header.resizeSection(column, number_width)
+        header.setSectionResizeMode(LIMITS, QHeaderView.ResizeMode.Stretch)
         self.setWordWrap(False)
         self.verticalHeader().setVisible(False)
         self.setSelectionMode(QAbstractItemView.SelectionMode.NoSelection)
