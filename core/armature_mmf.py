@@ -189,13 +189,8 @@ def slot_enclosed_currents(elements: NetworkElements, current, poles: int, slots
     on_end = np.isclose(angles, end, rtol=0.0, atol=1e-9)
     weight = np.where(on_start | on_end, 0.5 * (on_start.astype(float) + on_end),
                       ((angles > start) & (angles < end)).astype(float))
-    weighted = weight * current_share(angles, poles, zone)
-    # summed slot by slot in a fixed order: a reduction along the last axis may be ordered differently for
-    # different batch sizes, and a design's answer must not depend on the batch it is solved in
-    shares = np.zeros(weighted.shape[:-1])
-    for slot in range(weighted.shape[-1]):
-        shares += weighted[..., slot]
-    return _scaled(shares / slots, None, conductors, current, paths)
+    shares = (weight * current_share(angles, poles, zone)).sum(axis=-1) / slots
+    return _scaled(shares, None, conductors, current, paths)
 
 
 def distinct_rotor_positions(centre_angle: np.ndarray, slots) -> np.ndarray:

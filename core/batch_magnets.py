@@ -9,7 +9,6 @@ import numpy as np
 
 from .armature_mmf import distinct_rotor_positions
 from .batch_arrays import solve_groups
-from .magnet_field_share import worst_share_field
 from .magnets import knee_field_at
 from .network_elements import branch_centres
 
@@ -66,9 +65,7 @@ def magnet_cases_many(designs, groups, geometry, lots, winding, judged: dict, ma
     slotted = solve_groups(designs, groups, g, lots, turns * count, np.tile(temperatures, turns),
                            np.tile(currents, turns), True, winding,
                            "the magnetic circuit under load (the magnets' cases)", np.repeat(positions, count, axis=1))
-    cells = slotted["cell_field"].reshape(n, turns, count, -1)
-    cell_shares = slotted["cell_share"].reshape(n, turns, count, -1)[:, 0]
-    worst = np.min(worst_share_field(cells, cell_shares[:, None]), axis=1)  # (n, count): the worst position
+    worst = slotted["worst_field"].reshape(n, turns, count).min(axis=1)  # (n, count): the worst position
 
     cases: dict[str, Case] = {}
     faults: dict[str, Case] = {}

@@ -14,12 +14,12 @@ between currents in a verdict.
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from .armature_mmf import distinct_rotor_positions
-from .magnet_field_share import worst_share_field
+from .pole_load_table import magnet_state_of
 from .pole_magnetics import PoleState, design_network, pole_states
 
 
@@ -57,7 +57,7 @@ class MagnetLoadFields:
         per_position = sum(len(c) for c in self.currents)
         first = sum(len(c) for c in self.currents[:case]) + solved.index(current)
         entries = first + per_position * np.arange(self.positions.size)
-        worst = worst_share_field(self.states.cell_field[entries], self.states.cell_share[entries])
+        worst = self.states.worst_field[entries]
         position = int(np.argmin(worst))
         return int(entries[position]), float(worst[position])
 
@@ -76,17 +76,8 @@ class MagnetLoadFields:
         MagnetState
             The worst-area field, its position, the share past the knee, the segments' fields.
         """
-        from .demagnetization import MagnetState
-
-        entry, worst = self.worst_at(case, current)
-        s = self.states
-        cells, share = s.cell_field[entry], s.cell_share[entry]
-        return MagnetState(
-            worst_field=worst, worst_angle=float(s.cell_angle[entry][int(np.argmin(cells))]),
-            past_knee_fraction=float(share[cells < s.knee_field[entry]].sum()), flux_per_pole=flux_per_pole,
-            segment_angle=s.segment_angle[entry], segment_field=s.segment_field[entry],
-            segment_share=s.segment_share[entry],
-        )
+        entry, _ = self.worst_at(case, current)
+        return replace(magnet_state_of(self.states, entry), flux_per_pole=flux_per_pole)
 
 
 def magnet_load_fields(design, temperatures_C: Sequence[float],
