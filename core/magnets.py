@@ -68,7 +68,18 @@ from .magnet_grades import (
     require_ambient_inside_model,
 )
 from .magnet_knee import KNEE_LOSS_FRACTION, knee_fraction_inverse, knee_shape, knee_shapes
+from .shared_docs import parameter_table, shared_parameters
 from .units import MU_0
+
+#: The arguments of the curve lookups, described once (:mod:`core.shared_docs`).
+CURVE_PARAMETERS = parameter_table("""
+grade : MagnetGrade
+    The grade.
+field_strength : float or ndarray
+    Field strength H in the magnet [A/m], negative in the second quadrant.
+temperature_C : float or ndarray
+    Magnet temperature [°C]; arrays broadcast with ``field_strength``.
+""")
 
 
 def knee_field_at(grade: MagnetGrade | GradeLots, temperature_C: float | np.ndarray):
@@ -144,13 +155,9 @@ class CurveAtTemperature:
         scale = self.amplitude / (expit((self.coercivity_hcj - self.centre) / self.width) - at_zero)
         return 1.0 / self.width, self.centre / self.width, scale, scale * at_zero
 
+    @shared_parameters(CURVE_PARAMETERS)
     def polarization(self, field_strength: float | np.ndarray):
         """Intrinsic curve J(H), floored at -Br far beyond -HcJ, where the model is no longer used.
-
-        Parameters
-        ----------
-        field_strength : float or ndarray
-            Field strength H in the magnet [A/m], negative in the second quadrant.
 
         Returns
         -------
@@ -166,13 +173,9 @@ class CurveAtTemperature:
         j = self.remanence + self.recoil_slope * field_strength - (scale * step - shift)
         return np.maximum(j, -self.remanence)
 
+    @shared_parameters(CURVE_PARAMETERS)
     def flux_density(self, field_strength: float | np.ndarray):
         """Normal curve B(H) = μ0·H + J(H).
-
-        Parameters
-        ----------
-        field_strength : float or ndarray
-            Field strength H in the magnet [A/m].
 
         Returns
         -------
@@ -261,21 +264,13 @@ def curve_at(grade: MagnetGrade | GradeLots, temperature_C: float | np.ndarray) 
                               shape.centre_ratio * hcj)
 
 
+@shared_parameters(CURVE_PARAMETERS)
 def polarization(grade: MagnetGrade, field_strength: float | np.ndarray,
                  temperature_C: float | np.ndarray):
     """Intrinsic curve J(H) of a grade at a temperature, for a single lookup.
 
     Many lookups at one temperature take :func:`curve_at` once and call its
     :meth:`CurveAtTemperature.polarization`, which this calls.
-
-    Parameters
-    ----------
-    grade : MagnetGrade
-        The grade.
-    field_strength : float or ndarray
-        Field strength H in the magnet [A/m].
-    temperature_C : float or ndarray
-        Magnet temperature [°C].
 
     Returns
     -------
@@ -289,19 +284,11 @@ def polarization(grade: MagnetGrade, field_strength: float | np.ndarray,
     return curve_at(grade, temperature_C).polarization(field_strength)
 
 
+@shared_parameters(CURVE_PARAMETERS)
 def flux_density(grade: MagnetGrade, field_strength: float | np.ndarray,
                  temperature_C: float | np.ndarray):
     """Normal curve B(H) = μ0·H + J(H) of a grade at a temperature; as :func:`polarization`, a
     single lookup through :meth:`CurveAtTemperature.flux_density`.
-
-    Parameters
-    ----------
-    grade : MagnetGrade
-        The grade.
-    field_strength : float or ndarray
-        H in the magnet [A/m], negative in the second quadrant.
-    temperature_C : float or ndarray
-        Its temperature [°C]; arrays broadcast with ``field_strength``.
 
     Returns
     -------

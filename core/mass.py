@@ -36,6 +36,7 @@ import numpy as np
 from .commutation import COMMUTATOR_PER_ARMATURE  # the commutator diameter the brush checks estimate
 from .conductors import COPPER_DENSITY
 from .geometry import Geometry
+from .shared_docs import parameter_table, shared_parameters
 
 if TYPE_CHECKING:
     from .design import Prices
@@ -54,6 +55,20 @@ BEARING_OUTER_PER_BORE, BEARING_WIDTH_PER_BORE, BEARING_FILL = 2.6, 0.8, 2.0 / 3
 BEARINGS = 2  #: one at each end [1]
 SHAFT_EXTENSION_PER_DIAMETER = 3.0  #: the shaft's run-out beyond the drive end over its diameter [1]
 
+
+
+#: The arguments the mass functions share, described once (:mod:`core.shared_docs`).
+MASS_PARAMETERS = parameter_table("""
+geometry : Geometry
+    The cross-section and lengths.
+housing_density : float
+    Density of the housing steel, of which the end caps are taken to be [kg/m³].
+commutator_diameter : float or ndarray, optional
+    The project's commutator diameter [m]; None (or NaN, per design of a batch) for 0.6 armature
+    diameters.
+parts : Masses
+    The masses of the parts [kg].
+""")
 
 @dataclass(frozen=True)
 class Masses:
@@ -89,6 +104,7 @@ class Masses:
         return self.total + self.other_parts
 
 
+@shared_parameters(MASS_PARAMETERS)
 def masses(geometry: Geometry, magnet_density: float, housing_density: float, lamination_density: float,
            wire_length: float | np.ndarray, copper_area: float | np.ndarray,
            commutator_diameter: float | np.ndarray | None = None) -> Masses:
@@ -96,16 +112,12 @@ def masses(geometry: Geometry, magnet_density: float, housing_density: float, la
 
     Parameters
     ----------
-    geometry : Geometry
-        The cross-section and lengths.
     magnet_density, housing_density, lamination_density : float
         Densities of the magnet grade, the housing steel and the lamination steel [kg/m³].
     wire_length : float or ndarray
         Total length of the winding wire [m].
     copper_area : float or ndarray
         Copper cross-section of the wire [m²].
-    commutator_diameter : float or ndarray, optional
-        The project's commutator diameter [m]; None for 0.6 armature diameters.
 
     Returns
     -------
@@ -131,6 +143,7 @@ def masses(geometry: Geometry, magnet_density: float, housing_density: float, la
     )
 
 
+@shared_parameters(MASS_PARAMETERS)
 def other_parts(geometry: Geometry, housing_density: float,
                 commutator_diameter: float | np.ndarray | None = None) -> dict[str, float | np.ndarray]:
     """An estimate of the parts outside the magnetic circuit, from the section's proportions.
@@ -138,16 +151,6 @@ def other_parts(geometry: Geometry, housing_density: float,
     Each part is a disc, cylinder or ring of plain geometry, sized by the named proportions of this
     module (its docstring lists them): end caps set into the tube's ends, brush gear as a share of a
     cap, a commutator on the shaft, two ball bearings of the shaft's bore, the shaft's drive-end run-out.
-
-    Parameters
-    ----------
-    geometry : Geometry
-        The cross-section and lengths.
-    housing_density : float
-        Density of the housing steel, of which the end caps are taken to be [kg/m³].
-    commutator_diameter : float or ndarray, optional
-        The project's commutator diameter [m]; None (or NaN, per design of a batch) for 0.6 armature
-        diameters.
 
     Returns
     -------
@@ -182,6 +185,7 @@ def other_parts(geometry: Geometry, housing_density: float,
     }
 
 
+@shared_parameters(MASS_PARAMETERS)
 def rotor_inertia(geometry: Geometry, parts: Masses, slot_copper_fraction: float | np.ndarray,
                   extra_inertia: float | np.ndarray):
     """Moment of inertia of the rotor about its axis.
@@ -192,10 +196,6 @@ def rotor_inertia(geometry: Geometry, parts: Masses, slot_copper_fraction: float
 
     Parameters
     ----------
-    geometry : Geometry
-        The cross-section.
-    parts : Masses
-        The masses of core, teeth, copper and shaft [kg].
     slot_copper_fraction : float or ndarray
         Share of the copper that lies in the slots, the rest in the end turns [1].
     extra_inertia : float or ndarray
@@ -235,13 +235,12 @@ class MaterialCost:
         return self.magnet + self.copper + self.housing + self.lamination
 
 
+@shared_parameters(MASS_PARAMETERS)
 def material_cost(parts: Masses, prices: Prices) -> MaterialCost:
     """Cost of the active materials from prices per kilogram.
 
     Parameters
     ----------
-    parts : Masses
-        The masses [kg].
     prices : Prices
         Prices of magnet, copper, housing steel and lamination [currency/kg].
 

@@ -50,7 +50,7 @@ from .motor_model import (  # noqa: F401 (re-exported: the callers import them f
     stall_current,
     stall_torque,
 )
-from .shared_docs import shared_parameters
+from .shared_docs import parameter_table, shared_parameters
 
 
 @dataclass(frozen=True)
@@ -374,6 +374,14 @@ def limit_torque(model: MotorModel, current_limit):
     return np.where(np.isnan(limit) | (limit >= stall_current(model)), np.nan, torque)
 
 
+#: The resistance both time constants divide or multiply by, described once (:mod:`core.shared_docs`).
+TIME_CONSTANT_PARAMETERS = parameter_table("""
+resistance : float
+    Terminal resistance R [Ω], at the temperature the constant is quoted for.
+""")
+
+
+@shared_parameters(TIME_CONSTANT_PARAMETERS)
 def mechanical_time_constant(inertia: float, resistance: float, constant: float) -> float:
     """Mechanical time constant τm = J·R/K² [s].
 
@@ -381,8 +389,6 @@ def mechanical_time_constant(inertia: float, resistance: float, constant: float)
     ----------
     inertia : float
         Rotor inertia J [kg·m²].
-    resistance : float
-        Terminal resistance R [Ω].
     constant : float
         Ke = Kt [V·s/rad].
 
@@ -399,15 +405,14 @@ def mechanical_time_constant(inertia: float, resistance: float, constant: float)
     return inertia * resistance / constant**2
 
 
+@shared_parameters(TIME_CONSTANT_PARAMETERS)
 def electrical_time_constant(inductance: float, resistance: float) -> float:
     """Electrical time constant τe = L/R [s].
 
     Parameters
     ----------
     inductance : float
-        Armature inductance [H].
-    resistance : float
-        Terminal resistance [Ω].
+        Armature inductance L [H].
 
     Returns
     -------
