@@ -15,7 +15,7 @@ from pmdc_sizer.core.keys import key_spec
 from pmdc_sizer.core.refit import TARGETS, Refit
 from pmdc_sizer.core.units import from_si, to_si
 
-from .figures import COMPARE_KEYS, STATUSES, figure, shown_value, title_of, unit_for
+from .figures import COMPARE_KEYS, STATUSES, figure, shown_value, title_of, unit_for, units_of_design
 from .formatting import check_sentence, significant, unit_label
 from .refit_text import refit_message, refit_notes
 
@@ -107,7 +107,8 @@ def check_lines(results, unit_of: UnitOf = _same_unit) -> list[str]:
     passed = sum(1 for c in results.checks if c.status == "pass")
     if not open_checks:
         return [f"all {passed} checks pass"]
-    return ([f"{STATUSES[c.status].tag:<4}  {check_sentence(c, unit_of)}" for c in open_checks]
+    shown_in = units_of_design(results, unit_of)
+    return ([f"{STATUSES[c.status].tag:<4}  {check_sentence(c, shown_in)}" for c in open_checks]
             + [f"({passed} other checks pass)"])
 
 

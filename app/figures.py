@@ -23,6 +23,7 @@ colour-blind readers. No Qt here: the charts turn the names of shapes and dashes
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from pmdc_sizer.core.units import factor, from_si, known_units
@@ -334,10 +335,22 @@ def torque_unit(results) -> str:
 
 def unit_for(key: str, results) -> str:
     """The unit ``key`` is shown in for this design: torques follow :func:`torque_unit`."""
-    unit = figure(key).unit
+    return design_unit(figure(key).unit, results)
+
+
+def design_unit(unit: str, results) -> str:
+    """``unit`` as this design's figures are shown in it: a torque in :func:`torque_unit`, the rest as given."""
     if "mN·m" in unit and unit != "mN·m/A":
         return unit.replace("mN·m", torque_unit(results))
     return unit
+
+
+def units_of_design(results, view_unit: Callable[[str], str]) -> Callable[[str], str]:
+    """The unit a view shows a quoted figure of ``results`` in (a check's torque as the key figures' torque).
+
+    ``view_unit`` maps an SI unit to the view's own (the screen's or the paper's unit system).
+    """
+    return lambda unit: view_unit(design_unit(unit, results))
 
 
 #: The comparison's rows, in order: what an engineer reads first when choosing between two designs.

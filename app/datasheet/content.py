@@ -14,7 +14,16 @@ from pmdc_sizer.core.magnets import KNEE_LOSS_FRACTION
 from pmdc_sizer.core.project import Project
 from pmdc_sizer.core.results import Results
 
-from ..figures import DEMAGNETIZATION_STATES, LABELS, STATUSES, figure, text_of, unit_for, value_of
+from ..figures import (
+    DEMAGNETIZATION_STATES,
+    LABELS,
+    STATUSES,
+    figure,
+    text_of,
+    unit_for,
+    units_of_design,
+    value_of,
+)
 from ..formatting import check_message, unit_label
 from ..magnet_marks import fault_labels
 from ..safety import caution_sentences
@@ -145,6 +154,11 @@ def _number_shown(source, key: str, results: Results) -> str:
     return figure(key).number(value_of(source, key), paper_unit(unit_for(key, results)))
 
 
+def _shown_with_unit(source, key: str, results: Results) -> str:
+    """The figure with its unit, in the sheet's units, for a sentence."""
+    return text_of(source, key, paper_unit(unit_for(key, results)))
+
+
 def _header_with_unit(key: str, results: Results) -> str:
     return figure(key).label(paper_unit(unit_for(key, results)))
 
@@ -252,7 +266,7 @@ def magnet_tables(results: Results, internal: bool = True) -> tuple[Table, Table
     ]
     chart = r.magnet_chart
     point_rows = tuple(
-        _per_case(figure(key).label(), (figure(key).number(value_of(c, key)) for c in chart))
+        _per_case(_header_with_unit(key, r), (_number_shown(c, key, r) for c in chart))
         for key in ("magnet_chart_case.curves.temperature_C", "magnet_chart_case.operating_flux_density_T",
                     "magnet_chart_case.operating_field_A_per_m", "magnet_chart_case.permeance_coefficient",
                     "magnet_chart_case.curves.knee_field")
@@ -269,6 +283,16 @@ DEMAGNETIZATION_KEYS = tuple(f"demagnetization_case.{name}" for name in (
     "temperature_C", "current_A", "magnet_field_A_per_m", "knee_field_A_per_m", "margin_A_per_m"))
 
 
+def _case_table_widths(cases) -> tuple[int, ...]:
+    """The columns of a table of demagnetization cases: number, case, five figures and the state.
+
+    Each is wide enough for its heading's longest word; the state takes room from the case names only
+    when a case reads "PAST THE KNEE", so that long case names stay on one line where it does not.
+    """
+    state = 14 if any(not case.ok for case in cases) else 10
+    return (4, 36 - state, 15, 9, 12, 11, 13, state)
+
+
 def demagnetization_table(results: Results) -> Table:
     dm = results.demagnetization
     labels = demagnetization_point_labels(results)
@@ -280,7 +304,7 @@ def demagnetization_table(results: Results) -> Table:
     header = ("No.", LABELS["demagnetization_case.name"],
               *(_header_with_unit(key, results) for key in DEMAGNETIZATION_KEYS), LABELS["demagnetization_case.status"])
     return Table(header, tuple(rows),
-                 widths=(4, 26, 15, 9, 12, 11, 13, 10), numeric_from=2, numeric_until=7, key="demagnetization",
+                 widths=_case_table_widths(dm.cases), numeric_from=2, numeric_until=7, key="demagnetization",
                  caption=f"{figure(DEMAGNETIZATION_KEYS[2]).title}: the mean field over the magnet's worst spot, the "
                          "5 % of its area under the strongest demagnetizing field, wherever along the arc it lies. "
                          "The margin is that field minus the knee field; positive is safe. The knee is where the "
@@ -306,20 +330,26 @@ def fault_table(results: Results) -> Table | None:
     faults = results.faults
     if faults is None:
         return None
-    keys = (*DEMAGNETIZATION_KEYS, "demagnetization_case.required_margin_A_per_m")
-    rows = tuple(Row((label, case.name, *(_number_shown(case, key, results) for key in keys), _state_word(case)),
-                     _state_kind(case, faults.worst_case))
+    rows = tuple(Row((label, case.name, *(_number_shown(case, key, results) for key in DEMAGNETIZATION_KEYS),
+                      _state_word(case)), _state_kind(case, faults.worst_case))
                  for label, case in zip(fault_labels(results), faults.cases, strict=True))
     must = ("The project requires the magnets to survive these." if faults.must_survive
             else "The project reports these without requiring them to pass (supply.fault_cases).")
-    return Table(("No.", LABELS["demagnetization_case.name"], *(_header_with_unit(key, results) for key in keys),
+    # The required margin follows HcJ, so it is one figure per magnet temperature: said once in the caption
+    # rather than as a ninth column, which squeezed the verdict words ("PAST THE KNEE") against the figures.
+    required = {_shown_with_unit(case, "demagnetization_case.temperature_C", results):
+                _shown_with_unit(case, "demagnetization_case.required_margin_A_per_m", results)
+                for case in faults.cases}
+    required_text = ", ".join(f"{margin} at {temperature}" for temperature, margin in required.items())
+    return Table(("No.", LABELS["demagnetization_case.name"],
+                  *(_header_with_unit(key, results) for key in DEMAGNETIZATION_KEYS),
                   LABELS["demagnetization_case.status"]), rows,
-                 widths=(4, 14, 13, 9, 11, 10, 11, 12, 16), numeric_from=2, numeric_until=8, key="faults",
+                 widths=_case_table_widths(faults.cases), numeric_from=2, numeric_until=7, key="faults",
                  caption="Faults: stall and reversal at no-load speed with the supply applied directly, as when a "
                          f"drive fails or a battery is connected without it. {must} Safe: at least the required "
-                         f"margin, {results.demagnetization.required_margin_share:.0%} of HcJ, on every "
-                         "demagnetization case; marginal: above the knee by less. The numbers F1, F2, ... mark "
-                         "the faults on the magnet chart. "
+                         f"margin, {results.demagnetization.required_margin_share:.0%} of HcJ at the magnet's "
+                         f"temperature ({required_text}), on every demagnetization case; marginal: above the knee "
+                         "by less. The numbers F1, F2, ... mark the faults on the magnet chart. "
                          f"{figure(DEMAGNETIZATION_KEYS[2]).title} and margin as in the table of cases.")
 
 
@@ -450,10 +480,11 @@ def build_tables(results: Results, internal: bool = True) -> tuple[Table, Table,
 
 def checks_table(results: Results, internal: bool = True) -> Table:
     """Every design check (internal edition), or the verdicts a customer reads: load, start, demagnetization, heat."""
+    unit_of = units_of_design(results, paper_unit)
     rows = tuple(
         Row((STATUSES[c.status].word, c.title,
-             check_message(c, paper_unit) + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice and internal
-                                             else "")), c.status)
+             check_message(c, unit_of) + (f" {c.advice[0].upper() + c.advice[1:]}." if c.advice and internal
+                                          else "")), c.status)
         for c in results.checks if internal or c.key in CUSTOMER_CHECKS
     )
     return Table(("Status", "Check", "Finding"), rows, widths=(10, 19, 71), numeric_from=99, key="checks")

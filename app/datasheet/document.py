@@ -214,6 +214,15 @@ def _gap(table: Table, column: int, px_per_mm: float, nowrap: bool = False) -> s
     return f' style="{"; ".join(styles)};"' if styles else ""
 
 
+def _header_text(header: str) -> str:
+    """A column heading whose words wrap but whose unit ("[kA/m]") stays whole on one line."""
+    name, bracket, unit = header.rpartition(" [")
+    if not bracket:
+        return _e(header)
+    # Qt's rich text ignores white-space on a span; a word joiner after each solidus forbids the break there.
+    return f"{_e(name)} [{_e(unit).replace('/', '/' + chr(0x2060))}"
+
+
 def _qt_table(table: Table, px_per_mm: float) -> str:
     columns = len(table.header)
     widths = table.widths or (1,) * columns
@@ -230,7 +239,7 @@ def _qt_table(table: Table, px_per_mm: float) -> str:
         out.append("<thead><tr>" + "".join(
             f'<th width="{100 * w / total:.0f}%" bgcolor="{ACCENT}" '
             f'align="{"right" if table.is_numeric(i) else "left"}"{_gap(table, i, px_per_mm)}>'
-            f'<span style="color: white; font-weight: 600;">{_e(h)}</span></th>'
+            f'<span style="color: white; font-weight: 600;">{_header_text(h)}</span></th>'
             for i, (h, w) in enumerate(zip(table.header, widths, strict=False))) + "</tr></thead>")
     shade = False
     for index, row in enumerate(table.rows):

@@ -36,7 +36,7 @@ from PySide6.QtWidgets import (
 )
 
 from pmdc_sizer.app.compare_text import figure_rows, refit_lines
-from pmdc_sizer.app.figures import POINTS, SIDES, STATUSES, figure, text_of, torque_unit
+from pmdc_sizer.app.figures import POINTS, SIDES, STATUSES, figure, text_of, torque_unit, units_of_design
 from pmdc_sizer.app.formatting import check_sentence, unit_label
 from pmdc_sizer.app.refit_text import parameter_shown, parameter_title, refit_message, target_title
 from pmdc_sizer.core import difference, library, refit
@@ -603,7 +603,8 @@ class CompareView(QWidget):
                     status = STATUSES[check.status]
                     cell = QTableWidgetItem(f"{status.mark} {status.word}")
                     cell.setForeground(QBrush(QColor(status.colour)))
-                    cell.setToolTip(check_sentence(check, self.display.screen_unit))
+                    results = self.results_a if column == 1 else self.results_b
+                    cell.setToolTip(check_sentence(check, units_of_design(results, self.display.screen_unit)))
                 self.checks_table.setItem(index, column, cell)
         self.checks_table.setToolTip("Point at a result to read the reason and what to change.")
         # No taller than its rows; the splitter gives it less on a small screen and it scrolls.

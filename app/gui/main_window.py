@@ -385,7 +385,7 @@ class MainWindow(QMainWindow):
         self.magnet_chart.show_results(results)
         self.performance_chart.show_results(results)
         self.results_panel.show_results(results)
-        self.checks_panel.show_checks(results.checks)
+        self.checks_panel.show_checks(results)
         # Listeners (other pages, exports) hear of the results after this paint, so the charts the
         # user is looking at never wait for them.
         self._results_to_announce.append((project, results))

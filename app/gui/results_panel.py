@@ -20,7 +20,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from pmdc_sizer.app.figures import LABELS, STATUSES, figure, unit_for, value_of
+from pmdc_sizer.app.figures import LABELS, STATUSES, figure, unit_for, units_of_design, value_of
 from pmdc_sizer.app.formatting import check_message
 from pmdc_sizer.app.thermal_text import NEVER_REACHED, NO_STALL, no_continuous_rating, stall_time_reason
 
@@ -335,7 +335,10 @@ class ChecksPanel(QTextBrowser):
         self.statuses: dict[str, str] = {}
         self.shown: list[str] = []  #: check keys in the order shown
 
-    def show_checks(self, checks) -> None:
+    def show_checks(self, results) -> None:
+        """Every check of ``results``, worst first; quoted figures in the display units and the design's torque unit."""
+        checks = results.checks
+        unit_of = units_of_design(results, self.display.screen_unit)
         ordered = sorted(checks, key=lambda c: self.ORDER.get(c.status, 3))
         self.statuses = {c.key: c.status for c in checks}
         self.shown = [c.key for c in ordered]
@@ -349,7 +352,7 @@ class ChecksPanel(QTextBrowser):
                 f"<p style='margin-top:0; margin-bottom:6px'>"
                 f"<span style='color:{status.colour}; font-weight:bold'>{status.mark} {status.word}</span>"
                 f"&nbsp; <b>{check.title}</b><br>"
-                f"{check_message(check, self.display.screen_unit)}{advice}</p>")
+                f"{check_message(check, unit_of)}{advice}</p>")
         scroll = self.verticalScrollBar().value()
         self.setHtml("".join(entries))
         self.verticalScrollBar().setValue(scroll)

@@ -10,7 +10,7 @@ from pmdc_sizer.app.compare_text import figure_rows, refit_lines
 from pmdc_sizer.app.datasheet import content
 from pmdc_sizer.app.datasheet.options import SheetOptions
 from pmdc_sizer.app.figures import COMPARE_KEYS, figure, text_of, title_of, unit_for
-from pmdc_sizer.app.formatting import check_message, check_sentence, quoted_in, significant_figures
+from pmdc_sizer.app.formatting import check_message, check_sentence, quoted_in, significant, significant_figures
 from pmdc_sizer.core import difference, evaluate, project, refit
 from pmdc_sizer.core.results import Check, QuotedValue
 from pmdc_sizer.core.units import US_CUSTOMARY, from_si
@@ -149,3 +149,44 @@ def test_ke_is_shown_in_one_unit_everywhere(ferrite):
     texts = datasheet.html_text(design, results, options=SheetOptions(edition="internal"))
     assert "V/krpm" in texts and "V·s/rad" not in texts
     assert "V·s/rad" not in summary_text(results)
+
+
+@pytest.fixture(scope="module")
+def drill():
+    design = project.load(next(p for p in DEMO_FILES if "power_tool" in p.stem))
+    return design, evaluate(design)
+
+
+@pytest.mark.parametrize("system, torque", [("SI", "N·m"), ("US customary", "lbf·in")])
+def test_check_texts_quote_torque_in_the_sheets_torque_unit(drill, system, torque):
+    # The drill's torques read in N·m on its sheet (stall beyond 10 N·m): its rated-load verdict must not say
+    # "300 mN·m" (or "42.5 oz·in") beside a rated torque of "0.300 N·m" (or "2.66 lbf·in").
+    design, results = drill
+    assert unit_for("case.stall_torque_N_m", results) == "N·m"
+    sheet = content.build(design, results, options=SheetOptions(units=system, edition="internal"))
+    texts = [row.cells[2] for row in sheet.section("checks").blocks[0].rows]
+    quoting_torque = [t for t in texts if re.search(r"\d (mN·m|N·m|oz·in|lbf·in)\b", t)]
+    assert quoting_torque
+    for text in quoting_torque:
+        assert re.search(rf"\d {re.escape(torque)}\b", text), text
+        assert not re.search(r"\d (mN·m|oz·in)\b", text), text
+
+
+def test_operating_point_table_prints_in_the_sheets_units(ferrite):
+    design, results = ferrite
+    sheet = content.build(design, results, options=SheetOptions(units="US customary"))
+    tables = [b for s in sheet.sections for b in _blocks(s) if getattr(b, "key", "") == "operating_point"]
+    assert len(tables) == 1
+    titles = [row.cells[0] for row in tables[0].rows]
+    assert any("[°F]" in t for t in titles) and not any("°C" in t for t in titles), titles
+    temperatures = next(row.cells[1:] for row in tables[0].rows if "[°F]" in row.cells[0])
+    cold = results.magnet_chart[0].curves.temperature_C
+    assert temperatures[0] == significant(cold * 9 / 5 + 32, figure("magnet_chart_case.curves.temperature_C").digits) \
+        or float(temperatures[0]) == pytest.approx(cold * 9 / 5 + 32, abs=0.5)
+
+
+def _blocks(section):
+    for block in section.blocks:
+        yield block
+        for side in (getattr(block, "left", ()), getattr(block, "right", ())):
+            yield from side

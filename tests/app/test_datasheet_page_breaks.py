@@ -59,3 +59,35 @@ def test_no_heading_ends_a_page_and_no_short_table_splits(evaluated, edition):
         block = block.next()
     assert not faults, "\n".join(faults)
     assert paged.page_count <= (6 if edition == "customer" else 7)
+
+
+def _broken_words(block) -> list[str]:
+    """The places where the block's laid-out lines break inside a word (no space or hyphen at the break)."""
+    text, layout = block.text(), block.layout()
+    broken = []
+    for index in range(layout.lineCount() - 1):
+        end = layout.lineAt(index).textStart() + layout.lineAt(index).textLength()
+        before, after = text[end - 1:end], text[end:end + 1]
+        if before.strip() and after.strip() and before not in "-/,":
+            broken.append(f"{text[:end]}|{text[end:]}")
+    return broken
+
+
+@pytest.mark.parametrize("edition", ["customer", "internal"])
+def test_no_table_heading_breaks_a_word_or_its_unit(evaluated, edition):
+    # A heading is read at a glance: "temperatur|e" or "[kA/|m]" is a layout fault (both were printed once).
+    paged = _pages(evaluated, edition)
+    document = paged.document
+    faults = []
+    block = document.begin()
+    while block.isValid():
+        if QTextCursor(block).currentTable() is not None:
+            faults.extend(_broken_words(block))
+            if "[" in block.text() and "/" in block.text() and block.layout().lineCount() > 1:
+                unit = block.text()[block.text().rindex("["):]
+                lines = [block.text()[block.layout().lineAt(i).textStart():][:block.layout().lineAt(i).textLength()]
+                         for i in range(block.layout().lineCount())]
+                if not any(unit.replace("\u2060", "") in line.replace("\u2060", "") for line in lines):
+                    faults.append(f"unit {unit!r} split in {block.text()!r}")
+        block = block.next()
+    assert not faults, "\n".join(faults)
