@@ -590,8 +590,6 @@ def _build(project: Project, results: Results, issued: _dt.date | None, appendix
         Section("thermal_chart", "Temperatures over the duty", (
             Chart("thermal", thermal_caption(r)),
         )),
-        *((Section("tolerance", "Production spread", (tolerance_table(r, tolerance),)),) if tolerance is not None
-          else ()),
         Section("magnet", "Magnet and demagnetization", (
             Chart("magnet", "The grade's second quadrant at the three magnet temperatures: load lines, no-load "
                             "points, knees and the cases, numbered as in the table."),
@@ -611,7 +609,12 @@ def _build(project: Project, results: Results, issued: _dt.date | None, appendix
                   key="terminal_markings"),
             Paragraph(ROTATION_CONVENTION, "note"),
         )),
-        Section("checks", "Design checks" if internal else "Verdicts", (checks_table(r, internal),), new_page=True),
+        # How the built motors spread heads the page of verdicts: a short table that, after the temperatures or
+        # the construction, took a page of its own wherever those pages were full.
+        *((Section("tolerance", "Production spread", (tolerance_table(r, tolerance),), new_page=True),)
+          if tolerance is not None else ()),
+        Section("checks", "Design checks" if internal else "Verdicts", (checks_table(r, internal),),
+                new_page=tolerance is None),
         *((Section("faults", "Demagnetization with the supply applied directly", (fault_table(r),)),)
           if r.faults is not None else ()),
     ]

@@ -104,8 +104,21 @@ def test_text_output_is_a_table_with_units(capsys):
     assert "mass [g]: Active mass: magnets, copper, steel" in out
 
 
-def test_an_impossible_requirement_exits_1_with_the_explanation(capsys):
-    status, out, err = run(capsys, *SEARCH, "--set", "load.torque_mNm=350", "--json")
+@pytest.fixture(scope="module")
+def impossible():
+    """The search with ten times the rated torque, as text and as JSON: (status, out, err) of each, run once."""
+    runs = {}
+    for form in ("text", "json"):
+        out, err = io.StringIO(), io.StringIO()
+        with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+            status = main([str(a) for a in (*SEARCH, "--set", "load.torque_mNm=350",
+                                            *(("--json",) if form == "json" else ()))])
+        runs[form] = (status, out.getvalue(), err.getvalue())
+    return runs
+
+
+def test_an_impossible_requirement_exits_1_with_the_explanation(impossible):
+    status, out, err = impossible["json"]
     assert status == 1
     data = json.loads(out)
     assert data["designs"] == [] and data["feasible_count"] == 0
@@ -113,19 +126,18 @@ def test_an_impossible_requirement_exits_1_with_the_explanation(capsys):
     assert "Re-evaluated with the requirement relaxed" in data["explanation"]
     assert any(s["requirement"] == "load" for s in data["shortfalls"])
     assert err.startswith("pmdc-sizer: no feasible design: ")
-    status, out, _ = run(capsys, *SEARCH, "--set", "load.torque_mNm=350")
+    status, out, _ = impossible["text"]
     assert status == 1 and "No feasible design." in out
 
 
-def test_the_explanation_names_fields_by_label_with_the_typed_key_once(capsys):
-    status, out, _ = run(capsys, *SEARCH, "--set", "load.torque_mNm=350")
+def test_the_explanation_names_fields_by_label_with_the_typed_key_once(impossible):
+    status, out, _ = impossible["text"]
     assert status == 1
     explanation = " ".join(out.split("No feasible design.", 1)[1].split())  # the wrapped paragraph, one line
     assert "magnet thickness (magnets.thickness_mm) " in explanation
     assert explanation.count("magnets.thickness_mm") == 1 and explanation.count("winding.turns_per_coil") == 1
     assert "magnets.thickness_mm =" not in explanation and "turns per coil" in explanation
-    status, out, _ = run(capsys, *SEARCH, "--set", "load.torque_mNm=350", "--json")
-    data = json.loads(out)
+    data = json.loads(impossible["json"][1])
     assert "magnet thickness (magnets.thickness_mm) " in data["explanation"]
 
 

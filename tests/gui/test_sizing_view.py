@@ -150,6 +150,8 @@ def test_when_nothing_is_feasible_the_page_says_why_in_words(page, qtbot):
     _, view = page
     view.free_table.set_free("magnets.thickness_mm", True, 0.5, 0.6)  # far too thin for any ferrite stack
     view.free_table.set_free("armature.stack_length_mm", True, 3.0, 4.0)
+    view.candidates_box.setValue(64)  # nothing in this box passes: a small sample and no refinement show it
+    view.generations_box.setValue(0)
     result = _run(qtbot, view)
     assert result.feasible_count == 0 and not result.designs and result.explanation
     text = view.summary.text()
