@@ -7,11 +7,12 @@ three significant figures (two for estimates), never more.
 from __future__ import annotations
 
 import math
+import re
 from collections.abc import Callable
 
 from pmdc_sizer.core.checks import quoted_text
 from pmdc_sizer.core.results import Check, QuotedValue
-from pmdc_sizer.core.units import factor, from_si
+from pmdc_sizer.core.units import convert, factor, from_si, known_units
 
 
 def significant(value: float, digits: int = 3) -> str:
@@ -104,3 +105,30 @@ def check_message(check: Check, unit_of: Callable[[str], str]) -> str:
 def check_sentence(check: Check, unit_of: Callable[[str], str]) -> str:
     """Title, message in the view's units and advice as one line."""
     return check.sentence_with(check_message(check, unit_of))
+
+
+def in_view_units(text: str, unit_of: Callable[[str], str]) -> str:
+    """Free text with every "number unit" it quotes in the view's units ("9.6 mm" → "0.378 in").
+
+    For sentences composed from many parts (a sizing search's explanation, its shortfalls), where a check's
+    template of quoted values (:func:`check_message`) does not reach. A temperature keeps its decimals (whole
+    degrees stay whole); anything else the significant figures it was written with, at least three, so that a
+    range end written "8 mm" reads "0.315 in". Units the view leaves alone, and numbers without a unit, stay
+    as written.
+    """
+    changed = sorted((u for u in known_units() if unit_of(u) != u), key=len, reverse=True)
+    if not changed:
+        return text
+    pattern = re.compile(r"(?<![\w.])(-?\d+(?:\.\d+)?) (" + "|".join(map(re.escape, changed)) + r")(?![\w·/²])")
+
+    def shown(match: re.Match[str]) -> str:
+        number, unit = match.group(1), match.group(2)
+        target = unit_of(unit)
+        value = convert(float(number), unit, target)
+        if unit in ("°C", "°F"):
+            written = f"{value:.{len(number.partition('.')[2])}f}"
+        else:
+            written = significant(value, max(significant_figures(number), 3))
+        return f"{written} {unit_label(target)}"
+
+    return pattern.sub(shown, text)

@@ -54,10 +54,19 @@ def value_text(key: str, value: object) -> str:
     str
         Four significant figures for a number; a choice as it is written.
     """
-    unit = key_spec(key).unit
     if isinstance(value, str):
         return f"{key} = {value}"
-    return f"{key} = {value:.4g}" + (f" {unit}" if unit and unit != "1" else "")
+    return f"{key} = {value:.4g}" + _unit_after(key)
+
+
+def _with_unit(key: str, value: float) -> str:
+    """A range end as the user typed it, with the key's file unit: "8 mm"."""
+    return f"{value:g}{_unit_after(key)}"
+
+
+def _unit_after(key: str) -> str:
+    unit = key_spec(key).unit
+    return f" {unit}" if unit and unit != "1" else ""
 
 
 def _pressed_end(variable: FreeRange, value: object) -> float | None:
@@ -96,8 +105,9 @@ def binding_ranges(free: Sequence[FreeRange], values: Mapping[str, object]) -> l
     for variable in free:
         pressed = _pressed_end(variable, values[variable.key])
         if pressed is not None:
+            end = variable.low if pressed < 0 else variable.high
             out.append(f"{variable.key} at the {'low' if pressed < 0 else 'high'} end of its range "
-                       f"({variable.low if pressed < 0 else variable.high:g})")
+                       f"({_with_unit(variable.key, end)})")
     return out
 
 
@@ -204,7 +214,7 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
             continue
         candidate, envelope = labels[int(passing[0])]
         shown = value_text(variable.key, candidate)
-        sentence = f"with {shown} (beyond the range's {end:g}) it passes every check"
+        sentence = f"with {shown} (beyond the range's {_with_unit(variable.key, end)}) it passes every check"
         if envelope:
             design = built[int(passing[0])]
             needed = (2.0 * float(design.geometry.housing_outer_radius) if envelope.endswith("diameter_mm")

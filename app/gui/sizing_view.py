@@ -51,6 +51,7 @@ from ..figures import (
     SIZING_COLOUR_STOPS,
     SIZING_PLAIN_COLOUR,
 )
+from ..formatting import in_view_units
 from .background_job import CANCELLED, JobPage
 from .pages import PAGE_TITLES
 from .sizing_quantities import OBJECTIVE, VALUE, Quantity, choice_columns, choice_of, quantities
@@ -141,6 +142,7 @@ class SizingView(JobPage):
         self._requirement = None  #: what the shown result was sized for (the base without its free keys)
         self._quantities: list[Quantity] = []
         self._picked = None  #: ("design", index) of result.designs, or ("feasible", index)
+        self._shown_in = self.display.system  #: the display units the shown result is drawn in
         self._start_job("the sizing search", SizingCancelled,
                         (ProjectError, MagneticCircuitError, ValueError, ArithmeticError), None,
                         lambda key: False, self.run, "Run search",
@@ -293,6 +295,8 @@ class SizingView(JobPage):
         self.free_table.set_project(project)
         self.grade_list.set_project(project)
         if self.result is not None and not self.job.busy:
+            if self._shown_in != self.display.system:  # the display units changed: the same result, redrawn
+                self._present()
             self._show_freshness()
 
     def _key(self):
@@ -366,15 +370,20 @@ class SizingView(JobPage):
     def _on_done(self, key, result) -> None:
         self.result, self.base, self._requirement = result, self._running_base, key[0]
         self._picked = None
+        self._present()
+        self._show_freshness()
+        self.finished.emit(result)
+
+    def _present(self) -> None:
+        """The result's quantities, axes, summary, table and scatter, in the display units of the moment."""
         units = {k.key: k.unit for k in self.free_table.keys}
         currency = self.results.cost.currency if self.results is not None else "EUR"
-        self._quantities = quantities(result, units, self.display, self.results, currency)
+        self._quantities = quantities(self.result, units, self.display, self.results, currency)
+        self._shown_in = self.display.system
         self._fill_combos()
         self._show_summary()
         self._fill_table()
         self._draw()
-        self._show_freshness()
-        self.finished.emit(result)
 
     # ------------------------------------------------------------------ showing
     def _fill_combos(self) -> None:
@@ -399,12 +408,15 @@ class SizingView(JobPage):
         r = self.result
         if not r.designs:
             said = {r.explanation.strip()}
-            shortfalls = "".join(f"<li>{html.escape(worded_keys(s.text))}</li>" for s in r.shortfalls
-                                 if s.text.strip() not in said)
+
+            def shown(text: str) -> str:  # labels for keys, and the quoted figures in the display units
+                return html.escape(in_view_units(worded_keys(text), self.display.screen_unit))
+
+            shortfalls = "".join(f"<li>{shown(s.text)}</li>" for s in r.shortfalls if s.text.strip() not in said)
             self.summary.setText(
                 f"<b style='color:{FAIL_COLOUR}'>No design inside the ranges meets the requirement</b> "
                 f"({r.candidates_evaluated:,} designs evaluated, {r.seconds:.1f} s, seed {r.seed}). "
-                f"{html.escape(worded_keys(r.explanation))}" + (f"<ul>{shortfalls}</ul>" if shortfalls else ""))
+                f"{shown(r.explanation)}" + (f"<ul>{shortfalls}</ul>" if shortfalls else ""))
             return
         share = 100 * r.feasible_count / max(r.candidates_evaluated, 1)
         front = sum(d.pareto for d in r.designs)

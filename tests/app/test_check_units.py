@@ -10,7 +10,14 @@ from pmdc_sizer.app.compare_text import figure_rows, refit_lines
 from pmdc_sizer.app.datasheet import content
 from pmdc_sizer.app.datasheet.options import SheetOptions
 from pmdc_sizer.app.figures import COMPARE_KEYS, figure, text_of, title_of, unit_for
-from pmdc_sizer.app.formatting import check_message, check_sentence, quoted_in, significant, significant_figures
+from pmdc_sizer.app.formatting import (
+    check_message,
+    check_sentence,
+    in_view_units,
+    quoted_in,
+    significant,
+    significant_figures,
+)
 from pmdc_sizer.core import difference, evaluate, project, refit
 from pmdc_sizer.core.results import Check, QuotedValue
 from pmdc_sizer.core.units import US_CUSTOMARY, from_si
@@ -190,3 +197,14 @@ def _blocks(section):
         yield block
         for side in (getattr(block, "left", ()), getattr(block, "right", ())):
             yield from side
+
+
+def test_free_text_quotes_its_figures_in_the_view_units():
+    # A sizing explanation is composed prose, not a check's template: its "number unit" pairs are converted.
+    text = ("at a rated torque of 43.8 mN·m (instead of 350 mN·m) at 2800 rpm; up to 55 °C ambient; "
+            "magnet thickness = 9.6 mm at the high end of its range (8 mm); 12 V; 0.300 N·m")
+    shown = in_view_units(text, us)
+    assert shown == ("at a rated torque of 6.20 oz·in (instead of 49.6 oz·in) at 2800 rpm; up to 131 °F ambient; "
+                     "magnet thickness = 0.378 in at the high end of its range (0.315 in); 12 V; 2.66 lbf·in")
+    assert in_view_units(text, si) == text  # SI: as written, to the character
+    assert in_view_units("magnets.thickness_mm at 8 mm", us) == "magnets.thickness_mm at 0.315 in"  # not the key

@@ -84,7 +84,7 @@ def test_the_closest_candidate_fails_fewest_checks(slightly_too_hard):
 
 def test_binding_ranges_name_the_end_pressed_against():
     text = binding_ranges((THICKNESS, TURNS), {"magnets.thickness_mm": 7.99, "winding.turns_per_coil": 20})
-    assert text == ["magnets.thickness_mm at the high end of its range (8)"]
+    assert text == ["magnets.thickness_mm at the high end of its range (8 mm)"]
     assert binding_ranges((THICKNESS, TURNS), {"magnets.thickness_mm": 6.0, "winding.turns_per_coil": 14}) == [
         "winding.turns_per_coil at the low end of its range (14)"]
 
@@ -155,8 +155,8 @@ def test_a_binding_range_is_widened_and_the_envelope_it_would_need_is_evaluated(
     assert "housing_flux_density" in {c.key for c in evaluate(tight).checks if c.status == "fail"}
     wall = FreeRange("housing.wall_mm", 2.0, 3.0, False)
     out = range_extensions(tight, (wall,), {"housing.wall_mm": 3.0})
-    match = re.fullmatch(r"with housing.wall_mm = ([\d.]+) mm \(beyond the range's 3\) it passes every check, but only "
-                         r"with housing.max_outer_diameter_mm widened to ([\d.]+) mm \(it is 41.8 mm\)",
+    match = re.fullmatch(r"with housing.wall_mm = ([\d.]+) mm \(beyond the range's 3 mm\) it passes every check, "
+                         r"but only with housing.max_outer_diameter_mm widened to ([\d.]+) mm \(it is 41.8 mm\)",
                          out[0])
     assert match, out
     wider = with_values(tight, {"housing.wall_mm": float(match.group(1)),

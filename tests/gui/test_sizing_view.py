@@ -147,7 +147,7 @@ def test_an_edit_of_the_requirement_marks_the_result_stale(page, qtbot):
 
 
 def test_when_nothing_is_feasible_the_page_says_why_in_words(page, qtbot):
-    _, view = page
+    window, view = page
     view.free_table.set_free("magnets.thickness_mm", True, 0.5, 0.6)  # far too thin for any ferrite stack
     view.free_table.set_free("armature.stack_length_mm", True, 3.0, 4.0)
     view.candidates_box.setValue(64)  # nothing in this box passes: a small sample and no refinement show it
@@ -164,6 +164,14 @@ def test_when_nothing_is_feasible_the_page_says_why_in_words(page, qtbot):
     assert "magnet thickness" in shown and "stack length" in shown
     assert not DOTTED_KEY.search(shown), DOTTED_KEY.search(shown)
     assert not DOTTED_KEY.search(view.state_label.text())
+    # In US customary units the same explanation quotes inches, ounce-inches and °F, and says the same thing.
+    metric = re.compile(r"\d (mm|mN·m|N·m|°C)(?![\w·/])")
+    assert metric.search(shown)
+    with qtbot.waitSignal(window.results_ready, timeout=10000):
+        window.set_display_units("US customary")
+    in_us = html.unescape(re.sub(r"<[^>]+>", " ", view.summary.text()))
+    assert not metric.search(in_us), in_us[max(metric.search(in_us).start() - 80, 0):metric.search(in_us).end() + 20]
+    assert re.search(r"\d in\b", in_us)
 
 
 def test_wire_and_steels_freed_on_the_page_reach_the_search(page, qtbot):
