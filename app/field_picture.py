@@ -226,36 +226,54 @@ def draw_waveform(painter: QPainter, frame: QRectF, solution) -> None:
     painter.drawText(QPointF(frame.center().x() - 60, frame.bottom() + 16), "angle from a neutral axis")
 
 
-def section_image(solution, poles: int, size: int = 900) -> QImage:
-    """The cross-section alone with its two colour scales below it (the desktop tool's picture).
+def section_image(solution, poles: int, size: int = 900, scales: bool = True) -> QImage:
+    """The cross-section, with its two colour scales below it unless ``scales`` is False.
 
     Parameters
     ----------
     solution : FieldSolution
     poles : int
     size : int
-        Width in pixels; the height adds room for the scales.
+        Width in pixels; with the scales, the height adds room for them.
+    scales : bool
+        False for a view that draws the scales itself at its own size (:func:`draw_colour_scales`): scaled
+        down with the picture, their text would be too small to read.
 
     Returns
     -------
     QImage
     """
-    image = QImage(size, size + 90, QImage.Format.Format_RGB32)
+    image = QImage(size, size + (SCALES_HEIGHT if scales else 0), QImage.Format.Format_RGB32)
     image.fill(QColor("white"))
     painter = QPainter(image)
     try:
         painter.setRenderHint(QPainter.RenderHint.Antialiasing, True)
         painter.setFont(QFont("DejaVu Sans", 9))
         draw_section(painter, QRectF(4, 4, size - 8, size - 8), whole_section(solution, poles))
-        _draw_horizontal_scale(painter, QRectF(20, size + 28, size / 2 - 60, 14), "|B| in the iron [T]",
-                               FIELD_FLUX_DENSITY_STOPS, "0", f"{FIELD_MAX_FLUX_DENSITY_T:g}")
-        knee_kA_per_m = abs(solution.knee_field_A_per_m) / 1e3
-        _draw_horizontal_scale(painter, QRectF(size / 2 + 20, size + 28, size / 2 - 60, 14),
-                               f"magnets: margin to the knee (|H knee| {knee_kA_per_m:.0f} kA/m)",
-                               FIELD_KNEE_MARGIN_STOPS, "past", "≥ |H knee|")
+        if scales:
+            draw_colour_scales(painter, QRectF(0, size, size, SCALES_HEIGHT), solution.knee_field_A_per_m)
     finally:
         painter.end()
     return image
+
+
+#: Room the two colour scales take below a section [px]: title, bar and end labels.
+SCALES_HEIGHT = 90
+
+
+def draw_colour_scales(painter: QPainter, frame: QRectF, knee_field_A_per_m: float) -> None:
+    """The two colour scales of the section side by side in ``frame``: |B| in the iron, the magnets' margin.
+
+    Drawn in the painter's font, so that a view can draw them at its own size under a scaled picture.
+    """
+    line = painter.fontMetrics().height()
+    half = frame.width() / 2
+    bar = QRectF(frame.left() + 20, frame.top() + line + 10, half - 60, max(0.8 * line, 8))
+    _draw_horizontal_scale(painter, bar, "|B| in the iron [T]", FIELD_FLUX_DENSITY_STOPS, "0",
+                           f"{FIELD_MAX_FLUX_DENSITY_T:g}")
+    _draw_horizontal_scale(painter, bar.translated(half, 0),
+                           f"magnets: margin to the knee (|H knee| {abs(knee_field_A_per_m) / 1e3:.0f} kA/m)",
+                           FIELD_KNEE_MARGIN_STOPS, "past", "≥ |H knee|")
 
 
 def _draw_horizontal_scale(painter: QPainter, frame: QRectF, title: str, stops, low: str, high: str) -> None:
@@ -267,8 +285,10 @@ def _draw_horizontal_scale(painter: QPainter, frame: QRectF, title: str, stops, 
         painter.drawLine(QPointF(frame.left() + i, frame.top()), QPointF(frame.left() + i, frame.bottom()))
     painter.setPen(QColor("#222222"))
     painter.drawRect(frame)
-    painter.drawText(QPointF(frame.left(), frame.bottom() + 14), low)
-    painter.drawText(QPointF(frame.right() - 8 * len(high) + 8, frame.bottom() + 14), high)
+    metrics = painter.fontMetrics()
+    below = frame.bottom() + metrics.ascent() + 3
+    painter.drawText(QPointF(frame.left(), below), low)
+    painter.drawText(QPointF(frame.right() - metrics.horizontalAdvance(high), below), high)
 
 
 def field_image(solution, poles: int, width: int = 1400, height: int = 800, title: str = "") -> QImage:

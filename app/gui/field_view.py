@@ -15,8 +15,8 @@ from collections import OrderedDict
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import Qt
-from PySide6.QtGui import QColor, QPixmap
+from PySide6.QtCore import QRectF, Qt
+from PySide6.QtGui import QColor, QPainter, QPixmap
 from PySide6.QtWidgets import (
     QComboBox,
     QLabel,
@@ -38,7 +38,7 @@ from pmdc_sizer.core.field import (
     solve_case,
 )
 
-from ..field_picture import section_image
+from ..field_picture import draw_colour_scales, section_image
 from ..figures import FAIL_COLOUR, FIELD_FLUX_LINE_COLOUR
 from .background_job import JobPage
 from .style import flush_column
@@ -79,11 +79,16 @@ class FieldView(JobPage):
         layout = self._page_layout([QLabel("Case:"), self.case_combo, self.mesh_combo])
 
         top = QSplitter(Qt.Orientation.Horizontal)
+        picture_column = QWidget()
+        picture_layout = flush_column(picture_column)
         self.picture = QLabel("The field appears here once solved.")
         self.picture.setAlignment(Qt.AlignmentFlag.AlignCenter)
         self.picture.setMinimumSize(300, 300)
         self.picture.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Expanding)
-        top.addWidget(self.picture)
+        picture_layout.addWidget(self.picture, 1)
+        self.scales = ColourScales()
+        picture_layout.addWidget(self.scales)
+        top.addWidget(picture_column)
         self.waveform = pg.PlotWidget(background="w")
         self.waveform.setLabel("left", "radial air-gap flux density", units="T")
         self.waveform.setLabel("bottom", "angle from a neutral axis [°]")
@@ -182,7 +187,9 @@ class FieldView(JobPage):
 
     def _show(self, solution) -> None:
         self.solution = solution
-        self._pixmap = QPixmap.fromImage(section_image(solution, self.results.geometry.poles, _PICTURE_SIZE))
+        self._pixmap = QPixmap.fromImage(section_image(solution, self.results.geometry.poles, _PICTURE_SIZE,
+                                                       scales=False))
+        self.scales.show_for(solution.knee_field_A_per_m)
         self._fit_picture()
         angle = np.degrees(solution.airgap_angle_rad)
         self.waveform_curve.setData(angle, solution.airgap_flux_density_T)
@@ -225,3 +232,27 @@ class FieldView(JobPage):
     def resizeEvent(self, event) -> None:  # noqa: N802 - Qt's name
         super().resizeEvent(event)
         self._fit_picture()
+
+
+class ColourScales(QWidget):
+    """The section's two colour scales, drawn at the screen's font under the scaled picture."""
+
+    def __init__(self):
+        super().__init__()
+        self.knee_field_A_per_m: float | None = None
+        self.setFixedHeight(3 * self.fontMetrics().height() + 14)
+        self.setObjectName("field_colour_scales")
+
+    def show_for(self, knee_field_A_per_m: float) -> None:
+        self.knee_field_A_per_m = knee_field_A_per_m
+        self.update()
+
+    def paintEvent(self, event) -> None:  # noqa: N802 - Qt's name
+        if self.knee_field_A_per_m is None:
+            return
+        painter = QPainter(self)
+        try:
+            painter.setFont(self.font())
+            draw_colour_scales(painter, QRectF(self.rect()), self.knee_field_A_per_m)
+        finally:
+            painter.end()

@@ -46,6 +46,18 @@ def test_solving_shows_the_picture_the_waveform_and_the_agreement(page, qtbot):
     assert "solved" in view.state_label.text()
 
 
+def test_the_colour_scales_are_drawn_at_the_screen_font_not_shrunk_with_the_picture(page, qtbot):
+    # Drawn into the 900-pixel picture and scaled to a laptop's column, their text was about 4 pixels high.
+    _, view = page
+    _solve(qtbot, view)
+    assert view.scales.knee_field_A_per_m == view.solution.knee_field_A_per_m
+    assert view._pixmap.width() == view._pixmap.height()  # the section alone: the scales are their own widget
+    assert view.scales.height() >= 2 * view.scales.fontMetrics().height()
+    image = view.scales.grab().toImage()
+    colours = {image.pixelColor(x, image.height() // 2).name() for x in range(0, image.width(), 4)}
+    assert len(colours) > 10  # the two colour bars are painted
+
+
 def test_a_solved_case_is_kept_and_an_edit_makes_a_new_design(page, qtbot):
     window, view = page
     _solve(qtbot, view)
