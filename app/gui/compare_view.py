@@ -611,9 +611,10 @@ class CompareView(QWidget):
         self.checks_table.setMaximumHeight(self.checks_table.horizontalHeader().height() + 21 * len(keys) + 4)
 
     def _torque_unit(self) -> str:
-        """The torque axis's unit: A's (mN·m, N·m for a large motor) in the display units."""
-        design = self.results_a if self.results_a is not None else self.results_b
-        return self.display.screen_unit(torque_unit(design) if design is not None else TORQUE.unit)
+        """The torque axis's unit, in the display units: N·m if either design is a large motor (its stall torque
+        in thousands of mN·m would crowd the axis), else mN·m."""
+        units = {torque_unit(r) for r in (self.results_a, self.results_b) if r is not None}
+        return self.display.screen_unit("N·m" if "N·m" in units else TORQUE.unit)
 
     def _draw_curves(self) -> None:
         case_name = self.case_combo.currentText()
