@@ -104,10 +104,11 @@ def binding_ranges(free: Sequence[FreeRange], values: Mapping[str, object]) -> l
     out = []
     for variable in free:
         pressed = _pressed_end(variable, values[variable.key])
-        if pressed is not None:
-            end = variable.low if pressed < 0 else variable.high
-            out.append(f"{variable.key} at the {'low' if pressed < 0 else 'high'} end of its range "
-                       f"({_with_unit(variable.key, end)})")
+        if pressed is None:
+            continue
+        side, end = ("low", variable.low) if pressed < 0 else ("high", variable.high)
+        if end is not None:  # a pressed end is a numeric range's (_pressed_end)
+            out.append(f"{variable.key} at the {side} end of its range ({_with_unit(variable.key, end)})")
     return out
 
 
