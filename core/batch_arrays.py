@@ -20,6 +20,7 @@ from .design import Design
 from .errors import MagneticCircuitError
 from .geometry import Geometry
 from .magnets import GradeLots, MagnetGrade
+from .reluctance_network import seeds_within
 
 
 def stack_geometries(geometries: Sequence[Geometry]) -> Geometry:
@@ -107,7 +108,8 @@ def design_groups(designs: Sequence[Design]) -> list[np.ndarray]:
 
 
 def solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temperatures, currents,
-                 rotor_present: bool, winding, what: str, rotor_positions: np.ndarray | None = None):
+                 rotor_present: bool, winding, what: str, rotor_positions: np.ndarray | None = None,
+                 seed_period: int | None = None):
     """The pole states of every design at ``repeat`` (temperature, current) pairs each, group by group
     (each design's cross-section built once, its magnet lot's Br and HcJ per design).
 
@@ -137,6 +139,10 @@ def solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temper
     rotor_positions : ndarray, optional
         None: the armature's current as a smeared sheet; else shape (N, repeat): the current in its slots
         with the rotor at that angle from a slot centre on the pole centre [rad] (core.armature_mmf).
+    seed_period : int, optional
+        Speed only: each design's pair j starts its Newton solve from the solution of its pair
+        ``j % seed_period``, solved first (the same currents at the first rotor position, where the pairs
+        repeat every ``seed_period``); None: every pair from zero flux.
 
     Returns
     -------
@@ -171,7 +177,9 @@ def solve_groups(designs, groups, geometry, lots: GradeLots, repeat: int, temper
                                        rotor_present, part_winding, what,
                                        rows=np.repeat(np.arange(members.size), repeat), lots=lots.at(rows),
                                        rotor_position=None if rotor_positions is None else
-                                       rotor_positions.reshape(count * repeat)[_flat(rows, repeat)])
+                                       rotor_positions.reshape(count * repeat)[_flat(rows, repeat)],
+                                       seeded_by=None if seed_period is None else
+                                       seeds_within(members.size, repeat, seed_period))
         try:
             states = solve(members)
         except MagneticCircuitError:

@@ -64,7 +64,8 @@ def magnet_cases_many(designs, groups, geometry, lots, winding, judged: dict, ma
     count, turns = currents.shape[1], positions.shape[1]
     slotted = solve_groups(designs, groups, g, lots, turns * count, np.tile(temperatures, turns),
                            np.tile(currents, turns), True, winding,
-                           "the magnetic circuit under load (the magnets' cases)", np.repeat(positions, count, axis=1))
+                           "the magnetic circuit under load (the magnets' cases)", np.repeat(positions, count, axis=1),
+                           seed_period=count)  # each position starts from the first position's solution
     worst = slotted["worst_field"].reshape(n, turns, count).min(axis=1)  # (n, count): the worst position
 
     cases: dict[str, Case] = {}

@@ -21,6 +21,7 @@ import numpy as np
 from .armature_mmf import distinct_rotor_positions
 from .pole_load_table import magnet_state_of
 from .pole_magnetics import PoleState, design_network, pole_states
+from .reluctance_network import seeds_within
 
 
 @dataclass(frozen=True)
@@ -108,7 +109,9 @@ def magnet_load_fields(design, temperatures_C: Sequence[float],
     positions = distinct_rotor_positions(design_network(design).centre_angle, int(design.geometry.slots))[0]
     states = pole_states(design, np.tile(flat_temperatures, positions.size), np.tile(flat_currents, positions.size),
                          what="the magnetic circuit under load (the magnets' cases)",
-                         rotor_position=np.repeat(positions, flat_currents.size))
+                         rotor_position=np.repeat(positions, flat_currents.size),
+                         # each position starts from the first position's solution at the same current
+                         seeded_by=seeds_within(1, positions.size * flat_currents.size, flat_currents.size))
     return MagnetLoadFields(currents=solved, positions=positions, states=states)
 
 __all__ = ["MagnetLoadFields", "magnet_load_fields"]

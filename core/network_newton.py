@@ -161,7 +161,7 @@ def _step(s: StackedNetwork, residuals, parts):
     return steps
 
 
-def newton(s: StackedNetwork, scale):
+def newton(s: StackedNetwork, scale, initial=None):
     """Newton's method with a backtracking line search on one chunk: the state (loop fluxes and the
     pairs' paths' fluxes), the branch fluxes and drops of the last residual evaluation, the residual norm
     and the steps taken by each design.
@@ -175,6 +175,10 @@ def newton(s: StackedNetwork, scale):
         One chunk of the network (:func:`core.network_stacking.stack_network`).
     scale : ndarray
         Each design's magnet MMF, Br·lm/(μ0·μrec), at least 1 [A]: the residual is measured against it.
+    initial : ndarray, optional
+        A state to start from, shape (unknowns, segments, designs) as returned: the solution of a
+        neighbouring problem (the same design with its current elsewhere in the slots) takes a few steps
+        where zero flux takes ten to twenty. None: zero flux everywhere.
 
     Returns
     -------
@@ -194,7 +198,8 @@ def newton(s: StackedNetwork, scale):
     """
     designs = scale.shape[0]
     unknowns = 3 + s.linear.shape[0]
-    state = np.zeros((unknowns, s.column_area.shape[0], designs))
+    shape = (unknowns, s.column_area.shape[0], designs)
+    state = np.zeros(shape) if initial is None else np.array(np.broadcast_to(initial, shape), dtype=float)
     iterations = np.zeros(designs, dtype=int)
     residuals, parts, worst = _residual(s, state)
     norm = worst / scale

@@ -169,7 +169,7 @@ def design_network(design, rotor_present: bool = True) -> NetworkElements:
 
 
 def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True,
-                what: str = "the magnetic circuit", rotor_position=None) -> PoleState:
+                what: str = "the magnetic circuit", rotor_position=None, seeded_by=None) -> PoleState:
     """Solve a design's network at each (temperature, current) pair at once.
 
     Parameters
@@ -188,6 +188,9 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
         None: the armature's current as a smeared sheet, its mean over the rotor's turning (what the flux
         per pole and Ke take); an angle [rad], for all entries or per entry (B,): the current in its slots
         with the rotor there (what the magnet's field at one moment takes; core.armature_mmf).
+    seeded_by : ndarray of int, optional
+        Shape (B,): the entry each entry's Newton solve starts from (speed only;
+        :func:`core.reluctance_network.solve_network`).
 
     Returns
     -------
@@ -217,14 +220,14 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
                                                int(total_conductors(w.commutator_segments, w.turns_per_coil)),
                                                int(parallel_paths(w.kind, g.poles, w.multiplicity))),
                              rows, rotor_position)
-    solution = solve_network(design.magnet, temperature, single, enclosed, what, rows)
+    solution = solve_network(design.magnet, temperature, single, enclosed, what, rows, seeded_by)
     return _reduce(solution, _entries(single, rows), temperature, current)
 
 
 def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_magnetic, temperatures_C, currents=0.0,
                      rotor_present: bool = True, winding=None, what: str = "the magnetic circuit",
                      rows: np.ndarray | None = None, lots: GradeLots | None = None,
-                     rotor_position=None) -> PoleState:
+                     rotor_position=None, seeded_by=None) -> PoleState:
     """Solve the networks of many cross-sections of one grade family and pair of steels at once.
 
     Parameters
@@ -254,6 +257,8 @@ def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_mag
     rotor_position : float or ndarray, optional
         As :func:`pole_states`: None for the smeared current sheet, an angle [rad] (for all entries or per
         entry) for the current in its slots with the rotor there.
+    seeded_by : ndarray of int, optional
+        As :func:`pole_states`: the entry each entry's solve starts from (speed only).
 
     Returns
     -------
@@ -275,7 +280,8 @@ def pole_states_many(geometry, grade, housing_steel, lamination_steel, shaft_mag
     enclosed: float | np.ndarray = 0.0
     if rotor_present and np.any(current != 0.0):
         enclosed = _enclosed(elements, current, winding, rows, rotor_position)
-    solution = solve_network(grade if lots is None else lots, temperature, elements, enclosed, what, rows)
+    solution = solve_network(grade if lots is None else lots, temperature, elements, enclosed, what, rows,
+                             seeded_by)
     return _reduce(solution, _entries(elements, rows), temperature, current)
 
 

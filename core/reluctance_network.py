@@ -101,7 +101,8 @@ class NetworkSolution:
 
 
 def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: NetworkElements, enclosed_current=0.0,
-                  what: str = "the magnetic circuit", rows: np.ndarray | None = None) -> NetworkSolution:
+                  what: str = "the magnetic circuit", rows: np.ndarray | None = None,
+                  seeded_by: np.ndarray | None = None) -> NetworkSolution:
     """Solve the pole's network by Newton's method (see the module docstring).
 
     Parameters
@@ -121,6 +122,11 @@ def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: Netwo
     rows : ndarray of int, optional
         Shape (B,): the row of ``elements`` each entry of the batch solves (several temperatures or
         currents of one cross-section share its row); by default entry i solves row i (B = D).
+    seeded_by : ndarray of int, optional
+        Shape (B,): the entry whose solution each entry starts from (speed, not physics). Entries with
+        ``seeded_by[i] == i`` are solved first, from zero flux; every other entry then starts from its seed's
+        solution, which must be such a first entry. The answer is the same solution to the tolerance;
+        a neighbouring problem (the same pole at another rotor position) converges in a few steps.
 
     Returns
     -------
@@ -148,11 +154,25 @@ def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: Netwo
     recoil = np.asarray(grade.recoil_permeability, dtype=float)
     scale = np.maximum(remanence * e.magnet_thickness[rows] / (MU_0 * recoil), 1.0)
     designs = batch[0]
-    chunks = []
-    for start in range(0, designs, CHUNK):
-        part = slice(start, min(start + CHUNK, designs))
-        chunks.append(newton(stack_network(e, part, remanence, enclosed, rows), scale[part]))
-    norm = np.concatenate([norm for _, _, norm, _ in chunks])
+    order, first, seat = _seeding(seeded_by, designs)
+    back = None if order is None else np.argsort(order)  # from the solving order to the batch's
+
+    def solving(values: np.ndarray) -> np.ndarray:
+        return values if order is None else values[order]
+
+    def batch_order(values: np.ndarray) -> np.ndarray:
+        return values if back is None else values[..., back]
+
+    stacked, scales = (solving(remanence), solving(enclosed), solving(rows)), solving(scale)
+    chunks: list[tuple[np.ndarray, tuple, np.ndarray, np.ndarray]] = []
+    for low, high in ((0, first), (first, designs)):
+        # the seeds (or every entry, without seeding) from zero; then the rest from their seeds' solutions
+        seeds = np.concatenate([state for state, _, _, _ in chunks], axis=-1) if low < high and low else None
+        for start in range(low, high, CHUNK):
+            part = slice(start, min(start + CHUNK, high))
+            initial = None if seeds is None else seeds[..., seat[part.start - first:part.stop - first]]
+            chunks.append(newton(stack_network(e, part, *stacked), scales[part], initial))
+    norm = batch_order(np.concatenate([norm for _, _, norm, _ in chunks]))
     converged = norm <= TOLERANCE
     if not np.all(converged):
         worst = int(np.argmax(np.where(converged, 0.0, norm).ravel()))
@@ -162,8 +182,9 @@ def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: Netwo
             "are finite and positive")
 
     def joined(pick) -> np.ndarray:
-        """One (designs, segments) array from the chunks' (segments, designs) ones."""
-        return np.ascontiguousarray(np.concatenate([pick(state, parts) for state, parts, _, _ in chunks], axis=-1).T)
+        """One (designs, segments) array, in the batch's order, from the chunks' (segments, designs) ones."""
+        return np.ascontiguousarray(
+            batch_order(np.concatenate([pick(state, parts) for state, parts, _, _ in chunks], axis=-1)).T)
 
     upper_loop, middle_loop, lower_loop, housing_flux, core_flux = (
         joined(lambda state, _, row=row: state[row]) for row in range(5))
@@ -185,8 +206,41 @@ def solve_network(grade: MagnetGrade | GradeLots, temperature_C, elements: Netwo
         magnet_field=magnet_field(upper_flux),
         gap_drop=gap_drop, teeth_drop=teeth_drop, remanence=remanence,
         knee_field=np.broadcast_to(np.asarray(knee_field_at(grade, temperature), dtype=float), batch),
-        iterations=np.concatenate([iterations for _, _, _, iterations in chunks]),
+        iterations=batch_order(np.concatenate([iterations for _, _, _, iterations in chunks])),
     )
 
 
-__all__ = ["CHUNK", "MAX_ITERATIONS", "TOLERANCE", "NetworkSolution", "solve_network"]
+def seeds_within(blocks: int, size: int, period: int) -> np.ndarray:
+    """For ``blocks`` consecutive blocks of ``size`` entries: each entry's seed, the entry of its block
+    whose place is its own modulo ``period`` (see :func:`solve_network`).
+
+    Parameters
+    ----------
+    blocks, size, period : int
+        Blocks, entries per block, and the period the entries repeat with inside a block [1].
+
+    Returns
+    -------
+    ndarray of int
+        Shape (blocks·size,).
+    """
+    entry = np.arange(blocks * size)
+    return entry - entry % size + (entry % size) % period
+
+
+def _seeding(seeded_by, designs: int) -> tuple[np.ndarray | None, int, np.ndarray]:
+    """The order entries are solved in (seeds first; None: as given), how many seeds, and each later
+    entry's seed's place among them."""
+    if seeded_by is None:
+        return None, designs, np.empty(0, dtype=np.intp)
+    seeded_by = np.asarray(seeded_by, dtype=np.intp)
+    is_seed = seeded_by == np.arange(designs)
+    if not np.all(is_seed[seeded_by]):
+        raise ValueError("every entry's seed must be an entry solved first (seeded_by[seed] == seed)")
+    seeds, rest = np.flatnonzero(is_seed), np.flatnonzero(~is_seed)
+    place = np.empty(designs, dtype=np.intp)
+    place[seeds] = np.arange(seeds.size)
+    return np.concatenate([seeds, rest]), seeds.size, place[seeded_by[rest]]
+
+
+__all__ = ["CHUNK", "MAX_ITERATIONS", "TOLERANCE", "NetworkSolution", "seeds_within", "solve_network"]

@@ -256,3 +256,48 @@ def test_one_live_coarse_field_solution_agrees():
     field = solve_case(design, no_load_case(23.0), COARSE)
     state = two_dimensional_states(design, 23.0)
     assert_allclose(state.flux_per_pole[0], field.flux_per_pole_Wb_per_m, rtol=0.03)
+
+
+def test_a_seeded_solve_is_the_same_solution_in_fewer_steps(monkeypatch):
+    # Every rotor position of the magnets' cases starts from the first position's solution (speed only): the
+    # answer must be the unseeded one to the solver's tolerance, reached in fewer Newton steps.
+    from pmdc_sizer.core.armature_mmf import distinct_rotor_positions
+    from pmdc_sizer.core.pole_magnetics import design_network
+    from pmdc_sizer.core.reluctance_network import seeds_within
+
+    design = design_from_project(project.load(ROOT / "demo_projects" / "mobility_ndfeb_24v.toml"))
+    positions = distinct_rotor_positions(design_network(design).centre_angle, int(design.geometry.slots))[0]
+    currents = np.array([40.0, 265.0, 535.0])  # drive limit, stall and reversal scale
+    entries = positions.size * currents.size
+    arguments = {"temperatures_C": np.full(entries, 25.0), "currents": np.tile(currents, positions.size),
+                 "rotor_position": np.repeat(positions, currents.size)}
+    steps: list[int] = []
+    newton = reluctance_network.newton
+
+    def counted(*args):
+        result = newton(*args)
+        steps.append(int(result[3].sum()))
+        return result
+
+    monkeypatch.setattr(reluctance_network, "newton", counted)
+    plain = pole_states(design, **arguments)
+    plain_steps = sum(steps)
+    steps.clear()
+    seeded = pole_states(design, **arguments, seeded_by=seeds_within(1, entries, currents.size))
+    assert sum(steps) < 0.8 * plain_steps, (sum(steps), plain_steps)
+    assert_allclose(seeded.worst_field, plain.worst_field, rtol=1e-7)
+    assert_allclose(seeded.flux_per_pole, plain.flux_per_pole, rtol=1e-8)
+    assert_allclose(seeded.segment_field, plain.segment_field, rtol=1e-7, atol=1e-3)
+
+
+def test_seeds_must_be_solved_first():
+    design = design_from_project(project.load(FERRITE_DEMO))
+    with pytest.raises(ValueError, match="seed"):
+        pole_states(design, np.full(3, 20.0), np.array([1.0, 2.0, 3.0]), rotor_position=0.0,
+                    seeded_by=np.array([0, 2, 1]))  # entry 1's seed is entry 2, itself seeded
+
+
+def test_seeds_within_blocks():
+    from pmdc_sizer.core.reluctance_network import seeds_within
+
+    assert seeds_within(2, 6, 2).tolist() == [0, 1, 0, 1, 0, 1, 6, 7, 6, 7, 6, 7]
