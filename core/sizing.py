@@ -250,7 +250,7 @@ def _explain_closest(project: Project, spec: SizingSpec, store: CandidateStore) 
     rows, designs = fitting_designs(project, spec.free, values)
     batch = evaluate_many(designs) if designs else evaluate_many([])
     kept = {k: v[rows] for k, v in values.items()}
-    return explain(project, batch, kept, spec)
+    return explain(project, batch, kept, spec, evaluated=int(points.shape[0]))
 
 
 __all__ = ["GEOMETRY_KEYS", "FreeRange", "Shortfall", "SizedDesign", "SizingCancelled", "SizingResult",

@@ -120,7 +120,7 @@ def closest_candidates(batch: BatchFigures, load_share: np.ndarray) -> np.ndarra
 
 
 def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarray],
-            spec: SizingSpec) -> tuple[tuple[Shortfall, ...], str]:
+            spec: SizingSpec, evaluated: int | None = None) -> tuple[tuple[Shortfall, ...], str]:
     """Why none of a search's candidates is feasible: the closest design's misses and an evaluated relaxation.
 
     Parameters
@@ -133,6 +133,9 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
         Free key to the candidates' values, in file units, in the order of ``batch``.
     spec : SizingSpec
         The search (its ``free`` ranges are read).
+    evaluated : int, optional
+        How many candidates the search evaluated in all, when ``batch`` holds only the closest of them
+        (the paragraph then says so: "the 300 closest of 4,000").
 
     Returns
     -------
@@ -190,7 +193,9 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
         shortfalls.append(Shortfall(check.key, f"{check.title}: {message}{tail}.", share))
 
     never = [k for k, c in counts.items() if c == solved]
-    parts = [f"None of the {n} candidates examined passes every check ({solved} solved)."]
+    examined = (f"the {n:,} closest of the {evaluated:,} candidates evaluated" if evaluated and evaluated > n
+                else f"the {n:,} candidates examined")
+    parts = [f"None of {examined} passes every check ({solved:,} solved)."]
     if failing:
         parts.append("Failed: " + "; ".join(f"{titles.get(k, k).lower()} by {c}" for c, k in failing) + ".")
     if never:

@@ -94,6 +94,9 @@ def test_explanation_names_the_load_the_miss_and_an_evaluated_relaxation(slightl
     shortfalls, text = explain(hard, batch, values, SizingSpec(free=(THICKNESS, TURNS)))
     assert shortfalls and all(isinstance(s, Shortfall) for s in shortfalls)
     assert "None of the 7 candidates examined passes every check" in text
+    # read off the closest few of a larger search, the paragraph says so
+    _, of_more = explain(hard, batch, values, SizingSpec(free=(THICKNESS, TURNS)), evaluated=4000)
+    assert "None of the 7 closest of the 4,000 candidates evaluated passes every check" in of_more
     assert "The closest design (magnets.thickness_mm = " in text
     assert "Re-evaluated with the requirement relaxed" in text
     # every relaxation said to pass is re-checked here, design by design, with evaluate
