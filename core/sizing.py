@@ -44,12 +44,13 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .batch import FAIL_CODE, check_status, evaluate_many, screening_figures
+from .batch import check_status, evaluate_many, screening_figures
 from .design import geometry_of
 from .errors import MagneticCircuitError, ProjectError
 from .schema import Project
 from .sizing_candidates import GEOMETRY_KEYS, fitting_designs, project_with, tied_values
 from .sizing_objectives import OBJECTIVES, derived_figures, non_dominated, objective_matrix, validate_objectives
+from .sizing_requirement import faults_must_survive, requirement_misses
 from .sizing_screen import UNUSABLE, CandidateStore, SizingCancelled, progress_or_cancel, refine
 from .sizing_shortfall import Shortfall, explain
 from .sizing_space import FreeRange, SizingSpec, file_value, from_unit, sample_unit, values_at
@@ -95,8 +96,9 @@ class SizingResult:
 
 def _verified(project: Project, values: dict[str, float | int | str], objectives: tuple[str, ...]
               ) -> tuple[Project, dict[str, float], dict[str, float]] | None:
-    """The candidate rebuilt as a validated project and evaluated alone; None unless every check passes
-    or warns (no check fails) and its chain solves."""
+    """The candidate rebuilt as a validated project and evaluated alone; None unless it meets the
+    requirement (no check fails and every margin to the knee is kept: core.sizing_requirement) and its chain
+    solves."""
     from .evaluate import evaluate
 
     try:
@@ -104,7 +106,8 @@ def _verified(project: Project, values: dict[str, float | int | str], objectives
         results = evaluate(design_project)
     except (ProjectError, MagneticCircuitError):
         return None
-    if any(code == FAIL_CODE for code in check_status(results).values()):
+    status = {key: np.array([code]) for key, code in check_status(results).items()}
+    if any(miss[0] for miss in requirement_misses(status, faults_must_survive(design_project)).values()):
         return None
     figures = screening_figures(results)
     g = results.geometry

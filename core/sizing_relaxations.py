@@ -17,13 +17,14 @@ from collections.abc import Mapping, Sequence
 
 import numpy as np
 
-from .batch import CHECK_KEYS, FAIL_CODE, evaluate_many
+from .batch import evaluate_many
 from .design import design_from_project
 from .edits import with_values
 from .errors import ProjectError
 from .keys import key_spec
 from .schema import Project
 from .sizing_candidates import project_with
+from .sizing_requirement import faults_must_survive, meets_requirement, requirement_misses
 from .sizing_space import FreeRange
 
 #: The supply voltages tried, as multiples of the file's (the first that passes is reported).
@@ -134,12 +135,13 @@ def _first_passing(designs: Sequence[Project], key: str,
     if not built:
         return None, -1, ""
     batch = evaluate_many(built)
-    passing = np.flatnonzero(batch.passes_all)
+    must_survive = faults_must_survive(designs[0])
+    passing = np.flatnonzero(meets_requirement(batch, must_survive))
     if passing.size:
         value, index = owners[int(passing[0])]
         return value, index, ""
     last = max(i for i, (_, owner) in enumerate(owners) if owner == owners[0][1])
-    still = [k for k in CHECK_KEYS if k in batch.status and int(batch.status[k][last]) == FAIL_CODE]
+    still = [k for k, miss in requirement_misses(batch.status, must_survive).items() if miss[last]]
     return None, -1, ", ".join(k.replace("_", " ") for k in still) if still else "the chain"
 
 
@@ -210,7 +212,7 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
         if not built:
             continue
         batch = evaluate_many(built)
-        passing = np.flatnonzero(batch.passes_all)
+        passing = np.flatnonzero(meets_requirement(batch, faults_must_survive(project)))
         if not passing.size:
             continue
         candidate, envelope = labels[int(passing[0])]

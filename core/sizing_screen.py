@@ -20,11 +20,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .batch import CHECK_KEYS, FAIL_CODE, BatchFigures, evaluate_many
+from .batch import BatchFigures, evaluate_many
 from .design import Design
 from .schema import Project
 from .sizing_candidates import fitting_designs, overfull_slots
 from .sizing_objectives import OBJECTIVES, derived_figures, objective_matrix
+from .sizing_requirement import faults_must_survive, meets_requirement, requirement_misses
 from .sizing_space import FreeRange, SizingSpec, from_unit, sample_unit
 
 #: The figures every feasible candidate keeps for the plots (besides the objectives' own).
@@ -64,15 +65,19 @@ def screen_figures(batch: BatchFigures, designs: Sequence[Design]) -> dict[str, 
     return {**batch.figures, **derived_figures(batch.figures, outer, length)}
 
 
-def constraint_violation(batch: BatchFigures, designs: Sequence[Design]) -> np.ndarray:
-    """How far each design is from passing: 0 when no check fails, else the failing checks counted and
-    the shares by which the rated speed and the further load points' speeds are missed (the load is what
-    sizing most often misses).
+def constraint_violation(batch: BatchFigures, designs: Sequence[Design], must_survive: bool) -> np.ndarray:
+    """How far each design is from the requirement: 0 when it meets it (core.sizing_requirement), else the
+    checks it misses counted (a failed check, or a margin to the knee short of the required) and the shares
+    by which the rated speed and the further load points' speeds are missed (the load is what sizing most
+    often misses).
 
     Parameters
     ----------
     batch, designs
         As in :func:`screen_figures`.
+    must_survive : bool
+        The requirement makes the magnets survive the direct-supply faults
+        (:func:`core.sizing_requirement.faults_must_survive`).
 
     Returns
     -------
@@ -84,8 +89,8 @@ def constraint_violation(batch: BatchFigures, designs: Sequence[Design]) -> np.n
     .. [1] Deb 2000 (module docstring): infeasible designs ranked by violation.
     """
     failing = np.zeros(batch.size)
-    for key in CHECK_KEYS:
-        failing += batch.status[key] == FAIL_CODE
+    for miss in requirement_misses(batch.status, must_survive).values():
+        failing += miss
     required = np.array([d.load_speed for d in designs])
     slowest = np.min(np.stack([batch.figures[f"{c}.rated_speed_rad_per_s"] for c in _CASES]), axis=0)
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -93,7 +98,7 @@ def constraint_violation(batch: BatchFigures, designs: Sequence[Design]) -> np.n
     further = np.clip(1.0 - np.nan_to_num(batch.figures["load_points.least_speed_share"], nan=1.0), 0.0, 1.0)
     violation = failing + np.nan_to_num(slow_share, nan=1.0) + further
     violation[batch.failed] = UNUSABLE
-    violation[batch.passes_all] = 0.0
+    violation[meets_requirement(batch, must_survive)] = 0.0
     return np.asarray(violation, dtype=float)
 
 
@@ -143,8 +148,9 @@ class CandidateStore:
             matrix = objective_matrix(self.objectives, figures)
             usable = np.isfinite(matrix).all(axis=1) & ~batch.failed
             objectives[rows[usable]] = matrix[usable]
-            violation[rows] = np.where(usable, constraint_violation(batch, designs), UNUSABLE)
-            feasible = batch.passes_all & usable
+            must_survive = faults_must_survive(project)
+            violation[rows] = np.where(usable, constraint_violation(batch, designs, must_survive), UNUSABLE)
+            feasible = meets_requirement(batch, must_survive) & usable
             if feasible.any():
                 self.feasible_points.append(unit[rows[feasible]])
                 names = {o.figure for o in OBJECTIVES.values()} | set(KEY_FIGURES)

@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .batch import CHECK_KEYS, FAIL_CODE, BatchFigures
+from .batch import CHECK_KEYS, BatchFigures, check_status
 from .evaluate import evaluate
 from .schema import Project
 from .sizing_candidates import project_with
@@ -37,6 +37,7 @@ from .sizing_relaxations import (
     relaxations,
     value_text,
 )
+from .sizing_requirement import faults_must_survive, requirement_misses
 from .sizing_space import FreeRange, SizingSpec
 from .units import to_si
 
@@ -91,8 +92,8 @@ def load_shortfall_share(figures: Mapping[str, np.ndarray], torque_N_m: float, s
     return np.where(solved, np.nan_to_num(share, nan=1.0), np.nan)
 
 
-def closest_candidates(batch: BatchFigures, load_share: np.ndarray) -> np.ndarray:
-    """The candidates from nearest to passing to farthest: fewest failed checks, then the smallest load miss.
+def closest_candidates(batch: BatchFigures, load_share: np.ndarray, must_survive: bool = False) -> np.ndarray:
+    """The candidates from nearest to passing to farthest: fewest missed checks, then the smallest load miss.
 
     Parameters
     ----------
@@ -100,6 +101,8 @@ def closest_candidates(batch: BatchFigures, load_share: np.ndarray) -> np.ndarra
         The candidates' figures and check codes.
     load_share : ndarray
         :func:`load_shortfall_share` of the candidates.
+    must_survive : bool
+        The faults' margin is required too (:func:`core.sizing_requirement.requirement_misses`).
 
     Returns
     -------
@@ -112,7 +115,7 @@ def closest_candidates(batch: BatchFigures, load_share: np.ndarray) -> np.ndarra
     """
     if batch.size == 0 or bool(np.all(batch.failed)):
         return np.zeros(0, dtype=int)
-    fails = sum((batch.status[key] == FAIL_CODE).astype(int) for key in CHECK_KEYS if key in batch.status)
+    fails = sum(miss.astype(int) for miss in requirement_misses(batch.status, must_survive).values())
     fails = np.where(batch.failed, len(CHECK_KEYS) + 1, fails)
     order = np.lexsort((np.nan_to_num(load_share, nan=np.inf), fails))
     solved: np.ndarray = order[~batch.failed[order]]
@@ -161,7 +164,8 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
     torque = to_si(float(project.load.torque_mNm), "mN·m")
     speed = to_si(float(project.load.speed_rpm), "rpm")
     load_share = load_shortfall_share(batch.figures, torque, speed)
-    order = closest_candidates(batch, load_share)
+    must_survive = faults_must_survive(project)
+    order = closest_candidates(batch, load_share, must_survive)
     index = int(order[0])
     # The designs re-evaluated with relaxed requirements: the nearest few, and the few nearest the load alone.
     by_load = np.argsort(np.nan_to_num(load_share, nan=np.inf), kind="stable")[:RELAXED_DESIGNS]
@@ -173,12 +177,16 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
     design_values = values_of(index)
     closest = project_with(project, design_values)
 
-    counts = {key: int(np.sum(batch.status[key] == FAIL_CODE)) for key in CHECK_KEYS if key in batch.status}
+    counts = {key: int(np.sum(miss & ~batch.failed))
+              for key, miss in requirement_misses(batch.status, must_survive).items()}
     solved = int(np.sum(~batch.failed))
     failing = sorted(((c, k) for k, c in counts.items() if c), reverse=True)
     results = evaluate(closest)
     titles = {c.key: c.title for c in results.checks}
-    missed = [c for c in results.checks if c.status == "fail"]
+    # the checks it fails, and a margin to the knee short of the required (a warning on the file's page)
+    codes = {key: np.array([code]) for key, code in check_status(results).items()}
+    its_misses = requirement_misses(codes, must_survive)
+    missed = [c for c in results.checks if bool(its_misses.get(c.key, np.array([c.status == "fail"]))[0])]
 
     shortfalls = []
     for check in missed:

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 
 from pmdc_sizer.core import ProjectError, evaluate, project, with_values
-from pmdc_sizer.core.batch import FAIL_CODE, check_status, screening_figures
+from pmdc_sizer.core.batch import FAIL_CODE, PASS_CODE, check_status, screening_figures
 from pmdc_sizer.core.design import design_from_project, geometry_of
 from pmdc_sizer.core.sizing import (
     GEOMETRY_KEYS,
@@ -54,9 +54,12 @@ def test_the_ferrite_requirement_is_feasible(searched, ferrite_base):
     assert result.feasible_count > 0 and result.designs
     assert result.explanation == "" and result.shortfalls == ()
     assert result.candidates_evaluated >= 256
-    # the lightest design that meets the requirement is no heavier than the demo, which does not meet it
+    # the lightest design that meets the requirement weighs about what the demo does, which meets neither its
+    # rated load nor its required margin to the knee (8.6 of 16.2 kA/m rotor removed): a little more magnet
     own = screening_figures(evaluate(ferrite_base))["mass.active_kg"]
-    assert min(d.objectives["mass"] for d in result.designs) <= own
+    assert min(d.objectives["mass"] for d in result.designs) <= 1.05 * own
+    for design in result.designs:  # and every one keeps the required margin, which the demo does not
+        assert check_status(evaluate(design.project))["demagnetization"] == PASS_CODE
 
 
 def test_every_returned_design_passes_evaluate(searched, ferrite_base):
