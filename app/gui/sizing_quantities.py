@@ -73,9 +73,11 @@ class Quantity:
             raw = design.objectives[self.name]
         else:
             raw = design.figures.get(self._source())
-        if raw is None or isinstance(raw, str):
+        try:  # a count chosen from a list (poles) is kept as its text, "4"
+            number = float(raw) if raw is not None else float("nan")
+        except ValueError:
             return float("nan")
-        return float(self._shown(np.asarray(float(raw)), display))
+        return float(self._shown(np.asarray(number), display))
 
     def _shown(self, raw: np.ndarray, display: DisplayUnits) -> np.ndarray:
         if self.kind == VALUE:
@@ -99,7 +101,8 @@ def _figure_quantity(kind: str, name: str, figure_name: str, display: DisplayUni
 
 def quantities(result, free_units: dict[str, str], display: DisplayUnits, results=None,
                currency: str = "EUR") -> list[Quantity]:
-    """What the page offers for a result: its objectives, the key figures it kept, its numeric free keys.
+    """What the page offers for a result: its objectives, the key figures it kept, its numeric free keys
+    (a pole count chosen from a list among them).
 
     ``free_units``: free key → its unit in the file ("" for a count); ``results``: the open design's
     evaluation, for its torque unit. A kept figure ``app.figures.SIZING_FIGURES`` has no entry for is
@@ -111,7 +114,7 @@ def quantities(result, free_units: dict[str, str], display: DisplayUnits, result
     out += [_figure_quantity(FIGURE, name, name, display, results, currency)
             for name in SIZING_FIGURES if name in result.feasible_figures and name not in taken]
     for free in result.spec.free:
-        if free.choices:
+        if free.choices and not free.integer:  # grades, steels, wire: text columns (choice_columns)
             continue
         unit = free_units.get(free.key, "")
         shown_unit = display.screen_unit(unit) if unit else "1"
