@@ -113,6 +113,25 @@ def binding_ranges(free: Sequence[FreeRange], values: Mapping[str, object]) -> l
     return out
 
 
+#: Values tried between the last grid step that fails and the first that passes, to report the least
+#: relaxation to a fifth of the grid's step (one more batch).
+REFINE_POINTS = 4
+
+
+def _least_passing(designs: Sequence[Project], key: str, start: float,
+                   values: Sequence[float]) -> tuple[float | str | None, int, str]:
+    """As :func:`_first_passing` over the grid ``values``, then refined between the first passing value and
+    the one before it (``start``, the requirement itself, before the first) by :data:`REFINE_POINTS` more."""
+    found, who, still = _first_passing(designs, key, values)
+    if not isinstance(found, float):
+        return found, who, still
+    index = min(range(len(values)), key=lambda i: abs(values[i] - found))
+    before = start if index == 0 else values[index - 1]
+    between = [before + (found - before) * (i + 1) / (REFINE_POINTS + 1) for i in range(REFINE_POINTS)]
+    finer, finer_who, _ = _first_passing(designs, key, between)
+    return (finer, finer_who, "") if finer is not None else (found, who, still)
+
+
 def _first_passing(designs: Sequence[Project], key: str,
                    values: Sequence[float] | Sequence[str]) -> tuple[float | str | None, int, str]:
     """The first value of ``key`` (in order) at which one of ``designs`` passes every check, which one, and,
@@ -239,7 +258,8 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
     run too hot, a cooler hottest ambient (``AMBIENT_STEP_K`` steps down to the nominal) and each higher
     insulation class (IEC 60085); every design at every step in one
     batch of :func:`core.batch.evaluate_many`; reports the least relaxation of each kind that makes one of
-    them pass, or, when none in the grid does, the checks still failing for the first design at the end of
+    them pass (refined to a fifth of the grid's step by one more batch between the last step that fails and
+    the first that passes), or, when none in the grid does, the checks still failing for the first design at the end of
     the grid.
 
     Parameters
@@ -269,7 +289,8 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
     out = []
     if load_fails:
         volts = float(first.supply.voltage_V)
-        found, who, still = _first_passing(designs, "supply.voltage_V", [volts * s for s in VOLTAGE_STEPS])
+        found, who, still = _least_passing(designs, "supply.voltage_V", volts,
+                                           [volts * s for s in VOLTAGE_STEPS])
         if found is not None:
             out.append(f"with a {found:.3g} V supply (instead of {volts:g} V) {names[who]} passes every check")
         elif still:
@@ -277,7 +298,8 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
                        f"({still} still failing for the closest)")
     torque = float(first.load.torque_mNm)
     speed = float(first.load.speed_rpm)
-    found, who, still = _first_passing(designs, "load.torque_mNm", [torque * s for s in TORQUE_STEPS])
+    found, who, still = _least_passing(designs, "load.torque_mNm", torque,
+                                       [torque * s for s in TORQUE_STEPS])
     if found is not None:
         out.append(f"at a rated torque of {found:.3g} mN·m (instead of {torque:g} mN·m) at {speed:g} rpm "
                    f"{names[who]} passes every check")
@@ -285,7 +307,7 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
         out.append(f"a rated torque as low as {torque * TORQUE_STEPS[-1]:.3g} mN·m makes none of them pass "
                    f"({still} still failing for the closest)")
     if load_fails:
-        found, who, _ = _first_passing(designs, "load.speed_rpm", [speed * s for s in TORQUE_STEPS])
+        found, who, _ = _least_passing(designs, "load.speed_rpm", speed, [speed * s for s in TORQUE_STEPS])
         if found is not None:
             out.append(f"at a required speed of {found:.4g} rpm (instead of {speed:g} rpm) {names[who]} passes "
                        "every check")
@@ -293,7 +315,7 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
         hottest = float(first.temperatures.ambient_max_C)
         nominal = float(first.temperatures.ambient_nominal_C)
         cooler = [hottest - AMBIENT_STEP_K * i for i in range(1, 41) if hottest - AMBIENT_STEP_K * i >= nominal]
-        found, who, _ = _first_passing(designs, "temperatures.ambient_max_C", cooler)
+        found, who, _ = _least_passing(designs, "temperatures.ambient_max_C", hottest, cooler)
         if found is not None:
             out.append(f"up to {found:g} °C ambient (instead of {hottest:g} °C) {names[who]} passes every check")
         classes = key_spec("winding.insulation_class").choices

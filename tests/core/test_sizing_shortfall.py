@@ -132,13 +132,14 @@ def test_ten_times_the_torque_is_explained_with_the_stall_torque_short(ferrite):
 
 def test_relaxation_of_a_passing_design_is_the_smallest_step(ferrite):
     # a design that meets the requirement as it is (7.5 mm magnets keep the required margin to the knee) meets
-    # it at the first voltage step above 12 V and the first torque step below
+    # it at the first refined step above 12 V and below 35 mN·m and 2800 rpm (a fifth of the grid's 2.5 %)
     passing = with_values(ferrite, {"winding.turns_per_coil": 16, "magnets.thickness_mm": 7.5})
     checks = {c.key: c.status for c in evaluate(passing).checks}
     assert all(status != "fail" for status in checks.values()) and checks["demagnetization"] == "pass"
     out = relaxations([passing], ["load"])
-    assert out[0] == "with a 12.3 V supply (instead of 12 V) design 1 passes every check"
-    assert "at a rated torque of 34.1 mN·m (instead of 35 mN·m) at 2800 rpm design 1 passes every check" in out
+    assert out[0] == "with a 12.1 V supply (instead of 12 V) design 1 passes every check"
+    assert "at a rated torque of 34.8 mN·m (instead of 35 mN·m) at 2800 rpm design 1 passes every check" in out
+    assert "at a required speed of 2786 rpm (instead of 2800 rpm) design 1 passes every check" in out
 
 
 def test_no_candidate_fits_says_so():
@@ -170,3 +171,20 @@ def test_a_binding_range_is_widened_and_the_envelope_it_would_need_is_evaluated(
     assert all(status != "fail" for status in checks.values()) and checks["demagnetization"] == "pass"
     # a value inside its range binds nothing and is not widened
     assert range_extensions(tight, (wall,), {"housing.wall_mm": 3.0}) == []
+
+
+def test_a_relaxation_is_the_least_to_a_fifth_of_the_grid_step(ferrite):
+    # a design slow in the cold case (7.5 mm magnets keep the margin; 22 turns are too many for 2800 rpm)
+    from pmdc_sizer.core.batch import evaluate_many
+    from pmdc_sizer.core.design import design_from_project
+    from pmdc_sizer.core.sizing_relaxations import REFINE_POINTS, VOLTAGE_STEPS, _least_passing
+    from pmdc_sizer.core.sizing_requirement import faults_must_survive, meets_requirement
+
+    slow = with_values(ferrite, {"magnets.thickness_mm": 7.5})
+    grid = [12.0 * s for s in VOLTAGE_STEPS]
+    found, who, _ = _least_passing([slow], "supply.voltage_V", 12.0, grid)
+    assert isinstance(found, float) and who == 0
+    fine = (VOLTAGE_STEPS[1] - VOLTAGE_STEPS[0]) * 12.0 / (REFINE_POINTS + 1)
+    batch = evaluate_many([design_from_project(with_values(slow, {"supply.voltage_V": v}))
+                           for v in (found, found - 0.999 * fine)])
+    assert meets_requirement(batch, faults_must_survive(slow)).tolist() == [True, False]
