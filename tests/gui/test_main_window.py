@@ -10,7 +10,8 @@ import pytest
 import tomli_w
 from PySide6.QtWidgets import QMessageBox
 
-from pmdc_sizer.app.figures import figure
+from pmdc_sizer.app.figures import figure, units_of_design
+from pmdc_sizer.app.formatting import check_message
 from pmdc_sizer.app.gui.main_window import PAGE_MAGNET, PAGE_PERFORMANCE, PAGE_SECTION
 from pmdc_sizer.core import library
 from pmdc_sizer.core import project as project_file
@@ -39,7 +40,10 @@ def test_each_demo_opens_evaluated_with_every_view_filled(open_window, demo_path
     assert window.magnet_chart.table.rowCount() == len(results.demagnetization.cases) + len(results.faults.cases)
     assert sorted(window.checks_panel.shown) == sorted(c.key for c in results.checks)
     text = window.checks_panel.toPlainText()
-    assert all(c.title in text and c.message[:20] in text for c in results.checks)
+    # each check's message as the panel words it: its torques in the design's torque unit (N·m for the
+    # scooter and the drill, whose core messages quote mN·m)
+    shown = units_of_design(results, window.display.screen_unit)
+    assert all(c.title in text and check_message(c, shown)[:20] in text for c in results.checks)
     assert window.results_panel.values[figure("constants.ke_V_s_per_rad").title].endswith("V/krpm")
 
 
