@@ -40,8 +40,9 @@ array laid out segments first and designs last, so that each segment's values ar
 over the chunk; every steel element of the network is looked up in one table operation; the Newton step's
 linear systems go to :func:`.cyclic_tridiagonal.solve_symmetric_cyclic_3x3`; designs that have
 converged leave the chunk; and an entry may start from another entry's solution (``seeded_by``: the same
-pole at another rotor position), which the seeds are solved first to give. Each design's arithmetic is its own, whatever batch or chunk it is solved in, but
-for the linear solver, which changes with the chunk's size (core.cyclic_tridiagonal) and so the last place.
+pole at another rotor position), which the seeds are solved first to give. Each design's arithmetic is its
+own, whatever batch or chunk it is solved in, but for the linear solver, which changes with the chunk's
+size (core.cyclic_tridiagonal) and so the last place.
 
 The flux per pole is the flux down the lower branches (they hold the gap) between the two neutral axes,
 2·Ln. The rotor-removed case is the same network with the armature replaced by air: the lower branches end
