@@ -44,13 +44,13 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .batch import check_status, evaluate_many, screening_figures
+from .batch import evaluate_many, screening_figures
 from .design import geometry_of
 from .errors import MagneticCircuitError, ProjectError
 from .schema import Project
 from .sizing_candidates import GEOMETRY_KEYS, fitting_designs, project_with, tied_values
 from .sizing_objectives import OBJECTIVES, derived_figures, non_dominated, objective_matrix, validate_objectives
-from .sizing_requirement import faults_must_survive, requirement_misses
+from .sizing_requirement import faults_must_survive, missed_checks
 from .sizing_screen import UNUSABLE, CandidateStore, SizingCancelled, progress_or_cancel, refine
 from .sizing_shortfall import Shortfall, explain
 from .sizing_space import FreeRange, SizingSpec, file_value, from_unit, sample_unit, values_at
@@ -106,8 +106,7 @@ def _verified(project: Project, values: dict[str, float | int | str], objectives
         results = evaluate(design_project)
     except (ProjectError, MagneticCircuitError):
         return None
-    status = {key: np.array([code]) for key, code in check_status(results).items()}
-    if any(miss[0] for miss in requirement_misses(status, faults_must_survive(design_project)).values()):
+    if missed_checks(results, faults_must_survive(design_project)):
         return None
     figures = screening_figures(results)
     g = results.geometry

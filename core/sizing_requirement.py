@@ -15,8 +15,9 @@ from collections.abc import Mapping
 
 import numpy as np
 
-from .batch import CHECK_KEYS, FAIL_CODE, PASS_CODE, BatchFigures
+from .batch import CHECK_KEYS, FAIL_CODE, PASS_CODE, BatchFigures, check_status
 from .margins import must_survive_faults
+from .results import Check, Results
 from .schema import Project
 
 #: The checks whose warning means a case keeps less than the required margin to the knee.
@@ -63,6 +64,26 @@ def requirement_misses(status: Mapping[str, np.ndarray], must_survive: bool) -> 
     return misses
 
 
+def missed_checks(results: Results, must_survive: bool) -> list[Check]:
+    """The checks one evaluated design misses the requirement by (as :func:`requirement_misses`).
+
+    Parameters
+    ----------
+    results : Results
+        The design's evaluation (core.evaluate).
+    must_survive : bool
+        :func:`faults_must_survive`.
+
+    Returns
+    -------
+    list of Check
+        In the order of ``results.checks``; empty when the design meets the requirement.
+    """
+    codes = {key: np.array([code]) for key, code in check_status(results).items()}
+    misses = requirement_misses(codes, must_survive)
+    return [c for c in results.checks if (bool(misses[c.key][0]) if c.key in misses else c.status == "fail")]
+
+
 def meets_requirement(batch: BatchFigures, must_survive: bool) -> np.ndarray:
     """Where each design of a batch meets the requirement: solved, no check failed, every margin kept.
 
@@ -84,4 +105,4 @@ def meets_requirement(batch: BatchFigures, must_survive: bool) -> np.ndarray:
     return np.asarray(~missed & ~batch.failed)
 
 
-__all__ = ["MARGIN_CHECKS", "faults_must_survive", "meets_requirement", "requirement_misses"]
+__all__ = ["MARGIN_CHECKS", "faults_must_survive", "meets_requirement", "missed_checks", "requirement_misses"]

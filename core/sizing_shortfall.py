@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .batch import CHECK_KEYS, BatchFigures, check_status
+from .batch import CHECK_KEYS, BatchFigures
 from .evaluate import evaluate
 from .schema import Project
 from .sizing_candidates import project_with
@@ -37,7 +37,7 @@ from .sizing_relaxations import (
     relaxations,
     value_text,
 )
-from .sizing_requirement import faults_must_survive, requirement_misses
+from .sizing_requirement import faults_must_survive, missed_checks, requirement_misses
 from .sizing_space import FreeRange, SizingSpec
 from .units import to_si
 
@@ -184,9 +184,7 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
     results = evaluate(closest)
     titles = {c.key: c.title for c in results.checks}
     # the checks it fails, and a margin to the knee short of the required (a warning on the file's page)
-    codes = {key: np.array([code]) for key, code in check_status(results).items()}
-    its_misses = requirement_misses(codes, must_survive)
-    missed = [c for c in results.checks if bool(its_misses.get(c.key, np.array([c.status == "fail"]))[0])]
+    missed = missed_checks(results, must_survive)
 
     shortfalls = []
     for check in missed:

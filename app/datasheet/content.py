@@ -154,11 +154,6 @@ def _number_shown(source, key: str, results: Results) -> str:
     return figure(key).number(value_of(source, key), paper_unit(unit_for(key, results)))
 
 
-def _shown_with_unit(source, key: str, results: Results) -> str:
-    """The figure with its unit, in the sheet's units, for a sentence."""
-    return text_of(source, key, paper_unit(unit_for(key, results)))
-
-
 def _header_with_unit(key: str, results: Results) -> str:
     return figure(key).label(paper_unit(unit_for(key, results)))
 
@@ -337,8 +332,8 @@ def fault_table(results: Results) -> Table | None:
             else "The project reports these without requiring them to pass (supply.fault_cases).")
     # The required margin follows HcJ, so it is one figure per magnet temperature: said once in the caption
     # rather than as a ninth column, which squeezed the verdict words ("PAST THE KNEE") against the figures.
-    required = {_shown_with_unit(case, "demagnetization_case.temperature_C", results):
-                _shown_with_unit(case, "demagnetization_case.required_margin_A_per_m", results)
+    required = {_shown(case, "demagnetization_case.temperature_C", results):
+                _shown(case, "demagnetization_case.required_margin_A_per_m", results)
                 for case in faults.cases}
     required_text = ", ".join(f"{margin} at {temperature}" for temperature, margin in required.items())
     return Table(("No.", LABELS["demagnetization_case.name"],
