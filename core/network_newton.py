@@ -21,6 +21,9 @@ MAX_ITERATIONS = 60
 _BACKTRACKS = 8
 #: A chunk at least this large sheds its converged designs as it goes (below, the copying costs more).
 _COMPACT_FROM = 256
+#: A line-search step back re-evaluates the whole chunk when more than this share of it steps back; else
+#: only the designs that do (gathering and scattering them costs about what evaluating the rest would).
+_RETRY_ALL_SHARE = 0.5
 
 
 def _next(values):
@@ -238,12 +241,34 @@ def newton(s: StackedNetwork, scale, initial=None):
             if not worse.any():
                 break
             damping = np.where(worse, 0.5 * damping, damping)
-            trial = _trial(state, steps, damping)
-            trial_residuals, trial_parts, worst = _residual(s, trial)
-            trial_norm = worst / scale
+            if worse.sum() > _RETRY_ALL_SHARE * worse.size:
+                trial = _trial(state, steps, damping)
+                trial_residuals, trial_parts, worst = _residual(s, trial)
+                trial_norm = worst / scale
+            else:  # only the designs that step back are evaluated again; the rest keep their trial
+                _retry(s, state, steps, damping, worse, scale, (trial, trial_residuals, trial_parts, trial_norm))
         state, residuals, parts, norm = trial, trial_residuals, trial_parts, trial_norm
     leave(np.ones(index.size, dtype=bool))
     return out_state, (out_branches, None, out_drop), out_norm, out_iterations
+
+
+def _retry(s: StackedNetwork, state, steps, damping, worse, scale, trials) -> None:
+    """The line search's step back for the designs ``worse`` alone, written into ``trials`` in place.
+
+    ``trials`` is (trial state, residuals, parts, norm) of the whole chunk, as :func:`newton` holds them;
+    each design's residual is its own column, so evaluating a few columns gives them exactly what the
+    whole chunk would.
+    """
+    trial, trial_residuals, (branches, split, drop), trial_norm = trials
+    sub_trial = _trial(state[..., worse], steps[..., worse], damping[worse])
+    residuals, (sub_branches, sub_split, sub_drop), worst = _residual(designs_of(s, worse), sub_trial)
+    trial[..., worse] = sub_trial
+    trial_residuals[..., worse] = residuals
+    branches[..., worse] = sub_branches
+    for whole, part in zip(split, sub_split, strict=True):
+        whole[..., worse] = part
+    drop[..., worse] = sub_drop
+    trial_norm[worse] = worst / scale[worse]
 
 
 def _trial(state, steps, damping):
