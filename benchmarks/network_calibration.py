@@ -6,7 +6,8 @@ Two steps, both run from the repository root:
   every time), solves every case with the field solution (core.field, default mesh, dask.distributed with
   two local workers) and stores the reference values in ``tests/core/data/network_reference.json``
   together with how they were made. Slow (minutes); rerun only when the field solution or the sample
-  changes.
+  changes. ``solve-demos`` re-solves only the demos' own cases (after a demo project changed) and keeps
+  the stored sample.
 * ``python benchmarks/network_calibration.py report`` solves the same designs and cases with the fast
   model (core.reluctance_network), writes ``docs/network-calibration.md`` (the table, worst cases first per
   target) and ``docs/network-calibration.png`` (the plot).
@@ -92,6 +93,8 @@ def sample(size: int = SAMPLE_SIZE, seed: int = SEED) -> list[dict]:
             "armature.tooth_width_mm": tooth, "armature.slot_opening_mm": opening,
             "armature.slot_depth_mm": round(slot_depth, 2), "housing.max_outer_diameter_mm": None,
             "armature.shaft_magnetic": bool(rng.random() < 0.75),
+            # pinned, so that a stored design stays the one solved when a demo's winding is changed later
+            "winding.turns_per_coil": base.winding.turns_per_coil,
         }
         try:
             with_values(base, changes)
@@ -165,18 +168,28 @@ def _case_record(case) -> dict:
             "demagnetization_case": case.demagnetization_case}
 
 
-def solve_references() -> None:
-    """Solve the sample and the demos' cases with the field solution and store the reference file."""
+def solve_references(demos_only: bool = False) -> None:
+    """Solve the sample and the demos' cases with the field solution and store the reference file.
+
+    ``demos_only`` re-solves the demos' own cases alone (after a demo project changed) and keeps the
+    stored sample, whose designs are pinned by their stored changes.
+    """
     from pmdc_sizer.core import evaluate
     from pmdc_sizer.core.design import design_from_project
     from pmdc_sizer.core.field import BatchItem, field_cases, solve_many
 
     started = time.perf_counter()
     entries, items = [], []
-    for index, entry in enumerate(sample()):
-        design, cases = sample_cases(entry, index)
-        entries.append(entry)
-        items += [BatchItem(entry["label"], design, case) for case in cases]
+    kept: list[dict] = []
+    if demos_only:
+        stored = json.loads(REFERENCE.read_text(encoding="utf-8"))
+        kept = [entry for entry in stored["designs"] if entry["label"] not in DEMOS]
+        how_sample_was_made = stored["how_made"]
+    else:
+        for index, entry in enumerate(sample()):
+            design, cases = sample_cases(entry, index)
+            entries.append(entry)
+            items += [BatchItem(entry["label"], design, case) for case in cases]
     for demo in DEMOS:
         design = design_from_project(_project(demo))
         entries.append({"label": demo, "demo": demo, "changes": {}})
@@ -195,13 +208,15 @@ def solve_references() -> None:
         else:
             record["error"] = outcome.error
         records[item.label]["cases"].append(record)
-    data = {
-        "how_made": ("benchmarks/network_calibration.py solve: core.field.solve_case with the default "
-                     "FieldOptions, rotor position 0 (half a slot pitch on the half-slot cases), "
-                     f"{len(items)} cases, sample seed {SEED}; "
-                     f"{time.strftime('%Y-%m-%d', time.gmtime())}, {time.perf_counter() - started:.0f} s on 2 workers"),
-        "designs": list(records.values()),
-    }
+    how_made = ("benchmarks/network_calibration.py solve: core.field.solve_case with the default "
+                "FieldOptions, rotor position 0 (half a slot pitch on the half-slot cases), "
+                f"{len(items)} cases, sample seed {SEED}; "
+                f"{time.strftime('%Y-%m-%d', time.gmtime())}, {time.perf_counter() - started:.0f} s on 2 workers")
+    if demos_only:
+        how_made = (f"{how_sample_was_made.split(' | ')[0]} | the demos' cases re-solved by "
+                    f"benchmarks/network_calibration.py solve-demos: {len(items)} cases; "
+                    f"{time.strftime('%Y-%m-%d', time.gmtime())}, {time.perf_counter() - started:.0f} s")
+    data = {"how_made": how_made, "designs": kept + list(records.values())}
     REFERENCE.write_text(json.dumps(data, indent=1) + "\n", encoding="utf-8")
     print(f"wrote {REFERENCE.relative_to(ROOT)}: {len(items)} cases in {time.perf_counter() - started:.0f} s")
 
@@ -209,8 +224,10 @@ def solve_references() -> None:
 if __name__ == "__main__":
     if sys.argv[1:] == ["solve"]:
         solve_references()
+    elif sys.argv[1:] == ["solve-demos"]:
+        solve_references(demos_only=True)
     elif sys.argv[1:] == ["report"]:
         from network_report import write_report  # the report lives beside this script
         write_report()
     else:
-        sys.exit("usage: network_calibration.py solve|report")
+        sys.exit("usage: network_calibration.py solve|solve-demos|report")

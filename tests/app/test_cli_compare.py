@@ -26,7 +26,7 @@ def test_two_files_as_json_hold_a_b_and_their_difference(capsys):
     assert status == 0 and err == ""
     data = json.loads(out)
     assert {"a", "b", "difference", "relative_difference"} <= data.keys() and "refit" not in data
-    assert data["a"]["magnet"]["name"] == "Y40" and data["b"]["magnet"]["name"] == "N42SH"
+    assert data["a"]["magnet"]["name"] == "Y40" and data["b"]["magnet"]["name"] == "N35EH"
     # Same keys as the evaluate JSON, B − A, numbers only.
     assert data["difference"]["performance"]["no_load_speed_rpm"] == pytest.approx(
         data["b"]["performance"]["no_load_speed_rpm"] - data["a"]["performance"]["no_load_speed_rpm"])
@@ -58,7 +58,7 @@ def test_grade_b_with_refit_reports_the_refit(capsys):
 def test_turns_refit_says_turns_are_whole(capsys):
     status, out, _ = run(capsys, "compare", FERRITE, "--grade-b", "N42", "--refit", "no-load-speed")
     assert status == 0
-    assert "turns per coil go from 22 to" in out and "Turns are whole numbers" in out
+    assert "turns per coil go from 20 to" in out and "Turns are whole numbers" in out
 
 
 def test_unreachable_refit_exits_1_with_one_line_and_still_prints(capsys):

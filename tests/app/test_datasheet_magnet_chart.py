@@ -69,7 +69,7 @@ def test_the_key_names_the_faults_the_shifted_line_and_what_pc_is(drill):
     assert "iron" in joined and "temperature" in joined
     assert magnet_marks.shifted_load_line(drill).title(short=True) in texts
     assert "F1" in joined and "supply applied directly" in joined and "worst 5 %" in joined
-    assert any(text == LINES["shifted_load_line"].key_text + ", case 4 (-131 kA/m)" for text in texts)
+    assert any(text == LINES["shifted_load_line"].key_text + ", case 4 (-141 kA/m)" for text in texts)
 
 
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])

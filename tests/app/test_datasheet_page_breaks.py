@@ -58,7 +58,10 @@ def test_no_heading_ends_a_page_and_no_short_table_splits(evaluated, edition):
                 faults.append(f"heading {block.text()!r} is the last thing on its page")
         block = block.next()
     assert not faults, "\n".join(faults)
-    assert paged.page_count <= (6 if edition == "customer" else 7)
+    # a cap on the sheet's length; the internal edition of the scooter demo takes 8: its grade carries a
+    # data note (a recoil permeability made consistent) that leaves the grade's table too tall for the
+    # magnet page, and a table is kept whole rather than split
+    assert paged.page_count <= (6 if edition == "customer" else 8)
 
 
 def _broken_words(block) -> list[str]:

@@ -64,7 +64,7 @@ def test_the_paper_panels_frame_the_limited_region_with_the_shade_in_view(limite
     r = limited
     panels = dict(zip(CURVE_QUANTITIES, charts.performance_panels(r), strict=True))
     current = panels["current_A"]
-    assert r.current_limit_A < current.left_range[1] < 2.0 * r.current_limit_A
+    assert r.current_limit_A < current.left_range[1] <= 2.0 * r.current_limit_A
     for name in ("speed_rad_per_s", "current_A", "output_power_W"):  # the efficiency's panel: the working range
         panel = panels[name]
         # the limit's torque and the shaded region beyond it are inside the torque axis

@@ -43,7 +43,7 @@ def test_out_of_reach_names_what_b_would_need_and_the_limit(ferrite):
 def test_whole_turns_say_which_neighbour_was_closer(ferrite):
     design, results_a = ferrite
     fit = refit.refit("no-load-speed", results_a, difference.with_grade(design, "N42"))
-    assert refit_message(fit).startswith("B's turns per coil go from 22 to ")
+    assert refit_message(fit).startswith("B's turns per coil go from 20 to ")
     (note,) = [n for n in refit_notes(fit) if "whole numbers" in n]
     assert f"{int(fit.alternative_value)} turns would give" in note and f"so {fit.value_after} is the closer" in note
 

@@ -47,15 +47,16 @@ def searched(ferrite_base):
 
 
 def test_the_ferrite_requirement_is_feasible(searched, ferrite_base):
-    # the demo as drawn fails its rated load (it is slow when hot): the search, with the demo's own values
-    # inside the ranges, finds designs that meet it
-    assert any(c.status == "fail" for c in evaluate(ferrite_base).checks)
+    # the demo as drawn keeps less than the required margin to the knee with the rotor removed, cold (a
+    # warning on the file, a miss for a search): the search, with the demo's values inside the ranges,
+    # finds designs that meet the whole requirement
+    assert check_status(evaluate(ferrite_base))["demagnetization"] != PASS_CODE
     _, result = searched
     assert result.feasible_count > 0 and result.designs
     assert result.explanation == "" and result.shortfalls == ()
     assert result.candidates_evaluated >= 256
-    # the lightest design that meets the requirement weighs about what the demo does, which meets neither its
-    # rated load nor its required margin to the knee (8.6 of 16.2 kA/m rotor removed): a little more magnet
+    # the lightest design that meets the requirement weighs about what the demo does, which does not keep its
+    # required margin to the knee (8.6 of 16.2 kA/m rotor removed): a little more magnet
     own = screening_figures(evaluate(ferrite_base))["mass.active_kg"]
     assert min(d.objectives["mass"] for d in result.designs) <= 1.05 * own
     for design in result.designs:  # and every one keeps the required margin, which the demo does not
@@ -121,24 +122,24 @@ def test_an_impossible_requirement_gives_no_design_and_says_why(ferrite_base):
 
 def test_the_mobility_requirement_is_feasible():
     base = project.load(DEMO_FOLDER / "mobility_ndfeb_24v.toml")
-    # as drawn it misses the rated load and fails the direct-supply fault case
-    assert {c.key for c in evaluate(base).checks if c.status == "fail"} == {"load", "fault_demagnetization"}
+    # as drawn it meets the requirement, the magnets surviving a reversal on a failed drive (N35EH); the
+    # search over its region, its grade among the choices, finds designs no heavier
+    assert not {c.key for c in evaluate(base).checks if c.status == "fail"}
     ranges = ("magnets.thickness_mm=2:6", "housing.wall_mm=4:10", "winding.turns_per_coil=5:14",
               "armature.stack_length_mm=35:49", "winding.wire=0.50:0.90")
-    result = size(base, _spec(base, ranges, ("N42SH", "N38UH", "N35"), objectives=("mass",), generations=4))
+    result = size(base, _spec(base, ranges, ("N42SH", "N38UH", "N35EH"), objectives=("mass",), generations=4))
     assert result.designs and all(d.project.housing.max_outer_diameter_mm == 72.0 for d in result.designs)
     own = screening_figures(evaluate(base))["mass.active_kg"]
     assert min(d.objectives["mass"] for d in result.designs) <= own
 
 
 def test_the_power_tool_requirement_is_feasible_with_its_faults_reported():
-    # as drawn it fails the direct-supply faults (3.4 kA on reversal, cold: no magnet of this size survives
-    # 48 V applied directly) and its tooth flux. The requirement sized here keeps its drive limit and states
-    # that a fuse in the pack guards a failed drive: faults are reported, not required to be survived
+    # the direct-supply faults (3.4 kA on reversal, cold: no magnet of this size survives 48 V applied
+    # directly) are reported, not required: the demo states that a fuse in the pack guards a failed drive
     base = project.load(DEMO_FOLDER / "power_tool_4pole_48v.toml")
-    failing = {c.key for c in evaluate(base).checks if c.status == "fail"}
-    assert failing == {"fault_demagnetization", "tooth_flux_density"}
-    requirement = with_values(base, {"supply.fault_cases": "report"})
+    assert base.supply.fault_cases == "report"
+    assert not {c.key for c in evaluate(base).checks if c.status == "fail"}
+    requirement = base
     ranges = ("magnets.thickness_mm=2:6", "housing.wall_mm=4:9", "winding.turns_per_coil=1:4",
               "armature.tooth_width_mm=2.5:5", "armature.stack_length_mm=25:50")
     result = size(requirement, _spec(requirement, ranges, ("N42SH", "N38UH", "N35EH"), objectives=("mass",),

@@ -60,7 +60,7 @@ def test_load_share_is_the_slowest_cases_missing_share_of_speed(ferrite):
     results = evaluate(ferrite)
     torque = to_si(ferrite.load.torque_mNm, "mN·m")
     speed = to_si(ferrite.load.speed_rpm, "rpm")
-    batch, _ = _batch(ferrite, [6.0], [22])
+    batch, _ = _batch(ferrite, [ferrite.magnets.thickness_mm], [ferrite.winding.turns_per_coil])  # the file as drawn
     slowest = min(c.rated.speed_rad_per_s for c in results.cases)
     assert load_shortfall_share(batch.figures, torque, speed)[0] == pytest.approx(max(0.0, 1.0 - slowest / speed),
                                                                                   rel=1e-9, abs=1e-12)

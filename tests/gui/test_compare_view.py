@@ -154,7 +154,7 @@ def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
     assert "B not changed" in view.side_labels.text() and view.results_b is None
     with qtbot.waitSignal(view.comparison_updated, timeout=5000):
         assert view.load_b_file(DEMO_FOLDER / "mobility_ndfeb_24v.toml")
-    assert view.results_b.magnet.name == "N42SH" and "mobility_ndfeb_24v.toml" in view.side_labels.text()
+    assert view.results_b.magnet.name == "N35EH" and "mobility_ndfeb_24v.toml" in view.side_labels.text()
     # the scooter's stall torque is 16.7 N·m: the shared torque axis is in N·m, not in thousands of mN·m
     assert view.curve_plots["speed_rad_per_s"].getAxis("bottom").labelUnits == "N·m"
     assert not view.save_b(tmp_path / "no such folder" / "b.toml")

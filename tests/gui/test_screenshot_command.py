@@ -90,7 +90,7 @@ def test_screenshot_of_the_compare_page_with_a_design_b(qapp, ferrite_demo, tmp_
     assert out.exists()
     (source, results_b), = shown
     assert source == "file mobility_ndfeb_24v.toml"
-    assert results_b is not None and results_b.magnet.name == "N42SH"  # B's own grade (A's is Y40)
+    assert results_b is not None and results_b.magnet.name == "N35EH"  # B's own grade (A's is Y40)
 
 
 def test_a_broken_design_b_is_refused_before_anything_is_written(qapp, ferrite_demo, tmp_path, capsys):

@@ -51,7 +51,7 @@ def test_the_chart_draws_the_transient_with_the_limits_and_the_run(drill_window,
     assert chart.title.text() == "Temperatures over the duty (S2: a 5 min run, then at rest) at the rated load, " \
                                  "50 °C ambient"
     assert chart.notes.text() == " ".join(chart_notes(results.thermal))
-    assert "Winding 167 °C at the end of the run" in chart.notes.text()
+    assert "Winding 164 °C at the end of the run" in chart.notes.text()
     assert chart.limit_mark.points().size == 0  # a usable state: nothing marked
     assert "under the rated load" in chart.key.text()
     assert chart.plot.getAxis("left").labelText == "Temperature [°C]"

@@ -40,7 +40,7 @@ def test_a_study_shows_the_yield_the_histograms_the_band_and_the_drivers(page, q
     study = view.study
     assert study.samples == 100
     assert "Yield" in view.headline.text() and "worst margin to the knee" in view.headline.text()
-    assert "drawn fails already: Rated load" in view.headline.text()  # the ferrite demo, as drawn
+    assert "drawn fails already" not in view.headline.text()  # the ferrite demo passes as drawn
     plot = view._plots["nominal.ke_V_s_per_rad"]
     counts = next(iter(plot.listDataItems())).getData()[1]
     assert int(np.sum(counts)) == 100
