@@ -99,6 +99,18 @@ def compare(reference_path: Path | None = None) -> list[Row]:
     return rows
 
 
+def _solved_at_both_positions(reference_path: Path | None):
+    """Each sample design whose larger armature current was solved at rotor positions 0 and half a slot
+    pitch: (its stored entry, its solved cases by name, its design)."""
+    from network_calibration import REFERENCE, design_of
+
+    data = json.loads((reference_path or REFERENCE).read_text(encoding="utf-8"))
+    for entry in data["designs"]:
+        solved = {r["case"]["name"]: r for r in entry["cases"] if "field" in r}
+        if "load-1-half-slot" in solved and "load-1" in solved:
+            yield entry, solved, design_of(entry)
+
+
 @dataclass(frozen=True)
 class WorstPositionRow:
     """One loaded design: the tool's verdict (the worst rotor position the network tells apart) against
@@ -120,18 +132,11 @@ class WorstPositionRow:
 
 def worst_position_rows(reference_path: Path | None = None) -> list[WorstPositionRow]:
     """Every design solved at both rotor positions: field (worse of the two) and tool (worst of all)."""
-    from network_calibration import REFERENCE, design_of
-
     from pmdc_sizer.core.armature_mmf import distinct_rotor_positions
     from pmdc_sizer.core.pole_magnetics import design_network, two_dimensional_states
 
-    data = json.loads((reference_path or REFERENCE).read_text(encoding="utf-8"))
     rows = []
-    for entry in data["designs"]:
-        solved = {r["case"]["name"]: r for r in entry["cases"] if "field" in r}
-        if "load-1-half-slot" not in solved or "load-1" not in solved:
-            continue
-        design = design_of(entry)
+    for entry, solved, design in _solved_at_both_positions(reference_path):
         case = solved["load-1"]["case"]
         positions = distinct_rotor_positions(design_network(design).centre_angle, int(design.geometry.slots))[0]
         states = two_dimensional_states(design, np.full(positions.size, case["magnet_temperature_C"]),
@@ -155,6 +160,51 @@ def _worst_position_summary(rows: list[WorstPositionRow]) -> str:
         f"- past the knee (pass/fail) differently: {len(differ)} of {len(rows)}"
         + ("" if not differ else " (" + ", ".join(differ) + ")"),
     ])
+
+
+@dataclass(frozen=True)
+class RotationMeanRow:
+    """One design solved at both rotor positions: the flux per pole under load over the rotor's turning."""
+
+    label: str
+    field_mean: float  #: the mean of the field solution's two rotor positions [Wb/m]
+    smeared: float  #: the network with the smeared sheet, as the tool takes it [Wb/m]
+    slotted_mean: float  #: the network with the current in its slots, weighted over its positions [Wb/m]
+
+
+def rotation_mean_rows(reference_path: Path | None = None) -> list[RotationMeanRow]:
+    """Every design solved at both rotor positions: what the back-EMF sees under load, three ways."""
+    from pmdc_sizer.core.armature_mmf import distinct_rotor_positions, rotor_position_shares
+    from pmdc_sizer.core.pole_magnetics import design_network, two_dimensional_states
+
+    rows = []
+    for entry, solved, design in _solved_at_both_positions(reference_path):
+        case = solved["load-1"]["case"]
+        centres = design_network(design).centre_angle
+        positions = distinct_rotor_positions(centres, int(design.geometry.slots))[0]
+        shares = rotor_position_shares(centres, int(design.geometry.slots))[0]
+        temperature, current = case["magnet_temperature_C"], case["current_A"]
+        slotted = two_dimensional_states(design, np.full(positions.size, temperature),
+                                         np.full(positions.size, current), rotor_position=positions)
+        rows.append(RotationMeanRow(
+            label=entry["label"],
+            field_mean=0.5 * sum(solved[name]["field"]["flux_per_pole_Wb_per_m"]
+                                 for name in ("load-1", "load-1-half-slot")),
+            smeared=float(two_dimensional_states(design, temperature, current).flux_per_pole[0]),
+            slotted_mean=float(shares @ slotted.flux_per_pole)))
+    return rows
+
+
+def _rotation_mean_summary(rows: list[RotationMeanRow]) -> str:
+    lines = [f"- designs: {len(rows)} (the larger armature current; the field solution's mean of rotor positions "
+             "0 and half a slot pitch)"]
+    for name, pick in (("smeared sheet (the tool today)", lambda r: r.smeared),
+                       ("current in its slots, weighted over the positions", lambda r: r.slotted_mean)):
+        errors = np.array([100.0 * (pick(r) / r.field_mean - 1.0) for r in rows])
+        lines.append(f"- {name}, network − field: mean {errors.mean():+.2f} %, "
+                     f"rms {np.sqrt((errors**2).mean()):.2f} %, worst {errors[np.argmax(np.abs(errors))]:+.2f} %; "
+                     f"within ±{FLUX_LOAD:g} %: {int((np.abs(errors) <= FLUX_LOAD).sum())} of {len(rows)}")
+    return "\n".join(lines)
 
 
 def _summary(rows: list[Row], kind: str, flux_target: float | None) -> str:
@@ -291,6 +341,20 @@ network tells apart (core.magnet_load_fields), at the same current.
 
 {_worst_position_summary(worst_position_rows())}
 
+## Under load, the flux per pole over the rotor's turning
+
+The back-EMF sees the flux per pole averaged as the rotor turns. The tool takes it from the armature's
+current as a smeared sheet (core.pole_load_table); the sheet is the mean of the slots' currents over a slot
+pitch (tested), but the flux is not linear in that current where iron saturates, and the mean of the fluxes
+with the current in its slots comes out below the flux of the mean current on these designs. Below, the
+field solution's mean of its two rotor positions (an estimate of its mean over the turning) against the
+network both ways: with the smeared sheet, and with the current in its slots at every position the network
+tells apart, each weighted by the share of the slot pitch it holds over
+(core.armature_mmf.rotor_position_shares). Not yet what the tool takes: the slotted mean costs a solve per
+position at every current of the curves.
+
+{_rotation_mean_summary(rotation_mean_rows())}
+
 ## Rotor removed
 
 {_summary(rows, "rotor removed", None)}
@@ -311,7 +375,7 @@ are wider than the magnet's tip regions and which the network's smeared teeth do
 half the field solution's field; two verdicts differ there. The tool itself takes the worst of every rotor
 position the network tells apart (core.magnet_load_fields), and that verdict agrees with the worse of the
 field solution's two positions on every design (section above). The flux per pole stays on the smeared
-sheet, the mean over the rotor's turning that the back-EMF sees. What still misses: at no load, thick
+sheet (what that leaves out: the section on the rotor's turning). What still misses: at no load, thick
 magnets on 6 poles, where the network's leakage factor is a few per cent below the field solution's, and one
 bonded NdFeB design within 2 % of the knee either side (the required margin to the knee,
 magnets.required_margin_pct_of_HcJ, marks it marginal). The rotor-removed cases, with no armature, agree

@@ -237,3 +237,32 @@ def distinct_rotor_positions(centre_angle: np.ndarray, slots) -> np.ndarray:
     following = np.concatenate([crossings[:, 1:], crossings[:, :1] + pitch], axis=1)
     midpoints: np.ndarray = np.mod(0.5 * (crossings + following), pitch)
     return midpoints
+
+
+def rotor_position_shares(centre_angle: np.ndarray, slots) -> np.ndarray:
+    """The share of a slot pitch over which each of :func:`distinct_rotor_positions` holds.
+
+    The arrangement a position stands for lasts from one crossing of a slot over a branch centre to the
+    next, so a mean over the rotor's turning weights each position by that interval.
+
+    Parameters
+    ----------
+    centre_angle : ndarray
+        The network's branch centres θk, (D, segments) [rad].
+    slots : int or ndarray
+        Slots of each cross-section, () or (D,) [1].
+
+    Returns
+    -------
+    ndarray
+        (D, segments), in the order of :func:`distinct_rotor_positions`, summing to 1 per design [1].
+
+    References
+    ----------
+    .. [1] As :func:`distinct_rotor_positions`; our construction.
+    """
+    pitch = (2.0 * np.pi / np.asarray(slots, dtype=float))[..., None]
+    crossings = np.sort(np.mod(centre_angle, pitch), axis=-1)
+    following = np.concatenate([crossings[:, 1:], crossings[:, :1] + pitch], axis=1)
+    shares: np.ndarray = (following - crossings) / pitch
+    return shares
