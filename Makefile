@@ -23,7 +23,7 @@ lint: $(STAMP)
 	$(BIN)/python -m mypy core
 
 test: $(STAMP) lint
-	QT_QPA_PLATFORM=offscreen $(BIN)/python -m pytest -q
+	QT_QPA_PLATFORM=offscreen $(BIN)/python -m pytest -q -n auto --dist loadfile
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/bench_magnetics.py

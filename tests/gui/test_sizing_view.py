@@ -19,6 +19,9 @@ REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
 SEARCH_TIMEOUT_MS = 180_000  #: a few hundred candidates through the chain on a loaded machine
 SMALL = 300
+#: A sample alone, no refinement: enough for the tests that need a finished result with a feasible design
+#: (4 of 128 pass on the ferrite demo with the ranges below, seed 1), at a fraction of the small search's time.
+QUICK = 128
 DOTTED_KEY = re.compile(r"\b[a-z]+\.[a-z_]+\b")
 
 
@@ -35,7 +38,10 @@ def page(job_page):
     return window, view
 
 
-def _run(qtbot, view):
+def _run(qtbot, view, quick: bool = False):
+    if quick:
+        view.candidates_box.setValue(QUICK)
+        view.generations_box.setValue(0)
     with qtbot.waitSignal(view.finished, timeout=SEARCH_TIMEOUT_MS):
         view.run()
     return view.result
@@ -91,7 +97,7 @@ def test_cancel_stops_the_search_and_keeps_nothing(page, cancelled_run):
 
 def test_a_row_of_the_front_opens_in_the_editor_as_a_new_unsaved_design_with_its_values(page, qtbot):
     window, view = page
-    result = _run(qtbot, view)
+    result = _run(qtbot, view, quick=True)
     view.table.selectRow(0)
     index = view.table.item(0, 0).data(Qt.ItemDataRole.UserRole + 1)
     design = result.designs[index]
@@ -108,7 +114,7 @@ def test_a_row_of_the_front_opens_in_the_editor_as_a_new_unsaved_design_with_its
 
 def test_a_feasible_point_opens_as_b_in_the_comparison(page, qtbot):
     window, view = page
-    result = _run(qtbot, view)
+    result = _run(qtbot, view, quick=True)
     view.pick_feasible(0)
     compare = window.compare_view
     with qtbot.waitSignal(compare.evaluator_b.finished, timeout=10000):
@@ -140,7 +146,7 @@ def test_a_range_end_outside_the_files_limits_is_refused_with_the_limit_shown(pa
 
 def test_an_edit_of_the_requirement_marks_the_result_stale(page, qtbot):
     window, view = page
-    _run(qtbot, view)
+    _run(qtbot, view, quick=True)
     with qtbot.waitSignal(window.results_ready, timeout=10000):
         window.model.propose("supply.voltage_V", 13.0, final=True)
     assert "earlier" in view.state_label.text()
@@ -148,9 +154,10 @@ def test_an_edit_of_the_requirement_marks_the_result_stale(page, qtbot):
 
 def test_when_nothing_is_feasible_the_page_says_why_in_words(page, qtbot):
     window, view = page
-    view.free_table.set_free("magnets.thickness_mm", True, 0.5, 0.6)  # far too thin for any ferrite stack
-    view.free_table.set_free("armature.stack_length_mm", True, 3.0, 4.0)
-    view.candidates_box.setValue(64)  # nothing in this box passes: a small sample and no refinement show it
+    # too short a stack for the ferrite demo's torque: its teeth saturate, so nothing in this box passes (a
+    # small sample and no refinement show it), and the explanation's relaxations stay few
+    view.free_table.set_free("armature.stack_length_mm", True, 14.0, 16.0)
+    view.candidates_box.setValue(64)
     view.generations_box.setValue(0)
     result = _run(qtbot, view)
     assert result.feasible_count == 0 and not result.designs and result.explanation
@@ -206,7 +213,7 @@ def test_wire_and_steels_freed_on_the_page_reach_the_search(page, qtbot):
 def test_the_axis_choices_show_their_whole_entries_at_1366_by_768(page, qtbot):
     window, view = page
     window.resize(1366, 768)
-    _run(qtbot, view)
+    _run(qtbot, view, quick=True)
     qtbot.wait(50)
     for combo in (view.x_combo, view.y_combo, view.colour_combo):
         assert combo.width() >= combo.sizeHint().width(), combo.currentText()
