@@ -23,7 +23,7 @@ lint: $(STAMP)
 	$(BIN)/python -m mypy core
 
 test: $(STAMP) lint
-	QT_QPA_PLATFORM=offscreen $(BIN)/python -m pytest -q -n auto --dist loadfile
+	QT_QPA_PLATFORM=offscreen $(BIN)/python -m pytest -q -n auto --maxprocesses 4 --dist loadfile
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/bench_magnetics.py
