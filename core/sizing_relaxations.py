@@ -35,6 +35,11 @@ TORQUE_STEPS = tuple(1.0 - 0.025 * i for i in range(1, 37))  # -2.5 % ... -90 %
 AMBIENT_STEP_K = 2.5
 #: A free variable within this share of its range's width from an end "presses against" that end.
 BOUND_SHARE = 0.03
+#: The checks no relaxation tried here can change: the iron's flux densities are the nominal case's at no
+#: load (the nominal ambient is not relaxed), the slot fill and the envelope are the part's geometry. A design
+#: that fails one of them cannot pass at any supply, rated load, hottest ambient or insulation class, so it
+#: is not re-evaluated relaxed.
+FIXED_CHECKS = ("housing_flux_density", "tooth_flux_density", "core_flux_density", "slot_fill", "envelope")
 
 
 def value_text(key: str, value: object) -> str:
@@ -260,8 +265,45 @@ def range_extensions(project: Project, free: Sequence[FreeRange], values: Mappin
     return out
 
 
+def fixed_misses(designs: Sequence[Project]) -> list[tuple[str, ...]]:
+    """Per design, the checks of :data:`FIXED_CHECKS` it fails: those no relaxation of the requirement changes.
+
+    Parameters
+    ----------
+    designs : sequence of Project
+        The designs, with the search's requirement.
+
+    Returns
+    -------
+    list of tuple of str
+        One tuple per design, in the order of :data:`FIXED_CHECKS`; empty where it fails none of them (or
+        where it cannot be built or solved: the relaxed grids say what happens to it).
+
+    References
+    ----------
+    .. [1] :func:`core.checks.run_checks` (where each of these checks takes its figure).
+    """
+    built, owners = [], []
+    for index, project in enumerate(designs):
+        try:
+            built.append(design_from_project(project))
+        except ProjectError:
+            continue
+        owners.append(index)
+    out: list[tuple[str, ...]] = [() for _ in designs]
+    if not built:
+        return out
+    batch = evaluate_many(built)
+    misses = requirement_misses(batch.status, faults_must_survive(designs[0]))
+    for row, index in enumerate(owners):
+        if not batch.failed[row]:
+            out[index] = tuple(key for key in FIXED_CHECKS if key in misses and misses[key][row])
+    return out
+
+
 def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
-                names: Sequence[str] | None = None) -> list[str]:
+                names: Sequence[str] | None = None,
+                fixed: Sequence[tuple[str, ...]] | None = None) -> list[str]:
     """Relaxed requirements at which one of the given designs passes every check, found by re-evaluating them.
 
     Tries a higher supply voltage (``VOLTAGE_STEPS`` of the file's), a lower rated torque and, when the
@@ -282,11 +324,16 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
         start fails; the torque always).
     names : sequence of str, optional
         How to name each design in the sentence ("the closest design", ...).
+    fixed : sequence of tuple of str, optional
+        :func:`fixed_misses` of ``designs``, when the caller has it. A design that fails one of
+        :data:`FIXED_CHECKS` is not re-evaluated relaxed (no relaxation tried changes those checks); when
+        the closest is such a design, the first sentence says so.
 
     Returns
     -------
     list of str
-        Sentences, e.g. ``"with a 13.8 V supply (instead of 12 V) the closest design passes every check"``.
+        Sentences, e.g. ``"with a 13.8 V supply (instead of 12 V) the closest design passes every check"``;
+        empty when every design fails one of :data:`FIXED_CHECKS`.
 
     References
     ----------
@@ -295,9 +342,18 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
     if not designs:
         return []
     names = list(names) if names is not None else [f"design {i + 1}" for i in range(len(designs))]
+    fixed = fixed_misses(designs) if fixed is None else fixed
+    out = []
+    if all(fixed):
+        return []
+    if fixed[0]:
+        out.append(f"{names[0]} is left out (its {', '.join(k.replace('_', ' ') for k in fixed[0])} does not "
+                   "depend on the supply, the rated load, the ambient or the insulation class)")
+    kept = [i for i, keys in enumerate(fixed) if not keys]
+    designs, names = [designs[i] for i in kept], [names[i] for i in kept]
+    closest = "the closest" if kept[0] == 0 else names[0]
     first = designs[0]
     load_fails = bool({"load", "start"} & set(failed_checks))
-    out = []
     if load_fails:
         volts = float(first.supply.voltage_V)
         found, who, still = _least_passing(designs, "supply.voltage_V", volts,
@@ -306,7 +362,7 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
             out.append(f"with a {found:.3g} V supply (instead of {volts:g} V) {names[who]} passes every check")
         elif still:
             out.append(f"a supply of up to {volts * VOLTAGE_STEPS[-1]:.3g} V makes none of them pass "
-                       f"({still} still failing for the closest)")
+                       f"({still} still failing for {closest})")
     torque = float(first.load.torque_mNm)
     speed = float(first.load.speed_rpm)
     found, who, still = _least_passing(designs, "load.torque_mNm", torque,
@@ -316,7 +372,7 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
                    f"{names[who]} passes every check")
     elif still:
         out.append(f"a rated torque as low as {torque * TORQUE_STEPS[-1]:.3g} mN·m makes none of them pass "
-                   f"({still} still failing for the closest)")
+                   f"({still} still failing for {closest})")
     if load_fails:
         found, who, _ = _least_passing(designs, "load.speed_rpm", speed, [speed * s for s in TORQUE_STEPS])
         if found is not None:
@@ -338,5 +394,5 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
     return out
 
 
-__all__ = ["AMBIENT_STEP_K", "BOUND_SHARE", "ENVELOPE_KEYS", "EXTENSION_STEPS", "TORQUE_STEPS", "VOLTAGE_STEPS",
-           "binding_ranges", "range_extensions", "relaxations", "value_text"]
+__all__ = ["AMBIENT_STEP_K", "BOUND_SHARE", "ENVELOPE_KEYS", "EXTENSION_STEPS", "FIXED_CHECKS", "TORQUE_STEPS",
+           "VOLTAGE_STEPS", "binding_ranges", "fixed_misses", "range_extensions", "relaxations", "value_text"]

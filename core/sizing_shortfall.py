@@ -33,6 +33,7 @@ from .sizing_relaxations import (
     TORQUE_STEPS,
     VOLTAGE_STEPS,
     binding_ranges,
+    fixed_misses,
     range_extensions,
     relaxations,
     value_text,
@@ -217,10 +218,15 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
             parts.append("Re-evaluated with the range widened: " + "; ".join(widened) + ".")
     names = ["the closest design", *(f"the design with {', '.join(value_text(k, v) for k, v in values_of(i).items())}"
                                      for i in tried[1:])]
-    relaxed = relaxations([closest, *(project_with(project, values_of(i)) for i in tried[1:])],
-                          [c.key for c in missed], names)
+    relaxed_designs = [closest, *(project_with(project, values_of(i)) for i in tried[1:])]
+    fixed = fixed_misses(relaxed_designs)
+    relaxed = relaxations(relaxed_designs, [c.key for c in missed], names, fixed)
     if relaxed:
         parts.append("Re-evaluated with the requirement relaxed: " + "; ".join(relaxed) + ".")
+    elif all(fixed):
+        failed = ", ".join(sorted({key.replace("_", " ") for keys in fixed for key in keys}))
+        parts.append(f"No relaxation of the requirement can make them pass: each design tried fails {failed}, "
+                     "which no supply, rated load, ambient or insulation class changes.")
     else:
         parts.append("No supply voltage, rated torque or rated speed tried makes it pass.")
     return tuple(shortfalls), " ".join(parts)
