@@ -6,6 +6,8 @@ import gc
 
 import pytest
 
+from .waits import WAIT_MS
+
 
 @pytest.fixture(autouse=True)
 def _isolated_settings(tmp_path_factory, monkeypatch):
@@ -37,7 +39,7 @@ def open_window(qtbot):
         project = read_project(path) if path is not None else None
         window = MainWindow(project, path)
         window.show()  # closed below, after its changes are marked saved (qtbot.addWidget would close it first)
-        qtbot.waitUntil(lambda: window.current_results is not None and not window.evaluator.busy, timeout=10000)
+        qtbot.waitUntil(lambda: window.current_results is not None and not window.evaluator.busy, timeout=WAIT_MS)
         windows.append(window)
         return window
 
@@ -45,7 +47,7 @@ def open_window(qtbot):
     for window in windows:
         window.model.flush()
         window.model.undo_stack.setClean()
-        window.evaluator.wait(5000)
+        window.evaluator.wait(WAIT_MS)
         window.close()
         window.deleteLater()
     # Windows and their cycles go here, on the GUI thread, not in a later test's worker thread.

@@ -9,6 +9,8 @@ from pmdc_sizer.app.figures import COMPARE_KEYS, STATUSES, figure
 from pmdc_sizer.core import evaluate, project
 from tests.conftest import DEMO_FOLDER
 
+from .waits import WAIT_MS
+
 pytest.importorskip("pyqtgraph")
 
 
@@ -50,13 +52,13 @@ def row_of(table, title):
 
 def test_pinned_copy_of_a_shows_no_difference_then_follows_edits_of_a(page, qtbot):
     window, view = page
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.pin_button.click()
     table = view.figures_table
     assert table.rowCount() == len(COMPARE_KEYS)
     assert all(cell(table, row, 3) == "0" for row in range(table.rowCount()))
     # Editing A moves A only: the pinned B stays at 6 mm.
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         window.edit({"magnets.thickness_mm": 7.0})
     row = row_of(table, "Magnet thickness")
     # A and B as the key figures show them (three figures); B − A one figure finer
@@ -66,7 +68,7 @@ def test_pinned_copy_of_a_shows_no_difference_then_follows_edits_of_a(page, qtbo
 
 def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page, qtbot):
     window, view = page
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.grade_combo.setCurrentText("N42")
     assert view.results_b.magnet.name == "N42"
     table = view.figures_table
@@ -94,16 +96,16 @@ def test_another_grade_follows_a_and_shows_checks_curves_and_magnet_charts(page,
         assert len(normal) > 10
     assert "N42" in view.curve_key.text() and "Y40" in view.curve_key.text()
     # B follows A's edits with its own grade.
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000, check_params_cb=lambda c: c.b.magnet.name == "N42"
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS, check_params_cb=lambda c: c.b.magnet.name == "N42"
                           and view.project_b.magnets.thickness_mm == 5.0):
         window.edit({"magnets.thickness_mm": 5.0})
 
 
 def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
     _window, view = page
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.use_grade_for_b("Y25")
-    with qtbot.waitSignal(view.refit_finished, timeout=10000) as blocker:
+    with qtbot.waitSignal(view.refit_finished, timeout=WAIT_MS) as blocker:
         qtbot.mouseClick(view.refit_buttons["stall-torque"], Qt.MouseButton.LeftButton)
         assert not view.refit_buttons["ke"].isEnabled()  # one re-fit at a time
     fit = blocker.args[0]
@@ -125,9 +127,9 @@ def test_refit_buttons_run_off_the_gui_thread_and_report(page, qtbot, tmp_path):
 
 def test_out_of_reach_refit_says_why(page, qtbot):
     _window, view = page
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.use_grade_for_b("N42")
-    with qtbot.waitSignal(view.refit_finished, timeout=10000) as blocker:
+    with qtbot.waitSignal(view.refit_finished, timeout=WAIT_MS) as blocker:
         view.start_refit("ke")
     assert not blocker.args[0].reached
     report = view.refit_report.toPlainText()
@@ -141,7 +143,7 @@ def test_a_hidden_page_waits_and_catches_up_when_shown(page, qtbot):
     view.pin_current_as_b()
     qtbot.wait(20)
     assert view.comparison is None  # nothing drawn for a page nobody sees
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.show()
     assert view.comparison is not None
 
@@ -152,7 +154,7 @@ def test_b_from_a_file_and_a_bad_file(page, qtbot, tmp_path):
     broken.write_text("format_version = 1\n[magnets]\nthickness_mm = -3\n", encoding="utf-8")
     assert not view.load_b_file(broken)
     assert "B not changed" in view.side_labels.text() and view.results_b is None
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         assert view.load_b_file(DEMO_FOLDER / "mobility_ndfeb_24v.toml")
     assert view.results_b.magnet.name == "N35EH" and "mobility_ndfeb_24v.toml" in view.side_labels.text()
     # the scooter's stall torque is 16.7 N·m: the shared torque axis is in N·m, not in thousands of mN·m
@@ -174,7 +176,7 @@ class UsWindow(StandInWindow):
 
 def test_the_page_follows_us_customary_units(qtbot, open_compare_view):
     view = open_compare_view(UsWindow(FERRITE), size=(1366, 768))
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.use_grade_for_b("N42SH")
     table = view.figures_table
     titles = [cell(table, row, 0) for row in range(table.rowCount())]
@@ -201,7 +203,7 @@ def test_b_with_another_grade_is_priced_as_that_grade(page, qtbot):
     from pmdc_sizer.core import library
 
     _window, view = page
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.use_grade_for_b("N42SH")
     price = library.magnet_grade("N42SH").price_per_kg
     assert view.results_b.cost.magnet == pytest.approx(view.results_b.mass.magnet_kg * price, rel=1e-12)

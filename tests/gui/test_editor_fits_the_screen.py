@@ -8,6 +8,8 @@ from PySide6.QtWidgets import QAbstractSpinBox
 
 from pmdc_sizer.app.gui.main_window import MainWindow, read_project
 
+from .waits import WAIT_MS
+
 
 @pytest.fixture
 def window_at(qtbot):
@@ -21,13 +23,13 @@ def window_at(qtbot):
         window.show()
         windows.append(window)
         qtbot.waitUntil(lambda: window._splitter_placed and window.current_results is not None
-                        and not window.evaluator.busy, timeout=10000)
+                        and not window.evaluator.busy, timeout=WAIT_MS)
         return window
 
     yield make
     for window in windows:
         window.model.undo_stack.setClean()
-        window.evaluator.wait(5000)
+        window.evaluator.wait(WAIT_MS)
         window.close()
         window.deleteLater()
 

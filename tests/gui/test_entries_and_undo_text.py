@@ -10,6 +10,8 @@ from __future__ import annotations
 import pytest
 from PySide6.QtCore import Qt
 
+from .waits import WAIT_MS
+
 TORQUE_KEY = "load.torque_mNm"
 
 
@@ -44,7 +46,7 @@ def test_correcting_a_refused_value_clears_the_message_and_the_status_bar(open_w
     editor = window.editor.editor("magnets.thickness_mm")
     _type_into(qtbot, editor, "50")
     assert "Not applied" in window.status_label.text()
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         _type_into(qtbot, editor, "5")
     assert editor.error_label.isHidden()
     assert "Not applied" not in window.status_label.text()
@@ -57,7 +59,7 @@ def test_correcting_a_refused_cross_field_value_clears_the_status_bar(open_windo
     with qtbot.waitSignal(window.model.edit_rejected, timeout=2000):
         editor.widget.setValue(177.0)  # past 98 % of the pole pitch: refused by the fit rules
     assert "Not applied" in window.status_label.text() and "Magnet arc" in window.status_label.text()
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         editor.widget.setValue(150.0)
         editor.widget.editingFinished.emit()
     assert "Not applied" not in window.status_label.text()
@@ -68,7 +70,7 @@ def test_undo_text_names_the_field_and_both_values(open_window, qtbot, ferrite_d
     window = open_window(ferrite_demo)
     editor = window.editor.editor("magnets.thickness_mm")
     before = window.current_project.magnets.thickness_mm
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         _type_into(qtbot, editor, "5")
     assert window.model.undo_stack.undoText() == f"magnet thickness {before:g} → 5 mm"
     assert window.undo_action.text() == f"&Undo magnet thickness {before:g} → 5 mm"
@@ -85,7 +87,7 @@ def test_us_customary_figures_are_rounded_like_si(open_window, qtbot, ferrite_de
     window = open_window(ferrite_demo)
     si = dict(window.results_panel.values)
     window.set_display_units("US customary")
-    qtbot.waitUntil(lambda: window.results_panel.values != si, timeout=10000)
+    qtbot.waitUntil(lambda: window.results_panel.values != si, timeout=WAIT_MS)
     us = dict(window.results_panel.values)
     assert us.keys() == si.keys()
     converted = 0
@@ -123,7 +125,7 @@ def test_splitters_are_remembered(open_window, qtbot, ferrite_demo):
 
     window = open_window(ferrite_demo)
     window.remember_settings = True
-    qtbot.waitUntil(lambda: window._splitter_placed, timeout=5000)
+    qtbot.waitUntil(lambda: window._splitter_placed, timeout=WAIT_MS)
     total = sum(window.splitter.sizes())
     window.splitter.setSizes([int(total * 0.3), int(total * 0.4), total - int(total * 0.3) - int(total * 0.4)])
     columns, _figures = window.splitter_shares()
@@ -135,7 +137,7 @@ def test_splitters_are_remembered(open_window, qtbot, ferrite_demo):
     qtbot.addWidget(again)
     again.resize(1600, 1000)
     again.show()
-    qtbot.waitUntil(lambda: again._splitter_placed, timeout=5000)
+    qtbot.waitUntil(lambda: again._splitter_placed, timeout=WAIT_MS)
     assert again.splitter_shares()[0] == pytest.approx(columns, abs=0.02)
     again.remember_settings = False
 

@@ -12,6 +12,8 @@ from pmdc_sizer.app.gui.evaluation import Evaluator
 from pmdc_sizer.app.gui.settings import MAX_RECENT_FILES, Settings, load_settings, save_settings, settings_path
 from pmdc_sizer.core import project as project_file
 
+from .waits import WAIT_MS
+
 
 def test_evaluator_runs_the_newest_request_and_skips_the_ones_in_between(qtbot, ferrite_demo):
     base = project_file.load(ferrite_demo)
@@ -30,7 +32,7 @@ def test_evaluator_runs_the_newest_request_and_skips_the_ones_in_between(qtbot, 
 
 def test_a_design_without_solution_is_reported_and_undo_brings_the_results_back(open_window, qtbot, ndfeb_demo):
     window = open_window(ndfeb_demo)
-    with qtbot.waitSignal(window.evaluator.failed, timeout=10000) as blocker:
+    with qtbot.waitSignal(window.evaluator.failed, timeout=WAIT_MS) as blocker:
         # N35's coercivity coefficient puts 145 °C outside the range where its temperature model holds.
         assert window.model.propose_many({"magnets.grade": "N35", "temperatures.ambient_max_C": 145.0}, "what-if")
     message = blocker.args[1]
@@ -39,7 +41,7 @@ def test_a_design_without_solution_is_reported_and_undo_brings_the_results_back(
     assert "No solution" in window.results_panel.verdict.text()
     assert "No solution" in window.status_label.text()
     assert window.current_project.magnets.grade == "N35"  # the edit is kept: it is valid input
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.undo_action.trigger()
     assert window.current_results is not None
     assert window.current_project == project_file.load(ndfeb_demo)
@@ -47,7 +49,7 @@ def test_a_design_without_solution_is_reported_and_undo_brings_the_results_back(
 
 def test_new_from_template_starts_an_unsaved_design(open_window, qtbot, ferrite_demo, ndfeb_demo):
     window = open_window(ferrite_demo)
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         assert window.new_design(ndfeb_demo)
     assert window.current_path is None
     assert window.current_project == project_file.load(ndfeb_demo)
@@ -55,7 +57,7 @@ def test_new_from_template_starts_an_unsaved_design(open_window, qtbot, ferrite_
     assert window.model.undo_stack.count() == 0 and not window.isWindowModified()
     assert window.new_design(defaults=True)
     assert window.current_project == project_file.Project()
-    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=10000)
+    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=WAIT_MS)
     # Whatever the core makes of the bare defaults, the window shows a result or says why there is none.
     assert window.current_results is not None or "No solution" in window.status_label.text()
 

@@ -7,6 +7,8 @@ from pathlib import Path
 
 import pytest
 
+from .waits import WAIT_MS
+
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
 
@@ -66,7 +68,7 @@ def test_a_solved_case_is_kept_and_an_edit_makes_a_new_design(page, qtbot):
     _solve(qtbot, view)
     view.case_combo.setCurrentIndex(0)  # back: shown at once from the cache
     assert view.solution is first and "kept" in view.state_label.text()
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.model.propose("housing.wall_mm", 3.0, final=True)
     assert view._key() not in view.cache  # the thinner housing is another design
     _solve(qtbot, view)

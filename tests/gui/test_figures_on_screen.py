@@ -13,6 +13,8 @@ from pmdc_sizer.app.datasheet import charts as paper
 from pmdc_sizer.app.figures import CASES, CURVE_QUANTITIES, FIGURES, LINES, POINTS, qt_pen_style
 from tests.conftest import DEMO_FILES, DEMO_FOLDER
 
+from .waits import WAIT_MS
+
 #: What pyqtgraph's symbol codes draw (its ScatterPlotItem documentation), in app.figures' marker names.
 MARKER_OF_SYMBOL = {"o": "circle", "s": "square", "d": "diamond", "t1": "triangle", "+": "plus", "x": "cross",
                     "t": "triangle pointing down", "star": "star", "p": "pentagon", "h": "hexagon"}
@@ -97,7 +99,7 @@ def test_magnet_chart_points_are_the_same_on_screen_and_paper(open_window, qtbot
         assert window.model.propose("magnets.thickness_mm", thickness_mm, final=True)
         qtbot.waitUntil(lambda: window.current_results is not None and not window.evaluator.busy
                         and window.current_results.geometry.magnet_thickness_m == pytest.approx(thickness_mm / 1e3),
-                        timeout=10000)
+                        timeout=WAIT_MS)
     results = window.current_results
     chart = window.magnet_chart
     panel = paper.magnet_panel(results)

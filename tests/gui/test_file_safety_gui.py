@@ -23,6 +23,7 @@ from pmdc_sizer.app.gui.settings import load_settings, settings_path
 from pmdc_sizer.core import project as pf
 
 from ..conftest import DEMO_FOLDER
+from .waits import WAIT_MS
 
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = DEMO_FOLDER / "appliance_ferrite_12v.toml"
@@ -175,7 +176,7 @@ def test_a_defect_in_a_slot_shows_the_dialog_and_keeps_the_design(open_window, q
             raise ZeroDivisionError("an invented defect in a slot")
 
         QTimer.singleShot(0, defect)
-        qtbot.waitUntil(lambda: hook.dialog is not None and hook.dialog.isVisible(), timeout=5000)
+        qtbot.waitUntil(lambda: hook.dialog is not None and hook.dialog.isVisible(), timeout=WAIT_MS)
     finally:
         hook.uninstall()
     dialog = hook.dialog

@@ -8,6 +8,8 @@ from pmdc_sizer.app.gui.input_model import DesignModel
 from pmdc_sizer.app.gui.main_window import PAGE_COMPARE
 from pmdc_sizer.core import project as project_file
 
+from .waits import WAIT_MS
+
 
 def test_a_drag_signals_changing_then_one_changed(qtbot, ferrite_demo):
     model = DesignModel(project_file.load(ferrite_demo))
@@ -22,7 +24,7 @@ def test_a_drag_signals_changing_then_one_changed(qtbot, ferrite_demo):
     assert changing == pytest.approx([start - 0.1, start - 0.2, start - 0.3])
     assert changed == [] and model.modified
     assert model.committed.magnets.thickness_mm == start  # shown, not yet committed
-    with qtbot.waitSignal(model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(model.edit_committed, timeout=WAIT_MS):
         pass
     assert changed == pytest.approx([start - 0.3])
     assert model.undo_stack.count() == 1

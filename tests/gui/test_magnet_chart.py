@@ -13,6 +13,8 @@ from pmdc_sizer.app.datasheet import charts as paper
 from pmdc_sizer.app.figures import POINTS, figure
 from tests.conftest import DEMO_FOLDER
 
+from .waits import WAIT_MS
+
 pytest.importorskip("pyqtgraph")
 
 DRILL = DEMO_FOLDER / "power_tool_4pole_48v.toml"
@@ -28,7 +30,7 @@ def drill(open_window, qtbot):
     window = open_window(DRILL)
     window.resize(1600, 1000)
     chart = window.magnet_chart
-    qtbot.waitUntil(lambda: bool(chart.label_texts()), timeout=5000)
+    qtbot.waitUntil(lambda: bool(chart.label_texts()), timeout=WAIT_MS)
     return window, chart, window.current_results
 
 
@@ -113,11 +115,11 @@ def test_a_magnet_past_the_knee_is_drawn_and_named(open_window, qtbot):
     window = open_window(FERRITE)
     assert window.model.propose("magnets.thickness_mm", 2.0, final=True)
     qtbot.waitUntil(lambda: window.current_results is not None and not window.evaluator.busy
-                    and window.current_results.geometry.magnet_thickness_m == pytest.approx(2e-3), timeout=10000)
+                    and window.current_results.geometry.magnet_thickness_m == pytest.approx(2e-3), timeout=WAIT_MS)
     chart = window.magnet_chart
     results = window.current_results
     failed = [c for c in results.demagnetization.cases if not c.ok]
     assert failed
     assert {c.name for c in failed} <= set(_spots(chart.case_items["demagnetization_fails"]))
-    qtbot.waitUntil(lambda: any("FAILS" in text for text in chart.label_texts()), timeout=5000)
+    qtbot.waitUntil(lambda: any("FAILS" in text for text in chart.label_texts()), timeout=WAIT_MS)
     assert POINTS["demagnetization_fails"].colour in chart.headline.text()

@@ -10,6 +10,8 @@ from pmdc_sizer.app.figures import SIDES
 from pmdc_sizer.core.units import from_si
 from tests.gui.test_compare_view import FERRITE, StandInWindow
 
+from .waits import WAIT_MS
+
 pytest.importorskip("pyqtgraph")
 
 from pmdc_sizer.app.gui import magnet_overlay
@@ -18,7 +20,7 @@ from pmdc_sizer.app.gui import magnet_overlay
 @pytest.fixture
 def ferrite_against_ndfeb(qtbot, open_compare_view):
     view = open_compare_view(StandInWindow(FERRITE))
-    with qtbot.waitSignal(view.comparison_updated, timeout=5000):
+    with qtbot.waitSignal(view.comparison_updated, timeout=WAIT_MS):
         view.grade_combo.setCurrentText("N42SH")
     view.tabs.setCurrentWidget(view.magnet_overlay)
     return view

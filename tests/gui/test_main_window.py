@@ -18,6 +18,8 @@ from pmdc_sizer.core import project as project_file
 from pmdc_sizer.core.design import design_from_project
 from pmdc_sizer.core.units import from_si
 
+from .waits import WAIT_MS
+
 
 def _thickness_box(window):
     return window.editor.editor("magnets.thickness_mm").widget
@@ -51,11 +53,11 @@ def test_magnet_thickness_edit_changes_figures_and_chart(open_window, qtbot, fer
     window = open_window(ferrite_demo)
     flux_before = window.results_panel.values[figure("magnetics.flux_per_pole_Wb").title]
     operating_before = window.magnet_chart.operating_points()["nominal"][1]
-    with qtbot.waitSignal(window.results_ready, timeout=10000) as blocker:
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS) as blocker:
         _thickness_box(window).setValue(4.0)
     project, results = blocker.args
     assert project.magnets.thickness_mm == pytest.approx(4.0)
-    qtbot.waitUntil(lambda: not window.evaluator.busy)
+    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=WAIT_MS)
     assert window.current_project.magnets.thickness_mm == pytest.approx(4.0)
     # A thinner ferrite magnet works at a lower permeance coefficient: less flux, lower B.
     assert window.results_panel.values[figure("magnetics.flux_per_pole_Wb").title] != flux_before
@@ -68,20 +70,20 @@ def test_undo_restores_the_value_and_the_results(open_window, qtbot, ferrite_dem
     window = open_window(ferrite_demo)
     figures_before = dict(window.results_panel.values)
     thickness_before = window.current_project.magnets.thickness_mm
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         _thickness_box(window).setValue(4.5)
         _thickness_box(window).editingFinished.emit()
-    qtbot.waitUntil(lambda: not window.evaluator.busy)
+    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=WAIT_MS)
     assert window.results_panel.values != figures_before
     assert window.isWindowModified()
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.undo_action.trigger()
-    qtbot.waitUntil(lambda: not window.evaluator.busy)
+    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=WAIT_MS)
     assert _thickness_box(window).value() == pytest.approx(thickness_before)
     assert window.current_project == project_file.load(ferrite_demo)
     assert window.results_panel.values == figures_before
     assert not window.isWindowModified()
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.redo_action.trigger()
     assert _thickness_box(window).value() == pytest.approx(4.5)
 
@@ -93,10 +95,10 @@ def test_a_drag_is_one_undo_step(open_window, qtbot, ferrite_demo):
     for step in range(1, 6):
         box.setValue(thickness_before - 0.1 * step)
     assert window.model.undo_stack.count() == 0  # still dragging: shown, not yet an undo step
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         pass  # the idle timer commits the drag
     assert window.model.undo_stack.count() == 1
-    qtbot.waitUntil(lambda: not window.evaluator.busy)
+    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=WAIT_MS)
     assert window.current_results is not None
     assert window.current_project.magnets.thickness_mm == pytest.approx(thickness_before - 0.5)
     window.undo_action.trigger()
@@ -140,7 +142,7 @@ def test_unsaved_changes_prompt_on_close_and_open(open_window, qtbot, ferrite_de
     copy = tmp_path / "pump.toml"
     shutil.copy(ferrite_demo, copy)
     window = open_window(copy)
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         _thickness_box(window).setValue(5.0)
         _thickness_box(window).editingFinished.emit()
     asked = []
@@ -163,18 +165,18 @@ def test_unsaved_changes_prompt_on_close_and_open(open_window, qtbot, ferrite_de
     assert project_file.load(copy).magnets.thickness_mm == pytest.approx(5.0)
     assert window.current_path == ndfeb_demo
 
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         _thickness_box(window).setValue(3.0)
         _thickness_box(window).editingFinished.emit()
     answer_with(QMessageBox.StandardButton.Discard)
-    qtbot.waitUntil(lambda: not window.evaluator.busy)
+    qtbot.waitUntil(lambda: not window.evaluator.busy, timeout=WAIT_MS)
     assert window.close() is True
     assert project_file.load(ndfeb_demo).magnets.thickness_mm != pytest.approx(3.0)
 
 
 def test_save_as_writes_the_edited_design(open_window, qtbot, ferrite_demo, tmp_path):
     window = open_window(ferrite_demo)
-    with qtbot.waitSignal(window.model.edit_committed, timeout=5000):
+    with qtbot.waitSignal(window.model.edit_committed, timeout=WAIT_MS):
         window.editor.editor("airgap.length_mm").widget.setValue(0.6)
         window.editor.editor("airgap.length_mm").widget.editingFinished.emit()
     assert window.isWindowModified()
@@ -201,7 +203,7 @@ def test_cross_section_is_drawn_to_the_design_dimensions(open_window, qtbot, dem
     assert shaft == pytest.approx(from_si(geometry.shaft_radius, "mm"), rel=1e-6)
     box = window.editor.editor("housing.wall_mm").widget
     new_wall = box.value() + 1.0
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         box.setValue(new_wall)
     expected = from_si(design_from_project(window.current_project).geometry.housing_outer_radius, "mm")
     assert drawn.housing_outer_radius_drawn_mm() == pytest.approx(expected, rel=1e-6)
@@ -218,7 +220,7 @@ def test_display_units_change_the_screen_not_the_file(open_window, qtbot, ferrit
     assert window.current_project == project_file.load(ferrite_demo)
     qtbot.waitUntil(lambda: not window.evaluator.busy and window.current_results is not None)
     assert window.results_panel.values[figure("constants.kt_N_m_per_A").title].endswith("oz·in/A")
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         box.setValue(0.2)  # inches
     assert window.current_project.magnets.thickness_mm == pytest.approx(5.08, abs=1e-3)
     assert (_isolated_settings / "settings.json").is_file()
@@ -231,7 +233,7 @@ def test_custom_grade_can_be_chosen_and_edited(open_window, qtbot, ferrite_demo)
     window = open_window(ferrite_demo)
     picker = window.editor.grade_picker
     library_grade = library.magnet_grades()[window.current_project.magnets.grade]
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         picker.source_box.setCurrentIndex(picker.CUSTOM)
         picker.source_box.activated.emit(picker.CUSTOM)
     grade = window.current_project.magnets.custom_grade
@@ -241,12 +243,12 @@ def test_custom_grade_can_be_chosen_and_edited(open_window, qtbot, ferrite_demo)
     remanence = window.editor.editor("magnets.custom_grade.remanence_T")
     assert remanence.isVisibleTo(window)
     flux_before = window.current_results.magnetics.flux_per_pole_Wb
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         # +0.5 %: a larger step alone would move the curve's (BH)max more than 2 % from the grade's, and the
         # grade check (core.magnet_grade_check) refuses that until (BH)max is edited too
         remanence.widget.setValue(1.005 * library_grade.remanence)
     assert window.current_results.magnetics.flux_per_pole_Wb > flux_before
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         picker.source_box.setCurrentIndex(picker.LIBRARY)
         picker.source_box.activated.emit(picker.LIBRARY)
     assert window.current_project.magnets.grade == library_grade.name
@@ -262,7 +264,7 @@ def test_library_grade_choice_shows_its_properties(open_window, qtbot, ferrite_d
                  if grade.family == library.magnet_grades()[current].family and name != current)
     index = picker.grade_box.findData(other)
     assert index >= 0
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         picker.grade_box.setCurrentIndex(index)
         picker.grade_box.activated.emit(index)
     assert window.current_project.magnets.grade == other
@@ -278,7 +280,7 @@ def test_extension_points(open_window, qtbot, ferrite_demo):
     assert window.pages.widget(index).widget() is page and window.pages.tabText(index) == "Extra page"
     received = []
     window.results_ready.connect(lambda project, results: received.append((project, results)))
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         _thickness_box(window).setValue(5.5)
     project, results = received[-1]
     assert project is window.current_project and results is window.current_results

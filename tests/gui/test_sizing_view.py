@@ -15,6 +15,8 @@ from PySide6.QtCore import Qt
 from pmdc_sizer.core.edits import get_value
 from pmdc_sizer.core.sizing_space import free_keys
 
+from .waits import WAIT_MS
+
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
 SEARCH_TIMEOUT_MS = 180_000  #: a few hundred candidates through the chain on a loaded machine
@@ -101,7 +103,7 @@ def test_a_row_of_the_front_opens_in_the_editor_as_a_new_unsaved_design_with_its
     view.table.selectRow(0)
     index = view.table.item(0, 0).data(Qt.ItemDataRole.UserRole + 1)
     design = result.designs[index]
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         assert view.open_picked(as_b=False)
     project = window.current_project
     for key, value in design.values.items():
@@ -117,9 +119,9 @@ def test_a_feasible_point_opens_as_b_in_the_comparison(page, qtbot):
     result = _run(qtbot, view, quick=True)
     view.pick_feasible(0)
     compare = window.compare_view
-    with qtbot.waitSignal(compare.evaluator_b.finished, timeout=10000):
+    with qtbot.waitSignal(compare.evaluator_b.finished, timeout=WAIT_MS):
         assert view.open_picked(as_b=True)
-    qtbot.waitUntil(lambda: compare.project_b is not None, timeout=10000)
+    qtbot.waitUntil(lambda: compare.project_b is not None, timeout=WAIT_MS)
     thickness = result.feasible_values["magnets.thickness_mm"][0]
     assert compare.project_b.magnets.thickness_mm == pytest.approx(thickness, rel=1e-12)
     assert window.pages.tabText(window.pages.currentIndex()) == "Compare designs"
@@ -147,7 +149,7 @@ def test_a_range_end_outside_the_files_limits_is_refused_with_the_limit_shown(pa
 def test_an_edit_of_the_requirement_marks_the_result_stale(page, qtbot):
     window, view = page
     _run(qtbot, view, quick=True)
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.model.propose("supply.voltage_V", 13.0, final=True)
     assert "earlier" in view.state_label.text()
 
@@ -174,7 +176,7 @@ def test_when_nothing_is_feasible_the_page_says_why_in_words(page, qtbot):
     # In US customary units the same explanation quotes inches, ounce-inches and °F, and says the same thing.
     metric = re.compile(r"\d (mm|mN·m|N·m|°C)(?![\w·/])")
     assert metric.search(shown)
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.set_display_units("US customary")
     in_us = html.unescape(re.sub(r"<[^>]+>", " ", view.summary.text()))
     assert not metric.search(in_us), in_us[max(metric.search(in_us).start() - 80, 0):metric.search(in_us).end() + 20]

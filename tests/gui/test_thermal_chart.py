@@ -12,6 +12,8 @@ from pmdc_sizer.app.gui.pages import PAGE_TITLES
 from pmdc_sizer.app.thermal_text import chart_notes, duty_plot
 from tests.conftest import DEMO_FOLDER
 
+from .waits import WAIT_MS
+
 DRILL = DEMO_FOLDER / "power_tool_4pole_48v.toml"
 
 
@@ -38,7 +40,7 @@ def test_the_page_is_in_the_window_and_on_the_command_line(drill_window):
 
 def test_the_chart_draws_the_transient_with_the_limits_and_the_run(drill_window, qtbot):
     chart, results = drill_window.thermal_chart, drill_window.current_results
-    qtbot.waitUntil(lambda: chart._results is results, timeout=5000)
+    qtbot.waitUntil(lambda: chart._results is results, timeout=WAIT_MS)
     plot = duty_plot(results.thermal)
     for line, (x, y) in chart.shown_curves().items():
         np.testing.assert_allclose(x, plot.time)
@@ -60,7 +62,7 @@ def test_the_chart_draws_the_transient_with_the_limits_and_the_run(drill_window,
 def test_without_a_steady_state_the_time_to_the_limit_is_marked_and_said(open_window, drill_s1_file, qtbot):
     window = open_window(drill_s1_file)
     chart, t = window.thermal_chart, window.current_results.thermal
-    qtbot.waitUntil(lambda: chart._results is window.current_results, timeout=5000)
+    qtbot.waitUntil(lambda: chart._results is window.current_results, timeout=WAIT_MS)
     assert not t.steady_state_exists
     (spot,) = chart.limit_mark.points()
     assert (spot.pos().x(), spot.pos().y()) == pytest.approx((t.time_to_limit_s / 60.0, 180.0))
@@ -75,7 +77,7 @@ def test_the_chart_follows_the_display_units(drill_window, qtbot):
     chart = drill_window.thermal_chart
     drill_window.set_display_units("US customary")
     qtbot.waitUntil(lambda: chart.temperature_unit == "°F" and chart.limit_lines["insulation_limit"].value() > 300,
-                    timeout=10000)
+                    timeout=WAIT_MS)
     assert chart.limit_lines["insulation_limit"].value() == pytest.approx(356.0)
     assert chart.plot.getAxis("left").labelText == "Temperature [°F]"
 

@@ -8,6 +8,8 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from .waits import WAIT_MS
+
 REPO = Path(__file__).resolve().parents[2]
 FERRITE = REPO / "demo_projects" / "appliance_ferrite_12v.toml"
 STUDY_TIMEOUT_MS = 180_000  #: 100 motors through the per-design chain on a loaded machine
@@ -57,7 +59,7 @@ def test_an_edit_marks_the_figures_stale_until_the_study_runs_again(page, qtbot)
     shown = view.study
     assert view.current_study() is shown  # what the export dialog is handed
     # the page is not the one on screen, so nothing runs by itself: the state must say what is shown
-    with qtbot.waitSignal(window.results_ready, timeout=10000):
+    with qtbot.waitSignal(window.results_ready, timeout=WAIT_MS):
         window.model.propose("airgap.length_mm", 0.5, final=True)
     assert view.study is shown and "earlier design" in view.state_label.text()
     assert view.current_study() is None  # a stale study never reaches a datasheet
