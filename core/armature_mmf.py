@@ -232,11 +232,18 @@ def distinct_rotor_positions(centre_angle: np.ndarray, slots) -> np.ndarray:
     ----------
     .. [1] The network's layout (core.network_elements); our construction.
     """
+    pitch, crossings, following = _crossings(centre_angle, slots)
+    midpoints: np.ndarray = np.mod(0.5 * (crossings + following), pitch)
+    return midpoints
+
+
+def _crossings(centre_angle: np.ndarray, slots) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The slot pitch (D, 1), the positions in [0, τs) where a slot crosses a branch centre, sorted, and each
+    one's next (the first again a pitch on): the bounds of the arrangements the network tells apart."""
     pitch = (2.0 * np.pi / np.asarray(slots, dtype=float))[..., None]
     crossings = np.sort(np.mod(centre_angle, pitch), axis=-1)
     following = np.concatenate([crossings[:, 1:], crossings[:, :1] + pitch], axis=1)
-    midpoints: np.ndarray = np.mod(0.5 * (crossings + following), pitch)
-    return midpoints
+    return pitch, crossings, following
 
 
 def rotor_position_shares(centre_angle: np.ndarray, slots) -> np.ndarray:
@@ -261,8 +268,6 @@ def rotor_position_shares(centre_angle: np.ndarray, slots) -> np.ndarray:
     ----------
     .. [1] As :func:`distinct_rotor_positions`; our construction.
     """
-    pitch = (2.0 * np.pi / np.asarray(slots, dtype=float))[..., None]
-    crossings = np.sort(np.mod(centre_angle, pitch), axis=-1)
-    following = np.concatenate([crossings[:, 1:], crossings[:, :1] + pitch], axis=1)
+    pitch, crossings, following = _crossings(centre_angle, slots)
     shares: np.ndarray = (following - crossings) / pitch
     return shares

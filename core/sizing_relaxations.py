@@ -294,11 +294,32 @@ def fixed_misses(designs: Sequence[Project]) -> list[tuple[str, ...]]:
     if not built:
         return out
     batch = evaluate_many(built)
-    misses = requirement_misses(batch.status, faults_must_survive(designs[0]))
+    rows = fixed_misses_of(batch, faults_must_survive(designs[0]), np.arange(len(built)))
     for row, index in enumerate(owners):
-        if not batch.failed[row]:
-            out[index] = tuple(key for key in FIXED_CHECKS if key in misses and misses[key][row])
+        out[index] = rows[row]
     return out
+
+
+def fixed_misses_of(batch: BatchFigures, must_survive: bool, rows: np.ndarray) -> list[tuple[str, ...]]:
+    """As :func:`fixed_misses`, read off designs already evaluated: ``rows`` of ``batch``.
+
+    Parameters
+    ----------
+    batch : BatchFigures
+        :func:`core.batch.evaluate_many` of the designs.
+    must_survive : bool
+        :func:`core.sizing_requirement.faults_must_survive` of the requirement.
+    rows : ndarray of int
+        The designs asked about.
+
+    Returns
+    -------
+    list of tuple of str
+        One tuple per row, in the order of :data:`FIXED_CHECKS`; empty where the chain failed.
+    """
+    misses = requirement_misses(batch.status, must_survive)
+    return [() if batch.failed[row] else tuple(key for key in FIXED_CHECKS if key in misses and misses[key][row])
+            for row in rows]
 
 
 def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
@@ -395,4 +416,5 @@ def relaxations(designs: Sequence[Project], failed_checks: Sequence[str],
 
 
 __all__ = ["AMBIENT_STEP_K", "BOUND_SHARE", "ENVELOPE_KEYS", "EXTENSION_STEPS", "FIXED_CHECKS", "TORQUE_STEPS",
-           "VOLTAGE_STEPS", "binding_ranges", "fixed_misses", "range_extensions", "relaxations", "value_text"]
+           "VOLTAGE_STEPS", "binding_ranges", "fixed_misses", "fixed_misses_of", "range_extensions", "relaxations",
+           "value_text"]

@@ -33,7 +33,7 @@ from .sizing_relaxations import (
     TORQUE_STEPS,
     VOLTAGE_STEPS,
     binding_ranges,
-    fixed_misses,
+    fixed_misses_of,
     range_extensions,
     relaxations,
     value_text,
@@ -219,7 +219,7 @@ def explain(project: Project, batch: BatchFigures, values: Mapping[str, np.ndarr
     names = ["the closest design", *(f"the design with {', '.join(value_text(k, v) for k, v in values_of(i).items())}"
                                      for i in tried[1:])]
     relaxed_designs = [closest, *(project_with(project, values_of(i)) for i in tried[1:])]
-    fixed = fixed_misses(relaxed_designs)
+    fixed = fixed_misses_of(batch, must_survive, np.asarray(tried))  # the candidates' own screening
     relaxed = relaxations(relaxed_designs, [c.key for c in missed], names, fixed)
     if relaxed:
         parts.append("Re-evaluated with the requirement relaxed: " + "; ".join(relaxed) + ".")
