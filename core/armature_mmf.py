@@ -10,15 +10,17 @@ cites A. E. Clayton and N. N. Hancock, "The Performance and Design of Direct Cur
 J(θ) = Z·(I/a)/(2π)·pattern(θ), and integrated between neighbouring branch centres: the current that
 loop encloses (the slots lie between the armature surface and the core, inside the lower loops).
 
-Smeared or in slots. The smeared sheet is the armature's current averaged over the rotor's turning, and
-it is what the flux per pole and so Ke(I) take: the back-EMF is the mean over a revolution. At any one
-moment the current sits in the slots, Z/S conductors each, at angles that move with the rotor, and the
-MMF steps from slot to slot. With few slots per pole a step can fall just inside a magnet's trailing tip
-and load the whole trailing half at once, which the smeared sheet, rising steadily towards the tip, does
-not show (the field solution, which has the slots, measured it: docs/network-calibration.md). So the
-magnet's field under load is taken with the current in its slots (:func:`slot_enclosed_currents`) at
-every rotor position the network can tell apart (:func:`distinct_rotor_positions`), and the worst of
-them counts.
+Smeared or in slots. The smeared sheet is the armature's current averaged over the rotor's turning. At
+any one moment the current sits in the slots, Z/S conductors each, at angles that move with the rotor,
+and the MMF steps from slot to slot. With few slots per pole a step can fall just inside a magnet's
+trailing tip and load the whole trailing half at once, which the smeared sheet, rising steadily towards
+the tip, does not show (the field solution, which has the slots, measured it: docs/network-calibration.md).
+So the magnet's field under load is taken with the current in its slots (:func:`slot_enclosed_currents`)
+at every rotor position the network can tell apart (:func:`distinct_rotor_positions`), and the worst of
+them counts. The back-EMF sees the flux per pole averaged over the turning; where the iron saturates that
+mean of the fluxes lies below the flux of the mean (smeared) current, so the flux per pole under load is
+the mean over a few positions spread evenly over a slot pitch with the current in its slots
+(:func:`turning_positions`).
 """
 
 from __future__ import annotations
@@ -205,6 +207,39 @@ def _share_below(boundary: np.ndarray, first: np.ndarray, slots: int, slot_share
     total = np.take_along_axis(below, under, axis=1)
     on_slot = np.take_along_axis(slot_share, np.clip(nearest, 0, count - 1).astype(np.intp), axis=1)
     return total + np.where(on, 0.5 * on_slot, 0.0)
+
+
+def turning_positions(slots, count: int) -> np.ndarray:
+    """Rotor positions spread evenly over one slot pitch, for a mean over the rotor's turning.
+
+    The pole's state repeats every slot pitch τs as the rotor turns, so its mean over the turning is the
+    mean over one pitch of a periodic function; the midpoints of ``count`` equal parts of the pitch,
+    equally weighted (the midpoint rule, which for a periodic function is the trapezoidal rule shifted),
+    give it with an error that falls quickly with ``count``.
+
+    Parameters
+    ----------
+    slots : int or ndarray
+        Slots of each cross-section, () or (D,) [1].
+    count : int
+        Positions per slot pitch [1], at least 1.
+
+    Returns
+    -------
+    ndarray
+        (count,) or (D, count) positions in (0, τs) from a slot centre on the pole centre [rad].
+
+    References
+    ----------
+    .. [1] P. J. Davis and P. Rabinowitz, "Methods of Numerical Integration", 2nd ed., Academic Press, 1984,
+       section 3.4 (the rectangle and trapezoidal rules on periodic functions), from memory.
+    """
+    if count < 1:
+        raise ValueError(f"positions per slot pitch must be at least 1, got {count}")
+    pitch = 2.0 * np.pi / np.asarray(slots, dtype=float)
+    parts = (np.arange(count) + 0.5) / count
+    positions: np.ndarray = np.multiply.outer(pitch, parts)
+    return positions
 
 
 def distinct_rotor_positions(centre_angle: np.ndarray, slots) -> np.ndarray:

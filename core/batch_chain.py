@@ -58,6 +58,7 @@ def chain_figures(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[st
     ----------
     .. [1] the topic modules each step calls, cited there.
     """
+    from .armature_mmf import turning_positions
     from .checks import (
         BRUSH_DENSITY_FAIL,
         CURRENT_DENSITY_WARNING,
@@ -90,7 +91,7 @@ def chain_figures(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[st
         stall_current,
         stall_torque,
     )
-    from .pole_load_table import LOAD_POINTS
+    from .pole_load_table import LOAD_POINTS, TURNING_POSITIONS
     from .results import MassResult
     from .thermal import flux_grid_temperatures
     from .thermal_ratings import networks_of, thermal_figures
@@ -214,13 +215,21 @@ def chain_figures(designs: list[Design]) -> tuple[dict[str, np.ndarray], dict[st
     # the cold and nominal cases at zero current are the no-load grid's first two temperatures: not solved again
     again = {0: 0, points: 1}  # entry of the load table: column of the no-load grid
     under_load = np.array([j for j in range(3 * points) if j not in again])
-    solved = solve_groups(designs, groups, g, lots, under_load.size, temperatures[:, under_load],
-                           currents[:, under_load], True, (conductors, paths),
-                           "the magnetic circuit under load (cold, nominal or hot)")
+    # each at the rotor positions the flux is averaged over (core.pole_load_table), position after position,
+    # each position starting from the first's solution at the same current
+    positions = turning_positions(g.slots, TURNING_POSITIONS)
+    turning = TURNING_POSITIONS * under_load.size
+    solved = solve_groups(designs, groups, g, lots, turning, np.tile(temperatures[:, under_load], TURNING_POSITIONS),
+                           np.tile(currents[:, under_load], TURNING_POSITIONS), True, (conductors, paths),
+                           "the magnetic circuit under load (cold, nominal or hot)",
+                           rotor_positions=np.repeat(positions, under_load.size, axis=1), seed_period=under_load.size)
     loaded = {}
     for key, values in solved.items():
+        # the flux per pole is the mean over the positions; the other figures are read at zero current
+        # only, where the position makes no difference, so the first position's serve
+        by_position = values.reshape(n, TURNING_POSITIONS, under_load.size, *values.shape[2:])
         loaded[key] = np.empty((n, 3 * points, *values.shape[2:]), dtype=values.dtype)
-        loaded[key][:, under_load] = values
+        loaded[key][:, under_load] = by_position.mean(axis=1) if key == "flux_per_pole" else by_position[:, 0]
         for entry, column in again.items():
             loaded[key][:, entry] = no_load[key][:, column]
     rotor_out = solve_groups(designs, groups, g, lots, 2, np.stack([ambient_min, ambient_max], axis=1), 0.0, False,

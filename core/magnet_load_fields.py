@@ -1,7 +1,7 @@
 """The magnet's field at the armature currents it is judged at, with the current in the armature's slots.
 
-The flux per pole under load (core.pole_load_table) takes the armature's current as a smeared sheet, its
-mean over the rotor's turning. The magnet's field is a matter of the worst moment instead: with the
+The flux per pole under load (core.pole_load_table) is the back-EMF's, a mean over the rotor's turning.
+The magnet's field is a matter of the worst moment instead: with the
 current in its slots, a slot's step that falls just inside the trailing tip loads it at once
 (core.armature_mmf). So each temperature case's magnet is solved at exactly the currents its cases are
 judged at (:func:`core.demagnetization.judged_currents`: the stall and reversal currents and the drive's
@@ -70,7 +70,7 @@ class MagnetLoadFields:
         case, current
             As :meth:`worst_at`.
         flux_per_pole : float
-            The flux per pole at that current, from the smeared sheet (core.pole_load_table) [Wb].
+            The flux per pole at that current, the mean over the rotor's turning (core.pole_load_table) [Wb].
 
         Returns
         -------

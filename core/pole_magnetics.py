@@ -185,9 +185,10 @@ def pole_states(design, temperatures_C, currents=0.0, rotor_present: bool = True
     what : str
         For the error message.
     rotor_position : float or ndarray, optional
-        None: the armature's current as a smeared sheet, its mean over the rotor's turning (what the flux
-        per pole and Ke take); an angle [rad], for all entries or per entry (B,): the current in its slots
-        with the rotor there (what the magnet's field at one moment takes; core.armature_mmf).
+        None: the armature's current as a smeared sheet, its mean over the rotor's turning; an angle [rad],
+        for all entries or per entry (B,): the current in its slots with the rotor there (what the flux
+        per pole under load, averaged over such positions, and the magnet's field at one moment take;
+        core.armature_mmf, core.pole_load_table).
     seeded_by : ndarray of int, optional
         Shape (B,): the entry each entry's Newton solve starts from (speed only;
         :func:`core.reluctance_network.solve_network`).

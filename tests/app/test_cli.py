@@ -266,7 +266,11 @@ def test_curves_csv_header_names_units(capsys, demo_path):
     for start in (0, 200, 400):
         speeds = [float(r[speed]) for r in body[start:start + 200]]
         assert speeds[0] > speeds[-1] == 0.0
-        assert all(a >= b for a, b in itertools.pairwise(speeds))
+        # the speed falls with torque, except that the armature's reaction can hold it level where the flux
+        # falls as fast as the resistance's drop grows: the drill demo's cold curve rises 1.2 rpm (0.006 %
+        # of its no-load speed) at 8.5 N·m; never by more than 0.05 %
+        assert all(b - a <= 5e-4 * speeds[0] for a, b in itertools.pairwise(speeds))
+        assert sum(a >= b for a, b in itertools.pairwise(speeds)) >= 195
 
 
 def test_curves_to_a_file_and_one_case(capsys, tmp_path):
