@@ -32,7 +32,7 @@ def test_the_worst_position_is_the_least_field_over_every_position(drill):
     # the states run position after position, three solved currents each
     assert fields.positions[entry // 3] == positions[int(np.argmin(alone.worst_field))]
     assert np.ptp(alone.worst_field) > 0.01 * abs(worst)
-    with pytest.raises(KeyError, match="not solved at 200.0 A"):
+    with pytest.raises(KeyError, match=r"not solved at 200\.0 A"):
         fields.worst_at(0, 200.0)
 
 
