@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -181,3 +182,35 @@ def test_s3_lies_between_one_spell_and_continuous(ferrite_demo):
     transient = s3.thermal.transient
     assert transient is not None and transient.duty == "S3"
     assert max(transient.winding_C) == pytest.approx(s3.thermal.winding_temperature_C, abs=2.0)
+
+
+@pytest.mark.parametrize(("flux_loss_per_K", "torque_N_m"), [(0.002, 0.25), (0.006, 0.15)])
+def test_the_magnets_temperature_at_the_class_limit_is_the_fixed_point(flux_loss_per_K, torque_N_m):
+    # By hand: with the winding at its class limit, the magnet's temperature T is where the steady state of
+    # the losses at T gives T again. A ferrite-like 0.2 %/K loss of flux (each kelvin feeds back 0.23 of
+    # itself, measured), and three times that nearer the stall (0.68: the plain iteration takes about 35
+    # steps to 1e-4 K); the reference is the plain iteration run 3000 times.
+    from pmdc_sizer.core.thermal_duty import motor_at_limit
+    from pmdc_sizer.core.thermal_losses import TOLERANCE, point_losses
+
+    calls = []
+
+    def motor_at(rows, winding_C, magnet_C):
+        calls.append(1)
+        return MotorModel(voltage=48.0, brush_drop=2.0, resistance=0.5 * (1.0 + 0.00393 * (winding_C - 20.0)),
+                          constant=0.05 * (1.0 - flux_loss_per_K * (magnet_C - 20.0)), friction_torque=0.0,
+                          viscous_coeff=0.0, iron=IronLossTerms(0.0, 0.0, 0.0))
+
+    one, ambient, limit, torque = np.zeros(1, dtype=int), 40.0, 155.0, np.array([torque_N_m])
+    reference = np.array([ambient])
+    for _ in range(3000):
+        losses = point_losses(motor_at(one, limit, reference), torque)
+        housing = tn.steady_rise(NETWORK, losses.winding, losses.housing)[1]
+        reference = ambient + tn.magnet_rise(NETWORK, limit - ambient, housing)
+    calls.clear()
+    batch = tn.ThermalNetwork(**{f.name: np.array([getattr(NETWORK, f.name)]) for f in dataclasses.fields(NETWORK)})
+    model = motor_at_limit(batch, one, ambient, motor_at, torque, limit, 400.0)
+    magnet_C = 20.0 + (1.0 - model.constant[0] / 0.05) / flux_loss_per_K
+    assert magnet_C > ambient + 40.0  # the feedback matters
+    assert_allclose(magnet_C, reference[0], atol=10 * TOLERANCE)
+    assert len(calls) <= 10
