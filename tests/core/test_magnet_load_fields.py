@@ -40,7 +40,7 @@ def test_the_drills_direct_supply_reversal_against_the_field_solution(drill):
     # Source: the built-in 2-D field solution (core.field, scikit-fem, default mesh) of the drill demo at
     # its direct-supply reversal current, cold (3.36 kA at -10 °C). The field solution's worst 5 % of the
     # magnet reads -1940 kA/m at four rotor positions over a slot pitch alike, 3 % short of the knee
-    # (-2005 kA/m); the network's reading swings with the position (-1750 to -2160 kA/m, measured), and the
+    # (-2005 kA/m); the network's reading swings with the position (-1791 to -2162 kA/m, measured), and the
     # tool takes the worst: -2162 kA/m, 11 % past the field solution's, so the tool reports this fault past
     # the knee where the field solution keeps it just short. Pinned so that the tool stays on the safe side
     # of the field solution here and within 15 % of it (README, known limits).
